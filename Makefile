@@ -1,0 +1,36 @@
+# Two commands do all set-up on a fresh machine: `make demo` and `make test`.
+PYTHON ?= python3
+VENV := .venv
+BIN := $(VENV)/bin
+
+.PHONY: demo test lint bench notebooks clean
+
+$(BIN)/python:
+	$(PYTHON) -m venv $(VENV)
+	$(BIN)/python -m pip install -q --upgrade pip
+
+# Stamp files re-run the install when pyproject.toml changes.
+$(VENV)/.installed: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install -q -e .
+	touch $@
+
+$(VENV)/.installed-test: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install -q -e ".[test]"
+	touch $@ $(VENV)/.installed
+
+demo: $(VENV)/.installed
+	$(BIN)/cruiseplan airframes
+	$(BIN)/cruiseplan table demo-trainer --altitudes 0:8000ft:2000ft --power 55,65,75 --isa-dev 10 --units aviation
+	$(BIN)/cruiseplan table demo-survey-drone --altitudes 0:300m:100m --speeds 14:26m/s:4m/s --units si
+
+lint: $(VENV)/.installed-test
+	$(BIN)/ruff check cruiseplan tests benchmarks
+
+test: lint
+	$(BIN)/python -m pytest
+
+bench: $(VENV)/.installed-test
+	$(BIN)/python benchmarks/run.py
+
+clean:
+	rm -rf $(VENV) build *.egg-info .pytest_cache .ruff_cache
