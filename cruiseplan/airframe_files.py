@@ -1,0 +1,390 @@
+"""Airframe files: TOML with units, validated on load; the bundled airframes.
+
+Every dimensional value is a string with its unit, parsed by pint (``area = "12.5 m^2"``);
+dimensionless coefficients are plain numbers. Unknown sections or fields are errors (a
+misspelt ``cdo`` must not silently fall back to a default). Every error names the file,
+the field, the value and what was expected. See DEVELOPERS.md for the full layout.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import math
+import tomllib
+from dataclasses import dataclass
+from pathlib import Path
+
+from .aerodynamics import ParabolicPolar, TabulatedPolar, induced_drag_factor
+from .airframe import Airframe
+from .errors import AirframeFileError, UnitError
+from .propulsion import (
+    FUELS,
+    POWER_LAPSE_LAWS,
+    ElectricPropeller,
+    PistonPropeller,
+    PropellerEfficiency,
+)
+from .units import parse_quantity
+
+_PACKAGE_DIR = Path(__file__).resolve().parent
+#: Where bundled airframes live: inside the package when installed from a wheel, else the
+#: repository's ``airframes/`` folder (editable install, as `make` sets up).
+BUNDLED_DIRS = (_PACKAGE_DIR / "_bundled" / "airframes", _PACKAGE_DIR.parent / "airframes")
+
+
+@dataclass(frozen=True)
+class Field:
+    """Schema of one field: SI unit (None: dimensionless number), bounds, requirement."""
+
+    unit: str | None
+    lo: float = -math.inf
+    hi: float = math.inf
+    required: bool = True
+    example: str = ""
+    lo_open: bool = False
+
+
+def _num(lo=-math.inf, hi=math.inf, required=True, example="", lo_open=False):
+    return Field(None, lo, hi, required, example, lo_open)
+
+
+def _dim(unit, lo=0.0, hi=math.inf, required=True, example="", lo_open=True):
+    return Field(unit, lo, hi, required, example, lo_open)
+
+
+_SCHEMA = {
+    "airframe": {"name": None, "description": None},
+    "masses": {
+        "empty": _dim("kg", example="'520 kg'"),
+        "max_takeoff": _dim("kg", example="'760 kg'"),
+        "payload": _dim("kg", lo_open=False, example="'170 kg'"),
+    },
+    "wing": {
+        "area": _dim("m^2", example="'11.2 m^2'"),
+        "span": _dim("m", required=False, example="'9.6 m'"),
+        "aspect_ratio": _num(2.0, 40.0, required=False, example="8.2"),
+        "cl_max": _num(0.3, 4.0, example="1.45"),
+    },
+}
+
+_POLAR_SCHEMA = {
+    "parabolic": {
+        "kind": None,
+        "cd0": _num(0.005, 0.3, example="0.031"),
+        "k": _num(0.005, 0.5, required=False, example="0.05"),
+        "oswald_e": _num(0.3, 1.0, required=False, example="0.78"),
+        "cl_min_drag": _num(-0.5, 1.0, required=False, example="0.0"),
+    },
+    "tabulated": {"kind": None, "cl": None, "cd": None},
+}
+
+_EFFICIENCY = _num(0.05, 1.0, example="0.8", lo_open=True)
+
+_PROPULSION_SCHEMA = {
+    "piston-propeller": {
+        "kind": None,
+        "rated_power": _dim("W", example="'80 kW' or '108 hp'"),
+        "power_lapse": None,
+        "bsfc": _dim("kg/J", 3e-8, 2e-7, lo_open=False, example="'0.45 lb/(hp*h)'"),
+        "propeller_efficiency": None,
+        "fuel": None,
+        "fuel_capacity": _dim("m^3", example="'100 L'"),
+        "fuel_density": _dim("kg/m^3", 500.0, 1000.0, required=False, example="'0.72 kg/L'"),
+    },
+    "electric-propeller": {
+        "kind": None,
+        "battery_energy": _dim("J", example="'640 Wh'"),
+        "pack_voltage": _dim("V", example="'44.4 V'"),
+        "capacity": _dim("A*s", example="'16 Ah'"),
+        "peukert_exponent": _num(1.0, 1.6, required=False, example="1.05"),
+        "rating_time": _dim("s", required=False, example="'1 h'"),
+        "motor_efficiency": _EFFICIENCY,
+        "controller_efficiency": _EFFICIENCY,
+        "propeller_efficiency": None,
+        "max_power": _dim("W", example="'1.2 kW'"),
+    },
+}
+
+
+class _Reader:
+    """Reads typed, range-checked values from one file's sections."""
+
+    def __init__(self, path: Path, data: dict):
+        self.path = path
+        self.data = data
+
+    def fail(self, where: str, message: str):
+        raise AirframeFileError(f"{self.path}: {where}: {message}")
+
+    def section(self, name: str, schema: dict) -> dict:
+        sec = self.data.get(name)
+        if sec is None:
+            self.fail(f"[{name}]", "section missing")
+        if not isinstance(sec, dict):
+            self.fail(f"[{name}]", "expected a table of fields")
+        unknown = sorted(set(sec) - set(schema))
+        if unknown:
+            self.fail(f"[{name}] {unknown[0]}",
+                      f"unknown field; expected one of {', '.join(sorted(schema))}")
+        return sec
+
+    def value(self, section: str, sec: dict, key: str, spec: Field):
+        where = f"[{section}] {key}"
+        if key not in sec:
+            if spec.required:
+                self.fail(where, f"missing; expected e.g. {key} = {spec.example}")
+            return None
+        raw = sec[key]
+        if spec.unit is None:
+            if isinstance(raw, bool) or not isinstance(raw, (int, float)):
+                self.fail(where, f"{raw!r} should be a plain number, e.g. {spec.example}")
+            value = float(raw)
+        else:
+            if not isinstance(raw, str):
+                self.fail(where, f"{raw!r} needs a unit, written as a string, "
+                                 f"e.g. {key} = {spec.example}")
+            try:
+                value = parse_quantity(raw, spec.unit, what=key)
+            except UnitError:
+                self.fail(where, f"{raw!r} is not a quantity in units compatible with "
+                                 f"{spec.unit}, e.g. {spec.example}")
+        low_bad = value <= spec.lo if spec.lo_open else value < spec.lo
+        if low_bad or value > spec.hi or not math.isfinite(value):
+            unit = f" {spec.unit}" if spec.unit else ""
+            bound = ">" if spec.lo_open else ">="
+            hi = f" and <= {spec.hi:g}{unit}" if math.isfinite(spec.hi) else ""
+            self.fail(where, f"{raw!r} is out of range; expected {bound} {spec.lo:g}{unit}{hi}")
+        return value
+
+    def values(self, section: str, schema: dict) -> dict:
+        sec = self.section(section, schema)
+        return {k: self.value(section, sec, k, spec) for k, spec in schema.items()
+                if spec is not None}
+
+    def choice(self, section: str, sec: dict, key: str, options, default=None):
+        raw = sec.get(key, default)
+        if raw is None or raw not in options:
+            self.fail(f"[{section}] {key}",
+                      f"{raw!r} is not one of {', '.join(sorted(options))}")
+        return raw
+
+    def number_list(self, section, sec, key, lo=-math.inf, hi=math.inf, unit=None):
+        where = f"[{section}] {key}"
+        raw = sec.get(key)
+        if not isinstance(raw, list) or len(raw) < 1:
+            self.fail(where, f"expected a list of values, got {raw!r}")
+        out = []
+        for item in raw:
+            if unit is None:
+                if isinstance(item, bool) or not isinstance(item, (int, float)):
+                    self.fail(where, f"{item!r} should be a plain number")
+                v = float(item)
+            else:
+                try:
+                    v = parse_quantity(item, unit, what=key) if isinstance(item, str) else None
+                except UnitError:
+                    v = None
+                if v is None:
+                    self.fail(where, f"{item!r} is not a quantity compatible with {unit}")
+            if not (lo < v <= hi):
+                self.fail(where, f"{item!r} is out of range ({lo:g}, {hi:g}]")
+            out.append(v)
+        return tuple(out)
+
+    def propeller(self, sec: dict) -> PropellerEfficiency:
+        raw = sec.get("propeller_efficiency")
+        where = "[propulsion] propeller_efficiency"
+        if isinstance(raw, dict):
+            unknown = sorted(set(raw) - {"tas", "efficiency"})
+            if unknown:
+                self.fail(f"{where}.{unknown[0]}", "unknown field; expected tas, efficiency")
+            tas = self.number_list("propulsion.propeller_efficiency", raw, "tas", 0.0,
+                                   unit="m/s")
+            eff = self.number_list("propulsion.propeller_efficiency", raw, "efficiency",
+                                   0.0, 1.0)
+            if len(tas) != len(eff) or len(tas) < 2:
+                self.fail(where, "tas and efficiency need the same length, at least 2")
+            if any(b <= a for a, b in zip(tas, tas[1:])):
+                self.fail(where + ".tas", "speeds must increase")
+            return PropellerEfficiency(tas, eff)
+        value = self.value("propulsion", sec, "propeller_efficiency", _EFFICIENCY)
+        return PropellerEfficiency((0.0,), (value,))
+
+
+def _read_toml(path: Path) -> dict:
+    try:
+        raw = path.read_bytes()
+    except OSError as exc:
+        raise AirframeFileError(f"{path}: cannot read the file ({exc.strerror})") from None
+    try:
+        return tomllib.loads(raw.decode("utf-8")), hashlib.sha256(raw).hexdigest()
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
+        raise AirframeFileError(f"{path}: not valid TOML ({exc})") from None
+
+
+def _polar(r: _Reader):
+    sec = r.data.get("polar")
+    if not isinstance(sec, dict):
+        r.fail("[polar]", "section missing")
+    kind = r.choice("polar", sec, "kind", _POLAR_SCHEMA, default="parabolic")
+    schema = _POLAR_SCHEMA[kind]
+    r.section("polar", schema)
+    if kind == "tabulated":
+        cl = r.number_list("polar", sec, "cl", -1.0, 4.0)
+        cd = r.number_list("polar", sec, "cd", 0.0, 1.0)
+        if len(cl) != len(cd) or len(cl) < 3:
+            r.fail("[polar] cd", "cl and cd need the same length, at least 3")
+        if any(b <= a for a, b in zip(cl, cl[1:])):
+            r.fail("[polar] cl", "lift coefficients must increase")
+        return TabulatedPolar(cl, cd), None
+    vals = r.values("polar", schema)
+    has_k, has_e = vals["k"] is not None, vals["oswald_e"] is not None
+    if has_k == has_e:
+        r.fail("[polar] k", "give exactly one of k or oswald_e")
+    return vals, kind
+
+
+def _propulsion(r: _Reader):
+    sec = r.data.get("propulsion")
+    if not isinstance(sec, dict):
+        r.fail("[propulsion]", "section missing")
+    kind = r.choice("propulsion", sec, "kind", _PROPULSION_SCHEMA)
+    schema = _PROPULSION_SCHEMA[kind]
+    vals = r.values("propulsion", schema)
+    prop = r.propeller(sec)
+    if kind == "piston-propeller":
+        fuel = r.choice("propulsion", sec, "fuel", FUELS)
+        lapse = r.choice("propulsion", sec, "power_lapse", POWER_LAPSE_LAWS,
+                         default="gagg-ferrar")
+        density = vals["fuel_density"] or FUELS[fuel].density
+        return PistonPropeller(rated_power=vals["rated_power"], bsfc=vals["bsfc"],
+                               propeller=prop, fuel=fuel, fuel_density=density,
+                               fuel_capacity=vals["fuel_capacity"], power_lapse=lapse)
+    nominal = vals["pack_voltage"] * vals["capacity"]
+    if vals["battery_energy"] > 1.02 * nominal:
+        r.fail("[propulsion] battery_energy",
+               f"{sec['battery_energy']!r} exceeds the pack's nominal energy "
+               f"{nominal / 3600:.0f} Wh (pack_voltage x capacity)")
+    return ElectricPropeller(
+        battery_energy=vals["battery_energy"], pack_voltage=vals["pack_voltage"],
+        capacity=vals["capacity"], motor_efficiency=vals["motor_efficiency"],
+        controller_efficiency=vals["controller_efficiency"], propeller=prop,
+        max_power=vals["max_power"], peukert_exponent=vals["peukert_exponent"] or 1.0,
+        rating_time=vals["rating_time"] or 3600.0)
+
+
+def read_airframe(path) -> Airframe:
+    """Read and validate an airframe file.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        A TOML airframe file.
+
+    Returns
+    -------
+    Airframe
+        The airframe in SI units, with the file path and its SHA-256.
+
+    Raises
+    ------
+    AirframeFileError
+        Naming the file, the field, the value and what was expected.
+    """
+    path = Path(path)
+    data, checksum = _read_toml(path)
+    r = _Reader(path, data)
+    unknown = sorted(set(data) - {"airframe", "masses", "wing", "polar", "propulsion"})
+    if unknown:
+        r.fail(f"[{unknown[0]}]", "unknown section; expected airframe, masses, wing, "
+                                  "polar, propulsion")
+    head = r.section("airframe", _SCHEMA["airframe"]) if "airframe" in data else {}
+    masses = r.values("masses", _SCHEMA["masses"])
+    if masses["max_takeoff"] < masses["empty"]:
+        r.fail("[masses] max_takeoff", "is below the empty mass")
+    wing = r.values("wing", _SCHEMA["wing"])
+    if (wing["span"] is None) == (wing["aspect_ratio"] is None):
+        r.fail("[wing] span", "give exactly one of span or aspect_ratio")
+    span = wing["span"] or math.sqrt(wing["aspect_ratio"] * wing["area"])
+    aspect = span**2 / wing["area"]
+    if not 2.0 <= aspect <= 40.0:
+        r.fail("[wing] span", f"gives aspect ratio {aspect:.1f}; expected 2 to 40")
+    polar_vals, kind = _polar(r)
+    if kind == "parabolic":
+        k = polar_vals["k"] or induced_drag_factor(polar_vals["oswald_e"], aspect)
+        polar = ParabolicPolar(polar_vals["cd0"], k, polar_vals["cl_min_drag"] or 0.0)
+    else:
+        polar = polar_vals
+    propulsion = _propulsion(r)
+    if propulsion.store_name == "fuel":
+        full = masses["empty"] + masses["payload"] + propulsion.store_capacity
+    else:
+        full = masses["empty"] + masses["payload"]
+    if masses["empty"] + masses["payload"] > masses["max_takeoff"] * (1 + 1e-9):
+        r.fail("[masses] payload", f"empty + payload = {full:.1f} kg exceeds max_takeoff")
+    return Airframe(
+        name=str(head.get("name", path.stem)),
+        description=str(head.get("description", "")),
+        empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
+        payload=masses["payload"], wing_area=wing["area"], span=span,
+        cl_max=wing["cl_max"], polar=polar, propulsion=propulsion,
+        source=str(path), checksum=checksum)
+
+
+def bundled_airframes() -> dict:
+    """Bundled airframe files by name (file stem), sorted.
+
+    Returns
+    -------
+    dict
+        Name to :class:`pathlib.Path`.
+    """
+    for folder in BUNDLED_DIRS:
+        if folder.is_dir():
+            return {p.stem: p for p in sorted(folder.glob("*.toml"))}
+    return {}
+
+
+def find_airframe(name_or_path) -> Path:
+    """Resolve a bundled airframe name or a file path to a path.
+
+    Parameters
+    ----------
+    name_or_path : str or pathlib.Path
+        ``"demo-trainer"`` or ``"my/plane.toml"``.
+
+    Returns
+    -------
+    pathlib.Path
+        The file.
+
+    Raises
+    ------
+    AirframeFileError
+        When neither a bundled name nor an existing file.
+    """
+    text = str(name_or_path)
+    bundled = bundled_airframes()
+    if text in bundled:
+        return bundled[text]
+    path = Path(text)
+    if path.is_file():
+        return path
+    raise AirframeFileError(f"{text}: no such airframe file, nor a bundled airframe "
+                            f"(bundled: {', '.join(bundled) or 'none'})")
+
+
+def load_airframe(name_or_path) -> Airframe:
+    """Load a bundled airframe by name, or an airframe file by path.
+
+    Parameters
+    ----------
+    name_or_path : str or pathlib.Path
+        Bundled name (see ``cruiseplan airframes``) or path to a TOML file.
+
+    Returns
+    -------
+    Airframe
+        The validated airframe.
+    """
+    return read_airframe(find_airframe(name_or_path))

@@ -1,0 +1,291 @@
+r"""The day's air: ISA from ``ambiance``, temperature deviation, density altitude.
+
+Altitude reference
+------------------
+cruiseplan's altitude is the **pressure altitude** :math:`H_p`, the altitude an altimeter
+set to 1013.25 hPa reads. By definition it is the *geopotential* altitude at which the ISA
+pressure equals the ambient pressure. ``ambiance`` takes *geometric* height :math:`h`, so
+each pressure altitude is mapped to :math:`h = r_0 H_p / (r_0 - H_p)` (``r_0`` = 6 356 766 m,
+the 1976 standard's Earth radius) before the standard atmosphere is evaluated; the ISA
+pressure and temperature found there are those of the pressure altitude.
+
+A non-standard day keeps that pressure and changes the temperature,
+:math:`T = T_{ISA}(H_p) + \Delta T`; density follows from the gas law,
+:math:`\rho = p / (R T)`, and viscosity from Sutherland's law at :math:`T`.
+
+The standard atmosphere is evaluated once per altitude vector; everything else is numpy
+broadcasting, so a (n_alt, 1) altitude column with an (n_alt, 1) or scalar deviation
+gives states that broadcast against a (1, n_tas) airspeed row.
+
+References
+----------
+.. [1] ICAO, *Manual of the ICAO Standard Atmosphere*, Doc 7488/3, 1993.
+.. [2] NOAA/NASA/USAF, *U.S. Standard Atmosphere, 1976*, NOAA-S/T 76-1562.
+"""
+
+from __future__ import annotations
+
+import functools
+import importlib
+import sys
+import types
+from dataclasses import dataclass
+
+import numpy as np
+
+from .constants import BETA_S, G0, GAMMA, LAPSE, R_AIR, RHO0, S_SUTH, T0
+
+#: Valid pressure-altitude range [m] (ambiance: -5004 m to 81 020 m geometric).
+ALTITUDE_MIN = -5000.0
+ALTITUDE_MAX = 80000.0
+#: Density-altitude inversion covers the troposphere and the isothermal layer to 20 km.
+_DA_MAX = 20000.0
+
+
+class _DeferredModule(types.ModuleType):
+    """Stand-in that imports the real module on first attribute access."""
+
+    def __getattr__(self, attr):
+        return getattr(importlib.import_module(self.__name__), attr)
+
+
+@functools.lru_cache(maxsize=1)
+def _ambiance():
+    # ambiance imports scipy.optimize at import time (0.3 s) but uses it only to invert
+    # pressure or density, which cruiseplan does in closed form. A stand-in defers that
+    # import until ambiance really needs it; the real module is untouched.
+    name = "scipy.optimize"
+    stub = None
+    if name not in sys.modules:
+        stub = _DeferredModule(name)
+        sys.modules[name] = stub
+    try:
+        import ambiance
+    finally:
+        if stub is not None and sys.modules.get(name) is stub:
+            del sys.modules[name]
+    return ambiance
+
+
+def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
+    """Return ``pressure_altitude`` as a float array, or raise if any lies out of range.
+
+    Parameters
+    ----------
+    pressure_altitude : array_like
+        Pressure altitude [m].
+    what : str
+        Name used in the error message.
+
+    Returns
+    -------
+    numpy.ndarray
+        The altitudes as floats.
+
+    Raises
+    ------
+    AtmosphereRangeError
+        Naming the offending value and the valid range.
+    """
+    from .errors import AtmosphereRangeError
+
+    h = np.asarray(pressure_altitude, dtype=float)
+    bad = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
+    if np.any(bad):
+        v = h[bad].flat[0]
+        raise AtmosphereRangeError(
+            f"{what} {v:.0f} m ({v / 0.3048:.0f} ft) is outside the atmosphere model's range "
+            f"{ALTITUDE_MIN:.0f} to {ALTITUDE_MAX:.0f} m pressure altitude")
+    return h
+
+
+def isa_temperature_pressure(pressure_altitude):
+    """ISA temperature and pressure at a pressure altitude, from ``ambiance``.
+
+    Parameters
+    ----------
+    pressure_altitude : array_like
+        Pressure (geopotential) altitude [m], -5000 to 80 000 m.
+
+    Returns
+    -------
+    temperature : numpy.ndarray
+        ISA temperature [K].
+    pressure : numpy.ndarray
+        Pressure [Pa].
+
+    References
+    ----------
+    .. [1] ICAO Doc 7488/3 (1993); U.S. Standard Atmosphere 1976, evaluated by the
+       ``ambiance`` package.
+    """
+    H = check_altitude(pressure_altitude)
+    amb = _ambiance()
+    flat = H.ravel()
+    h_geometric = amb.Atmosphere.geop2geom_height(flat)
+    atm = amb.Atmosphere(h_geometric)
+    return atm.temperature.reshape(H.shape), atm.pressure.reshape(H.shape)
+
+
+def sutherland_viscosity(temperature):
+    r"""Dynamic viscosity of air by Sutherland's law.
+
+    .. math:: \mu = \beta_s T^{3/2} / (T + S), \quad \beta_s = 1.458\times10^{-6}, S = 110.4 K
+
+    Parameters
+    ----------
+    temperature : array_like
+        Static temperature [K].
+
+    Returns
+    -------
+    numpy.ndarray
+        Dynamic viscosity [Pa s].
+
+    References
+    ----------
+    .. [1] U.S. Standard Atmosphere 1976, eq. 51.
+    """
+    T = np.asarray(temperature, dtype=float)
+    return BETA_S * T**1.5 / (T + S_SUTH)
+
+
+@dataclass(frozen=True)
+class AirState:
+    """State of the air at pressure altitudes on a given day (SI arrays, broadcastable).
+
+    Attributes
+    ----------
+    pressure_altitude : numpy.ndarray
+        Pressure altitude [m].
+    isa_dev : numpy.ndarray
+        Temperature deviation from ISA [K].
+    temperature : numpy.ndarray
+        Static (outside air) temperature [K].
+    pressure : numpy.ndarray
+        Static pressure [Pa].
+    density : numpy.ndarray
+        Density [kg/m^3].
+    speed_of_sound : numpy.ndarray
+        Speed of sound [m/s].
+    viscosity : numpy.ndarray
+        Dynamic viscosity [Pa s].
+    """
+
+    pressure_altitude: np.ndarray
+    isa_dev: np.ndarray
+    temperature: np.ndarray
+    pressure: np.ndarray
+    density: np.ndarray
+    speed_of_sound: np.ndarray
+    viscosity: np.ndarray
+
+    @property
+    def sigma(self):
+        """Density ratio rho / rho0 [-]."""
+        return self.density / RHO0
+
+    @property
+    def kinematic_viscosity(self):
+        """Kinematic viscosity mu / rho [m^2/s]."""
+        return self.viscosity / self.density
+
+    @property
+    def density_altitude(self):
+        """Density altitude [m] (see :func:`density_altitude`)."""
+        return density_altitude(self.density)
+
+    def column(self):
+        """Return the state reshaped to a column (n, 1), to broadcast against a row."""
+        return AirState(*(np.reshape(getattr(self, f), (-1, 1)) for f in _FIELDS))
+
+
+_FIELDS = ("pressure_altitude", "isa_dev", "temperature", "pressure", "density",
+           "speed_of_sound", "viscosity")
+
+
+def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
+    r"""Air state at pressure altitudes on an ISA + deviation (or given OAT) day.
+
+    Parameters
+    ----------
+    pressure_altitude : array_like
+        Pressure altitude [m].
+    isa_dev : array_like, optional
+        Temperature deviation from ISA [K]; broadcast against the altitudes.
+    oat : array_like, optional
+        Outside air temperature [K] at each altitude; when given, ``isa_dev`` is ignored
+        and the deviation is derived.
+
+    Returns
+    -------
+    AirState
+        Temperature, pressure, density (:math:`p / (R T)`), speed of sound
+        (:math:`\sqrt{\gamma R T}`) and viscosity (Sutherland) as broadcast arrays.
+
+    References
+    ----------
+    .. [1] ICAO Doc 7488/3 (1993), via ``ambiance``, for the ISA pressure.
+    """
+    H = np.asarray(pressure_altitude, dtype=float)
+    T_isa, p = isa_temperature_pressure(H)
+    if oat is not None:
+        T = np.asarray(oat, dtype=float) + 0.0 * T_isa
+        dT = T - T_isa
+    else:
+        dT = np.asarray(isa_dev, dtype=float) + 0.0 * T_isa
+        T = T_isa + dT
+    if np.any(T <= 0):
+        from .errors import CruiseplanError
+
+        raise CruiseplanError(f"temperature {np.min(T):.1f} K is not physical: "
+                              "check the ISA deviation or OAT")
+    p = np.broadcast_to(p, T.shape)
+    rho = p / (R_AIR * T)
+    return AirState(np.broadcast_to(H, T.shape), dT, T, p, rho,
+                    np.sqrt(GAMMA * R_AIR * T), sutherland_viscosity(T))
+
+
+@functools.lru_cache(maxsize=1)
+def _tropopause_density() -> float:
+    return float(air_state(11000.0).density)
+
+
+def density_altitude(density):
+    r"""Density altitude: the ISA pressure altitude with the given density (exact).
+
+    In the troposphere
+    :math:`H_\rho = (T_0/L)\,[1 - \sigma^{1/(g_0/(R L) - 1)}]`; in the isothermal layer
+    from 11 to 20 km :math:`H_\rho = 11000 - (R T_{11}/g_0) \ln(\rho/\rho_{11})`.
+
+    Parameters
+    ----------
+    density : array_like
+        Air density [kg/m^3], between the ISA values at 20 km and -5 km.
+
+    Returns
+    -------
+    numpy.ndarray
+        Density altitude [m].
+
+    References
+    ----------
+    .. [1] ICAO Doc 7488/3 (1993), defining equations of the troposphere and
+       lower stratosphere.
+    """
+    from .errors import AtmosphereRangeError
+
+    rho = np.asarray(density, dtype=float)
+    rho_11 = _tropopause_density()
+    rho_lo = float(air_state(_DA_MAX).density)
+    rho_hi = float(air_state(ALTITUDE_MIN).density)
+    if np.any(~((rho >= rho_lo * (1 - 1e-12)) & (rho <= rho_hi * (1 + 1e-12)))):
+        raise AtmosphereRangeError(
+            f"density outside {rho_lo:.4f}..{rho_hi:.4f} kg/m^3: density altitude is "
+            f"computed from -5000 m to {_DA_MAX:.0f} m")
+    exponent = 1.0 / (G0 / (R_AIR * LAPSE) - 1.0)
+    sigma = np.clip(rho / RHO0, 1e-12, None)
+    tropo = (T0 / LAPSE) * (1.0 - sigma**exponent)
+    T11 = T0 - LAPSE * 11000.0
+    strato = 11000.0 - (R_AIR * T11 / G0) * np.log(np.clip(rho, 1e-12, None) / rho_11)
+    return np.where(rho >= rho_11, tropo, strato)

@@ -1,0 +1,34 @@
+"""Exception and warning types of cruiseplan.
+
+Every error raised for bad input is a :class:`CruiseplanError` (a ``ValueError``) whose
+message is one line that names what was given, what was expected and, where possible,
+the remedy. The CLI prints that line and exits with status 2.
+"""
+
+
+class CruiseplanError(ValueError):
+    """Base class of all input errors raised by cruiseplan."""
+
+
+class AtmosphereRangeError(CruiseplanError):
+    """An altitude lies outside the range of the atmosphere model."""
+
+
+class AirframeFileError(CruiseplanError):
+    """An airframe file is missing, unreadable or fails validation."""
+
+
+class UnitError(CruiseplanError):
+    """A value has the wrong dimension or cannot be parsed as a quantity."""
+
+
+class MissionFileError(CruiseplanError):
+    """A mission file is malformed."""
+
+
+class LogFileError(CruiseplanError):
+    """A flight-log file is malformed."""
+
+
+class CruiseplanWarning(UserWarning):
+    """Odd but possible input, e.g. a mass above the maximum take-off mass."""

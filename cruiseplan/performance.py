@@ -1,0 +1,488 @@
+r"""Level-flight cruise performance over altitude x airspeed grids.
+
+At each point, lift equals weight and thrust equals drag:
+
+.. math::
+
+    C_L = \frac{2 m g}{\rho V^2 S},\quad D = \tfrac12\rho V^2 S C_D(C_L),\quad
+    P_{shaft} = \frac{D V}{\eta_p(V)},\quad \dot s = \text{flow}(P_{shaft})
+
+with :math:`\dot s` the fuel mass flow [kg/s] or battery power [W]. Specific range is
+distance per unit of store, :math:`V/\dot s` (air) or :math:`V_g/\dot s` (ground), and
+endurance the store on board over its flow (Peukert's law for batteries).
+
+Every point carries a bit set of :class:`Limit` reasons; a point beyond a limit keeps its
+computed values (what it *would* take) unless the model cannot give any (outside the
+atmosphere model: NaN, with the reason).
+
+References
+----------
+.. [1] J. D. Anderson, *Aircraft Performance and Design*, McGraw-Hill, 1999, ch. 5
+   (steady level flight, power required and available, range and endurance).
+"""
+
+from __future__ import annotations
+
+import enum
+from dataclasses import dataclass
+
+import numpy as np
+
+from . import airspeed as _airspeed
+from ._numerics import bisect_increasing, golden_minimise
+from .aerodynamics import lift_coefficient, speed_for_lift_coefficient
+from .constants import G0
+from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state
+from .units import to_si
+
+#: Default stall margin: cruise at or above 1.3 x stall speed (common practice).
+DEFAULT_STALL_MARGIN = 1.3
+#: Mach number above which the incompressible drag polar is not trusted.
+MACH_LIMIT = 0.6
+
+
+class Limit(enum.IntFlag):
+    """Reasons a cruise point is not flyable or not trusted (bit flags)."""
+
+    STALL = 1
+    POWER = 2
+    ATMOSPHERE = 4
+    COMPRESSIBILITY = 8
+    POLAR_RANGE = 16
+    LAPSE_RANGE = 32
+    NO_SOLUTION = 64
+    WIND = 128
+
+
+#: One line per reason, for tables and errors.
+LIMIT_TEXT = {
+    Limit.STALL: "below the stall margin",
+    Limit.POWER: "power required exceeds power available",
+    Limit.ATMOSPHERE: "outside the atmosphere model",
+    Limit.COMPRESSIBILITY: f"Mach above {MACH_LIMIT}, outside the incompressible polar",
+    Limit.POLAR_RANGE: "CL outside the tabulated polar (extrapolated)",
+    Limit.LAPSE_RANGE: "density outside the power-lapse law's range",
+    Limit.NO_SOLUTION: "power setting cannot hold level flight",
+    Limit.WIND: "wind too strong to hold the course",
+}
+
+#: Short codes for the status column of printed tables.
+LIMIT_CODE = {
+    Limit.STALL: "STALL", Limit.POWER: "POWER", Limit.ATMOSPHERE: "ATMOS",
+    Limit.COMPRESSIBILITY: "MACH", Limit.POLAR_RANGE: "POLAR", Limit.LAPSE_RANGE: "LAPSE",
+    Limit.NO_SOLUTION: "NOSOL", Limit.WIND: "WIND",
+}
+
+
+def explain(code: int, short: bool = False) -> str:
+    """Text for a limit bit set: ``"ok"`` when clear, otherwise the reasons joined."""
+    code = int(code)
+    if code == 0:
+        return "ok"
+    table = LIMIT_CODE if short else LIMIT_TEXT
+    sep = "+" if short else "; "
+    return sep.join(text for flag, text in table.items() if code & flag)
+
+
+@dataclass(frozen=True)
+class CruisePoints:
+    """Cruise performance at broadcast (altitude, TAS) points; SI arrays.
+
+    Attributes
+    ----------
+    air : AirState
+        Air at each point's altitude (broadcastable).
+    tas : numpy.ndarray
+        True airspeed [m/s].
+    mass : float
+        Aircraft mass [kg].
+    store : float
+        Fuel [kg] or usable energy [J] on board.
+    store_name : str
+        ``"fuel"`` or ``"energy"``.
+    cl, cd, lift_to_drag : numpy.ndarray
+        Lift and drag coefficients and their ratio [-].
+    drag : numpy.ndarray
+        Drag = thrust required [N].
+    thrust_power : numpy.ndarray
+        Drag x TAS [W].
+    shaft_power : numpy.ndarray
+        Shaft power required [W].
+    source_power : numpy.ndarray
+        Fuel heat release or battery power [W].
+    power_available : numpy.ndarray
+        Full-throttle shaft power [W].
+    power_margin : numpy.ndarray
+        Shaft power available minus required [W].
+    store_flow : numpy.ndarray
+        Fuel mass flow [kg/s] or battery power [W].
+    fuel_volume_flow : numpy.ndarray or None
+        Fuel volume flow [m^3/s] (piston only).
+    ground_speed : numpy.ndarray
+        Ground speed [m/s].
+    specific_range_air, specific_range_ground : numpy.ndarray
+        Distance per unit of store [m/kg or m/J].
+    endurance : numpy.ndarray
+        Time to empty the store at this point [s].
+    range_air, range_ground : numpy.ndarray
+        Distance flown in that time [m].
+    stall_speed_ratio : numpy.ndarray
+        TAS over the stall speed at this altitude and mass [-].
+    limits : numpy.ndarray
+        :class:`Limit` bit set per point (0: flyable).
+    rated_power : float
+        Rated shaft power [W], for power settings.
+    """
+
+    air: AirState
+    tas: np.ndarray
+    mass: float
+    store: float
+    store_name: str
+    cl: np.ndarray
+    cd: np.ndarray
+    lift_to_drag: np.ndarray
+    drag: np.ndarray
+    thrust_power: np.ndarray
+    shaft_power: np.ndarray
+    source_power: np.ndarray
+    power_available: np.ndarray
+    power_margin: np.ndarray
+    store_flow: np.ndarray
+    fuel_volume_flow: np.ndarray | None
+    ground_speed: np.ndarray
+    specific_range_air: np.ndarray
+    specific_range_ground: np.ndarray
+    endurance: np.ndarray
+    range_air: np.ndarray
+    range_ground: np.ndarray
+    stall_speed_ratio: np.ndarray
+    limits: np.ndarray
+    rated_power: float
+
+    @property
+    def feasible(self) -> np.ndarray:
+        """True where no limit is breached."""
+        return self.limits == 0
+
+    @property
+    def power_fraction(self) -> np.ndarray:
+        """Shaft power required over rated power [-]."""
+        return self.shaft_power / self.rated_power
+
+    @property
+    def shape(self) -> tuple:
+        """Broadcast shape of the points."""
+        return self.cl.shape
+
+    def cas(self) -> np.ndarray:
+        """Calibrated airspeed [m/s]."""
+        return _airspeed.cas_from_tas(self.tas, self.air.pressure, self.air.speed_of_sound)
+
+    def mach(self) -> np.ndarray:
+        """Mach number [-]."""
+        return self.tas / self.air.speed_of_sound
+
+    def reasons(self) -> np.ndarray:
+        """Reason text per point, an object array of the points' shape."""
+        flat = self.limits.ravel()
+        codes, inverse = np.unique(flat, return_inverse=True)
+        texts = np.array([explain(c) for c in codes], dtype=object)
+        return texts[inverse].reshape(self.limits.shape)
+
+
+def _shaft_power(airframe, mass, air, tas):
+    cl = lift_coefficient(mass, air.density, tas, airframe.wing_area)
+    cd = airframe.polar.drag_coefficient(cl, tas, air)
+    drag = 0.5 * air.density * tas * tas * airframe.wing_area * cd
+    return drag * tas / airframe.propulsion.propeller(tas)
+
+
+def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
+                  ground_speed=None, stall_margin=DEFAULT_STALL_MARGIN,
+                  valid_air=None) -> CruisePoints:
+    """Cruise performance at points (SI core; no units, no validation of inputs).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float
+        Aircraft mass [kg].
+    air : AirState
+        Air state, broadcastable against ``tas`` (e.g. a column against a row).
+    tas : array_like
+        True airspeed [m/s].
+    store : float
+        Fuel [kg] or usable energy [J] on board.
+    headwind : array_like, optional
+        Headwind component [m/s] (negative: tailwind), broadcastable; ignored when
+        ``ground_speed`` is given.
+    ground_speed : array_like, optional
+        Ground speed [m/s] from a full wind triangle.
+    stall_margin : float, optional
+        Minimum ratio of TAS to stall speed [-]; CL may reach CLmax / margin^2.
+    valid_air : array_like of bool, optional
+        False where the altitude lay outside the atmosphere model (values become NaN).
+
+    Returns
+    -------
+    CruisePoints
+        All outputs with their limit reasons.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.3-5.5 and 5.13.
+    """
+    prop = airframe.propulsion
+    tas = np.asarray(tas, dtype=float)
+    rho = air.density
+    q_s = 0.5 * rho * tas * tas * airframe.wing_area
+    cl = mass * G0 / q_s
+    cd = airframe.polar.drag_coefficient(cl, tas, air)
+    drag = q_s * cd
+    thrust_power = drag * tas
+    shaft = thrust_power / prop.propeller(tas)
+    sigma = air.sigma
+    available = prop.shaft_power_available(sigma)
+    flow = prop.store_flow(shaft)
+    gs = tas - headwind if ground_speed is None else np.asarray(ground_speed, dtype=float)
+    endurance = prop.endurance(store, shaft)
+    cl_allowed = airframe.cl_max / stall_margin**2
+
+    limits = (cl > cl_allowed).astype(np.uint16)
+    limits |= (shaft > available).astype(np.uint16) << 1
+    limits |= (tas > MACH_LIMIT * air.speed_of_sound).astype(np.uint16) << 3
+    limits |= airframe.polar.outside(cl).astype(np.uint16) << 4
+    limits |= prop.lapse_outside(sigma).astype(np.uint16) << 5
+    limits |= (~(gs > 0)).astype(np.uint16) << 7
+    limits = np.broadcast_to(limits, cl.shape).astype(np.uint16)
+
+    out = dict(
+        cl=cl, cd=cd, lift_to_drag=cl / cd, drag=drag, thrust_power=thrust_power,
+        shaft_power=shaft, source_power=prop.source_power(shaft),
+        power_available=np.broadcast_to(available, cl.shape),
+        power_margin=available - shaft, store_flow=flow,
+        fuel_volume_flow=(flow / prop.fuel_density if prop.store_name == "fuel" else None),
+        ground_speed=np.broadcast_to(gs, cl.shape),
+        specific_range_air=tas / flow, specific_range_ground=gs / flow,
+        endurance=endurance, range_air=tas * endurance, range_ground=gs * endurance,
+        stall_speed_ratio=np.sqrt(airframe.cl_max / cl),
+    )
+    if valid_air is not None and not np.all(valid_air):
+        bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), cl.shape)
+        out = {k: (None if v is None else np.where(bad, np.nan, v)) for k, v in out.items()}
+        limits = np.where(bad, np.uint16(Limit.ATMOSPHERE), limits).astype(np.uint16)
+    return CruisePoints(air=air, tas=tas, mass=float(mass), store=float(store),
+                        store_name=prop.store_name, limits=limits,
+                        rated_power=float(prop.rated_power), **out)
+
+
+def _air_column(altitudes, isa_dev):
+    """Air state as a column over an altitude vector, clipping out-of-model altitudes."""
+    h = np.atleast_1d(np.asarray(altitudes, dtype=float))
+    if h.ndim != 1:
+        raise ValueError("altitudes must be one-dimensional")
+    valid = (h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX)
+    air = air_state(np.clip(h, ALTITUDE_MIN, ALTITUDE_MAX), isa_dev).column()
+    return air, valid[:, None]
+
+
+def _column(value, n, what):
+    arr = np.asarray(value, dtype=float)
+    if arr.ndim == 0:
+        return arr
+    if arr.shape != (n,):
+        raise ValueError(f"{what} must be a scalar or one value per altitude ({n})")
+    return arr[:, None]
+
+
+def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
+                isa_dev=0.0, headwind=0.0, stall_margin=DEFAULT_STALL_MARGIN) -> CruisePoints:
+    """Cruise table over an altitude x TAS grid (public API; Quantities or SI floats).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe (see :func:`cruiseplan.load_airframe`).
+    altitudes : array_like or pint.Quantity
+        Pressure altitudes [m], one-dimensional (rows of the grid).
+    tas : array_like or pint.Quantity
+        True airspeeds [m/s], one-dimensional (columns of the grid).
+    mass : float or pint.Quantity, optional
+        Aircraft mass [kg]; from the loading when not given.
+    fuel : float or pint.Quantity, optional
+        Fuel on board [kg] or usable energy [J]; full when neither is given.
+    payload : float or pint.Quantity, optional
+        Crew and payload [kg].
+    isa_dev : float or pint.Quantity, optional
+        ISA temperature deviation [K].
+    headwind : float or array_like or pint.Quantity, optional
+        Headwind component [m/s], scalar or one per altitude (negative: tailwind).
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-] (1.3 by default, common practice).
+
+    Returns
+    -------
+    CruisePoints
+        Arrays of shape (len(altitudes), len(tas)).
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, ch. 5.
+    """
+    h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
+    v = np.atleast_1d(to_si(tas, "m/s", what="tas"))
+    if v.ndim != 1 or np.any(v <= 0):
+        raise ValueError("tas must be a one-dimensional array of positive speeds")
+    loading = airframe.loading(
+        mass=None if mass is None else to_si(mass, "kg", what="mass"),
+        store=None if fuel is None else _store_si(airframe, fuel),
+        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    air, valid = _air_column(h, to_si(isa_dev, "K", what="isa_dev"))
+    wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
+    return cruise_points(airframe, loading.mass, air, v[None, :], loading.store,
+                         headwind=wind, stall_margin=stall_margin, valid_air=valid)
+
+
+def _store_si(airframe, fuel):
+    unit = "kg" if airframe.propulsion.store_name == "fuel" else "J"
+    return to_si(fuel, unit, what=airframe.propulsion.store_name)
+
+
+def min_power_speed(airframe, mass, air: AirState, *, v_hi=None):
+    """TAS of minimum shaft power at each air state [m/s] (vectorised search).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float
+        Mass [kg].
+    air : AirState
+        Air states (any shape).
+    v_hi : array_like, optional
+        Upper end of the search [m/s]; 0.6 x speed of sound by default.
+
+    Returns
+    -------
+    numpy.ndarray
+        V for minimum shaft power [m/s], searched between 0.5 x stall speed and ``v_hi``.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.4 (minimum power required).
+    """
+    v_stall = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v_hi = MACH_LIMIT * air.speed_of_sound if v_hi is None else v_hi
+    return golden_minimise(lambda v: _shaft_power(airframe, mass, air, v), 0.5 * v_stall, v_hi)
+
+
+def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *,
+                         stall_margin=DEFAULT_STALL_MARGIN, headwind=0.0) -> CruisePoints:
+    """Cruise at set fractions of rated power, on the high-speed branch (SI core).
+
+    At each air state, finds the TAS above the minimum-power speed at which shaft power
+    required equals ``power_fraction`` x rated power. Where full throttle cannot give that
+    power at the altitude, the point is flagged ``POWER``; where the setting is below the
+    minimum power to hold level flight, ``NO_SOLUTION``; such points have NaN speeds.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float
+        Mass [kg].
+    air : AirState
+        Air states, broadcastable against ``power_fraction`` (column against row).
+    power_fraction : array_like
+        Shaft power over rated power [-].
+    store : float
+        Fuel [kg] or energy [J] on board.
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-].
+    headwind : array_like, optional
+        Headwind [m/s].
+
+    Returns
+    -------
+    CruisePoints
+        Points of the broadcast shape.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.5 (power required and
+       available; maximum velocity at a power setting).
+    """
+    prop = airframe.propulsion
+    frac = np.asarray(power_fraction, dtype=float)
+    target = frac * prop.rated_power
+    available = prop.shaft_power_available(air.sigma)
+    v_mp = min_power_speed(airframe, mass, air)
+    v_hi = MACH_LIMIT * air.speed_of_sound
+    p_min = _shaft_power(airframe, mass, air, v_mp)
+    p_hi = _shaft_power(airframe, mass, air, v_hi)
+    shape = np.broadcast_shapes(np.shape(target), np.shape(v_mp))
+    v = bisect_increasing(lambda x: _shaft_power(airframe, mass, air, x) - target,
+                          np.broadcast_to(v_mp, shape), np.broadcast_to(v_hi, shape))
+    too_much = target > available * (1 + 1e-12)
+    too_little = target < p_min
+    beyond = target > p_hi
+    unsolved = too_much | too_little | beyond
+    pts = cruise_points(airframe, mass, air, np.where(unsolved, np.nan, v), store,
+                        headwind=headwind, stall_margin=stall_margin)
+    extra = (np.broadcast_to(too_much, shape).astype(np.uint16) * np.uint16(Limit.POWER)
+             | np.broadcast_to(too_little | beyond, shape).astype(np.uint16)
+             * np.uint16(Limit.NO_SOLUTION))
+    # NaN comparisons set no flags, so unsolved points carry only the reasons found here.
+    limits = np.where(np.broadcast_to(unsolved, shape), extra, pts.limits | extra)
+    return _replace(pts, limits=limits.astype(np.uint16))
+
+
+def _replace(points: CruisePoints, **changes) -> CruisePoints:
+    from dataclasses import replace
+
+    return replace(points, **changes)
+
+
+def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=None,
+                        payload=None, isa_dev=0.0, headwind=0.0,
+                        stall_margin=DEFAULT_STALL_MARGIN) -> CruisePoints:
+    """Cruise table by power setting: TAS and flows at % of rated power (public API).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    altitudes : array_like or pint.Quantity
+        Pressure altitudes [m], one-dimensional.
+    power_settings : array_like
+        Fractions of rated power [-] (0.75 for 75 %), one-dimensional.
+    mass, fuel, payload, isa_dev, headwind, stall_margin
+        As in :func:`cruise_grid`.
+
+    Returns
+    -------
+    CruisePoints
+        Arrays of shape (len(altitudes), len(power_settings)).
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.5.
+    """
+    h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
+    frac = np.atleast_1d(np.asarray(power_settings, dtype=float))
+    if frac.ndim != 1 or np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
+        raise ValueError("power settings must be fractions of rated power in (0, 1]")
+    loading = airframe.loading(
+        mass=None if mass is None else to_si(mass, "kg", what="mass"),
+        store=None if fuel is None else _store_si(airframe, fuel),
+        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    air, valid = _air_column(h, to_si(isa_dev, "K", what="isa_dev"))
+    if not np.all(valid):
+        from .atmosphere import check_altitude
+
+        check_altitude(h)
+    wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
+    return power_setting_points(airframe, loading.mass, air, frac[None, :], loading.store,
+                                stall_margin=stall_margin, headwind=wind)

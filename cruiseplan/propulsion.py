@@ -1,0 +1,269 @@
+r"""Propulsion: power available, propeller efficiency, fuel flow and battery draw.
+
+Two kinds, registered in :data:`PROPULSION_KINDS` under the names used in airframe files:
+
+* ``piston-propeller``: shaft power available :math:`P_{rated}\,\phi(\sigma)` with a
+  power-lapse law :math:`\phi` from :data:`POWER_LAPSE_LAWS`; fuel flow
+  :math:`\dot m = \mathrm{BSFC}\; P_{shaft}`.
+* ``electric-propeller``: maximum shaft power independent of altitude; battery power
+  :math:`P_{batt} = P_{shaft} / (\eta_{motor}\eta_{controller})`; endurance by Peukert's law
+  in Hart's form :math:`t = f\,R_t (C/(I R_t))^n`, with :math:`I = P_{batt}/U`,
+  :math:`R_t` the rating time, :math:`n` the Peukert exponent and :math:`f` the usable
+  fraction of the pack; with :math:`n = 1` this is usable energy over power.
+
+Shaft power required is thrust power over propeller efficiency,
+:math:`P_{shaft} = D V / \eta_p(V)`.
+
+Each kind's "store" is what it burns: fuel mass [kg] or usable battery energy [J].
+
+References
+----------
+.. [1] S. Gudmundsson, *General Aviation Aircraft Design*, Elsevier, 2014, ch. 7
+   (Gagg-Ferrar lapse; from memory).
+.. [2] T. R. Yechout et al., *Introduction to Aircraft Flight Mechanics*, AIAA, 2003, ch. 2
+   (BSFC of piston engines).
+.. [3] L. W. Traub, "Range and Endurance Estimates for Battery-Powered Aircraft",
+   *J. Aircraft* 48(2), 2011, pp. 703-707 (Peukert's law for aircraft).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+# --- Power-lapse laws --------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class LapseLaw:
+    """Registry entry: a power-lapse law phi(sigma) and the density ratios it is valid for."""
+
+    function: object
+    sigma_range: tuple
+    reference: str
+
+    def __call__(self, sigma):
+        """Shaft power available over rated power [-] at density ratio ``sigma``."""
+        return self.function(np.asarray(sigma, dtype=float))
+
+
+#: Power-lapse laws by the name used in airframe files.
+POWER_LAPSE_LAWS = {
+    "gagg-ferrar": LapseLaw(
+        lambda s: np.maximum(1.132 * s - 0.132, 0.0), (0.25, 1.2),
+        "Gagg & Ferrar (1934), P/P0 = 1.132 sigma - 0.132, naturally aspirated piston "
+        "engines (as quoted by Gudmundsson 2014, ch. 7; from memory)"),
+    "density-ratio": LapseLaw(
+        lambda s: s, (0.2, 1.2),
+        "textbook idealisation P/P0 = sigma (Anderson, Aircraft Performance and Design, "
+        "sec. 3.3)"),
+    "none": LapseLaw(
+        lambda s: np.ones_like(s), (0.0, np.inf),
+        "no lapse: electric motors, or a turbo-normalised engine below its critical altitude"),
+}
+
+
+# --- Fuels ---------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Fuel:
+    """Fuel properties: density [kg/m^3] at 15 degC and lower heating value [J/kg]."""
+
+    density: float
+    lower_heating_value: float
+
+
+#: Fuels by name. Avgas 0.72 kg/L (6.0 lb/US gal, common practice); Jet A-1 0.80 kg/L
+#: (middle of ASTM D1655's 0.775-0.840 kg/L); heating values 43.5 and 43.2 MJ/kg (from memory).
+FUELS = {
+    "avgas": Fuel(720.0, 43.5e6),
+    "mogas": Fuel(740.0, 43.0e6),
+    "jet-a1": Fuel(800.0, 43.2e6),
+    "diesel": Fuel(840.0, 42.8e6),
+}
+
+
+# --- Propeller efficiency --------------------------------------------------------------
+
+@dataclass(frozen=True)
+class PropellerEfficiency:
+    """Propeller efficiency, constant or tabulated against TAS (linear, clamped at the ends).
+
+    Parameters
+    ----------
+    tas : tuple of float
+        True airspeeds [m/s], increasing (one value for a constant efficiency).
+    efficiency : tuple of float
+        Efficiencies [-], in (0, 1].
+    """
+
+    tas: tuple
+    efficiency: tuple
+
+    @property
+    def is_constant(self) -> bool:
+        """True for a single efficiency value."""
+        return len(self.efficiency) == 1
+
+    def __call__(self, tas):
+        """Efficiency [-] at TAS [m/s]."""
+        if self.is_constant:
+            return self.efficiency[0]
+        return np.interp(tas, self.tas, self.efficiency)
+
+
+# --- Propulsion kinds ------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class PistonPropeller:
+    """Piston engine driving a propeller.
+
+    Parameters
+    ----------
+    rated_power : float
+        Maximum continuous shaft power at sea level, ISA [W].
+    bsfc : float
+        Brake-specific fuel consumption [kg/J].
+    propeller : PropellerEfficiency
+        Propeller efficiency.
+    fuel : str
+        Fuel name, a key of :data:`FUELS`.
+    fuel_density : float
+        Fuel density [kg/m^3].
+    fuel_capacity : float
+        Usable fuel volume [m^3].
+    power_lapse : str
+        Power-lapse law, a key of :data:`POWER_LAPSE_LAWS`.
+    """
+
+    rated_power: float
+    bsfc: float
+    propeller: PropellerEfficiency
+    fuel: str
+    fuel_density: float
+    fuel_capacity: float
+    power_lapse: str = "gagg-ferrar"
+    kind: str = field(default="piston-propeller", init=False)
+    store_name: str = field(default="fuel", init=False)
+
+    @property
+    def store_capacity(self) -> float:
+        """Usable fuel mass when full [kg]."""
+        return self.fuel_capacity * self.fuel_density
+
+    def lapse(self, sigma):
+        """Full-throttle power over rated power [-] at density ratio ``sigma``."""
+        return POWER_LAPSE_LAWS[self.power_lapse](sigma)
+
+    def lapse_outside(self, sigma):
+        """Mask of density ratios outside the lapse law's validity."""
+        lo, hi = POWER_LAPSE_LAWS[self.power_lapse].sigma_range
+        sigma = np.asarray(sigma)
+        return (sigma < lo) | (sigma > hi)
+
+    def shaft_power_available(self, sigma):
+        """Full-throttle shaft power [W] at density ratio ``sigma``."""
+        return self.rated_power * self.lapse(sigma)
+
+    def store_flow(self, shaft_power):
+        """Fuel mass flow [kg/s] at shaft power [W]."""
+        return self.bsfc * shaft_power
+
+    def source_power(self, shaft_power):
+        """Fuel heat release rate [W] (lower heating value) at shaft power [W]."""
+        return self.store_flow(shaft_power) * FUELS[self.fuel].lower_heating_value
+
+    def endurance(self, store, shaft_power):
+        """Time [s] to burn ``store`` kg of fuel at constant shaft power [W]."""
+        return store / self.store_flow(shaft_power)
+
+
+@dataclass(frozen=True)
+class ElectricPropeller:
+    """Battery, controller and motor driving a propeller.
+
+    Parameters
+    ----------
+    battery_energy : float
+        Usable battery energy [J].
+    pack_voltage : float
+        Nominal pack voltage [V].
+    capacity : float
+        Rated pack capacity [A s].
+    motor_efficiency, controller_efficiency : float
+        Efficiencies [-].
+    propeller : PropellerEfficiency
+        Propeller efficiency.
+    max_power : float
+        Maximum continuous motor shaft power [W].
+    peukert_exponent : float
+        Peukert exponent n [-]; 1 for an ideal pack.
+    rating_time : float
+        Discharge time at which the capacity is rated [s] (Hart's form).
+    """
+
+    battery_energy: float
+    pack_voltage: float
+    capacity: float
+    motor_efficiency: float
+    controller_efficiency: float
+    propeller: PropellerEfficiency
+    max_power: float
+    peukert_exponent: float = 1.0
+    rating_time: float = 3600.0
+    kind: str = field(default="electric-propeller", init=False)
+    store_name: str = field(default="energy", init=False)
+
+    @property
+    def rated_power(self) -> float:
+        """Maximum continuous shaft power [W] (no altitude lapse)."""
+        return self.max_power
+
+    @property
+    def store_capacity(self) -> float:
+        """Usable battery energy when full [J]."""
+        return self.battery_energy
+
+    def lapse(self, sigma):
+        """Electric motors keep their power with altitude: 1 [-]."""
+        return np.ones_like(np.asarray(sigma, dtype=float))
+
+    def lapse_outside(self, sigma):
+        """Electric motors have no lapse-law validity limit."""
+        return np.zeros(np.shape(sigma), dtype=bool)
+
+    def shaft_power_available(self, sigma):
+        """Maximum shaft power [W], the same at every altitude."""
+        return self.max_power * self.lapse(sigma)
+
+    def store_flow(self, shaft_power):
+        """Battery power drawn [W] at shaft power [W]."""
+        return shaft_power / (self.motor_efficiency * self.controller_efficiency)
+
+    source_power = store_flow
+
+    def endurance(self, store, shaft_power):
+        r"""Time [s] to draw ``store`` joules of usable energy at shaft power [W].
+
+        Peukert's law in Hart's form, :math:`t = R_t (C/(I R_t))^n` scaled by the share of
+        the usable energy ``store`` in the rated pack energy :math:`U C`.
+
+        References
+        ----------
+        .. [1] Traub (2011), eq. 9.
+        """
+        p_batt = self.store_flow(shaft_power)
+        n = self.peukert_exponent
+        if n == 1.0:
+            return store / p_batt
+        current = p_batt / self.pack_voltage
+        fraction = store / (self.pack_voltage * self.capacity)
+        return fraction * self.rating_time * (self.capacity / (current * self.rating_time)) ** n
+
+
+#: Propulsion kinds by the name used in airframe files.
+PROPULSION_KINDS = {
+    "piston-propeller": PistonPropeller,
+    "electric-propeller": ElectricPropeller,
+}

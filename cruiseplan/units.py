@@ -1,0 +1,251 @@
+"""Units at the edges: one pint registry, parsing of quantity strings, SI conversion.
+
+The numeric core of cruiseplan works in SI floats. This module is where text such as
+``"7777 ft"`` or ``"180 hp"`` and pint Quantities from the public API become SI floats,
+and where SI results become display units. pint is imported lazily, the first time a
+string is parsed or a Quantity converted, so that importing the core stays cheap; the
+registry is built once per process and its parsed definitions are cached on disk.
+
+Aviation conventions handled here: ``nm``/``NM`` in a length or speed means the nautical
+mile (never the nanometre), ``kts`` means knots, and a temperature *difference* may be
+written in degC or degF (an ISA deviation of ``"+10 degC"`` is 10 K).
+"""
+
+from __future__ import annotations
+
+import functools
+import re
+
+import numpy as np
+
+from .errors import UnitError
+
+#: SI unit of each physical kind used by cruiseplan (the core's units).
+SI_UNITS = {
+    "length": "m",
+    "altitude": "m",
+    "distance": "m",
+    "speed": "m/s",
+    "mass": "kg",
+    "area": "m^2",
+    "power": "W",
+    "energy": "J",
+    "charge": "A*s",
+    "voltage": "V",
+    "current": "A",
+    "time": "s",
+    "temperature": "K",
+    "temperature_difference": "K",
+    "angle": "deg",
+    "volume": "m^3",
+    "density": "kg/m^3",
+    "bsfc": "kg/J",
+    "mass_flow": "kg/s",
+    "volume_flow": "m^3/s",
+    "pressure": "Pa",
+    "rate": "m/s",
+    "dimensionless": "",
+}
+
+_NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+# Aviation spellings pint does not read the way pilots mean them.
+_ALIASES = [
+    (re.compile(r"(?<![A-Za-z_])(nm|NM|NMI)(?![A-Za-z_])"), "nmi"),
+    (re.compile(r"(?<![A-Za-z_])(kts|KTS|KT|kn)(?![A-Za-z_])"), "kt"),
+    (re.compile(r"(?<![A-Za-z_])(FT)(?![A-Za-z_])"), "ft"),
+    (re.compile(r"(?<![A-Za-z_])(US ?gal|USG|gal)(?![A-Za-z_])"), "gallon"),
+    (re.compile(r"(?<![A-Za-z_])(fpm)(?![A-Za-z_])"), "ft/min"),
+    (re.compile(r"%"), "percent"),
+]
+
+
+@functools.lru_cache(maxsize=1)
+def registry():
+    """Return the package's single pint ``UnitRegistry``.
+
+    Returns
+    -------
+    pint.UnitRegistry
+        Built on first use, with its parsed definitions cached on disk so that later
+        processes start faster.
+    """
+    import pint
+
+    try:
+        ureg = pint.UnitRegistry(cache_folder=":auto:")
+    except Exception:  # pragma: no cover - read-only home or no cache support
+        ureg = pint.UnitRegistry()
+    return ureg
+
+
+def _normalise_unit(unit: str) -> str:
+    for pattern, repl in _ALIASES:
+        unit = pattern.sub(repl, unit)
+    return unit.strip()
+
+
+def is_quantity(value) -> bool:
+    """Tell whether ``value`` is a pint Quantity, without importing pint."""
+    return type(value).__module__.startswith("pint") and hasattr(value, "magnitude")
+
+
+@functools.lru_cache(maxsize=256)
+def _factor(from_unit: str, to_unit: str) -> float:
+    ureg = registry()
+    return float(ureg.Quantity(1.0, from_unit).to(to_unit).magnitude)
+
+
+def conversion_factor(from_unit: str, to_unit: str) -> float:
+    """Return the factor that multiplies a value in ``from_unit`` to give ``to_unit``.
+
+    Parameters
+    ----------
+    from_unit, to_unit : str
+        pint unit expressions of the same dimension (not offset units such as degC).
+
+    Returns
+    -------
+    float
+        The multiplicative conversion factor.
+    """
+    return _factor(_normalise_unit(from_unit), _normalise_unit(to_unit))
+
+
+def parse_quantity(text, si_unit: str, *, default_unit: str | None = None,
+                   what: str = "value", delta_temperature: bool = False) -> float:
+    """Parse a number with a unit (``"7777 ft"``, ``"120 kt"``) into an SI float.
+
+    Parameters
+    ----------
+    text : str or float or int
+        The text to parse. A bare number is taken in ``default_unit`` (or in ``si_unit``
+        when no default is given).
+    si_unit : str
+        The SI unit to convert to, e.g. ``"m"``; it also fixes the expected dimension.
+    default_unit : str, optional
+        Unit assumed for a bare number.
+    what : str
+        Name of the field, used in error messages.
+    delta_temperature : bool
+        Read degC/degF as temperature differences (for an ISA deviation).
+
+    Returns
+    -------
+    float
+        The value in ``si_unit``.
+
+    Raises
+    ------
+    UnitError
+        When the text is not a number with a unit of the expected dimension.
+    """
+    if isinstance(text, bool):
+        raise UnitError(f"{what}: expected a quantity in units of {si_unit}, got {text!r}")
+    if isinstance(text, (int, float)):
+        return float(text) * (conversion_factor(default_unit, si_unit) if default_unit else 1.0)
+    if is_quantity(text):
+        return float(to_si(text, si_unit, what=what))
+    if not isinstance(text, str):
+        raise UnitError(f"{what}: expected a quantity such as '12 {si_unit}', got {text!r}")
+    match = _NUMBER.match(text)
+    if not match:
+        raise UnitError(f"{what}: cannot read {text!r} as a number with a unit "
+                        f"(expected e.g. '12 {si_unit or 'units'}')")
+    number = float(match.group(1))
+    unit = _normalise_unit(match.group(2))
+    if not unit:
+        unit = default_unit or si_unit
+    if delta_temperature:
+        unit = {"degC": "delta_degC", "°C": "delta_degC", "C": "delta_degC",
+                "degF": "delta_degF", "°F": "delta_degF", "F": "delta_degF"}.get(unit, unit)
+    ureg = registry()
+    try:
+        q = ureg.Quantity(number, unit)
+        return float(q.to(si_unit).magnitude)
+    except Exception:
+        expected = ureg.Quantity(1.0, si_unit).dimensionality if si_unit else "dimensionless"
+        raise UnitError(f"{what}: {text!r} is not a quantity of dimension {expected} "
+                        f"(expected a value in units such as {si_unit or 'a plain number'})"
+                        ) from None
+
+
+def to_si(value, si_unit: str, *, what: str = "value"):
+    """Convert a pint Quantity (any compatible unit) or an SI number to SI floats.
+
+    Parameters
+    ----------
+    value : pint.Quantity or float or array_like
+        A Quantity is converted to ``si_unit``; a plain number or array is taken to be
+        in SI already and returned as a float array (or float).
+    si_unit : str
+        Target SI unit.
+    what : str
+        Name used in error messages.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The value in ``si_unit``.
+    """
+    if is_quantity(value):
+        try:
+            mag = value.to(si_unit).magnitude
+        except Exception:
+            raise UnitError(f"{what}: {value!s} cannot be converted to {si_unit} "
+                            f"(wrong dimension)") from None
+        return np.asarray(mag, dtype=float) if np.ndim(mag) else float(mag)
+    if isinstance(value, str):
+        return parse_quantity(value, si_unit, what=what)
+    arr = np.asarray(value, dtype=float)
+    return arr if arr.ndim else float(arr)
+
+
+def parse_range(text: str, si_unit: str, *, default_unit: str | None = None,
+                what: str = "values") -> np.ndarray:
+    """Parse ``"a:b:step"`` or ``"a,b,c"`` (each with optional units) into SI values.
+
+    ``"0:8000ft:2000ft"`` gives 0, 2000, 4000, 6000, 8000 ft in metres; the end point is
+    included when the step divides the span. A unit written on any element applies to
+    bare numbers in the same expression (``"0:3000:500 ft"``).
+
+    Parameters
+    ----------
+    text : str
+        The range or list.
+    si_unit : str
+        SI unit to convert to.
+    default_unit : str, optional
+        Unit of bare numbers when the expression names none.
+    what : str
+        Name used in error messages.
+
+    Returns
+    -------
+    numpy.ndarray
+        One-dimensional array of SI values.
+    """
+    text = text.strip()
+    if not text:
+        raise UnitError(f"{what}: empty list")
+    sep = ":" if ":" in text else ","
+    parts = [p.strip() for p in text.split(sep)]
+    if any(not p for p in parts):
+        raise UnitError(f"{what}: empty element in {text!r}")
+    # A unit on any element is the default for bare numbers in the expression.
+    shared = default_unit
+    for p in parts:
+        m = _NUMBER.match(p)
+        if m and m.group(2):
+            shared = m.group(2)
+    values = [parse_quantity(p, si_unit, default_unit=shared, what=what) for p in parts]
+    if sep == ",":
+        return np.asarray(values, dtype=float)
+    if len(values) != 3:
+        raise UnitError(f"{what}: a range is 'start:stop:step', got {text!r}")
+    start, stop, step = values
+    if step <= 0 or stop < start:
+        raise UnitError(f"{what}: range {text!r} needs stop >= start and a positive step")
+    n = int(np.floor((stop - start) / step + 1e-9)) + 1
+    if n > 100000:
+        raise UnitError(f"{what}: range {text!r} has {n} points; at most 100000 allowed")
+    return start + step * np.arange(n)
