@@ -31,8 +31,8 @@ import numpy as np
 from . import airspeed as _airspeed
 from ._numerics import bisect_increasing, golden_minimise
 from .aerodynamics import lift_coefficient, speed_for_lift_coefficient
-from .constants import G0
 from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state
+from .constants import G0
 from .units import to_si
 
 #: Default stall margin: cruise at or above 1.3 x stall speed (common practice).

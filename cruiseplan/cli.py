@@ -1,0 +1,225 @@
+"""Command line: ``cruiseplan airframes | atmosphere | table ...``.
+
+A thin layer: parse text with units into SI, call the public API, render a Report. Bad
+input gives one line on stderr and exit status 2; output files are written only whole.
+Heavy modules (scipy, matplotlib) are imported only by the commands that need them.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+import warnings
+
+from .errors import CruiseplanError, UnitError
+
+EXIT_BAD_INPUT = 2
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with one-line errors."""
+
+    def error(self, message):
+        raise CruiseplanError(f"{self.prog}: {message}")
+
+
+def _add_output(p, formats=("text", "csv", "json", "markdown")):
+    p.add_argument("--format", choices=formats, default="text", help="output format")
+    p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
+    p.add_argument("--units", choices=("aviation", "si"), default=None,
+                   help="display units: aviation (ft, kt, lb, US gal, nm, hp) or si "
+                        "(m, km/h, kg, L, km, kW); default aviation for piston airframes, "
+                        "si for electric ones")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``cruiseplan`` command."""
+    parser = _Parser(prog="cruiseplan",
+                     description="Cruise tables, best altitude and speed, and mission plans "
+                                 "for small propeller aircraft and drones. A planning aid: the "
+                                 "flight manual, licensed planning and local rules come first.")
+    sub = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
+
+    p = sub.add_parser("airframes", help="list the bundled airframes")
+    p.add_argument("--format", choices=("text", "json"), default="text")
+
+    p = sub.add_parser("atmosphere", help="ISA or non-standard day at pressure altitudes")
+    p.add_argument("--altitudes", default="0:10000ft:1000ft",
+                   help="pressure altitudes: 'start:stop:step' or 'a,b,c' with units "
+                        "(default 0:10000ft:1000ft)")
+    day = p.add_mutually_exclusive_group()
+    day.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+10 K'")
+    day.add_argument("--oat", help="outside air temperature at every altitude, e.g. '25 degC'")
+    _add_output(p)
+
+    p = sub.add_parser("table", help="cruise table over altitude x speed or power setting")
+    p.add_argument("airframe", help="bundled airframe name or path to an airframe TOML file")
+    p.add_argument("--altitudes", help="pressure altitudes, e.g. '0:8000ft:2000ft' "
+                                       "(default 0:10000ft:2000ft; drones 0:400m:100m)")
+    how = p.add_mutually_exclusive_group()
+    how.add_argument("--speeds", help="true airspeeds, e.g. '90:130kt:10kt' or '20,25 m/s'")
+    how.add_argument("--power", help="power settings in %% of rated power, e.g. '55,65,75'")
+    load = p.add_mutually_exclusive_group()
+    load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
+    load.add_argument("--fuel", help="fuel or energy on board: '80 L', '20 gal', '55 kg', "
+                                     "'450 Wh' or '80%%' of capacity (default full)")
+    p.add_argument("--payload", help="crew and payload, e.g. '170 kg' (default from file)")
+    p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
+    p.add_argument("--headwind", default="0",
+                   help="headwind component, e.g. '20 kt' (negative: tailwind)")
+    p.add_argument("--stall-margin", type=float, default=1.3,
+                   help="minimum TAS over stall speed (default 1.3)")
+    _add_output(p)
+    return parser
+
+
+# --- helpers ----------------------------------------------------------------------------
+
+def _parse_store(airframe, text: str):
+    """Fuel or energy on board from text, in SI (kg of fuel or J)."""
+    from .units import parse_quantity
+
+    prop = airframe.propulsion
+    t = text.strip()
+    if t.endswith("%"):
+        share = parse_quantity(t, "", what="--fuel")
+        if not 0.0 <= share <= 1.0:
+            raise UnitError(f"--fuel: {text!r} must be between 0 and 100 %")
+        return share * prop.store_capacity
+    if prop.store_name == "energy":
+        return parse_quantity(t, "J", what="--fuel (usable energy)")
+    for unit, to_mass in (("m^3", prop.fuel_density), ("kg", 1.0)):
+        try:
+            return parse_quantity(t, unit, what="--fuel") * to_mass
+        except UnitError:
+            continue
+    raise UnitError(f"--fuel: {text!r} is neither a volume ('80 L', '20 gal'), a mass "
+                    "('55 kg') nor a percentage ('80%')")
+
+
+def _emit(text: str, output: str | None):
+    if output:
+        from .reports import write_atomic
+
+        write_atomic(output, text)
+    else:
+        sys.stdout.write(text)
+
+
+def _default_units(airframe) -> str:
+    return "aviation" if airframe.propulsion.store_name == "fuel" else "si"
+
+
+# --- commands -----------------------------------------------------------------------------
+
+def cmd_airframes(args):
+    """List the bundled airframes, one line each."""
+    import json
+
+    from .airframe_files import bundled_airframes, read_airframe
+
+    rows = []
+    for name, path in bundled_airframes().items():
+        af = read_airframe(path)
+        rows.append({"name": name, "kind": af.propulsion.kind, "description": af.description,
+                     "max_takeoff_kg": af.max_takeoff_mass, "file": str(path)})
+    if args.format == "json":
+        sys.stdout.write(json.dumps(rows, indent=1) + "\n")
+        return
+    width = max((len(r["name"]) for r in rows), default=4)
+    for r in rows:
+        sys.stdout.write(f"{r['name']:<{width}}  {r['kind']:<18}  "
+                         f"MTOM {r['max_takeoff_kg']:7.1f} kg  {r['description']}\n")
+
+
+def cmd_atmosphere(args):
+    """Print the atmosphere at pressure altitudes."""
+    from .atmosphere import air_state, check_altitude
+    from .tables import atmosphere_report
+    from .units import parse_quantity, parse_range
+
+    h = check_altitude(parse_range(args.altitudes, "m", default_unit="ft",
+                                   what="--altitudes"), "--altitudes")
+    if args.oat is not None:
+        oat = parse_quantity(args.oat, "K", default_unit="degC", what="--oat")
+        air = air_state(h, oat=oat)
+    else:
+        dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
+        air = air_state(h, dev)
+    rep = atmosphere_report(air, args.units or "aviation")
+    _emit(rep.render(args.format), args.output)
+
+
+def cmd_table(args):
+    """Print a cruise table by speed or by power setting."""
+    import numpy as np
+
+    from .airframe_files import load_airframe
+    from .atmosphere import check_altitude
+    from .performance import cruise_grid, power_setting_table
+    from .tables import cruise_report
+    from .units import parse_quantity, parse_range
+
+    af = load_airframe(args.airframe)
+    electric = af.propulsion.store_name == "energy"
+    units = args.units or _default_units(af)
+    alt_text = args.altitudes or ("0:400m:100m" if electric else "0:10000ft:2000ft")
+    h = check_altitude(parse_range(alt_text, "m", default_unit="ft", what="--altitudes"),
+                       "--altitudes")
+    if args.stall_margin < 1.0:
+        raise CruiseplanError(f"--stall-margin {args.stall_margin:g} must be at least 1")
+    dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
+    wind = parse_quantity(args.headwind, "m/s", default_unit="kt", what="--headwind")
+    mass = parse_quantity(args.weight, "kg", default_unit="lb", what="--weight") \
+        if args.weight else None
+    store = _parse_store(af, args.fuel) if args.fuel else None
+    payload = parse_quantity(args.payload, "kg", default_unit="kg", what="--payload") \
+        if args.payload else None
+    common = dict(mass=mass, fuel=store, payload=payload, isa_dev=dev, headwind=wind,
+                  stall_margin=args.stall_margin)
+    if args.speeds or (electric and not args.power):
+        if args.speeds:
+            v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
+                            else "km/h", what="--speeds")
+        else:
+            v = np.arange(14.0, 30.01, 2.0)
+        if np.any(v <= 0):
+            raise UnitError("--speeds: speeds must be positive")
+        pts = cruise_grid(af, h, v, **common)
+        title = "Cruise table by true airspeed"
+    else:
+        text = args.power or "55,65,75"
+        frac = parse_range(text, "", default_unit="percent", what="--power")
+        if np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
+            raise UnitError(f"--power: {text!r} must be percentages of rated power in (0, 100]")
+        pts = power_setting_table(af, h, frac, **common)
+        title = "Cruise table by power setting"
+    rep = cruise_report(af, pts, isa_dev=dev, units=units, title=title,
+                        stall_margin=args.stall_margin, show_ground=wind != 0.0)
+    _emit(rep.render(args.format), args.output)
+
+
+COMMANDS = {"airframes": cmd_airframes, "atmosphere": cmd_atmosphere, "table": cmd_table}
+
+
+def _show_warning(message, category, filename, lineno, file=None, line=None):
+    sys.stderr.write(f"cruiseplan: warning: {message}\n")
+
+
+def main(argv=None) -> int:
+    """Run the command line; returns the exit status."""
+    warnings.showwarning = _show_warning
+    try:
+        args = build_parser().parse_args(argv)
+        COMMANDS[args.command](args)
+    except (CruiseplanError, ValueError, OSError) as exc:
+        msg = " ".join(str(exc).split())
+        sys.stderr.write(f"cruiseplan: error: {msg}\n")
+        return EXIT_BAD_INPUT
+    except BrokenPipeError:  # pragma: no cover - e.g. piped into head
+        return 0
+    return 0
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

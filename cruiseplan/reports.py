@@ -1,0 +1,224 @@
+"""Tables for people and programs: text, markdown, CSV and JSON, in SI or aviation units.
+
+A :class:`Report` is a title, a few header lines (what the figures hold for), columns with
+their units, notes and the cautions. Rendering is pure string work; writing goes through
+:func:`write_atomic`, so an error never leaves a half-written file. No matplotlib here.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import math
+import os
+import tempfile
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from .units import conversion_factor
+
+#: Display units by physical kind: (pint unit, label) per unit system.
+UNIT_SYSTEMS = {
+    "si": {
+        "altitude": ("m", "m"), "speed": ("km/h", "km/h"), "mass": ("kg", "kg"),
+        "volume": ("L", "L"), "distance": ("km", "km"), "power": ("kW", "kW"),
+        "volume_flow": ("L/h", "L/h"), "mass_flow": ("kg/h", "kg/h"),
+        "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
+        "sr_fuel": ("km/L", "km/L"), "sr_energy": ("km/kWh", "km/kWh"),
+        "rate": ("m/s", "m/s"), "pressure": ("hPa", "hPa"),
+    },
+    "aviation": {
+        "altitude": ("ft", "ft"), "speed": ("kt", "kt"), "mass": ("lb", "lb"),
+        "volume": ("gallon", "US gal"), "distance": ("nmi", "nm"), "power": ("hp", "hp"),
+        "volume_flow": ("gallon/h", "US gal/h"), "mass_flow": ("lb/h", "lb/h"),
+        "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
+        "sr_fuel": ("nmi/gallon", "nm/US gal"), "sr_energy": ("nmi/kWh", "nm/kWh"),
+        "rate": ("ft/min", "ft/min"), "pressure": ("hPa", "hPa"),
+    },
+}
+_SI_OF_KIND = {
+    "altitude": "m", "speed": "m/s", "mass": "kg", "volume": "m^3", "distance": "m",
+    "power": "W", "volume_flow": "m^3/s", "mass_flow": "kg/s", "energy": "J",
+    "electric_power": "W", "sr_fuel": "m/m^3", "sr_energy": "m/J", "rate": "m/s",
+    "pressure": "Pa",
+}
+
+
+def display(kind: str, units: str):
+    """Return (factor from SI, label) for a physical kind in a unit system."""
+    pint_unit, label = UNIT_SYSTEMS[units][kind]
+    return conversion_factor(_SI_OF_KIND[kind], pint_unit), label
+
+
+@dataclass
+class Column:
+    """One column: a name, a unit label ('' when dimensionless), values and a format."""
+
+    name: str
+    unit: str
+    values: list
+    fmt: str = "{:.1f}"
+
+    @property
+    def header(self) -> str:
+        """Header with the unit in brackets."""
+        return f"{self.name} [{self.unit}]" if self.unit else self.name
+
+    def cell(self, i: int) -> str:
+        """Formatted cell ``i``; '-' for a missing value."""
+        v = self.values[i]
+        if v is None or (isinstance(v, float) and not math.isfinite(v)):
+            return "-"
+        if isinstance(v, str):
+            return v
+        text = self.fmt.format(v)
+        # A value that rounds to zero prints without a sign.
+        return text[1:] if text.startswith("-") and not text.strip("-0.") else text
+
+
+@dataclass
+class Report:
+    """A printable table with its context and cautions."""
+
+    title: str
+    meta: list
+    columns: list
+    notes: list = field(default_factory=list)
+    cautions: tuple = ()
+
+    @property
+    def n_rows(self) -> int:
+        """Number of rows."""
+        return len(self.columns[0].values) if self.columns else 0
+
+    def render(self, fmt: str) -> str:
+        """Render as ``text``, ``markdown``, ``csv`` or ``json``."""
+        return RENDERERS[fmt](self)
+
+
+def hours_minutes(seconds) -> str:
+    """Format a duration in seconds as h:mm."""
+    if seconds is None or not math.isfinite(seconds):
+        return "-"
+    minutes = int(round(seconds / 60.0))
+    return f"{minutes // 60}:{minutes % 60:02d}"
+
+
+#: Columns of words rather than numbers (left-aligned in text tables).
+_TEXT_COLUMNS = {"status", "segment", "leg", "verdict", "reason", "setting"}
+
+
+def _text(rep: Report) -> str:
+    # Two header lines, name over [unit], keep printed tables narrow.
+    names = [c.name for c in rep.columns]
+    units = [f"[{c.unit}]" if c.unit else "" for c in rep.columns]
+    cells = [[c.cell(i) for c in rep.columns] for i in range(rep.n_rows)]
+    widths = [max([len(n), len(u)] + [len(r[j]) for r in cells])
+              for j, (n, u) in enumerate(zip(names, units))]
+    left = [c.name in _TEXT_COLUMNS for c in rep.columns]
+
+    def line(items):
+        # Numbers right-aligned, words left-aligned.
+        return "  ".join(s.ljust(w) if lft else s.rjust(w)
+                         for s, w, lft in zip(items, widths, left)).rstrip()
+
+    out = [rep.title, "=" * len(rep.title)]
+    out += rep.meta
+    out += ["", line(names), line(units), line(["-" * w for w in widths])]
+    out += [line(r) for r in cells]
+    if rep.notes:
+        out += [""] + rep.notes
+    if rep.cautions:
+        out += ["", "CAUTION:"] + [f"  * {c}" for c in rep.cautions]
+    return "\n".join(out) + "\n"
+
+
+def _markdown(rep: Report) -> str:
+    out = [f"## {rep.title}", ""]
+    out += [f"- {m}" for m in rep.meta] + [""]
+    out.append("| " + " | ".join(c.header for c in rep.columns) + " |")
+    out.append("|" + "|".join("---:" for _ in rep.columns) + "|")
+    for i in range(rep.n_rows):
+        out.append("| " + " | ".join(c.cell(i) for c in rep.columns) + " |")
+    if rep.notes:
+        out += [""] + [f"{n}  " for n in rep.notes]
+    if rep.cautions:
+        out += ["", "**Cautions**", ""] + [f"- {c}" for c in rep.cautions]
+    return "\n".join(out) + "\n"
+
+
+def _csv(rep: Report) -> str:
+    buf = io.StringIO()
+    for m in [rep.title] + rep.meta + rep.notes + [f"CAUTION: {c}" for c in rep.cautions]:
+        buf.write(f"# {m}\n")
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow([c.header for c in rep.columns])
+    for i in range(rep.n_rows):
+        w.writerow(["" if c.cell(i) == "-" else c.cell(i) for c in rep.columns])
+    return buf.getvalue()
+
+
+def _jsonable(v):
+    if isinstance(v, (np.floating, float)):
+        return float(v) if math.isfinite(v) else None
+    if isinstance(v, np.integer):
+        return int(v)
+    return v
+
+
+def _json(rep: Report) -> str:
+    doc = {
+        "title": rep.title,
+        "meta": rep.meta,
+        "columns": [{"name": c.name, "unit": c.unit} for c in rep.columns],
+        "rows": [[_jsonable(c.values[i]) for c in rep.columns] for i in range(rep.n_rows)],
+        "notes": rep.notes,
+        "cautions": list(rep.cautions),
+    }
+    return json.dumps(doc, indent=1) + "\n"
+
+
+RENDERERS = {"text": _text, "markdown": _markdown, "csv": _csv, "json": _json}
+
+
+def write_atomic(path, text: str) -> None:
+    """Write ``text`` to ``path`` through a temporary file, so no partial file remains.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        Destination.
+    text : str
+        Content.
+    """
+    write_bytes_atomic(path, text.encode("utf-8"))
+
+
+def write_bytes_atomic(path, data: bytes) -> None:
+    """Write bytes to ``path`` through a temporary file in the same folder.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        Destination.
+    data : bytes
+        Content.
+    """
+    path = Path(path)
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.is_dir():
+        from .errors import CruiseplanError
+
+        raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
+    fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(data)
+        os.replace(tmp, path)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise

@@ -1,0 +1,176 @@
+"""Cruise and atmosphere tables: CruisePoints and AirState laid out as Reports.
+
+Rows run altitude by altitude; every column carries its unit; the status column names the
+limit each point breaches, and the notes spell out each code used.
+"""
+
+from __future__ import annotations
+
+from datetime import date
+
+import numpy as np
+
+from .constants import T_ZERO_C
+from .performance import LIMIT_CODE, LIMIT_TEXT, CruisePoints
+from .reports import Column, Report, display, hours_minutes
+
+
+def _cautions():
+    from . import CAUTIONS
+
+    return CAUTIONS
+
+
+def airframe_lines(airframe) -> list:
+    """Header lines naming the airframe and its file with a checksum."""
+    return [f"Airframe: {airframe.name} - {airframe.description}",
+            f"File: {airframe.source} (sha256 {airframe.checksum[:16]})"]
+
+
+def store_text(airframe, store: float, units: str) -> str:
+    """Fuel or energy on board, in display units."""
+    prop = airframe.propulsion
+    if prop.store_name == "fuel":
+        fv, lv = display("volume", units)
+        fm, lm = display("mass", units)
+        return f"fuel on board {store / prop.fuel_density * fv:.1f} {lv} " \
+               f"({store * fm:.1f} {lm} {prop.fuel})"
+    fe, le = display("energy", units)
+    share = store / prop.battery_energy * 100.0
+    return f"usable energy on board {store * fe:.0f} {le} ({share:.0f} % of usable)"
+
+
+def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "aviation",
+                  title: str = "Cruise table", stall_margin: float = 1.3,
+                  show_ground: bool = False) -> Report:
+    """Lay out cruise points (any 2-D shape, rows by altitude) as a Report.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    pts : CruisePoints
+        Points of shape (n_alt, n).
+    isa_dev : float
+        ISA deviation [K] the points hold for.
+    units : {"aviation", "si"}
+        Display unit system.
+    title : str
+        Report title.
+    stall_margin : float
+        Stall margin used, for the notes.
+    show_ground : bool
+        Add ground speed and ground range columns.
+
+    Returns
+    -------
+    Report
+        The table with header, notes and cautions.
+    """
+    shape = np.broadcast_shapes(pts.cl.shape, np.shape(pts.tas))
+
+    def flat(a):
+        return np.broadcast_to(a, shape).ravel().tolist()
+
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fd, ld = display("distance", units)
+    prop = airframe.propulsion
+    # Drones' shaft power reads better in watts than in kW or hp.
+    fp, lp = display("power" if prop.store_name == "fuel" else "electric_power", units)
+    cols = [
+        Column("PA", la, flat(pts.air.pressure_altitude * fa), "{:.0f}"),
+        Column("OAT", "degC", flat(pts.air.temperature - T_ZERO_C), "{:.0f}"),
+        Column("DA", la, flat(pts.air.density_altitude * fa), "{:.0f}"),
+        Column("TAS", ls, flat(pts.tas * fs), "{:.1f}"),
+        Column("CAS", ls, flat(pts.cas() * fs), "{:.1f}"),
+    ]
+    if show_ground:
+        cols.append(Column("GS", ls, flat(pts.ground_speed * fs), "{:.1f}"))
+    cols += [
+        Column("power", "% rated", flat(pts.power_fraction * 100.0), "{:.0f}"),
+        Column("max", "% rated", flat(pts.power_available / pts.rated_power * 100.0),
+               "{:.0f}"),
+        Column("shaft", lp, flat(pts.shaft_power * fp),
+               "{:.1f}" if prop.store_name == "fuel" else "{:.0f}"),
+    ]
+    if prop.store_name == "fuel":
+        fv, lv = display("volume_flow", units)
+        fsr, lsr = display("sr_fuel", units)
+        cols += [Column("fuel flow", lv, flat(pts.fuel_volume_flow * fv), "{:.1f}"),
+                 Column("SR", lsr, flat(pts.specific_range_air * prop.fuel_density * fsr),
+                        "{:.2f}")]
+    else:
+        fw, lw = display("electric_power", units)
+        fsr, lsr = display("sr_energy", units)
+        cols += [Column("battery", lw, flat(pts.store_flow * fw), "{:.0f}"),
+                 Column("SR", lsr, flat(pts.specific_range_air * fsr), "{:.1f}")]
+    cols += [
+        Column("endurance", "h:mm", [hours_minutes(t) for t in flat(pts.endurance)], "{}"),
+        Column("range", ld, flat(pts.range_air * fd), "{:.0f}"),
+    ]
+    if show_ground:
+        cols.append(Column("gnd range", ld, flat(pts.range_ground * fd), "{:.0f}"))
+    cols += [
+        Column("L/D", "", flat(pts.lift_to_drag), "{:.1f}"),
+        Column("CL", "", flat(pts.cl), "{:.2f}"),
+        Column("V/Vs", "", flat(pts.stall_speed_ratio), "{:.2f}"),
+    ]
+    codes = np.broadcast_to(pts.limits, shape).ravel()
+    from .performance import explain
+
+    cols.append(Column("status", "", [explain(c, short=True) for c in codes], "{}"))
+    fm, lm = display("mass", units)
+    meta = airframe_lines(airframe) + [
+        f"Mass {pts.mass * fm:.1f} {lm}; {store_text(airframe, pts.store, units)}",
+        f"Day: ISA {isa_dev:+.0f} K; altitudes are pressure altitudes (PA); "
+        f"DA = density altitude",
+        f"Range and endurance: all usable {prop.store_name} at this mass, calm air, "
+        f"NO reserve" + ("; ground columns with the given wind" if show_ground else ""),
+        f"Made {date.today().isoformat()} by cruiseplan",
+    ]
+    used = int(np.bitwise_or.reduce(codes)) if codes.size else 0
+    notes = ["max: full-throttle (maximum continuous) shaft power at the altitude"]
+    notes += [f"{code}: {LIMIT_TEXT[flag]}" + (
+        f" (V < {stall_margin:g} x stall speed)" if code == "STALL" else "")
+        for flag, code in LIMIT_CODE.items() if used & flag]
+    return Report(title, meta, cols, notes, _cautions())
+
+
+def atmosphere_report(air, units: str = "aviation") -> Report:
+    """Lay out air states (1-D) as a Report.
+
+    Parameters
+    ----------
+    air : AirState
+        One-dimensional air states.
+    units : {"aviation", "si"}
+        Display unit system.
+
+    Returns
+    -------
+    Report
+        Pressure altitude, temperature, pressure, density, density ratio, density
+        altitude, speed of sound and viscosity.
+    """
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fpr, lpr = display("pressure", units)
+
+    def flat(a):
+        return np.ravel(a).tolist()
+
+    cols = [
+        Column("PA", la, flat(air.pressure_altitude * fa), "{:.0f}"),
+        Column("OAT", "degC", flat(air.temperature - T_ZERO_C), "{:.2f}"),
+        Column("ISA dev", "K", flat(air.isa_dev), "{:+.1f}"),
+        Column("pressure", lpr, flat(air.pressure * fpr), "{:.2f}"),
+        Column("density", "kg/m^3", flat(air.density), "{:.5f}"),
+        Column("sigma", "", flat(air.sigma), "{:.4f}"),
+        Column("DA", la, flat(air.density_altitude * fa), "{:.0f}"),
+        Column("a", ls, flat(air.speed_of_sound * fs), "{:.1f}"),
+        Column("mu", "Pa s", flat(air.viscosity), "{:.4e}"),
+    ]
+    meta = ["ISA (ICAO Doc 7488/3) evaluated by ambiance at pressure altitude; temperature "
+            "ISA + deviation, pressure unchanged, density from the gas law"]
+    return Report("Atmosphere", meta, cols, [], _cautions())
