@@ -23,8 +23,14 @@ def _cautions():
 
 def airframe_lines(airframe) -> list:
     """Header lines naming the airframe and its file with a checksum."""
+    from pathlib import Path
+
+    from .airframe_files import BUNDLED_DIRS
+
+    src = Path(airframe.source)
+    shown = f"bundled {src.name}" if src.parent in BUNDLED_DIRS else str(src)
     return [f"Airframe: {airframe.name} - {airframe.description}",
-            f"File: {airframe.source} (sha256 {airframe.checksum[:16]})"]
+            f"File: {shown} (sha256 {airframe.checksum[:16]})"]
 
 
 def store_text(airframe, store: float, units: str) -> str:
