@@ -1,0 +1,610 @@
+r"""Best cruise: speeds for range, endurance and economy; best altitude; ceilings.
+
+At each altitude (all altitudes at once, vectorised):
+
+* **best range** maximises the distance flown on the store, ground speed x endurance
+  (air distance in calm air). For a propeller aircraft with constant efficiency and BSFC
+  this is the speed of :math:`(L/D)_{max}`; with a headwind it is faster, with a tailwind
+  slower; Peukert's law moves it slower.
+* **best endurance** minimises shaft power: the speed of :math:`(C_L^{3/2}/C_D)_{max}`.
+* **economy** is the faster speed that keeps 99 % of the best specific range (common
+  practice): a few percent of range buys noticeably more speed.
+
+Closed forms are used where the model allows them (symmetric parabolic polar, constant
+propeller efficiency, calm air, no Peukert effect); otherwise vectorised golden-section
+searches, never a per-altitude scalar optimiser.
+
+Constraints, each reported when it binds:
+
+* stall margin: :math:`V \ge m V_s` (:math:`m` = 1.3 by default, common practice), i.e.
+  :math:`C_L \le C_{L,max}/m^2`;
+* power: shaft power required within full-throttle power at the altitude (power lapse);
+* climb reserve: at the cruise speed the excess power must still give a climb rate of at
+  least the reserve, :math:`\eta_p (P_{av} - P_{req}) / W \ge \dot h_{min}`;
+* the altitude band (floor, ceiling) and, for drones, the maximum height above ground.
+
+Altitudes are pressure altitudes. A height-above-ground cap is converted as
+``elevation + max_agl`` on the same scale (pressure altitude taken as altitude above mean
+sea level, i.e. standard sea-level pressure); on a low-pressure day check the cap yourself.
+
+References
+----------
+.. [1] J. D. Anderson, *Aircraft Performance and Design*, McGraw-Hill, 1999, secs. 5.7
+   (range and endurance, propeller aircraft), 5.10 (rate of climb), 5.11 (ceilings).
+.. [2] FAA, *Pilot's Handbook of Aeronautical Knowledge*, FAA-H-8083-25, ch. 11
+   (best range in wind: add about half the headwind; common practice).
+"""
+
+from __future__ import annotations
+
+import enum
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from ._numerics import bisect_increasing, golden_minimise
+from .aerodynamics import ParabolicPolar, speed_for_lift_coefficient
+from .atmosphere import AirState, air_state, check_altitude
+from .constants import G0
+from .performance import (
+    DEFAULT_STALL_MARGIN,
+    MACH_LIMIT,
+    CruisePoints,
+    _shaft_power,
+    _store_si,
+    cruise_points,
+)
+from .units import to_si
+
+#: Fraction of the best specific range kept by the economy speed (common practice).
+ECONOMY_FRACTION = 0.99
+#: Climb rate that defines the service ceiling: 100 ft/min [m/s] (common definition).
+SERVICE_CEILING_RATE = 100 * 0.3048 / 60.0
+#: Objectives of the altitude and speed choice.
+OBJECTIVES = ("range", "endurance", "economy")
+#: Relative difference below which two altitudes' objectives count as equal.
+TIE_TOLERANCE = 1e-9
+#: Altitude searched for ceilings [m].
+CEILING_SEARCH_TOP = 20000.0
+
+
+class Constraint(enum.IntFlag):
+    """Constraints that can bind a best-cruise answer (bit flags)."""
+
+    STALL_MARGIN = 1
+    POWER = 2
+    CLIMB_RESERVE = 4
+    MACH = 8
+    CEILING = 16
+    FLOOR = 32
+    HEIGHT_AGL = 64
+    WIND = 128
+
+
+CONSTRAINT_TEXT = {
+    Constraint.STALL_MARGIN: "stall margin",
+    Constraint.POWER: "power available",
+    Constraint.CLIMB_RESERVE: "climb-rate reserve",
+    Constraint.MACH: f"Mach {MACH_LIMIT} model limit",
+    Constraint.CEILING: "altitude band ceiling or top of the altitudes searched",
+    Constraint.FLOOR: "altitude band floor",
+    Constraint.HEIGHT_AGL: "maximum height above ground",
+    Constraint.WIND: "wind (ground speed not positive or course cannot be held)",
+}
+
+
+def describe(code: int) -> str:
+    """Text for a constraint bit set; ``"none"`` when no constraint binds."""
+    code = int(code)
+    if code == 0:
+        return "none"
+    return "; ".join(t for flag, t in CONSTRAINT_TEXT.items() if code & flag)
+
+
+@dataclass(frozen=True)
+class SpeedSchedule:
+    """Best speeds per altitude and the window of flyable speeds (SI arrays, shape (n,)).
+
+    Attributes
+    ----------
+    air : AirState
+        Air at each altitude.
+    headwind, crosswind : numpy.ndarray
+        Wind components on the course [m/s].
+    stall_speed : numpy.ndarray
+        Stall speed at CLmax [m/s] (TAS).
+    window_lo, window_hi : numpy.ndarray
+        Slowest and fastest flyable TAS within all speed constraints [m/s]; NaN where
+        no speed is flyable.
+    infeasible : numpy.ndarray
+        :class:`Constraint` bits explaining why no speed is flyable (0 where one is).
+    tas : dict
+        Objective name to constrained best TAS [m/s].
+    tas_unconstrained : dict
+        Objective name to best TAS before the speed constraints [m/s].
+    binding : dict
+        Objective name to :class:`Constraint` bits binding the speed.
+    """
+
+    air: AirState
+    headwind: np.ndarray
+    crosswind: np.ndarray
+    stall_speed: np.ndarray
+    window_lo: np.ndarray
+    window_hi: np.ndarray
+    infeasible: np.ndarray
+    tas: dict
+    tas_unconstrained: dict
+    binding: dict
+
+    @property
+    def feasible(self) -> np.ndarray:
+        """True where some speed is flyable."""
+        return self.infeasible == 0
+
+
+def _closed_form_ok(airframe, headwind, crosswind) -> bool:
+    polar = airframe.polar
+    prop = airframe.propulsion
+    return (isinstance(polar, ParabolicPolar) and polar.cl_min_drag == 0.0
+            and prop.propeller.is_constant
+            and np.all(np.asarray(headwind) == 0) and np.all(np.asarray(crosswind) == 0))
+
+
+def _window(airframe, mass, air, lo, hi, reserve_rate, shaft):
+    """Speeds where eta (P_av - P_req) >= W x reserve rate; NaN where none."""
+    prop = airframe.propulsion
+    avail = prop.shaft_power_available(air.sigma)
+    weight = mass * G0
+
+    def excess(v):
+        return prop.propeller(v) * (avail - shaft(v)) - weight * reserve_rate
+
+    v_x = golden_minimise(lambda v: -excess(v), lo, hi)
+    ok = excess(v_x) >= 0.0
+    e_lo, e_hi = excess(lo), excess(hi)
+    v_lo = np.where(e_lo >= 0, lo, bisect_increasing(excess, lo, v_x, xtol_rel=1e-11))
+    v_hi = np.where(e_hi >= 0, hi,
+                    bisect_increasing(lambda v: -excess(v), v_x, hi, xtol_rel=1e-11))
+    return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), ok
+
+
+def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crosswind=0.0,
+                   stall_margin=DEFAULT_STALL_MARGIN, climb_reserve=0.0) -> SpeedSchedule:
+    """Best-range, best-endurance and economy TAS at each altitude (SI core).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float
+        Mass [kg].
+    air : AirState
+        One-dimensional air states (one per altitude).
+    store : float
+        Fuel [kg] or usable energy [J] on board.
+    headwind, crosswind : array_like, optional
+        Wind components on the course [m/s], scalar or one per altitude.
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-].
+    climb_reserve : float, optional
+        Minimum climb rate that must remain available at the cruise speed [m/s].
+
+    Returns
+    -------
+    SpeedSchedule
+        Constrained and unconstrained speeds and the binding constraints.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, eqs. 5.34, 5.54 (closed forms) and
+       sec. 5.7 (range and endurance).
+    """
+    prop = airframe.propulsion
+    shape = np.shape(air.density)
+    hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
+    cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
+    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
+
+    def shaft(v):
+        return _shaft_power(airframe, mass, air, v)
+
+    def ground_speed(v):
+        with np.errstate(invalid="ignore"):
+            return np.sqrt(v * v - cw * cw) - hw
+
+    def ground_range(v):
+        return ground_speed(v) * prop.endurance(store, shaft(v))
+
+    peukert = getattr(prop, "peukert_exponent", 1.0) != 1.0
+    if _closed_form_ok(airframe, hw, cw) and not peukert:
+        polar = airframe.polar
+        v_range = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
+                                             np.sqrt(polar.cd0 / polar.k))
+    else:
+        v_range = golden_minimise(lambda v: -ground_range(v), lo, hi)
+    if _closed_form_ok(airframe, 0.0, 0.0):
+        polar = airframe.polar
+        v_end = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
+                                           np.sqrt(3.0 * polar.cd0 / polar.k))
+    else:
+        v_end = golden_minimise(shaft, lo, hi)
+    best = ground_range(v_range)
+    v_econ = bisect_increasing(lambda v: ECONOMY_FRACTION * best - ground_range(v),
+                               v_range, hi, xtol_rel=1e-11)
+
+    # Windows: with and without the climb reserve, to tell which one binds.
+    p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0, shaft)
+    if climb_reserve > 0:
+        c_lo, c_hi, c_ok = _window(airframe, mass, air, lo, hi, climb_reserve, shaft)
+    else:
+        c_lo, c_hi, c_ok = p_lo, p_hi, p_ok
+    v_margin = stall_margin * v_s
+    win_lo = np.maximum(c_lo, v_margin)
+    win_hi = c_hi
+    infeasible = np.zeros(shape, dtype=np.uint16)
+    infeasible |= np.where(~p_ok, Constraint.POWER, 0).astype(np.uint16)
+    infeasible |= np.where(p_ok & ~c_ok, Constraint.CLIMB_RESERVE, 0).astype(np.uint16)
+    squeezed = c_ok & (v_margin > c_hi)
+    infeasible |= np.where(squeezed, Constraint.STALL_MARGIN | (
+        Constraint.CLIMB_RESERVE if climb_reserve > 0 else Constraint.POWER), 0
+    ).astype(np.uint16)
+    ok = infeasible == 0
+    win_lo = np.where(ok, win_lo, np.nan)
+    win_hi = np.where(ok, win_hi, np.nan)
+
+    def clamp(v_unc):
+        v = np.clip(v_unc, win_lo, win_hi)
+        code = np.zeros(shape, dtype=np.uint16)
+        below = v_unc < win_lo
+        above = v_unc > win_hi
+        stall_bound = below & (v_margin >= c_lo)
+        code |= np.where(stall_bound, Constraint.STALL_MARGIN, 0).astype(np.uint16)
+        power_side = (below & ~stall_bound) | above
+        at_mach = above & (win_hi >= hi * (1 - 1e-9))
+        outside_p = (v_unc < p_lo) | (v_unc > p_hi)
+        code |= np.where(power_side & ~at_mach & outside_p, Constraint.POWER, 0
+                         ).astype(np.uint16)
+        code |= np.where(power_side & ~at_mach & ~outside_p, Constraint.CLIMB_RESERVE, 0
+                         ).astype(np.uint16)
+        code |= np.where(at_mach, Constraint.MACH, 0).astype(np.uint16)
+        return np.where(ok, v, np.nan), np.where(ok, code, 0).astype(np.uint16)
+
+    tas, binding = {}, {}
+    tas["range"], binding["range"] = clamp(v_range)
+    tas["endurance"], binding["endurance"] = clamp(v_end)
+    econ_unc = np.maximum(v_econ, tas["range"])
+    tas["economy"], binding["economy"] = clamp(econ_unc)
+    binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
+                                   ).astype(np.uint16)
+    return SpeedSchedule(air=air, headwind=hw, crosswind=cw, stall_speed=v_s,
+                         window_lo=win_lo, window_hi=win_hi, infeasible=infeasible,
+                         tas=tas, binding=binding,
+                         tas_unconstrained={"range": v_range, "endurance": v_end,
+                                            "economy": v_econ})
+
+
+@dataclass(frozen=True)
+class BestCruise:
+    """Best cruise by altitude for one objective, and the best altitude.
+
+    Attributes
+    ----------
+    objective : str
+        ``"range"``, ``"endurance"`` or ``"economy"``.
+    schedule : SpeedSchedule
+        Speeds and constraints at every altitude.
+    points : CruisePoints
+        Cruise performance at the objective's speed at each altitude (shape (n,)).
+    value : numpy.ndarray
+        The objective at each altitude: ground range [m] for range and economy, endurance
+        [s] for endurance; NaN where infeasible or out of band.
+    out_of_band : numpy.ndarray
+        :class:`Constraint` bits (CEILING, FLOOR, HEIGHT_AGL) for altitudes outside the band.
+    best_index : int
+        Index of the best altitude, -1 when no altitude is flyable.
+    binding : int
+        :class:`Constraint` bits binding the chosen answer (0: unconstrained optimum).
+    """
+
+    objective: str
+    schedule: SpeedSchedule
+    points: CruisePoints
+    value: np.ndarray
+    out_of_band: np.ndarray
+    best_index: int
+    binding: int
+
+    @property
+    def altitudes(self) -> np.ndarray:
+        """Pressure altitudes [m]."""
+        return self.schedule.air.pressure_altitude
+
+    @property
+    def feasible(self) -> np.ndarray:
+        """Altitudes with a flyable speed inside the band."""
+        return self.schedule.feasible & (self.out_of_band == 0)
+
+    def reason(self, i: int) -> str:
+        """Why altitude ``i`` is not flyable, or what binds its speed."""
+        code = int(self.schedule.infeasible[i]) | int(self.out_of_band[i])
+        if code:
+            return "not flyable: " + describe(code)
+        b = int(self.schedule.binding[self.objective][i])
+        return "ok" if b == 0 else "speed limited by " + describe(b)
+
+    def best(self) -> dict:
+        """The answer in SI: altitude, TAS, ground speed, value and binding constraint."""
+        i = self.best_index
+        if i < 0:
+            return {"altitude": None, "tas": None, "objective": self.objective,
+                    "binding": describe(self.binding), "feasible": False}
+        p = self.points
+        return {
+            "altitude": float(self.altitudes[i]), "tas": float(p.tas[i]),
+            "ground_speed": float(p.ground_speed[i]), "objective": self.objective,
+            "value": float(self.value[i]), "endurance": float(p.endurance[i]),
+            "range_ground": float(p.range_ground[i]),
+            "specific_range_ground": float(p.specific_range_ground[i]),
+            "power_fraction": float(p.power_fraction[i]), "binding": describe(self.binding),
+            "feasible": True,
+        }
+
+
+def _band(altitudes, floor, ceiling, max_agl, elevation):
+    code = np.zeros(np.shape(altitudes), dtype=np.uint16)
+    if floor is not None:
+        code |= np.where(altitudes < floor, Constraint.FLOOR, 0).astype(np.uint16)
+    top = np.inf if ceiling is None else ceiling
+    if max_agl is not None:
+        cap = elevation + max_agl
+        code |= np.where((altitudes > cap) & (cap <= top), Constraint.HEIGHT_AGL, 0
+                         ).astype(np.uint16)
+        top = min(top, cap)
+    if ceiling is not None:
+        code |= np.where((altitudes > ceiling) & (ceiling <= top), Constraint.CEILING, 0
+                         ).astype(np.uint16)
+    return code
+
+
+def _pick(score) -> int:
+    """Index of the best score; among equal scores the last (highest, fastest) one.
+
+    A piston aircraft's best specific range does not change with altitude when BSFC and
+    propeller efficiency are constant, so ties are real: the higher altitude is faster.
+    """
+    return int(np.flatnonzero(score >= np.max(score) * (1 - TIE_TOLERANCE))[-1])
+
+
+def choose_altitude(schedule: SpeedSchedule, value, out_of_band) -> tuple:
+    """Pick the best flyable in-band altitude and the constraint that binds the choice.
+
+    Parameters
+    ----------
+    schedule : SpeedSchedule
+        Speeds and feasibility per altitude.
+    value : numpy.ndarray
+        Objective per altitude (larger is better; NaN where not flyable).
+    out_of_band : numpy.ndarray
+        Band constraint bits per altitude.
+
+    Returns
+    -------
+    best_index : int
+        -1 when nothing is flyable.
+    binding : int
+        Constraint bits: the band edge when a better altitude lies beyond it, power or
+        climb reserve when the next altitude up cannot be flown, else the speed's binding.
+    """
+    feasible = schedule.feasible
+    usable = feasible & (out_of_band == 0) & np.isfinite(value)
+    if not np.any(usable):
+        codes = np.bitwise_or.reduce(schedule.infeasible | out_of_band) if value.size else 0
+        return -1, int(codes)
+    i = _pick(np.where(usable, value, -np.inf))
+    binding = 0
+    if i == value.size - 1 and i > 0 and value[i] >= value[i - 1] * (1 - TIE_TOLERANCE):
+        binding |= int(Constraint.CEILING)  # the top of the altitudes searched
+    j = _pick(np.where(feasible & np.isfinite(value), value, -np.inf))
+    if j != i and out_of_band[j]:
+        binding |= int(out_of_band[j])
+    elif i + 1 < value.size and not feasible[i + 1] and i > 0 and value[i] > value[i - 1]:
+        # Better higher up, but the next altitude cannot be flown: a performance ceiling.
+        binding |= int(schedule.infeasible[i + 1]) & int(
+            Constraint.POWER | Constraint.CLIMB_RESERVE | Constraint.STALL_MARGIN)
+    return i, binding
+
+
+def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None, payload=None,
+                isa_dev=0.0, wind=None, course=None, headwind=None, floor=None, ceiling=None,
+                max_agl=None, elevation=0.0, stall_margin=DEFAULT_STALL_MARGIN,
+                climb_reserve=0.0) -> BestCruise:
+    """Best speed at each altitude and the best altitude (public API).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    altitudes : array_like or pint.Quantity
+        Candidate pressure altitudes [m], increasing.
+    objective : {"range", "endurance", "economy"}
+        What to maximise.
+    mass, fuel, payload : float or pint.Quantity, optional
+        Loading, as in :func:`cruiseplan.cruise_grid`.
+    isa_dev : float or pint.Quantity, optional
+        ISA deviation [K].
+    wind : WindProfile, optional
+        Winds aloft; needs ``course``.
+    course : float, optional
+        True course [deg].
+    headwind : float or pint.Quantity, optional
+        Plain headwind component [m/s] at every altitude (negative: tailwind); not with
+        ``wind``.
+    floor, ceiling : float or pint.Quantity, optional
+        Altitude band [m].
+    max_agl : float or pint.Quantity, optional
+        Maximum height above ground [m] (drones), with ``elevation`` [m] of the ground.
+    elevation : float or pint.Quantity, optional
+        Highest ground elevation under the route [m].
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-] (1.3, common practice).
+    climb_reserve : float or pint.Quantity, optional
+        Climb rate that must remain available at cruise [m/s].
+
+    Returns
+    -------
+    BestCruise
+        Speeds, values and constraints per altitude, and the best altitude.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.7.
+    """
+    from .errors import CruiseplanError
+
+    if objective not in OBJECTIVES:
+        raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
+    h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
+    if h.ndim != 1 or np.any(np.diff(h) <= 0):
+        raise CruiseplanError("altitudes must be one-dimensional and increasing")
+    if wind is not None and headwind is not None:
+        raise CruiseplanError("give either a wind profile (with a course) or a headwind")
+    if wind is not None and course is None:
+        raise CruiseplanError("a wind profile needs the true course to fly")
+    loading = airframe.loading(
+        mass=None if mass is None else to_si(mass, "kg", what="mass"),
+        store=None if fuel is None else _store_si(airframe, fuel),
+        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    air = air_state(h, to_si(isa_dev, "K", what="isa_dev"))
+    if wind is not None:
+        hw, cw = wind.components(float(course), h)
+    else:
+        hw = np.full(h.shape, 0.0 if headwind is None else to_si(headwind, "m/s"))
+        cw = np.zeros(h.shape)
+    sched = speed_schedule(airframe, loading.mass, air, loading.store, headwind=hw,
+                           crosswind=cw, stall_margin=stall_margin,
+                           climb_reserve=to_si(climb_reserve, "m/s", what="climb_reserve"))
+    v = sched.tas[objective]
+    with np.errstate(invalid="ignore"):
+        gs = np.sqrt(v * v - cw * cw) - hw
+    pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
+                        stall_margin=stall_margin)
+    wind_bad = sched.feasible & ~(gs > 0)
+    infeasible = sched.infeasible | np.where(wind_bad, Constraint.WIND, 0).astype(np.uint16)
+    sched = replace(sched, infeasible=infeasible)
+    value = pts.endurance if objective == "endurance" else pts.range_ground
+    value = np.where(sched.feasible, value, np.nan)
+    band = _band(h, *(None if x is None else to_si(x, "m", what=name) for x, name in
+                      ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),
+                 to_si(elevation, "m", what="elevation"))
+    i, binding = choose_altitude(sched, value, band)
+    if i >= 0 and binding == 0:
+        binding = int(sched.binding[objective][i])
+    elif i >= 0:
+        binding |= int(sched.binding[objective][i])
+    return BestCruise(objective, sched, pts, np.where(band == 0, value, np.nan), band, i,
+                      binding)
+
+
+# --- Climb and ceilings ----------------------------------------------------------------
+
+def max_climb_rate(airframe, mass, air: AirState):
+    r"""Maximum steady climb rate and its speed at each air state.
+
+    .. math:: \dot h_{max} = \max_V \frac{\eta_p(V)\,[P_{av} - P_{req}(V)]}{W}
+
+    (small climb angle: the power-required curve of level flight).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float
+        Mass [kg].
+    air : AirState
+        Air states (any shape).
+
+    Returns
+    -------
+    rate : numpy.ndarray
+        Maximum climb rate [m/s] (negative: cannot hold altitude).
+    tas : numpy.ndarray
+        TAS of best climb rate [m/s].
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10, eq. 5.77.
+    """
+    prop = airframe.propulsion
+    avail = prop.shaft_power_available(air.sigma)
+    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    weight = mass * G0
+
+    def rate(v):
+        return prop.propeller(v) * (avail - _shaft_power(airframe, mass, air, v)) / weight
+
+    v = golden_minimise(lambda x: -rate(x), v_s, MACH_LIMIT * air.speed_of_sound)
+    return rate(v), v
+
+
+@dataclass(frozen=True)
+class Ceilings:
+    """Absolute and service ceilings (pressure altitude [m]; NaN with a note if not found)."""
+
+    absolute: float
+    service: float
+    note: str = ""
+
+
+def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
+             service_rate=SERVICE_CEILING_RATE) -> Ceilings:
+    """Absolute (zero climb rate) and service (100 ft/min) ceilings (public API).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass, fuel, payload : float or pint.Quantity, optional
+        Loading, as in :func:`cruiseplan.cruise_grid`.
+    isa_dev : float or pint.Quantity, optional
+        ISA deviation [K].
+    service_rate : float, optional
+        Climb rate defining the service ceiling [m/s]; 100 ft/min by default.
+
+    Returns
+    -------
+    Ceilings
+        Pressure altitudes [m], searched from 0 to 20 000 m.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.11 (absolute and service
+       ceilings).
+    """
+    loading = airframe.loading(
+        mass=None if mass is None else to_si(mass, "kg", what="mass"),
+        store=None if fuel is None else _store_si(airframe, fuel),
+        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    dev = to_si(isa_dev, "K", what="isa_dev")
+    targets = np.array([0.0, float(service_rate)])
+
+    def deficit(h):
+        return targets - max_climb_rate(airframe, loading.mass, air_state(h, dev))[0]
+
+    ends = np.array([0.0, CEILING_SEARCH_TOP])
+    at_ends = deficit(ends[:, None])  # rows: sea level, top; columns: targets
+    found = bisect_increasing(deficit, np.zeros(2), np.full(2, CEILING_SEARCH_TOP),
+                              xtol_rel=1e-9)
+    notes = []
+    out = []
+    for k, name in enumerate(("absolute", "service")):
+        if at_ends[0, k] > 0:
+            out.append(np.nan)
+            notes.append(f"{name} ceiling below sea level at this mass and day")
+        elif at_ends[1, k] <= 0:
+            out.append(np.nan)
+            notes.append(f"{name} ceiling above {CEILING_SEARCH_TOP:.0f} m")
+        else:
+            out.append(float(found[k]))
+    return Ceilings(out[0], out[1], "; ".join(notes))

@@ -1,0 +1,124 @@
+"""Winds aloft: a wind profile interpolated in altitude, and its components on a course.
+
+A profile is a list of (altitude, direction from, speed). Between altitudes the wind's
+north and east components are interpolated linearly (so a veer of 350 to 010 degrees passes
+through north, not south); beyond the ends the nearest wind holds.
+
+Text form, as forecasts are read: ``"270/25@3000ft,250/40@8000ft"`` — direction the wind
+blows from in degrees true, speed (knots unless a unit is given), and the altitude
+(feet unless a unit is given).
+
+References
+----------
+.. [1] FAA, *Pilot's Handbook of Aeronautical Knowledge*, FAA-H-8083-25, ch. 16
+   (winds aloft and the wind triangle).
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+import numpy as np
+
+from .airspeed import wind_components
+
+
+@dataclass(frozen=True)
+class WindProfile:
+    """Winds at several altitudes (SI).
+
+    Parameters
+    ----------
+    altitudes : tuple of float
+        Pressure altitudes [m], increasing.
+    directions : tuple of float
+        Direction the wind blows from [deg true].
+    speeds : tuple of float
+        Wind speed [m/s].
+    """
+
+    altitudes: tuple
+    directions: tuple
+    speeds: tuple
+
+    def __post_init__(self):
+        h = np.asarray(self.altitudes, dtype=float)
+        if h.size == 0 or not (len(self.directions) == len(self.speeds) == h.size):
+            raise ValueError("a wind profile needs matching altitudes, directions and speeds")
+        if np.any(np.diff(h) <= 0):
+            raise ValueError("wind profile altitudes must increase")
+        if np.any(np.asarray(self.speeds) < 0):
+            raise ValueError("wind speeds must not be negative")
+
+    @classmethod
+    def calm(cls) -> WindProfile:
+        """No wind at any altitude."""
+        return cls((0.0,), (0.0,), (0.0,))
+
+    def vector(self, altitude):
+        """North and east components of the velocity the air moves with [m/s]."""
+        d = np.radians(np.asarray(self.directions, dtype=float))
+        s = np.asarray(self.speeds, dtype=float)
+        # Wind *from* d moves the air towards d + 180 deg.
+        north, east = -s * np.cos(d), -s * np.sin(d)
+        h = np.asarray(altitude, dtype=float)
+        return (np.interp(h, self.altitudes, north), np.interp(h, self.altitudes, east))
+
+    def at(self, altitude):
+        """Direction from [deg] and speed [m/s] at pressure altitudes [m]."""
+        north, east = self.vector(altitude)
+        speed = np.hypot(north, east)
+        direction = np.mod(np.degrees(np.arctan2(-east, -north)), 360.0)
+        return direction, speed
+
+    def components(self, course_deg, altitude):
+        """Headwind and crosswind from the right [m/s] on a true course at altitudes [m]."""
+        direction, speed = self.at(altitude)
+        return wind_components(course_deg, direction, speed)
+
+
+_WIND = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*/\s*([^@]+?)\s*@\s*(.+?)\s*$")
+
+
+def parse_wind_profile(text: str) -> WindProfile:
+    """Read ``"270/25@3000ft,250/40@8000ft"`` into a :class:`WindProfile`.
+
+    Parameters
+    ----------
+    text : str
+        Comma-separated ``DIR/SPEED@ALTITUDE`` entries; speed in knots and altitude in feet
+        unless units are written (``"250/12m/s@300m"``).
+
+    Returns
+    -------
+    WindProfile
+        Sorted by altitude.
+
+    Raises
+    ------
+    UnitError
+        Naming the entry that cannot be read.
+    """
+    from .errors import UnitError
+    from .units import parse_quantity
+
+    entries = []
+    for item in text.split(","):
+        m = _WIND.match(item)
+        if not m:
+            raise UnitError(f"wind {item.strip()!r}: expected DIR/SPEED@ALTITUDE, "
+                            "e.g. '270/25@3000ft'")
+        direction = float(m.group(1))
+        if not 0.0 <= direction <= 360.0:
+            raise UnitError(f"wind {item.strip()!r}: direction {direction:g} is not 0-360 deg")
+        speed = parse_quantity(m.group(2), "m/s", default_unit="kt", what="wind speed")
+        if speed < 0:
+            raise UnitError(f"wind {item.strip()!r}: speed must not be negative")
+        alt = parse_quantity(m.group(3), "m", default_unit="ft", what="wind altitude")
+        entries.append((alt, direction, speed))
+    entries.sort()
+    alts = [e[0] for e in entries]
+    if len(set(alts)) != len(alts):
+        raise UnitError(f"wind {text!r}: two winds at the same altitude")
+    return WindProfile(tuple(alts), tuple(e[1] for e in entries), tuple(e[2] for e in entries))
