@@ -70,6 +70,33 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--stall-margin", type=float, default=1.3,
                    help="minimum TAS over stall speed (default 1.3)")
     _add_output(p)
+
+    p = sub.add_parser("best", help="best speed at each altitude and the best altitude")
+    p.add_argument("airframe", help="bundled airframe name or path to an airframe TOML file")
+    p.add_argument("--altitudes", help="candidate pressure altitudes (default "
+                                       "0:12000ft:1000ft; drones 0:500m:25m)")
+    p.add_argument("--objective", choices=("range", "endurance", "economy"), default="range")
+    wind = p.add_mutually_exclusive_group()
+    wind.add_argument("--wind", help="winds aloft DIR/SPEED@ALT, e.g. "
+                                     "'270/25@3000ft,250/40@8000ft' (needs --course)")
+    wind.add_argument("--headwind", help="headwind component at every altitude, e.g. '20kt' "
+                                         "(negative: tailwind)")
+    p.add_argument("--course", type=float, help="true course [deg] for --wind")
+    p.add_argument("--floor", help="lowest altitude allowed, e.g. '3000ft'")
+    p.add_argument("--ceiling", help="highest altitude allowed, e.g. '9500ft'")
+    p.add_argument("--max-agl", help="maximum height above ground, e.g. '120m' (drones)")
+    p.add_argument("--elevation", default="0", help="highest ground elevation under the "
+                                                    "route, e.g. '450m' (with --max-agl)")
+    p.add_argument("--climb-reserve", default="0",
+                   help="climb rate that must remain at cruise, e.g. '300ft/min'")
+    load = p.add_mutually_exclusive_group()
+    load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
+    load.add_argument("--fuel", help="fuel or energy on board (default full)")
+    p.add_argument("--payload", help="crew and payload (default from file)")
+    p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
+    p.add_argument("--stall-margin", type=float, default=1.3,
+                   help="minimum TAS over stall speed (default 1.3)")
+    _add_output(p, formats=("text", "json", "csv", "markdown"))
     return parser
 
 
@@ -199,7 +226,65 @@ def cmd_table(args):
     _emit(rep.render(args.format), args.output)
 
 
-COMMANDS = {"airframes": cmd_airframes, "atmosphere": cmd_atmosphere, "table": cmd_table}
+def _loading_args(af, args):
+    from .units import parse_quantity
+
+    if args.stall_margin < 1.0:
+        raise CruiseplanError(f"--stall-margin {args.stall_margin:g} must be at least 1")
+    return dict(
+        mass=parse_quantity(args.weight, "kg", default_unit="lb", what="--weight")
+        if args.weight else None,
+        fuel=_parse_store(af, args.fuel) if args.fuel else None,
+        payload=parse_quantity(args.payload, "kg", default_unit="kg", what="--payload")
+        if args.payload else None)
+
+
+def cmd_best(args):
+    """Print the best speeds by altitude and the best altitude."""
+    from .airframe_files import load_airframe
+    from .optimise import best_cruise
+    from .tables import best_report
+    from .units import parse_quantity, parse_range
+    from .winds import parse_wind_profile
+
+    af = load_airframe(args.airframe)
+    electric = af.propulsion.store_name == "energy"
+    units = args.units or _default_units(af)
+    alt_text = args.altitudes or ("0:500m:25m" if electric else "0:12000ft:1000ft")
+    h = parse_range(alt_text, "m", default_unit="ft", what="--altitudes")
+    dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
+    wind, headwind, wind_text = None, None, "calm"
+    if args.wind:
+        if args.course is None:
+            raise CruiseplanError("--wind needs --course (true course in degrees)")
+        wind = parse_wind_profile(args.wind)
+        wind_text = f"{args.wind} on course {args.course:03.0f}"
+    elif args.course is not None:
+        raise CruiseplanError("--course goes with --wind")
+    if args.headwind:
+        headwind = parse_quantity(args.headwind, "m/s", default_unit="kt", what="--headwind")
+        wind_text = f"headwind component {args.headwind}"
+
+    def opt(text, what):
+        return None if text is None else parse_quantity(text, "m", default_unit="ft",
+                                                        what=what)
+
+    if args.max_agl is None and args.elevation not in (None, "0"):
+        raise CruiseplanError("--elevation goes with --max-agl")
+    best = best_cruise(
+        af, h, objective=args.objective, isa_dev=dev, wind=wind, course=args.course,
+        headwind=headwind, floor=opt(args.floor, "--floor"),
+        ceiling=opt(args.ceiling, "--ceiling"), max_agl=opt(args.max_agl, "--max-agl"),
+        elevation=opt(args.elevation, "--elevation"),
+        climb_reserve=parse_quantity(args.climb_reserve, "m/s", default_unit="ft/min",
+                                     what="--climb-reserve"),
+        stall_margin=args.stall_margin, **_loading_args(af, args))
+    rep = best_report(af, best, isa_dev=dev, units=units, wind_text=wind_text)
+    _emit(rep.render(args.format), args.output)
+
+
+COMMANDS = {"airframes": cmd_airframes, "atmosphere": cmd_atmosphere, "table": cmd_table,
+            "best": cmd_best}
 
 
 def _show_warning(message, category, filename, lineno, file=None, line=None):

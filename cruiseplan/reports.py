@@ -88,6 +88,7 @@ class Report:
     columns: list
     notes: list = field(default_factory=list)
     cautions: tuple = ()
+    summary: dict = field(default_factory=dict)
 
     @property
     def n_rows(self) -> int:
@@ -178,6 +179,8 @@ def _json(rep: Report) -> str:
         "notes": rep.notes,
         "cautions": list(rep.cautions),
     }
+    if rep.summary:
+        doc["summary"] = {k: _jsonable(v) for k, v in rep.summary.items()}
     return json.dumps(doc, indent=1) + "\n"
 
 

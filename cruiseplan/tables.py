@@ -180,3 +180,95 @@ def atmosphere_report(air, units: str = "aviation") -> Report:
     meta = ["ISA (ICAO Doc 7488/3) evaluated by ambiance at pressure altitude; temperature "
             "ISA + deviation, pressure unchanged, density from the gas law"]
     return Report("Atmosphere", meta, cols, [], _cautions())
+
+
+def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
+                wind_text: str = "calm") -> Report:
+    """Lay out a :class:`~cruiseplan.optimise.BestCruise` by altitude, best altitude first.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    best : BestCruise
+        The optimiser's answer.
+    isa_dev : float
+        ISA deviation [K].
+    units : {"aviation", "si"}
+        Display unit system.
+    wind_text : str
+        How the wind was given, for the header.
+
+    Returns
+    -------
+    Report
+        One row per altitude; the header states the best altitude and what binds.
+    """
+    from .optimise import describe
+
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fd, ld = display("distance", units)
+    prop = airframe.propulsion
+    sched, pts = best.schedule, best.points
+    obj = best.objective
+    n = np.size(best.altitudes)
+
+    def flat(a):
+        return np.broadcast_to(a, (n,)).tolist()
+
+    cols = [
+        Column("PA", la, flat(best.altitudes * fa), "{:.0f}"),
+        Column("OAT", "degC", flat(sched.air.temperature - T_ZERO_C), "{:.0f}"),
+        Column("headwind", ls, flat(sched.headwind * fs), "{:.0f}"),
+        Column("V range", ls, flat(sched.tas["range"] * fs), "{:.0f}"),
+        Column("V endur", ls, flat(sched.tas["endurance"] * fs), "{:.0f}"),
+        Column("V econ", ls, flat(sched.tas["economy"] * fs), "{:.0f}"),
+        Column("TAS", ls, flat(pts.tas * fs), "{:.1f}"),
+        Column("CAS", ls, flat(pts.cas() * fs), "{:.1f}"),
+        Column("GS", ls, flat(pts.ground_speed * fs), "{:.1f}"),
+        Column("power", "% rated", flat(pts.power_fraction * 100.0), "{:.0f}"),
+    ]
+    if prop.store_name == "fuel":
+        fv, lv = display("volume_flow", units)
+        fsr, lsr = display("sr_fuel", units)
+        cols += [Column("fuel flow", lv, flat(pts.fuel_volume_flow * fv), "{:.1f}"),
+                 Column("gnd SR", lsr,
+                        flat(pts.specific_range_ground * prop.fuel_density * fsr), "{:.2f}")]
+    else:
+        fw, lw = display("electric_power", units)
+        fsr, lsr = display("sr_energy", units)
+        cols += [Column("battery", lw, flat(pts.store_flow * fw), "{:.0f}"),
+                 Column("gnd SR", lsr, flat(pts.specific_range_ground * fsr), "{:.1f}")]
+    feasible = best.feasible
+    cols += [
+        Column("endurance", "h:mm", [hours_minutes(t) if ok else "-" for t, ok in
+                                     zip(flat(pts.endurance), feasible)], "{}"),
+        Column("gnd range", ld, [r if ok else None for r, ok in
+                                 zip(flat(pts.range_ground * fd), feasible)], "{:.0f}"),
+        Column("status", "", [("BEST " if i == best.best_index else "") + best.reason(i)
+                              for i in range(n)], "{}"),
+    ]
+    b = best.best()
+    fm, lm = display("mass", units)
+    if b["feasible"]:
+        i = best.best_index
+        head = (f"Best altitude for {obj}: {b['altitude'] * fa:.0f} {la} at "
+                f"{b['tas'] * fs:.0f} {ls} TAS ({pts.cas()[i] * fs:.0f} {ls} CAS), "
+                f"ground speed {b['ground_speed'] * fs:.0f} {ls}, "
+                f"{b['power_fraction'] * 100:.0f} % power; binding: {b['binding']}")
+    else:
+        head = f"No flyable altitude for {obj}: {b['binding']}"
+    meta = airframe_lines(airframe) + [
+        head,
+        f"Mass {pts.mass * fm:.1f} {lm}; {store_text(airframe, pts.store, units)}",
+        f"Day: ISA {isa_dev:+.0f} K; wind: {wind_text}; altitudes are pressure altitudes",
+        f"Endurance and range: all usable {prop.store_name} at this speed, NO reserve, "
+        "no climb or descent",
+        f"Made {date.today().isoformat()} by cruiseplan",
+    ]
+    notes = ["V range / V endur / V econ: best-range, best-endurance and economy (99 % of best "
+             "specific range) TAS at each altitude, within the speed constraints"]
+    summary = {f"best_{k}": v for k, v in b.items()}
+    summary["units"] = "SI (m, m/s, s, and m for ranges)"
+    return Report(f"Best cruise ({obj})", meta, cols, notes, _cautions(), summary)
