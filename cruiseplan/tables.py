@@ -204,8 +204,6 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
     Report
         One row per altitude; the header states the best altitude and what binds.
     """
-    from .optimise import describe
-
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
     fd, ld = display("distance", units)
