@@ -51,3 +51,121 @@ def bisect_increasing(f, lo, hi, *, xtol_rel=1e-12, max_iter=200):
         a = np.where(below, m, a)
         b = np.where(below, b, m)
     return 0.5 * (a + b)
+
+
+_SQRT_EPS = np.sqrt(np.finfo(float).eps)
+_GOLDEN_MEAN = 0.5 * (3.0 - np.sqrt(5.0))
+
+
+def brent_minimise(f, lo, hi, *, xtol_rel=1e-10, max_iter=500):
+    """Minimise ``f`` on [lo, hi] element-wise by Brent's method (golden section with
+    parabolic interpolation), all elements at once.
+
+    The steps follow Brent's bounded minimiser (as in ``scipy.optimize.fminbound``), with
+    every branch taken per element through masks. A smooth optimum takes about ten
+    evaluations of ``f``; a kink falls back to golden-section steps, so it never does worse
+    than golden section by more than a small factor. NaN values count as worse.
+
+    References
+    ----------
+    .. [1] R. P. Brent, *Algorithms for Minimization without Derivatives*, Prentice-Hall,
+       1973, ch. 5.
+    """
+    a, b = np.broadcast_arrays(np.asarray(lo, dtype=float), np.asarray(hi, dtype=float))
+    a, b = a.copy(), b.copy()
+    xatol = xtol_rel * np.maximum(np.abs(a) + np.abs(b), 1e-300)
+    xf = a + _GOLDEN_MEAN * (b - a)
+    nfc, fulc = xf.copy(), xf.copy()
+    fx = _finite(f(xf))
+    fnfc, ffulc = fx.copy(), fx.copy()
+    rat = np.zeros_like(a)
+    e = np.zeros_like(a)
+    for _ in range(max_iter):
+        xm = 0.5 * (a + b)
+        tol1 = _SQRT_EPS * np.abs(xf) + xatol / 3.0
+        tol2 = 2.0 * tol1
+        active = np.abs(xf - xm) > (tol2 - 0.5 * (b - a))
+        if not np.any(active):
+            break
+        # Parabola through the three best points.
+        r = (xf - nfc) * (fx - ffulc)
+        q = (xf - fulc) * (fx - fnfc)
+        p = (xf - fulc) * q - (xf - nfc) * r
+        q = 2.0 * (q - r)
+        p = np.where(q > 0.0, -p, p)
+        q = np.abs(q)
+        try_parabola = np.abs(e) > tol1
+        e_old = e
+        e = np.where(try_parabola, rat, e)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            accept = (try_parabola & (np.abs(p) < np.abs(0.5 * q * e_old))
+                      & (p > q * (a - xf)) & (p < q * (b - xf)))
+            rat_par = p / q
+        x_par = xf + rat_par
+        near_end = ((x_par - a) < tol2) | ((b - x_par) < tol2)
+        sign_m = np.sign(xm - xf) + ((xm - xf) == 0)
+        rat_par = np.where(near_end, tol1 * sign_m, rat_par)
+        e_gold = np.where(xf >= xm, a - xf, b - xf)
+        e = np.where(accept, e, e_gold)
+        rat = np.where(accept, rat_par, _GOLDEN_MEAN * e_gold)
+        si = np.sign(rat) + (rat == 0)
+        x = xf + si * np.maximum(np.abs(rat), tol1)
+        x = np.where(active, x, xf)
+        fu = _finite(f(x))
+        better = (fu <= fx) & active
+        worse = ~better & active
+        # Bracket update.
+        a = np.where(better & (x >= xf), xf, np.where(worse & (x < xf), x, a))
+        b = np.where(better & (x < xf), xf, np.where(worse & (x >= xf), x, b))
+        # Best-point bookkeeping.
+        w1 = worse & ((fu <= fnfc) | (nfc == xf))
+        w2 = worse & ~w1 & ((fu <= ffulc) | (fulc == xf) | (fulc == nfc))
+        fulc, ffulc = (np.where(better | w1, nfc, np.where(w2, x, fulc)),
+                       np.where(better | w1, fnfc, np.where(w2, fu, ffulc)))
+        nfc, fnfc = (np.where(better, xf, np.where(w1, x, nfc)),
+                     np.where(better, fx, np.where(w1, fu, fnfc)))
+        xf, fx = np.where(better, x, xf), np.where(better, fu, fx)
+    return xf
+
+
+def _finite(values):
+    values = np.asarray(values, dtype=float)
+    return np.where(np.isnan(values), np.inf, values)
+
+
+def illinois_root(f, lo, hi, *, xtol_rel=1e-12, max_iter=200):
+    """Root of ``f`` on [lo, hi] element-wise by the Illinois (modified false position)
+    method, for a sign change between the ends; converges superlinearly.
+
+    Elements without a sign change return the end with the smaller ``|f|``; callers check
+    the bracket.
+
+    References
+    ----------
+    .. [1] M. Dowell and P. Jarratt, "A modified regula falsi method for computing the root
+       of an equation", *BIT* 11, 1971, pp. 168-174.
+    """
+    a, b = np.broadcast_arrays(np.asarray(lo, dtype=float), np.asarray(hi, dtype=float))
+    a, b = a.copy(), b.copy()
+    fa, fb = np.asarray(f(a), dtype=float), np.asarray(f(b), dtype=float)
+    fa, fb = np.broadcast_to(fa, a.shape).copy(), np.broadcast_to(fb, b.shape).copy()
+    bracketed = np.sign(fa) * np.sign(fb) <= 0
+    fallback = np.where(np.abs(fa) <= np.abs(fb), a, b)
+    for _ in range(max_iter):
+        with np.errstate(divide="ignore", invalid="ignore"):
+            c = b - fb * (b - a) / (fb - fa)
+        bad = ~np.isfinite(c) | (c <= np.minimum(a, b)) | (c >= np.maximum(a, b))
+        c = np.where(bad, 0.5 * (a + b), c)
+        done = (np.abs(b - a) <= xtol_rel * np.maximum(np.abs(a) + np.abs(b), 1e-300)) \
+            | (fb == 0) | ~bracketed
+        if np.all(done):
+            break
+        c = np.where(done, b, c)
+        fc = np.asarray(f(c), dtype=float)
+        # Keep the sign change between a and b; halve the stale end's value (Illinois).
+        flip = np.sign(fc) * np.sign(fb) < 0
+        a_new = np.where(flip, b, a)
+        fa_new = np.where(flip, fb, 0.5 * fa)
+        a, fa = np.where(done, a, a_new), np.where(done, fa, fa_new)
+        b, fb = np.where(done, b, c), np.where(done, fb, fc)
+    return np.where(bracketed, b, fallback)

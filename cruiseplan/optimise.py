@@ -12,7 +12,8 @@ At each altitude (all altitudes at once, vectorised):
 
 Closed forms are used where the model allows them (symmetric parabolic polar, constant
 propeller efficiency, calm air, no Peukert effect); otherwise vectorised golden-section
-searches, never a per-altitude scalar optimiser.
+searches (Brent's method and Illinois root finding run on all altitudes at once), never
+a per-altitude scalar optimiser.
 
 Constraints, each reported when it binds:
 
@@ -42,7 +43,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from ._numerics import bisect_increasing, golden_minimise
+from ._numerics import brent_minimise, illinois_root
 from .aerodynamics import ParabolicPolar, speed_for_lift_coefficient
 from .atmosphere import AirState, air_state, check_altitude
 from .constants import G0
@@ -160,12 +161,13 @@ def _window(airframe, mass, air, lo, hi, reserve_rate, shaft):
     def excess(v):
         return prop.propeller(v) * (avail - shaft(v)) - weight * reserve_rate
 
-    v_x = golden_minimise(lambda v: -excess(v), lo, hi)
+    # v_x only splits the bracket for the two roots: modest precision is enough.
+    v_x = brent_minimise(lambda v: -excess(v), lo, hi, xtol_rel=1e-6)
     ok = excess(v_x) >= 0.0
     e_lo, e_hi = excess(lo), excess(hi)
-    v_lo = np.where(e_lo >= 0, lo, bisect_increasing(excess, lo, v_x, xtol_rel=1e-11))
+    v_lo = np.where(e_lo >= 0, lo, illinois_root(excess, lo, v_x, xtol_rel=1e-11))
     v_hi = np.where(e_hi >= 0, hi,
-                    bisect_increasing(lambda v: -excess(v), v_x, hi, xtol_rel=1e-11))
+                    illinois_root(lambda v: -excess(v), v_x, hi, xtol_rel=1e-11))
     return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), ok
 
 
@@ -223,15 +225,15 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
         v_range = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
                                              np.sqrt(polar.cd0 / polar.k))
     else:
-        v_range = golden_minimise(lambda v: -ground_range(v), lo, hi)
+        v_range = brent_minimise(lambda v: -ground_range(v), lo, hi)
     if _closed_form_ok(airframe, 0.0, 0.0):
         polar = airframe.polar
         v_end = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
                                            np.sqrt(3.0 * polar.cd0 / polar.k))
     else:
-        v_end = golden_minimise(shaft, lo, hi)
+        v_end = brent_minimise(shaft, lo, hi)
     best = ground_range(v_range)
-    v_econ = bisect_increasing(lambda v: ECONOMY_FRACTION * best - ground_range(v),
+    v_econ = illinois_root(lambda v: ECONOMY_FRACTION * best - ground_range(v),
                                v_range, hi, xtol_rel=1e-11)
 
     # Windows: with and without the climb reserve, to tell which one binds.
@@ -544,7 +546,7 @@ def max_climb_rate(airframe, mass, air: AirState):
     def rate(v):
         return prop.propeller(v) * (avail - _shaft_power(airframe, mass, air, v)) / weight
 
-    v = golden_minimise(lambda x: -rate(x), v_s, MACH_LIMIT * air.speed_of_sound)
+    v = brent_minimise(lambda x: -rate(x), v_s, MACH_LIMIT * air.speed_of_sound)
     return rate(v), v
 
 
@@ -594,7 +596,7 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
 
     ends = np.array([0.0, CEILING_SEARCH_TOP])
     at_ends = deficit(ends[:, None])  # rows: sea level, top; columns: targets
-    found = bisect_increasing(deficit, np.zeros(2), np.full(2, CEILING_SEARCH_TOP),
+    found = illinois_root(deficit, np.zeros(2), np.full(2, CEILING_SEARCH_TOP),
                               xtol_rel=1e-9)
     notes = []
     out = []

@@ -29,7 +29,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from . import airspeed as _airspeed
-from ._numerics import bisect_increasing, golden_minimise
+from ._numerics import brent_minimise, illinois_root
 from .aerodynamics import lift_coefficient, speed_for_lift_coefficient
 from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state
 from .constants import G0
@@ -375,7 +375,7 @@ def min_power_speed(airframe, mass, air: AirState, *, v_hi=None):
     """
     v_stall = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
     v_hi = MACH_LIMIT * air.speed_of_sound if v_hi is None else v_hi
-    return golden_minimise(lambda v: _shaft_power(airframe, mass, air, v), 0.5 * v_stall, v_hi)
+    return brent_minimise(lambda v: _shaft_power(airframe, mass, air, v), 0.5 * v_stall, v_hi)
 
 
 def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *,
@@ -423,7 +423,7 @@ def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *
     p_min = _shaft_power(airframe, mass, air, v_mp)
     p_hi = _shaft_power(airframe, mass, air, v_hi)
     shape = np.broadcast_shapes(np.shape(target), np.shape(v_mp))
-    v = bisect_increasing(lambda x: _shaft_power(airframe, mass, air, x) - target,
+    v = illinois_root(lambda x: _shaft_power(airframe, mass, air, x) - target,
                           np.broadcast_to(v_mp, shape), np.broadcast_to(v_hi, shape))
     too_much = target > available * (1 + 1e-12)
     too_little = target < p_min
