@@ -1,10 +1,11 @@
 """Issue 3 benchmark: best cruise at 1000 altitudes, public API vs a per-altitude loop.
 
 The loop calls `scipy.optimize.minimize_scalar` and `brentq` once per altitude and output
-on the same model (cruiseplan's own level-flight power and range functions), for the same
-speeds the API returns: best range, best endurance, economy and the power-limited window.
-That is what a user without a vectorised optimiser would write. Reports both times, their ratio (target
->= 100x) and the largest relative disagreement of the speeds (target <= 1e-6).
+on the same model (cruiseplan's own level-flight power and range functions), for the
+same speeds the API returns: best range, best endurance, economy and the power-limited
+window. That is what a user without a vectorised optimiser would write. Reports both
+times, their ratio (target >= 100x) and the largest relative disagreement of the speeds
+(target <= 1e-6).
 """
 
 from __future__ import annotations

@@ -58,11 +58,11 @@ _GOLDEN_MEAN = 0.5 * (3.0 - np.sqrt(5.0))
 
 
 def brent_minimise(f, lo, hi, *, xtol_rel=1e-10, max_iter=500):
-    """Minimise ``f`` on [lo, hi] element-wise by Brent's method (golden section with
-    parabolic interpolation), all elements at once.
+    """Minimise ``f`` on [lo, hi] element-wise by Brent's method, all elements at once.
 
-    The steps follow Brent's bounded minimiser (as in ``scipy.optimize.fminbound``), with
-    every branch taken per element through masks. A smooth optimum takes about ten
+    Golden-section search with parabolic interpolation. The steps follow Brent's bounded
+    minimiser (as in ``scipy.optimize.fminbound``), every branch taken per element through
+    masks. A smooth optimum takes about ten
     evaluations of ``f``; a kink falls back to golden-section steps, so it never does worse
     than golden section by more than a small factor. NaN values count as worse.
 
@@ -134,8 +134,9 @@ def _finite(values):
 
 
 def illinois_root(f, lo, hi, *, xtol_rel=1e-12, max_iter=200):
-    """Root of ``f`` on [lo, hi] element-wise by the Illinois (modified false position)
-    method, for a sign change between the ends; converges superlinearly.
+    """Root of ``f`` on [lo, hi] element-wise by the Illinois method.
+
+    Modified false position, for a sign change between the ends; superlinear.
 
     Elements without a sign change return the end with the smaller ``|f|``; callers check
     the bracket.
