@@ -379,15 +379,26 @@ def _pick(score) -> int:
     return int(np.flatnonzero(score >= np.max(score) * (1 - TIE_TOLERANCE))[-1])
 
 
-def choose_altitude(schedule: SpeedSchedule, value, out_of_band) -> tuple:
-    """Pick the best flyable in-band altitude and the constraint that binds the choice.
+def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
+                    out_of_band) -> tuple:
+    """Pick the best flyable in-band altitude and the constraints that bind the choice.
+
+    A constraint binds when relaxing it would give a better answer: the best altitude
+    *without* any constraint (``value_free``, the objective at the unconstrained speed) is
+    compared with the chosen one, and what stops us there is reported, together with what
+    limits the chosen altitude's speed.
 
     Parameters
     ----------
     schedule : SpeedSchedule
         Speeds and feasibility per altitude.
+    objective : str
+        Objective name (key of ``schedule.binding``).
     value : numpy.ndarray
-        Objective per altitude (larger is better; NaN where not flyable).
+        Objective per altitude at the constrained speed (larger is better; NaN where not
+        flyable).
+    value_free : numpy.ndarray
+        Objective per altitude at the unconstrained speed, flyable or not.
     out_of_band : numpy.ndarray
         Band constraint bits per altitude.
 
@@ -396,25 +407,27 @@ def choose_altitude(schedule: SpeedSchedule, value, out_of_band) -> tuple:
     best_index : int
         -1 when nothing is flyable.
     binding : int
-        Constraint bits: the band edge when a better altitude lies beyond it, power or
-        climb reserve when the next altitude up cannot be flown, else the speed's binding.
+        :class:`Constraint` bits.
     """
     feasible = schedule.feasible
+    speed_binding = schedule.binding[objective]
     usable = feasible & (out_of_band == 0) & np.isfinite(value)
     if not np.any(usable):
         codes = np.bitwise_or.reduce(schedule.infeasible | out_of_band) if value.size else 0
         return -1, int(codes)
     i = _pick(np.where(usable, value, -np.inf))
-    binding = 0
+    binding = int(speed_binding[i])
+    free = np.where(np.isfinite(value_free), value_free, -np.inf)
+    k = _pick(free)
+    threshold = value[i] * (1 - TIE_TOLERANCE)
+    if k != i and free[k] >= threshold:
+        # The nearest altitude towards the free optimum that would be as good: what stops
+        # us there is what binds (not constraints further away).
+        between = np.arange(i + 1, k + 1) if k > i else np.arange(k, i)[::-1]
+        j = int(between[np.argmax(free[between] >= threshold)])
+        binding |= int(out_of_band[j]) | int(schedule.infeasible[j]) | int(speed_binding[j])
     if i == value.size - 1 and i > 0 and value[i] >= value[i - 1] * (1 - TIE_TOLERANCE):
         binding |= int(Constraint.CEILING)  # the top of the altitudes searched
-    j = _pick(np.where(feasible & np.isfinite(value), value, -np.inf))
-    if j != i and out_of_band[j]:
-        binding |= int(out_of_band[j])
-    elif i + 1 < value.size and not feasible[i + 1] and i > 0 and value[i] > value[i - 1]:
-        # Better higher up, but the next altitude cannot be flown: a performance ceiling.
-        binding |= int(schedule.infeasible[i + 1]) & int(
-            Constraint.POWER | Constraint.CLIMB_RESERVE | Constraint.STALL_MARGIN)
     return i, binding
 
 
@@ -497,14 +510,16 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     sched = replace(sched, infeasible=infeasible)
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
+    v_free = sched.tas_unconstrained[objective]
+    with np.errstate(invalid="ignore"):
+        gs_free = np.sqrt(v_free * v_free - cw * cw) - hw
+    free = cruise_points(airframe, loading.mass, air, v_free, loading.store,
+                         ground_speed=gs_free)
+    value_free = free.endurance if objective == "endurance" else free.range_ground
     band = _band(h, *(None if x is None else to_si(x, "m", what=name) for x, name in
                       ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),
                  to_si(elevation, "m", what="elevation"))
-    i, binding = choose_altitude(sched, value, band)
-    if i >= 0 and binding == 0:
-        binding = int(sched.binding[objective][i])
-    elif i >= 0:
-        binding |= int(sched.binding[objective][i])
+    i, binding = choose_altitude(sched, objective, value, value_free, band)
     return BestCruise(objective, sched, pts, np.where(band == 0, value, np.nan), band, i,
                       binding)
 
