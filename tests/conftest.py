@@ -1,0 +1,47 @@
+"""Shared fixtures of the cruiseplan test suite."""
+
+from __future__ import annotations
+
+import textwrap
+
+import pytest
+from hypothesis import HealthCheck, settings
+
+import cruiseplan as cp
+
+# Deterministic property tests (same examples every run, so CI never flakes); no deadline
+# because the first call of a test may import ambiance/pint.
+settings.register_profile(
+    "cruiseplan", deadline=None, max_examples=60, derandomize=True,
+    suppress_health_check=[HealthCheck.function_scoped_fixture])
+settings.load_profile("cruiseplan")
+
+
+@pytest.fixture(scope="session")
+def trainer():
+    """Bundled two-seat piston trainer (constant propeller efficiency)."""
+    return cp.load_airframe("demo-trainer")
+
+
+@pytest.fixture(scope="session")
+def tourer():
+    """Bundled piston tourer (propeller efficiency tabulated against TAS)."""
+    return cp.load_airframe("demo-tourer")
+
+
+@pytest.fixture(scope="session")
+def drone():
+    """Bundled electric survey drone (Peukert exponent 1.03)."""
+    return cp.load_airframe("demo-survey-drone")
+
+
+@pytest.fixture
+def write_toml(tmp_path):
+    """Write a TOML text (dedented) to ``tmp_path / name`` and return the path."""
+
+    def write(text: str, name: str = "airframe.toml"):
+        path = tmp_path / name
+        path.write_text(textwrap.dedent(text), encoding="utf-8")
+        return path
+
+    return write
