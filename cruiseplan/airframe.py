@@ -100,9 +100,11 @@ class Airframe:
         prop = self.propulsion
         cap = prop.store_capacity
         unit = "kg of fuel" if prop.store_name == "fuel" else "J of usable energy"
+        short = "kg" if prop.store_name == "fuel" else "J"
         payload = self.payload if payload is None else float(payload)
         if store is not None and not (0.0 <= store <= cap * (1 + 1e-9)):
-            raise CruiseplanError(f"{prop.store_name} on board {store:.4g} is outside 0 to the "
+            raise CruiseplanError(f"{prop.store_name} on board {store:.4g} {short} is outside 0 "
+                                  f"to the "
                                   f"capacity of {self.name}, {cap:.4g} {unit}")
         fuel_counts = prop.store_name == "fuel"
         if mass is None:

@@ -316,12 +316,10 @@ def read_airframe(path) -> Airframe:
     else:
         polar = polar_vals
     propulsion = _propulsion(r)
-    if propulsion.store_name == "fuel":
-        full = masses["empty"] + masses["payload"] + propulsion.store_capacity
-    else:
-        full = masses["empty"] + masses["payload"]
-    if masses["empty"] + masses["payload"] > masses["max_takeoff"] * (1 + 1e-9):
-        r.fail("[masses] payload", f"empty + payload = {full:.1f} kg exceeds max_takeoff")
+    zero_fuel = masses["empty"] + masses["payload"]
+    if zero_fuel > masses["max_takeoff"] * (1 + 1e-9):
+        r.fail("[masses] payload", f"empty + payload = {zero_fuel:.1f} kg exceeds max_takeoff "
+                                   f"{masses['max_takeoff']:.1f} kg")
     return Airframe(
         name=str(head.get("name", path.stem)),
         description=str(head.get("description", "")),

@@ -33,7 +33,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .constants import BETA_S, G0, GAMMA, LAPSE, R_AIR, RHO0, S_SUTH, T0
+from .constants import BETA_S, G0, GAMMA, LAPSE, P0, R_AIR, RHO0, S_SUTH, T0
 
 #: Valid pressure-altitude range [m] (ambiance: -5004 m to 81 020 m geometric).
 ALTITUDE_MIN = -5000.0
@@ -246,17 +246,40 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
                     np.sqrt(GAMMA * R_AIR * T), sutherland_viscosity(T))
 
 
+#: Layers inverted for density altitude: (base geopotential altitude [m], base ISA
+#: temperature [K], lapse rate [K/m]); ambiance evaluates -5 to 0 km as its own layer.
+_DA_LAYERS = ((-5000.0, T0 + LAPSE * 5000.0, LAPSE), (0.0, T0, LAPSE),
+              (11000.0, T0 - LAPSE * 11000.0, 0.0))
+
+
 @functools.lru_cache(maxsize=1)
-def _tropopause_density() -> float:
-    return float(air_state(11000.0).density)
+def _layer_base_densities() -> tuple:
+    """Each layer's base density on its own curve, as ambiance evaluates it.
+
+    ambiance's layer base pressures are rounded to six digits, so neighbouring layers'
+    curves differ by up to 3e-6 at a boundary; inverting each layer with its own base
+    (read at the layer's middle) keeps the inverse exact to rounding.
+    """
+    tops = [layer[0] for layer in _DA_LAYERS[1:]] + [_DA_MAX]
+    out = []
+    for (h_b, T_b, lapse), top in zip(_DA_LAYERS, tops):
+        h = 0.5 * (h_b + top)
+        rho = float(air_state(h).density)
+        if lapse:
+            n = G0 / (R_AIR * lapse) - 1.0
+            out.append(rho / ((T_b - lapse * (h - h_b)) / T_b) ** n)
+        else:
+            out.append(rho * np.exp(G0 * (h - h_b) / (R_AIR * T_b)))
+    return tuple(out)
 
 
 def density_altitude(density):
     r"""Density altitude: the ISA pressure altitude with the given density (exact).
 
-    In the troposphere
-    :math:`H_\rho = (T_0/L)\,[1 - \sigma^{1/(g_0/(R L) - 1)}]`; in the isothermal layer
-    from 11 to 20 km :math:`H_\rho = 11000 - (R T_{11}/g_0) \ln(\rho/\rho_{11})`.
+    In a layer with lapse rate :math:`L` and base :math:`(H_b, T_b, \rho_b)`,
+    :math:`H_\rho = H_b + (T_b/L)\,[1 - (\rho/\rho_b)^{1/(g_0/(R L) - 1)}]`; in the
+    isothermal layer from 11 to 20 km
+    :math:`H_\rho = 11000 - (R T_{11}/g_0) \ln(\rho/\rho_{11})`.
 
     Parameters
     ----------
@@ -276,16 +299,51 @@ def density_altitude(density):
     from .errors import AtmosphereRangeError
 
     rho = np.asarray(density, dtype=float)
-    rho_11 = _tropopause_density()
     rho_lo = float(air_state(_DA_MAX).density)
     rho_hi = float(air_state(ALTITUDE_MIN).density)
     if np.any(~((rho >= rho_lo * (1 - 1e-12)) & (rho <= rho_hi * (1 + 1e-12)))):
         raise AtmosphereRangeError(
             f"density outside {rho_lo:.4f}..{rho_hi:.4f} kg/m^3: density altitude is "
             f"computed from -5000 m to {_DA_MAX:.0f} m")
-    exponent = 1.0 / (G0 / (R_AIR * LAPSE) - 1.0)
-    sigma = np.clip(rho / RHO0, 1e-12, None)
-    tropo = (T0 / LAPSE) * (1.0 - sigma**exponent)
-    T11 = T0 - LAPSE * 11000.0
-    strato = 11000.0 - (R_AIR * T11 / G0) * np.log(np.clip(rho, 1e-12, None) / rho_11)
-    return np.where(rho >= rho_11, tropo, strato)
+    r = np.clip(rho, 1e-12, None)
+    bases = _layer_base_densities()
+    choices = []
+    for (h_b, T_b, lapse), rho_b in zip(_DA_LAYERS, bases):
+        if lapse:
+            exponent = 1.0 / (G0 / (R_AIR * lapse) - 1.0)
+            choices.append(h_b + (T_b / lapse) * (1.0 - (r / rho_b) ** exponent))
+        else:
+            choices.append(h_b - (R_AIR * T_b / G0) * np.log(r / rho_b))
+    # A density above the next layer's base density lies below that layer.
+    return np.select([rho > bases[1], rho > bases[2]], choices[:2], choices[2])
+
+
+def pressure_altitude_from_altimeter(altitude, altimeter_setting):
+    r"""Pressure altitude from an altitude read with the altimeter set to QNH.
+
+    The altimeter is calibrated to the ISA troposphere with its sub-scale pressure in place
+    of :math:`p_0`, so the ambient pressure where it reads :math:`A` is
+    :math:`p = Q (1 - L A / T_0)^{g_0/(R L)}`, and the pressure altitude
+    :math:`H_p = (T_0/L)[1 - (p/p_0)^{R L/g_0}]`.
+
+    Parameters
+    ----------
+    altitude : array_like
+        Altitude read on the altimeter set to QNH, i.e. altitude above mean sea level [m].
+    altimeter_setting : array_like
+        QNH [Pa].
+
+    Returns
+    -------
+    numpy.ndarray
+        Pressure altitude [m] (troposphere).
+
+    References
+    ----------
+    .. [1] ICAO Doc 7488/3 (1993), troposphere pressure-altitude relation; the altimeter
+       calibration follows it with QNH as the datum pressure.
+    """
+    n = G0 / (R_AIR * LAPSE)
+    A = np.asarray(altitude, dtype=float)
+    p = np.asarray(altimeter_setting, dtype=float) * (1.0 - LAPSE * A / T0) ** n
+    return (T0 / LAPSE) * (1.0 - (p / P0) ** (1.0 / n))

@@ -20,7 +20,9 @@ class _Parser(argparse.ArgumentParser):
     """argparse with one-line errors."""
 
     def error(self, message):
-        raise CruiseplanError(f"{self.prog}: {message}")
+        # "cruiseplan: error: table: ..." names the subcommand once, not the program twice.
+        sub = self.prog.removeprefix("cruiseplan").strip()
+        raise CruiseplanError(f"{sub}: {message}" if sub else message)
 
 
 def _add_output(p, formats=("text", "csv", "json", "markdown")):

@@ -55,7 +55,7 @@ from .performance import (
     _store_si,
     cruise_points,
 )
-from .units import to_si
+from .units import temperature_difference, to_si
 
 #: Fraction of the best specific range kept by the economy speed (common practice).
 ECONOMY_FRACTION = 0.99
@@ -491,7 +491,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
         mass=None if mass is None else to_si(mass, "kg", what="mass"),
         store=None if fuel is None else _store_si(airframe, fuel),
         payload=None if payload is None else to_si(payload, "kg", what="payload"))
-    air = air_state(h, to_si(isa_dev, "K", what="isa_dev"))
+    air = air_state(h, temperature_difference(isa_dev))
     if wind is not None:
         hw, cw = wind.components(float(course), h)
     else:
@@ -603,7 +603,7 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
         mass=None if mass is None else to_si(mass, "kg", what="mass"),
         store=None if fuel is None else _store_si(airframe, fuel),
         payload=None if payload is None else to_si(payload, "kg", what="payload"))
-    dev = to_si(isa_dev, "K", what="isa_dev")
+    dev = temperature_difference(isa_dev)
     targets = np.array([0.0, float(service_rate)])
 
     def deficit(h):

@@ -33,7 +33,7 @@ from ._numerics import brent_minimise, illinois_root
 from .aerodynamics import lift_coefficient, speed_for_lift_coefficient
 from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state
 from .constants import G0
-from .units import to_si
+from .units import temperature_difference, to_si
 
 #: Default stall margin: cruise at or above 1.3 x stall speed (common practice).
 DEFAULT_STALL_MARGIN = 1.3
@@ -284,8 +284,13 @@ def _air_column(altitudes, isa_dev):
     if h.ndim != 1:
         raise ValueError("altitudes must be one-dimensional")
     valid = (h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX)
-    air = air_state(np.clip(h, ALTITUDE_MIN, ALTITUDE_MAX), isa_dev).column()
-    return air, valid[:, None]
+    air = air_state(np.clip(h, ALTITUDE_MIN, ALTITUDE_MAX), isa_dev)
+    if not np.all(valid):
+        # Rows outside the model keep the altitude asked for, and no air values.
+        air = AirState(h, *(np.where(valid, getattr(air, f), np.nan) for f in
+                            ("isa_dev", "temperature", "pressure", "density",
+                             "speed_of_sound", "viscosity")))
+    return air.column(), valid[:, None]
 
 
 def _column(value, n, what):
@@ -339,7 +344,7 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
         mass=None if mass is None else to_si(mass, "kg", what="mass"),
         store=None if fuel is None else _store_si(airframe, fuel),
         payload=None if payload is None else to_si(payload, "kg", what="payload"))
-    air, valid = _air_column(h, to_si(isa_dev, "K", what="isa_dev"))
+    air, valid = _air_column(h, temperature_difference(isa_dev))
     wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
     return cruise_points(airframe, loading.mass, air, v[None, :], loading.store,
                          headwind=wind, stall_margin=stall_margin, valid_air=valid)
@@ -478,7 +483,7 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
         mass=None if mass is None else to_si(mass, "kg", what="mass"),
         store=None if fuel is None else _store_si(airframe, fuel),
         payload=None if payload is None else to_si(payload, "kg", what="payload"))
-    air, valid = _air_column(h, to_si(isa_dev, "K", what="isa_dev"))
+    air, valid = _air_column(h, temperature_difference(isa_dev))
     if not np.all(valid):
         from .atmosphere import check_altitude
 

@@ -178,6 +178,10 @@ class PistonPropeller:
         """Time [s] to burn ``store`` kg of fuel at constant shaft power [W]."""
         return store / self.store_flow(shaft_power)
 
+    def store_rate(self, shaft_power):
+        """Rate the store is used [kg/s] at shaft power [W]: the fuel flow."""
+        return self.store_flow(shaft_power)
+
 
 @dataclass(frozen=True)
 class ElectricPropeller:
@@ -260,6 +264,16 @@ class ElectricPropeller:
         current = p_batt / self.pack_voltage
         fraction = store / (self.pack_voltage * self.capacity)
         return fraction * self.rating_time * (self.capacity / (current * self.rating_time)) ** n
+
+    def store_rate(self, shaft_power):
+        r"""Rate the usable energy is used [W] at shaft power [W], Peukert included.
+
+        Usable energy over the time it lasts at this draw, :math:`E/t(I)`; equal to the
+        battery power when the Peukert exponent is 1, larger at high currents otherwise.
+        Segments flown at different powers add their shares of the pack this way (each
+        uses :math:`\Delta t / t(I)` of it).
+        """
+        return self.battery_energy / self.endurance(self.battery_energy, shaft_power)
 
 
 #: Propulsion kinds by the name used in airframe files.

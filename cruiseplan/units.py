@@ -249,3 +249,29 @@ def parse_range(text: str, si_unit: str, *, default_unit: str | None = None,
     if n > 100000:
         raise UnitError(f"{what}: range {text!r} has {n} points; at most 100000 allowed")
     return start + step * np.arange(n)
+
+
+def temperature_difference(value, *, what: str = "isa_dev") -> float:
+    """An ISA deviation (a temperature *difference*) in kelvin.
+
+    Parameters
+    ----------
+    value : float or str or pint.Quantity
+        Kelvin as a plain number; text such as ``"+10 degC"``; or a Quantity in K,
+        delta_degC, delta_degF, or degC/degF (whose magnitude is then read as a
+        difference, as a pilot writing "ISA +10 degC" means).
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The difference [K].
+    """
+    if isinstance(value, str):
+        return parse_quantity(value, "K", what=what, delta_temperature=True)
+    if is_quantity(value):
+        unit = str(value.units)
+        scale = {"degree_Celsius": 1.0, "degree_Fahrenheit": 5.0 / 9.0}.get(unit)
+        if scale is not None:
+            mag = np.asarray(value.magnitude, dtype=float) * scale
+            return mag if mag.ndim else float(mag)
+    return to_si(value, "K", what=what)

@@ -304,7 +304,7 @@ def test_loading_defaults_and_errors(trainer):
     assert full.mass == pytest.approx(520 + 160 + 72.0) and full.store == pytest.approx(72.0)
     assert trainer.loading(mass=700.0).store == pytest.approx(20.0)
     with pytest.raises(cp.CruiseplanError,
-                       match=r"fuel on board 100 is outside 0 to the capacity of demo-trainer"):
+                       match=r"fuel on board 100 kg is outside 0 to the capacity of demo-trainer"):
         trainer.loading(store=100.0)
     with pytest.raises(cp.CruiseplanError, match=r"mass 600\.0 kg is below empty mass 520\.0 kg "
                                                  r"plus payload 160\.0 kg"):
