@@ -22,6 +22,7 @@ demo: $(VENV)/.installed
 	$(BIN)/cruiseplan airframes
 	$(BIN)/cruiseplan table demo-trainer --altitudes 0:8000ft:2000ft --power 55,65,75 --isa-dev 10 --units aviation
 	$(BIN)/cruiseplan table demo-survey-drone --altitudes 0:300m:100m --speeds 14:26m/s:4m/s --units si
+	$(BIN)/cruiseplan plan demo-cross-country
 
 lint: $(VENV)/.installed-test
 	$(BIN)/ruff check cruiseplan tests benchmarks

@@ -195,6 +195,10 @@ class AirState:
         """Density altitude [m] (see :func:`density_altitude`)."""
         return density_altitude(self.density)
 
+    def row(self, i):
+        """The state at index ``i`` of the first axis."""
+        return AirState(*(np.asarray(getattr(self, f))[i] for f in _FIELDS))
+
     def column(self):
         """Return the state reshaped to a column (n, 1), to broadcast against a row."""
         return AirState(*(np.reshape(getattr(self, f), (-1, 1)) for f in _FIELDS))

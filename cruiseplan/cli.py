@@ -99,6 +99,11 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--stall-margin", type=float, default=1.3,
                    help="minimum TAS over stall speed (default 1.3)")
     _add_output(p, formats=("text", "json", "csv", "markdown"))
+
+    p = sub.add_parser("plan", help="plan a mission file: segments, reserve, GO / NO-GO")
+    p.add_argument("mission", help="mission TOML file, or a bundled mission name")
+    p.add_argument("--plot", metavar="FILE", help="also draw the profile (.png or .pdf)")
+    _add_output(p, formats=("text", "json", "csv", "markdown"))
     return parser
 
 
@@ -285,8 +290,27 @@ def cmd_best(args):
     _emit(rep.render(args.format), args.output)
 
 
+def cmd_plan(args):
+    """Plan a mission; a NO-GO is a result (exit 0), not an error."""
+    from .mission import plan_mission
+    from .mission_files import load_mission
+    from .tables import plan_report
+
+    if args.plot and not args.plot.lower().endswith((".png", ".pdf")):
+        raise CruiseplanError(f"--plot {args.plot}: the file must end in .png or .pdf")
+    plan = plan_mission(load_mission(args.mission))
+    text = plan_report(plan, args.units).render(args.format)
+    if args.plot:
+        from .plots import figure_bytes, mission_profile
+        from .reports import write_bytes_atomic
+
+        data = figure_bytes(mission_profile(plan, units=args.units), args.plot)
+        write_bytes_atomic(args.plot, data)
+    _emit(text, args.output)
+
+
 COMMANDS = {"airframes": cmd_airframes, "atmosphere": cmd_atmosphere, "table": cmd_table,
-            "best": cmd_best}
+            "best": cmd_best, "plan": cmd_plan}
 
 
 def _show_warning(message, category, filename, lineno, file=None, line=None):

@@ -270,3 +270,83 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
     summary = {f"best_{k}": v for k, v in b.items()}
     summary["units"] = "SI (m, m/s, s, and m for ranges)"
     return Report(f"Best cruise ({obj})", meta, cols, notes, _cautions(), summary)
+
+
+def plan_report(plan, units: str | None = None) -> Report:
+    """Lay out a mission plan: one row per segment, totals and the verdict.
+
+    Parameters
+    ----------
+    plan : Plan
+        The planned mission.
+    units : {"aviation", "si"}, optional
+        Display units; aviation for piston airframes, SI for electric ones by default.
+
+    Returns
+    -------
+    Report
+        Segments with altitude, TAS, ground speed, heading, time, distance, store used
+        and remaining and the reserve margin; the verdict and its reasons in the header.
+    """
+    mission = plan.mission
+    af = mission.airframe
+    prop = af.propulsion
+    units = units or ("aviation" if prop.store_name == "fuel" else "si")
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fd, ld = display("distance", units)
+    if prop.store_name == "fuel":
+        fq, lq = display("volume", units)
+        fq = fq / prop.fuel_density
+        qfmt = "{:.1f}"
+    else:
+        fq, lq = display("energy", units)
+        qfmt = "{:.0f}"
+    segs = plan.segments
+    margin = [s.remaining - plan.reserve_required for s in segs]
+    cols = [
+        Column("leg", "", [s.leg for s in segs], "{}"),
+        Column("segment", "", [s.kind for s in segs], "{}"),
+        Column("PA from", la, [s.altitude_start * fa for s in segs], "{:.0f}"),
+        Column("PA to", la, [s.altitude_end * fa for s in segs], "{:.0f}"),
+        Column("TAS", ls, [s.tas * fs if s.time else None for s in segs], "{:.0f}"),
+        Column("GS", ls, [s.ground_speed * fs if s.time else None for s in segs], "{:.0f}"),
+        Column("HDG", "deg T", [s.heading if s.time else None for s in segs], "{:03.0f}"),
+        Column("power", "% rated", [s.power_fraction * 100 if s.time else None for s in segs],
+               "{:.0f}"),
+        # Drones' segments last minutes: h:mm would print most of them as 0:00.
+        Column("time", "h:mm", [hours_minutes(s.time) for s in segs], "{}")
+        if prop.store_name == "fuel" else
+        Column("time", "min", [s.time / 60.0 for s in segs], "{:.1f}"),
+        Column("dist", ld, [s.distance * fd for s in segs], "{:.1f}"),
+        Column("used", lq, [s.used * fq for s in segs], qfmt),
+        Column("remaining", lq, [s.remaining * fq for s in segs], qfmt),
+        Column("over reserve", lq, [m * fq for m in margin], qfmt),
+        Column("note", "", [s.note for s in segs], "{}"),
+    ]
+    verdict = plan.verdict if plan.go else "NO-GO: " + "; ".join(plan.reasons)
+    fm, lm = display("mass", units)
+    n_legs = len(mission.legs)
+    meta = [f"VERDICT: {verdict}",
+            f"Mission: {mission.name} - {mission.description}",
+            f"File: {mission.source}"] + airframe_lines(af) + [
+        f"Take-off mass {plan.takeoff_mass * fm:.1f} {lm}; "
+        f"{store_text(af, plan.initial, units)}",
+        f"Day: ISA {mission.isa_dev:+.1f} K; altitudes are pressure altitudes (PA)",
+        f"Totals: {n_legs} legs, {hours_minutes(plan.time)} h:mm, "
+        f"{plan.distance * fd:.1f} {ld}, used {plan.used * fq:{qfmt[2:-1]}} {lq}, "
+        f"remaining at landing {plan.remaining * fq:{qfmt[2:-1]}} {lq}",
+        f"Reserve required {plan.reserve_required * fq:{qfmt[2:-1]}} {lq}: {plan.reserve_text}"
+        " (local rules decide the minimum reserve)",
+        f"Made {date.today().isoformat()} by cruiseplan",
+    ]
+    notes = ["over reserve: remaining minus the reserve required at landing",
+             "Climbs at full power (or the set climb rate) and the climb speed held as "
+             "indicated; descents at the set rate and the cruise indicated speed"]
+    summary = {"verdict": plan.verdict, "reasons": "; ".join(plan.reasons),
+               "time_s": plan.time, "distance_m": plan.distance,
+               f"used_{'kg' if prop.store_name == 'fuel' else 'J'}": plan.used,
+               f"remaining_{'kg' if prop.store_name == 'fuel' else 'J'}": plan.remaining,
+               f"reserve_required_{'kg' if prop.store_name == 'fuel' else 'J'}":
+                   plan.reserve_required}
+    return Report(f"Mission plan: {mission.name}", meta, cols, notes, _cautions(), summary)

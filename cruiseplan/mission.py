@@ -1,0 +1,675 @@
+r"""Mission planning: legs with climb, cruise and descent, burn-off, reserves, go/no-go.
+
+A mission is flown leg after leg without landing. At the start of each leg the aircraft
+climbs or descends to the leg's altitude; after the last leg it descends to the arrival
+elevation. Each segment is integrated along its path:
+
+* **climb** at a constant equivalent airspeed (as pilots hold an indicated speed), at the
+  set fraction of full-throttle power; rate of climb from excess power,
+  :math:`\dot h = \eta_p (P - P_{req}) / W`, in altitude steps;
+* **cruise** by a fourth-order Runge-Kutta integration over distance of
+  :math:`dm/dx = -\dot m / V_g` (fuel burns off, so the weight and the power required fall).
+  A ``best`` speed is found by the optimiser at the start of the cruise and then flown at
+  constant lift coefficient, i.e. slowed as :math:`\sqrt{m}` as fuel burns (exactly the
+  best-range schedule in calm air with constant efficiencies; the Breguet condition);
+* **descent** at a set rate and the cruise equivalent airspeed, at the power that gives
+  that rate (never below idle).
+
+Battery aircraft keep their mass and use energy; with a Peukert exponent each segment uses
+its share :math:`\Delta t / t(I)` of the pack.
+
+A ``best`` altitude is chosen per leg among candidate altitudes by the store the whole
+leg uses, **climb and descent included**, so a short leg is not flown high just because
+cruise is cheaper up there.
+
+The reserve (time at best-endurance power, a fraction of capacity, or a fixed quantity,
+plus an optional alternate leg) is what must remain at landing. The verdict is GO, or
+NO-GO with every reason found. Local rules decide the reserve; the defaults are
+conservative and the output says so.
+
+References
+----------
+.. [1] J. D. Anderson, *Aircraft Performance and Design*, McGraw-Hill, 1999, secs. 5.10
+   (climb), 5.13 (range: the Breguet equation), 5.14 (endurance).
+.. [2] L. W. Traub, "Range and Endurance Estimates for Battery-Powered Aircraft",
+   *J. Aircraft* 48(2), 2011 (battery range, Peukert's law).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .aerodynamics import speed_for_lift_coefficient
+from .atmosphere import air_state
+from .constants import G0
+from .optimise import speed_schedule
+from .performance import DEFAULT_STALL_MARGIN, _shaft_power
+from .winds import WindProfile
+
+FT = 0.3048
+#: Integration steps per segment (altitude steps in climb and descent, RK4 steps in cruise).
+CLIMB_STEPS = 8
+CRUISE_STEPS = 8
+#: Lowest climb rate accepted as "still climbing" [m/s] (about 20 ft/min).
+MIN_CLIMB_RATE = 0.1
+
+
+@dataclass(frozen=True)
+class Leg:
+    """One leg of a route (SI).
+
+    Parameters
+    ----------
+    name : str
+        Name used in plans and errors.
+    distance : float
+        Leg length [m].
+    course : float
+        True course [deg] (needed with winds; 0 in calm air is fine).
+    wind : WindProfile
+        Winds aloft along the leg.
+    altitude : float or None
+        Cruise pressure altitude [m]; None for the best one.
+    tas : float or None
+        Cruise TAS [m/s]; None for the objective's best speed.
+    objective : str
+        ``"range"``, ``"endurance"`` or ``"economy"`` for a best speed.
+    elevation : float or None
+        Highest ground under the leg [m]; the higher of the departure and arrival
+        elevations when None.
+    max_agl : float or None
+        Maximum height above that ground [m] (e.g. a drone's legal cap).
+    max_altitude : float or None
+        Highest altitude allowed (airspace) [m].
+    """
+
+    name: str
+    distance: float
+    course: float = 0.0
+    wind: WindProfile = field(default_factory=WindProfile.calm)
+    altitude: float | None = None
+    tas: float | None = None
+    objective: str = "range"
+    elevation: float | None = None
+    max_agl: float | None = None
+    max_altitude: float | None = None
+
+
+@dataclass(frozen=True)
+class Reserve:
+    """Reserve policy: what must remain at landing.
+
+    Parameters
+    ----------
+    kind : {"time", "fraction", "fixed"}
+        Time at best-endurance power, a fraction of the usable capacity, or a quantity.
+    amount : float
+        Seconds, a fraction, or kg of fuel / J of usable energy.
+    altitude : float or None
+        Altitude for a time reserve [m]; the last leg's altitude when None.
+    alternate : Leg or None
+        A diversion leg flown at best range, added to the reserve.
+    """
+
+    kind: str
+    amount: float
+    altitude: float | None = None
+    alternate: Leg | None = None
+
+
+@dataclass(frozen=True)
+class Profile:
+    """How the aircraft climbs and descends between legs (SI).
+
+    Parameters
+    ----------
+    departure_elevation, arrival_elevation : float
+        Field pressure altitudes [m].
+    climb_speed : float or None
+        Climb equivalent airspeed [m/s]; the best-rate speed at departure when None.
+    climb_power : float
+        Fraction of full-throttle power in the climb [-].
+    climb_rate : float or None
+        Cap on the climb rate [m/s] (drones usually climb at a set rate).
+    descent_rate : float
+        Descent rate [m/s].
+    min_clearance : float
+        Minimum height above each leg's highest ground for a ``best`` altitude [m].
+    altitude_step : float
+        Spacing of candidate altitudes for ``best`` [m].
+    top : float
+        Highest candidate altitude for ``best`` [m].
+    idle_power : float
+        Fraction of rated power at idle in descents [-].
+    """
+
+    departure_elevation: float = 0.0
+    arrival_elevation: float = 0.0
+    climb_speed: float | None = None
+    climb_power: float = 1.0
+    climb_rate: float | None = None
+    descent_rate: float = 500 * FT / 60.0
+    min_clearance: float = 1000 * FT
+    altitude_step: float = 500 * FT
+    top: float = 12000 * FT
+    idle_power: float = 0.05
+
+
+@dataclass(frozen=True)
+class Mission:
+    """A mission: airframe, loading, day, legs, allowance, reserve and profile (SI)."""
+
+    name: str
+    airframe: object
+    legs: tuple
+    reserve: Reserve
+    profile: Profile = field(default_factory=Profile)
+    isa_dev: float = 0.0
+    mass: float | None = None
+    store: float | None = None
+    payload: float | None = None
+    allowance: float = 0.0
+    stall_margin: float = DEFAULT_STALL_MARGIN
+    source: str = ""
+    description: str = ""
+
+
+@dataclass(frozen=True)
+class Segment:
+    """One flown segment (SI): start and end altitude, speeds, time, distance, store."""
+
+    leg: str
+    kind: str
+    altitude_start: float
+    altitude_end: float
+    tas: float
+    ground_speed: float
+    heading: float
+    time: float
+    distance: float
+    used: float
+    remaining: float
+    mass_end: float
+    power_fraction: float
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class Plan:
+    """A planned mission: segments, totals, reserve and the verdict (SI).
+
+    Attributes
+    ----------
+    mission : Mission
+        What was planned.
+    segments : tuple of Segment
+        In flight order; the first is the start-up/taxi/take-off allowance.
+    initial : float
+        Store at engine start [kg or J].
+    reserve_required : float
+        Store that must remain at landing [kg or J].
+    reserve_text : str
+        How the reserve was set.
+    reasons : tuple of str
+        NO-GO reasons; empty for GO.
+    leg_altitudes : tuple of float
+        Cruise altitude chosen per leg [m].
+    takeoff_mass : float
+        Mass at engine start [kg].
+    """
+
+    mission: Mission
+    segments: tuple
+    initial: float
+    reserve_required: float
+    reserve_text: str
+    reasons: tuple
+    leg_altitudes: tuple
+    takeoff_mass: float = 0.0
+
+    @property
+    def go(self) -> bool:
+        """True when no reason forbids the flight."""
+        return not self.reasons
+
+    @property
+    def verdict(self) -> str:
+        """``"GO"`` or ``"NO-GO"``."""
+        return "GO" if self.go else "NO-GO"
+
+    @property
+    def used(self) -> float:
+        """Store used, all segments [kg or J]."""
+        return float(sum(s.used for s in self.segments))
+
+    @property
+    def remaining(self) -> float:
+        """Store remaining at landing [kg or J]."""
+        return self.segments[-1].remaining if self.segments else self.initial
+
+    @property
+    def time(self) -> float:
+        """Total time [s]."""
+        return float(sum(s.time for s in self.segments))
+
+    @property
+    def distance(self) -> float:
+        """Total ground distance [m]."""
+        return float(sum(s.distance for s in self.segments))
+
+
+# --- the flight model used by the planner ---------------------------------------------
+
+class _Flight:
+    """Lean SI model of the airframe on the day, shared by all segments."""
+
+    def __init__(self, mission: Mission):
+        self.af = mission.airframe
+        self.prop = self.af.propulsion
+        self.dev = mission.isa_dev
+        self.margin = mission.stall_margin
+        self.burns_mass = self.prop.store_name == "fuel"
+
+    def air(self, h):
+        return air_state(np.asarray(h, dtype=float), self.dev)
+
+    def shaft(self, m, air, v):
+        return _shaft_power(self.af, m, air, v)
+
+    def rate(self, shaft):
+        return self.prop.store_rate(shaft)
+
+    @staticmethod
+    def ground(v, leg, h, gamma_rate=0.0):
+        """Ground speed and heading for TAS ``v`` (horizontal part when climbing)."""
+        head, cross = leg.wind.components(leg.course, h)
+        vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
+        with np.errstate(invalid="ignore"):
+            wca = np.arcsin(np.clip(cross / vh, -1.0, 1.0))
+        gs = vh * np.cos(wca) - head
+        heading = np.mod(leg.course + np.degrees(wca), 360.0)
+        return gs, heading, np.abs(cross) < vh
+
+
+def _vertical(fl: _Flight, leg, h0, h1, m0, v_eas, profile, climb: bool):
+    """Climb or descend from h0 to h1 (arrays over candidates), integrated in steps.
+
+    Returns a dict of arrays: time, distance, used, mass_end, ok, worst (lowest climb rate
+    or the altitude where the climb failed), tas (mean), gs (mean), heading, power (mean
+    fraction of rated).
+    """
+    h0, h1, m = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float),
+                                    np.asarray(m0, float))
+    m = m.copy()
+    dh = (h1 - h0) / CLIMB_STEPS
+    t = np.zeros_like(h0)
+    x = np.zeros_like(h0)
+    used = np.zeros_like(h0)
+    ok = np.ones(h0.shape, dtype=bool)
+    fail_at = np.full(h0.shape, np.nan)
+    tas_sum = np.zeros_like(h0)
+    gs_sum = np.zeros_like(h0)
+    pw_sum = np.zeros_like(h0)
+    heading = np.zeros_like(h0)
+    moving = np.abs(dh) > 0
+    # The atmosphere once for every step of every candidate.
+    steps = (np.arange(CLIMB_STEPS) + 0.5).reshape((-1,) + (1,) * h0.ndim)
+    h_steps = h0 + steps * dh
+    air_steps = fl.air(h_steps)
+    for j in range(CLIMB_STEPS):
+        hm = h_steps[j]
+        air = air_steps.row(j)
+        v = v_eas / np.sqrt(air.sigma)
+        eta = fl.prop.propeller(v)
+        p_level = fl.shaft(m, air, v)
+        weight = m * G0
+        if climb:
+            p = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
+            roc = eta * (p - p_level) / weight
+            if profile.climb_rate is not None:
+                capped = roc > profile.climb_rate
+                roc = np.where(capped, profile.climb_rate, roc)
+                p = np.where(capped, p_level + weight * roc / eta, p)
+            bad = moving & (roc < MIN_CLIMB_RATE)
+            fail_at = np.where(bad & ok, hm, fail_at)
+            ok &= ~bad
+            vz = np.where(bad, MIN_CLIMB_RATE, roc)
+        else:
+            vz = np.full(h0.shape, profile.descent_rate)
+            p = np.maximum(p_level - weight * vz / eta, profile.idle_power * fl.prop.rated_power)
+        dt = np.where(moving, np.abs(dh) / vz, 0.0)
+        gs, heading, _ = fl.ground(v, leg, hm, vz)
+        burn = fl.rate(p) * dt
+        t += dt
+        x += gs * dt
+        used += burn
+        if fl.burns_mass:
+            m -= burn
+        tas_sum += v * dt
+        gs_sum += gs * dt
+        pw_sum += p / fl.prop.rated_power * dt
+    with np.errstate(invalid="ignore", divide="ignore"):
+        mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
+        return dict(time=t, distance=x, used=used, mass_end=m, ok=ok, fail_at=fail_at,
+                    tas=mean(tas_sum), gs=mean(gs_sum), heading=heading,
+                    power=mean(pw_sum))
+
+
+def _cruise(fl: _Flight, leg, h, m0, store0, distance, v0):
+    """Cruise at altitudes ``h`` over ``distance`` (arrays over candidates) by RK4.
+
+    ``v0`` is the TAS at the start; with ``leg.tas`` None the lift coefficient is held
+    (TAS falls as sqrt(mass)), else the TAS is held.
+    """
+    air = fl.air(h)
+    m0 = np.asarray(m0, dtype=float)
+    hold_cl = leg.tas is None
+
+    def speed(m):
+        return v0 * np.sqrt(m / m0) if hold_cl else v0
+
+    def deriv(m):
+        v = speed(m)
+        gs, _, _ = fl.ground(v, leg, h)
+        r = fl.rate(fl.shaft(m, air, v))
+        return (-r / gs if fl.burns_mass else 0.0 * r), r / gs, 1.0 / gs
+
+    n = CRUISE_STEPS
+    dx = np.asarray(distance, dtype=float) / n
+    m = m0.copy() if np.ndim(m0) else m0 + 0.0 * dx
+    used = np.zeros_like(dx)
+    t = np.zeros_like(dx)
+    for _ in range(n):
+        k1 = deriv(m)
+        k2 = deriv(m + 0.5 * dx * k1[0])
+        k3 = deriv(m + 0.5 * dx * k2[0])
+        k4 = deriv(m + dx * k3[0])
+        for i, acc in ((1, used), (2, t)):
+            acc += dx / 6.0 * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
+        m = m + dx / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0])
+    v_end = speed(m)
+    gs0, heading, held = fl.ground(v0, leg, h)
+    p0 = fl.shaft(m0, air, v0)
+    p1 = fl.shaft(m, air, v_end)
+    cl0 = 2 * m0 * G0 / (air.density * v0 * v0 * fl.af.wing_area)
+    return dict(time=t, distance=np.asarray(distance, float) + 0 * t, used=used, mass_end=m,
+                tas=v0 + 0 * t, gs=gs0 + 0 * t, heading=heading + 0 * t,
+                power=p0 / fl.prop.rated_power + 0 * t,
+                power_ok=np.maximum(p0, p1) <= fl.prop.shaft_power_available(air.sigma)
+                * (1 + 1e-9),
+                stall_ok=cl0 <= fl.af.cl_max / fl.margin**2 * (1 + 1e-9),
+                wind_ok=held & (gs0 > 0), v_end=v_end)
+
+
+def _cruise_speed(fl: _Flight, leg, h, m, store):
+    """TAS to start the cruise at: the leg's, or the objective's best (constrained)."""
+    h = np.atleast_1d(np.asarray(h, dtype=float))
+    if leg.tas is not None:
+        return np.full(h.shape, leg.tas), np.ones(h.shape, dtype=bool)
+    air = fl.air(h)
+    head, cross = leg.wind.components(leg.course, h)
+    s = speed_schedule(fl.af, m, air, store, headwind=head, crosswind=cross,
+                       stall_margin=fl.margin)
+    v = s.tas[leg.objective]
+    return np.where(s.feasible, v, s.tas_unconstrained[leg.objective]), s.feasible
+
+
+def climb_speed(mission: Mission) -> float:
+    """Climb EAS [m/s]: the profile's, or the best-rate speed at departure, mass at start."""
+    if mission.profile.climb_speed is not None:
+        return mission.profile.climb_speed
+    from .optimise import max_climb_rate
+
+    af = mission.airframe
+    load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
+    air = air_state(mission.profile.departure_elevation, mission.isa_dev)
+    _, v = max_climb_rate(af, load.mass, air)
+    v_s = speed_for_lift_coefficient(load.mass, air.density, af.wing_area, af.cl_max)
+    # Never slower than the stall margin; held as EAS through the climb.
+    v = np.maximum(v, mission.stall_margin * v_s)
+    return float(v * np.sqrt(air.sigma))
+
+
+def _leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates):
+    """Evaluate a leg at candidate altitudes: transition, cruise, final descent."""
+    prof = mission.profile
+    H = np.asarray(candidates, dtype=float)
+    up = _vertical(fl, leg, h_now, np.maximum(H, h_now), m, v_climb, prof, climb=True)
+    v_cr, speed_ok = _cruise_speed(fl, leg, H, up["mass_end"], store)
+    air_H = fl.air(H)
+    v_eas_cruise = v_cr * np.sqrt(air_H.sigma)
+    down = _vertical(fl, leg, np.maximum(H, h_now), H, up["mass_end"], v_eas_cruise, prof,
+                     climb=False)
+    m_cr = down["mass_end"]
+    # The final descent's distance is flown within the last leg (mass barely matters: use
+    # the mass at the start of the cruise, then recompute after the cruise).
+    if last:
+        fin0 = _vertical(fl, leg, H, prof.arrival_elevation, m_cr, v_eas_cruise, prof,
+                         climb=False)
+        d_final = fin0["distance"]
+    else:
+        d_final = np.zeros_like(H)
+    d_cruise = leg.distance - up["distance"] - down["distance"] - d_final
+    fits = d_cruise >= 0
+    cr = _cruise(fl, leg, H, m_cr, store, np.maximum(d_cruise, 0.0), v_cr)
+    fin = _vertical(fl, leg, H, prof.arrival_elevation if last else H, cr["mass_end"],
+                    v_eas_cruise, prof, climb=False)
+    total = up["used"] + down["used"] + cr["used"] + fin["used"]
+    return dict(H=H, up=up, down=down, cruise=cr, final=fin, fits=fits, speed_ok=speed_ok,
+                total=total, time=up["time"] + down["time"] + cr["time"] + fin["time"])
+
+
+def ground_elevation(mission, leg) -> float:
+    """Highest ground under a leg [m]: given, or the higher of the two fields."""
+    if leg.elevation is not None:
+        return leg.elevation
+    return max(mission.profile.departure_elevation, mission.profile.arrival_elevation)
+
+
+def _caps(mission, leg):
+    """Lowest and highest altitude allowed on a leg [m], with the name of the top cap."""
+    prof = mission.profile
+    ground = ground_elevation(mission, leg)
+    lo = ground + prof.min_clearance
+    top, why = prof.top, "the highest altitude searched"
+    if leg.max_altitude is not None and leg.max_altitude < top:
+        top, why = leg.max_altitude, "the leg's maximum altitude"
+    if leg.max_agl is not None and ground + leg.max_agl < top:
+        top, why = ground + leg.max_agl, "the height cap above ground"
+    return lo, top, why
+
+
+def _choose(options, lo, top):
+    """Index of the candidate using the least store (ties: the quicker), or -1."""
+    H = options["H"]
+    ok = (options["fits"] & options["up"]["ok"] & options["speed_ok"]
+          & options["cruise"]["power_ok"] & options["cruise"]["wind_ok"]
+          & (H >= lo - 1e-6) & (H <= top + 1e-6))
+    if not np.any(ok):
+        return -1
+    cost = np.where(ok, options["total"], np.inf)
+    best = np.min(cost)
+    near = np.flatnonzero(cost <= best * (1 + 1e-9) + 1e-12)
+    return int(near[np.argmin(options["time"][near])])
+
+
+def _pick(d, i):
+    return {k: (v[i] if np.ndim(v) else v) for k, v in d.items()}
+
+
+def _store_text(fl, amount):
+    if fl.prop.store_name == "fuel":
+        return f"{amount / fl.prop.fuel_density * 1000:.1f} L"
+    return f"{amount / 3600:.0f} Wh"
+
+
+def plan_mission(mission: Mission) -> Plan:
+    """Plan a mission: segments, totals, reserve and the GO / NO-GO verdict.
+
+    Parameters
+    ----------
+    mission : Mission
+        The mission (see :func:`cruiseplan.mission_files.load_mission`).
+
+    Returns
+    -------
+    Plan
+        A NO-GO is a result with its reasons, not an error.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.10-5.14.
+    """
+    af = mission.airframe
+    fl = _Flight(mission)
+    prof = mission.profile
+    reasons = []
+    load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
+    if load.mass > af.max_takeoff_mass * (1 + 1e-9):
+        reasons.append(f"take-off mass {load.mass:.1f} kg exceeds the maximum "
+                       f"{af.max_takeoff_mass:.1f} kg")
+    initial = load.store
+    m, store = load.mass, load.store
+    segments = []
+    allowance = min(mission.allowance, store)
+    store -= allowance
+    if fl.burns_mass:
+        m -= allowance
+    segments.append(Segment("departure", "start, taxi, take-off", prof.departure_elevation,
+                            prof.departure_elevation, 0.0, 0.0, 0.0, 0.0, 0.0, allowance,
+                            store, m, 0.0))
+    h = prof.departure_elevation
+    v_climb = climb_speed(mission)
+    leg_altitudes = []
+    for n, leg in enumerate(mission.legs):
+        last = n == len(mission.legs) - 1
+        lo, top, why = _caps(mission, leg)
+        if leg.altitude is None:
+            cands = np.arange(lo, top + 1e-6, prof.altitude_step)
+            if lo <= h <= top:
+                cands = np.unique(np.append(cands, h))
+            if cands.size == 0:
+                cands = np.array([lo])
+        else:
+            cands = np.array([leg.altitude])
+        opts = _leg_options(fl, mission, leg, h, m, store, v_climb, last, cands)
+        if leg.altitude is None:
+            i = _choose(opts, lo, top)
+            if i < 0:
+                reasons.append(f"leg {leg.name!r}: no altitude between {lo:.0f} and {top:.0f} m "
+                               f"({why}) can be flown: " + _why_not(opts, leg, lo, top))
+                i = int(np.argmin(np.where(opts["fits"], opts["total"], np.inf)))
+        else:
+            i = 0
+            reasons.extend(_leg_reasons(opts, leg, mission, lo, top, why))
+        o = {k: (_pick(v, i) if isinstance(v, dict) else v[i]) for k, v in opts.items()}
+        H = float(o["H"])
+        leg_altitudes.append(H)
+        for kind, seg in (("climb" if H > h else "descent", o["up"] if H > h else o["down"]),
+                          ("cruise", o["cruise"]),
+                          ("descent to arrival", o["final"])):
+            if seg["time"] <= 0:
+                continue
+            used = float(seg["used"])
+            store -= used
+            m = float(seg["mass_end"])
+            h_start = {"cruise": H, "descent to arrival": H}.get(kind, h)
+            h_end = prof.arrival_elevation if kind == "descent to arrival" else H
+            note = ""
+            if kind == "climb" and not seg["ok"]:
+                note = f"climb rate below {MIN_CLIMB_RATE * 196.85:.0f} ft/min " \
+                       f"from {seg['fail_at']:.0f} m"
+            segments.append(Segment(leg.name, kind, h_start, h_end, float(seg["tas"]),
+                                    float(seg["gs"]), float(seg["heading"]),
+                                    float(seg["time"]), float(seg["distance"]), used, store, m,
+                                    float(seg["power"]), note))
+        h = H if not last else prof.arrival_elevation
+    required, reserve_text = _reserve(fl, mission, m, leg_altitudes)
+    lowest = min(s.remaining for s in segments)
+    if lowest < 0:
+        first = next(s for s in segments if s.remaining < 0)
+        reasons.append(f"{fl.prop.store_name} runs out on leg {first.leg!r} ({first.kind})")
+    elif store < required * (1 - 1e-12):
+        reasons.append(f"{fl.prop.store_name} below the reserve: {_store_text(fl, store)} at "
+                       f"landing, {_store_text(fl, required)} required ({reserve_text})")
+    return Plan(mission, tuple(segments), initial, required, reserve_text, tuple(reasons),
+                tuple(leg_altitudes), load.mass)
+
+
+def _why_not(opts, leg, lo, top) -> str:
+    parts = []
+    if not np.any(opts["fits"]):
+        parts.append("the leg is too short for the climb and descent")
+    if not np.any(opts["up"]["ok"]):
+        parts.append("power insufficient to climb")
+    if not np.any(opts["cruise"]["power_ok"]):
+        parts.append("power insufficient to cruise")
+    if not np.any(opts["speed_ok"]):
+        parts.append("no speed within the stall margin and power")
+    if not np.any(opts["cruise"]["wind_ok"]):
+        parts.append("wind too strong")
+    if lo > top:
+        parts.append(f"the lowest safe altitude {lo:.0f} m is above the cap {top:.0f} m")
+    return "; ".join(parts) or "no candidate satisfies every limit"
+
+
+def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
+    """NO-GO reasons for a leg flown at a fixed altitude (candidate 0)."""
+    out = []
+    H = float(opts["H"][0])
+    if H > top + 1e-6:
+        out.append(f"altitude above a limit: leg {leg.name!r} at {H:.0f} m is above {why} "
+                   f"({top:.0f} m)")
+    if H < lo - 1e-6:
+        out.append(f"altitude below a limit: leg {leg.name!r} at {H:.0f} m is below the "
+                   f"{mission.profile.min_clearance:.0f} m clearance over "
+                   f"{ground_elevation(mission, leg):.0f} m "
+                   f"ground")
+    if not opts["up"]["ok"][0]:
+        out.append(f"power insufficient: leg {leg.name!r} cannot climb to {H:.0f} m (climb "
+                   f"rate gone at {opts['up']['fail_at'][0]:.0f} m)")
+    cr = opts["cruise"]
+    if not cr["power_ok"][0] or not opts["speed_ok"][0]:
+        out.append(f"power insufficient: leg {leg.name!r} cruise at {cr['tas'][0]:.1f} m/s "
+                   f"TAS needs more than full-throttle power at {H:.0f} m")
+    if not cr["stall_ok"][0]:
+        out.append(f"stall margin violated: leg {leg.name!r} at {cr['tas'][0]:.1f} m/s TAS is "
+                   f"below {mission.stall_margin:g} x stall speed")
+    if not cr["wind_ok"][0]:
+        out.append(f"wind: leg {leg.name!r} cannot make good its course at {H:.0f} m")
+    if not opts["fits"][0]:
+        out.append(f"leg {leg.name!r} is too short to climb to and descend from {H:.0f} m")
+    return out
+
+
+def _reserve(fl: _Flight, mission: Mission, mass: float, leg_altitudes) -> tuple:
+    """Store required at landing [kg or J] and a description of the policy."""
+    res = mission.reserve
+    prop = fl.prop
+    if res.kind == "fraction":
+        required = res.amount * prop.store_capacity
+        text = f"{res.amount * 100:.0f} % of usable {prop.store_name}"
+    elif res.kind == "fixed":
+        required = res.amount
+        text = f"fixed {_store_text(fl, required)}"
+    else:
+        h = res.altitude if res.altitude is not None else (
+            leg_altitudes[-1] if leg_altitudes else mission.profile.arrival_elevation)
+        air = fl.air(np.array([h]))
+        s = speed_schedule(fl.af, mass, air, prop.store_capacity, stall_margin=fl.margin)
+        v = float(s.tas["endurance"][0]) if s.feasible[0] else float(
+            s.tas_unconstrained["endurance"][0])
+        required = float(fl.rate(fl.shaft(mass, air, v))[0]) * res.amount
+        text = f"{res.amount / 60:.0f} min at best-endurance speed at {h:.0f} m"
+    if res.alternate is not None:
+        alt = res.alternate
+        h = alt.altitude if alt.altitude is not None else (leg_altitudes[-1] if leg_altitudes
+                                                           else 0.0)
+        v0, _ = _cruise_speed(fl, alt, [h], mass, prop.store_capacity)
+        cr = _cruise(fl, alt, np.array([h]), np.array([mass]), prop.store_capacity,
+                     np.array([alt.distance]), v0)
+        required += float(cr["used"][0])
+        text += f" + alternate {alt.name!r} {alt.distance / 1852:.0f} nm"
+    return float(required), text
