@@ -332,6 +332,8 @@ def _vertical(fl: _Flight, leg, h0, h1, m0, v_eas, profile, climb: bool):
                 capped = roc > profile.climb_rate
                 roc = np.where(capped, profile.climb_rate, roc)
                 p = np.where(capped, p_level + weight * roc / eta, p)
+            # The climb-rate formula assumes a shallow climb; keep it below 0.9 x TAS.
+            roc = np.minimum(roc, 0.9 * v)
             bad = moving & (roc < MIN_CLIMB_RATE)
             fail_at = np.where(bad & ok, hm, fail_at)
             ok &= ~bad
@@ -341,15 +343,16 @@ def _vertical(fl: _Flight, leg, h0, h1, m0, v_eas, profile, climb: bool):
             p = np.maximum(p_level - weight * vz / eta, profile.idle_power * fl.prop.rated_power)
         dt = np.where(moving, np.abs(dh) / vz, 0.0)
         gs, heading, _ = fl.ground(v, leg, hm, vz)
-        burn = fl.rate(p) * dt
+        # Candidates that do not move here contribute nothing (not NaN x 0).
+        burn = np.where(moving, fl.rate(p) * dt, 0.0)
         t += dt
-        x += gs * dt
+        x += np.where(moving, gs * dt, 0.0)
         used += burn
         if fl.burns_mass:
             m -= burn
-        tas_sum += v * dt
-        gs_sum += gs * dt
-        pw_sum += p / fl.prop.rated_power * dt
+        tas_sum += np.where(moving, v * dt, 0.0)
+        gs_sum += np.where(moving, gs * dt, 0.0)
+        pw_sum += np.where(moving, p / fl.prop.rated_power * dt, 0.0)
     with np.errstate(invalid="ignore", divide="ignore"):
         mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
         return dict(time=t, distance=x, used=used, mass_end=m, ok=ok, fail_at=fail_at,

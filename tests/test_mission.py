@@ -1,0 +1,366 @@
+"""Mission planner: Breguet and battery range, Peukert, great circles, NO-GO reasons,
+bookkeeping invariants, malformed mission files and the plan command."""
+
+import json
+import re
+from dataclasses import replace
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+import cruiseplan as cp
+from cruiseplan.cli import main
+from cruiseplan.geo import great_circle
+from cruiseplan.mission import Leg, Mission, Profile, Reserve, plan_mission
+from cruiseplan.mission_files import load_mission, read_mission
+from cruiseplan.propulsion import PropellerEfficiency
+from cruiseplan.winds import parse_wind_profile
+
+NM = 1852.0
+FT = 0.3048
+
+
+@pytest.fixture(scope="module")
+def trainer():
+    return cp.load_airframe("demo-trainer")
+
+
+@pytest.fixture(scope="module")
+def drone():
+    # Peukert exponent 1 here, so that the battery-range form applies exactly.
+    d = cp.load_airframe("demo-survey-drone")
+    return replace(d, propulsion=replace(d.propulsion, peukert_exponent=1.0))
+
+
+def level_mission(af, h, distance, *, tas=None, reserve=Reserve("fraction", 0.0), **kw):
+    """One leg flown level at pressure altitude h: no climb, no descent, no allowance."""
+    prof = Profile(departure_elevation=h, arrival_elevation=h, min_clearance=0.0,
+                   climb_rate=kw.pop("climb_rate", None))
+    leg = Leg("level", distance, altitude=h, tas=tas, elevation=h - 1.0)
+    return Mission("level", af, (leg,), reserve, prof, allowance=0.0, **kw)
+
+
+# --- range equations ---------------------------------------------------------------------
+
+def test_piston_cruise_with_burn_off_matches_breguet(trainer):
+    # Breguet range for propeller aircraft (REFERENCES sec. 4; Anderson, Aircraft
+    # Performance and Design, eq. 5.152): R = (eta_p / c) (L/D) ln(W0/W1), c = BSFC x g,
+    # for constant L/D, eta_p and c. A "best" range speed is flown at constant CL, so
+    # L/D stays at (L/D)max while the fuel burns off.
+    h, distance = 1500.0, 500 * NM
+    plan = plan_mission(level_mission(trainer, h, distance, mass=745.0))
+    cruise = [s for s in plan.segments if s.kind == "cruise"]
+    assert len(cruise) == 1 and cruise[0].distance == pytest.approx(distance)
+    pol, prop = trainer.polar, trainer.propulsion
+    ld = cp.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
+    m0 = 745.0
+    m1 = m0 * np.exp(-distance * prop.bsfc * 9.80665 / (prop.propeller.efficiency[0] * ld))
+    assert plan.used == pytest.approx(m0 - m1, rel=1e-3)
+    # The constant-CL schedule: TAS falls as sqrt(mass).
+    assert cruise[0].mass_end == pytest.approx(m1, rel=1e-4)
+
+
+def test_battery_cruise_matches_the_electric_range_form(drone):
+    # Battery aircraft keep their mass: R = E eta (L/D) / (m g) for energy E drawn
+    # (REFERENCES sec. 4; Traub, J. Aircraft 48(2), 2011, eq. 6 with n = 1), eta the
+    # product of propeller, motor and controller efficiencies. Flown at (L/D)max with
+    # no stall margin (the drone's (L/D)max CL is above CLmax/1.3^2).
+    h, distance = 100.0, 40_000.0
+    plan = plan_mission(level_mission(drone, h, distance, stall_margin=1.0))
+    prop, pol = drone.propulsion, drone.polar
+    eta = prop.propeller.efficiency[0] * prop.motor_efficiency * prop.controller_efficiency
+    ld = cp.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
+    mass = drone.loading().mass
+    assert plan.used == pytest.approx(distance * mass * 9.80665 / (eta * ld), rel=1e-3)
+
+
+def test_peukert_battery_matches_the_published_example(drone):
+    # Peukert's law t = C / I^k: 100 Ah, k = 1.2, at 5 A -> 14.5 h (REFERENCES sec. 5,
+    # [pub]). In Hart's form t = Rt (C/(I Rt))^n with Rt = 1 h that is C = 100^(1/1.2) Ah.
+    # The pack voltage is chosen so that cruising at 16 m/s draws exactly 5 A; a leg of
+    # 16 m/s x 14.5 h then uses the whole pack, and half of it half.
+    tas, h = 16.0, 100.0
+    pts = cp.cruise_points(drone, drone.loading().mass, cp.air_state(h), tas,
+                           drone.propulsion.battery_energy)
+    volts = float(pts.store_flow) / 5.0
+    capacity = 100.0 ** (1 / 1.2) * 3600.0
+    prop = replace(drone.propulsion, pack_voltage=volts, capacity=capacity,
+                   battery_energy=volts * capacity, peukert_exponent=1.2, rating_time=3600.0,
+                   max_power=1e4)
+    af = replace(drone, propulsion=prop)
+    t_full = 100.0 / 5.0**1.2 * 3600.0
+    assert t_full / 3600 == pytest.approx(14.5, abs=0.05)
+    whole = plan_mission(level_mission(af, h, tas * t_full, tas=tas, stall_margin=1.0))
+    assert whole.remaining == pytest.approx(0.0, abs=1e-6 * prop.battery_energy)
+    half = plan_mission(level_mission(af, h, tas * t_full / 2, tas=tas, stall_margin=1.0))
+    assert half.used == pytest.approx(0.5 * prop.battery_energy, rel=1e-9)
+
+
+# --- great circles -----------------------------------------------------------------------
+
+def test_great_circle_worked_example():
+    # E. Williams, Aviation Formulary, worked example LAX (33 deg 57' N, 118 deg 24' W) to
+    # JFK (40 deg 38' N, 73 deg 47' W): distance 2144 nm, initial true course 66 deg
+    # (the Formulary's sphere of 1 nm per minute of arc; ours is the IUGG mean radius,
+    # 0.07 % larger).
+    d, c = great_circle(33 + 57 / 60, -(118 + 24 / 60), 40 + 38 / 60, -(73 + 47 / 60))
+    assert d / NM == pytest.approx(2144 * 1.000676, rel=2e-4)
+    assert c == pytest.approx(66.0, abs=0.5)
+
+
+@pytest.mark.parametrize("a, b", [((44.61, -101.32), (45.29, -100.54)),
+                                  ((-33.9, 151.2), (-37.8, 144.9)),
+                                  ((51.5, -0.1), (48.9, 2.35))])
+def test_great_circle_against_geodesy_library(a, b):
+    # geographiclib (C. F. F. Karney, "Algorithms for geodesics", J. Geodesy 87, 2013):
+    # WGS84 ellipsoid. The sphere agrees within 0.5 % in distance and 0.3 deg in course.
+    from geographiclib.geodesic import Geodesic
+
+    g = Geodesic.WGS84.Inverse(*a, *b)
+    d, c = great_circle(*a, *b)
+    assert d == pytest.approx(g["s12"], rel=5e-3)
+    assert ((c - g["azi1"] + 180) % 360) - 180 == pytest.approx(0.0, abs=0.3)
+
+
+# --- NO-GO reasons -----------------------------------------------------------------------
+
+def test_no_go_fuel_below_reserve(trainer):
+    m = level_mission(trainer, 1000.0, 600 * NM, reserve=Reserve("time", 45 * 60.0))
+    plan = plan_mission(m)
+    assert plan.verdict == "NO-GO" and plan.remaining > 0
+    assert any(re.match(r"fuel below the reserve: \d+\.\d L at landing, \d+\.\d L required "
+                        r"\(45 min at best-endurance speed", r) for r in plan.reasons)
+
+
+def test_no_go_runs_out(trainer):
+    plan = plan_mission(level_mission(trainer, 1000.0, 700 * NM))
+    assert any("fuel runs out on leg 'level'" in r for r in plan.reasons)
+    assert plan.remaining < 0
+
+
+def test_no_go_altitude_above_height_cap(drone):
+    leg = Leg("survey", 3000.0, altitude=250.0, tas=18.0, elevation=80.0, max_agl=120.0)
+    m = Mission("cap", drone, (leg,), Reserve("fraction", 0.2),
+                Profile(departure_elevation=80.0, arrival_elevation=80.0, climb_rate=3.0,
+                        descent_rate=2.0, min_clearance=30.0))
+    plan = plan_mission(m)
+    assert plan.verdict == "NO-GO"
+    assert any(r.startswith("altitude above a limit: leg 'survey' at 250 m is above the "
+                            "height cap above ground (200 m)") for r in plan.reasons)
+
+
+def test_no_go_power_insufficient_to_climb(trainer):
+    leg = Leg("high", 200 * NM, altitude=7500.0, tas=None)
+    m = Mission("high", trainer, (leg,), Reserve("fraction", 0.0), Profile(), allowance=0.0)
+    plan = plan_mission(m)
+    assert any(r.startswith("power insufficient: leg 'high' cannot climb to 7500 m")
+               for r in plan.reasons)
+
+
+def test_no_go_power_insufficient_for_speed(trainer):
+    plan = plan_mission(level_mission(trainer, 1000.0, 50 * NM, tas=140 * 0.514444))
+    assert any(r.startswith("power insufficient: leg 'level' cruise at 72.0 m/s TAS")
+               for r in plan.reasons)
+
+
+def test_no_go_stall_margin(trainer):
+    plan = plan_mission(level_mission(trainer, 1000.0, 50 * NM, tas=58 * 0.514444))
+    assert any(r.startswith("stall margin violated: leg 'level' at 29.8 m/s TAS is below "
+                            "1.3 x stall speed") for r in plan.reasons)
+
+
+def test_go_and_reserve_margin(trainer):
+    plan = plan_mission(level_mission(trainer, 1000.0, 150 * NM,
+                                      reserve=Reserve("time", 45 * 60.0)))
+    assert plan.go and plan.verdict == "GO" and plan.reasons == ()
+    assert plan.remaining > plan.reserve_required > 0
+
+
+# --- best altitude counts the climb ------------------------------------------------------
+
+def test_short_leg_is_not_flown_high(trainer):
+    # A tailwind that grows with height makes cruise cheaper up high; a 12 nm leg must
+    # still stay low, because the climb costs more than the cruise saves. A long leg goes
+    # higher.
+    tail = parse_wind_profile("270/0kt@1000ft,270/40kt@8000ft")
+
+    def plan_for(distance):
+        leg = Leg("leg", distance, course=90.0, wind=tail)
+        m = Mission("x", trainer, (leg,), Reserve("fraction", 0.0),
+                    Profile(min_clearance=1000 * FT, top=9000 * FT), allowance=0.0)
+        return plan_mission(m).leg_altitudes[0]
+
+    short, long = plan_for(12 * NM), plan_for(300 * NM)
+    # Cruise alone is best high up (the strongest tailwind, 8000 ft) ...
+    cruise_only = cp.optimise.best_cruise(trainer, np.arange(1000, 9001, 500) * FT,
+                                          wind=tail, course=90.0).best()["altitude"]
+    assert cruise_only == pytest.approx(8000 * FT)
+    # ... the long leg goes there, the short one stays well below it.
+    assert long == pytest.approx(cruise_only)
+    assert short < cruise_only - 1000.0
+
+
+# --- bookkeeping invariants --------------------------------------------------------------
+
+leg_strategy = st.builds(
+    lambda d, alt, spd, course, wspd: Leg(
+        "leg", d * NM, course=course,
+        wind=parse_wind_profile(f"{(course + 150) % 360:.0f}/{wspd:.0f}kt@2000ft"),
+        altitude=None if alt is None else alt * FT, tas=None if spd is None else spd * 0.514444),
+    st.floats(20, 120), st.one_of(st.none(), st.floats(1500, 7000)),
+    st.one_of(st.none(), st.floats(80, 110)), st.floats(0, 359), st.floats(0, 25))
+
+
+@settings(max_examples=25, deadline=None)
+@given(legs=st.lists(leg_strategy, min_size=1, max_size=4), dep=st.floats(0, 1500),
+       arr=st.floats(0, 1500))
+def test_bookkeeping_invariants(trainer, legs, dep, arr):
+    legs = [replace(leg, name=f"leg {i}") for i, leg in enumerate(legs)]
+    m = Mission("prop", trainer, tuple(legs), Reserve("time", 1800.0),
+                Profile(departure_elevation=dep * FT, arrival_elevation=arr * FT,
+                        min_clearance=500 * FT, top=7000 * FT), allowance=1.5)
+    plan = plan_mission(m)
+    segs = plan.segments
+    # used + remaining = initial, at every segment and at the end
+    assert plan.used + plan.remaining == pytest.approx(plan.initial, rel=1e-12)
+    cumulative = np.cumsum([s.used for s in segs])
+    np.testing.assert_allclose(plan.initial - cumulative, [s.remaining for s in segs],
+                               rtol=1e-12, atol=1e-9)
+    # remaining never increases; fuel burnt only from the mass
+    rem = [s.remaining for s in segs]
+    assert all(b <= a + 1e-12 for a, b in zip(rem, rem[1:]))
+    assert all(s.used >= 0 and s.time >= 0 for s in segs)
+    # each leg's segments add up to the leg (unless it is reported too short for its
+    # climb and descent); totals add up
+    for leg in legs:
+        if any(repr(leg.name) in r for r in plan.reasons):
+            continue
+        flown = sum(s.distance for s in segs if s.leg == leg.name)
+        assert flown == pytest.approx(leg.distance, rel=1e-9)
+    assert sum(s.distance for s in segs) == pytest.approx(plan.distance)
+    assert sum(s.time for s in segs) == pytest.approx(plan.time)
+
+
+def test_leg_distances_add_up(trainer):
+    legs = tuple(Leg(f"leg {i}", d * NM, course=c, wind=parse_wind_profile("300/20@3000ft"))
+                 for i, (d, c) in enumerate([(45, 10), (20, 100), (60, 250)]))
+    m = Mission("sum", trainer, legs, Reserve("fraction", 0.0),
+                Profile(departure_elevation=200.0, arrival_elevation=50.0))
+    plan = plan_mission(m)
+    for leg in legs:
+        flown = sum(s.distance for s in plan.segments if s.leg == leg.name)
+        assert flown == pytest.approx(leg.distance, rel=1e-9)
+
+
+# --- mission files -----------------------------------------------------------------------
+
+GOOD = """
+[mission]
+airframe = "demo-trainer"
+fuel = "80 L"
+[day]
+isa_dev = "+10 K"
+[[legs]]
+name = "first"
+distance = "40 nm"
+course = 90
+wind = "270/10kt@3000ft"
+"""
+
+
+def write(tmp_path, text, name="m.toml"):
+    p = tmp_path / name
+    p.write_text(text)
+    return p
+
+
+def test_bundled_missions_plan():
+    for name in ("demo-cross-country", "demo-survey-run"):
+        plan = plan_mission(load_mission(name))
+        assert plan.verdict in ("GO", "NO-GO") and len(plan.segments) > 3
+
+
+def test_minimal_mission_file_and_defaults(tmp_path):
+    m = read_mission(write(tmp_path, GOOD))
+    assert m.reserve.kind == "time" and m.reserve.amount == 2700.0   # conservative default
+    assert m.isa_dev == 10.0 and m.store == pytest.approx(0.080 * 720.0)
+    assert m.legs[0].distance == pytest.approx(40 * NM)
+
+
+BAD = [
+    ("", r"\[mission\] airframe: missing"),
+    ('[mission]\nairframe = "no-such-plane"\n[[legs]]\ndistance = "5 km"\n',
+     r"\[mission\] airframe: no-such-plane: no such airframe file"),
+    ('[mission]\nairframe = "demo-trainer"\n', r"\[\[legs\]\]: missing; a mission needs at least"),
+    (GOOD.replace('distance = "40 nm"', 'distance = "40 kg"'),
+     r"leg 1 'first' distance: '40 kg' is not a quantity in units compatible with m"),
+    (GOOD.replace('distance = "40 nm"', 'distance = 40'),
+     r"leg 1 'first' distance: 40 needs a unit"),
+    (GOOD.replace('distance = "40 nm"', 'from = [95.0, 10.0]\nto = [45.0, 11.0]'),
+     r"leg 1 'first' from: \[95.0, 10.0\] is not a latitude"),
+    (GOOD.replace('distance = "40 nm"', 'from = [45.0]\nto = [45.0, 11.0]'),
+     r"leg 1 'first' from: \[45.0\] should be \[latitude, longitude\]"),
+    (GOOD.replace('wind = "270/10kt@3000ft"', 'wind = "270/10kg@3000ft"'),
+     r"leg 1 'first' wind: wind speed: '10kg' is not a quantity"),
+    (GOOD.replace('course = 90\n', ''), r"leg 1 'first' course: missing; a leg with wind needs"),
+    (GOOD.replace('name = "first"', 'name = "first"\nspeeed = "100 kt"'),
+     r"leg 1 'first' speeed: unknown field"),
+    (GOOD.replace('name = "first"', 'name = "first"\nobjective = "fast"'),
+     r"leg 1 'first' objective: 'fast' is not one of range, endurance, economy"),
+    (GOOD.replace('isa_dev = "+10 K"', 'isa_dev = "+10 m"'),
+     r"\[day\] isa_dev: '\+10 m' is not a temperature difference"),
+    (GOOD.replace('fuel = "80 L"', 'fuel = "500 L"'),
+     r"\[mission\] takeoff_mass: fuel on board 360 kg is outside 0 to the capacity"),
+    (GOOD.replace('fuel = "80 L"', 'battery = "80 %"'),
+     r"\[mission\] battery: demo-trainer is piston-propeller: give fuel instead"),
+    (GOOD + '\n[reserve]\ntime = "45 min"\nfraction = "10 %"\n',
+     r"\[reserve\] fraction: give one of time, fraction or quantity"),
+    (GOOD + '\n[weather]\nrain = 1\n', r"\[weather\]: unknown section"),
+    (GOOD.replace('course = 90', 'course = 400'), r"leg 1 'first' course: 400 is out of range"),
+    ("[mission\nairframe=", r"not valid TOML"),
+]
+
+
+@pytest.mark.parametrize("text, match", BAD)
+def test_malformed_mission_files(tmp_path, text, match):
+    path = write(tmp_path, text)
+    with pytest.raises(cp.CruiseplanError, match=re.escape(str(path)) + r": " + match):
+        read_mission(path)
+
+
+def test_plan_cli_no_go_is_a_result(tmp_path, capsys):
+    path = write(tmp_path, GOOD.replace('distance = "40 nm"', 'distance = "700 nm"'))
+    assert main(["plan", str(path)]) == 0
+    out = capsys.readouterr().out
+    assert "VERDICT: NO-GO: fuel" in out and "CAUTION" in out and "local rules" in out
+
+
+def test_plan_cli_formats(tmp_path, capsys):
+    assert main(["plan", "demo-survey-run", "--format", "json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["summary"]["verdict"] == "GO"
+    assert {c["name"]: c["unit"] for c in doc["columns"]}["used"] == "Wh"
+    assert any("flight manual" in c for c in doc["cautions"])
+    out = tmp_path / "plan.csv"
+    assert main(["plan", "demo-cross-country", "--format", "csv", "-o", str(out)]) == 0
+    text = out.read_text()
+    assert "leg,segment,PA from [ft]" in text and "# CAUTION" in text
+
+
+def test_plan_cli_bad_file_one_line_no_output(tmp_path, capsys):
+    path = write(tmp_path, GOOD.replace('course = 90', 'course = 400'))
+    out = tmp_path / "plan.txt"
+    assert main(["plan", str(path), "-o", str(out)]) == 2
+    err = capsys.readouterr().err
+    assert len(err.strip().splitlines()) == 1 and "course: 400 is out of range" in err
+    assert not out.exists()
+
+
+def test_quantities_or_floats_give_the_same_plan(trainer):
+    base = level_mission(trainer, 1500.0, 100 * NM)
+    eff = replace(trainer.propulsion, propeller=PropellerEfficiency((5.0, 150.0), (0.78, 0.78)))
+    searched = replace(base, airframe=replace(trainer, propulsion=eff))
+    # The closed-form and searched best-range speeds give the same fuel to 1e-6.
+    assert plan_mission(searched).used == pytest.approx(plan_mission(base).used, rel=1e-6)
