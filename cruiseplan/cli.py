@@ -104,6 +104,7 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("mission", help="mission TOML file, or a bundled mission name")
     p.add_argument("--plot", metavar="FILE", help="also draw the profile (.png or .pdf)")
     _add_output(p, formats=("text", "json", "csv", "markdown"))
+    _add_figure_commands(sub)
     return parser
 
 
@@ -309,8 +310,213 @@ def cmd_plan(args):
     _emit(text, args.output)
 
 
+# --- figures: plot and card ------------------------------------------------------------------
+
+def _add_figure_commands(sub):
+    """The ``plot`` and ``card`` subcommands (they alone import matplotlib, lazily)."""
+    def common(p, what):
+        p.add_argument("airframe", help="bundled airframe name or path to an airframe TOML file")
+        p.add_argument("--output", "-o", metavar="FILE", required=True, help=what)
+        load = p.add_mutually_exclusive_group()
+        load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
+        load.add_argument("--fuel", help="fuel or energy on board: '80 L', '20 gal', '55 kg', "
+                                         "'450 Wh' or '80%%' of capacity (default full)")
+        p.add_argument("--payload", help="crew and payload, e.g. '170 kg' (default from file)")
+        p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
+        p.add_argument("--stall-margin", type=float, default=1.3,
+                       help="minimum TAS over stall speed (default 1.3)")
+        p.add_argument("--units", choices=("aviation", "si"), default=None,
+                       help="display units (default aviation for piston airframes, si for "
+                            "electric ones)")
+
+    p = sub.add_parser("plot", help="specific-range map, power curves or altitude profile "
+                                    "as .png or .pdf")
+    common(p, "FILE.png or FILE.pdf: the extension decides the format")
+    p.add_argument("--kind", choices=("map", "power", "altitude"), default="map",
+                   help="map: specific range over altitude x TAS with limits and best speeds; "
+                        "power: power required and available; altitude: best speeds and "
+                        "specific range by altitude (default map)")
+    p.add_argument("--altitudes", help="pressure altitudes (default map and altitude "
+                                       "0:12000ft:500ft, drones 0:500m:25m; power "
+                                       "0,4000,8000,12000ft, drones 0,200,400m)")
+    p.add_argument("--speeds", help="true airspeeds for map and power, e.g. '50:140kt:2kt' "
+                                    "(default from below the stall to beyond full throttle)")
+    wind = p.add_mutually_exclusive_group()
+    wind.add_argument("--wind", help="winds aloft DIR/SPEED@ALT, e.g. "
+                                     "'270/25@3000ft,250/40@8000ft' (needs --course)")
+    wind.add_argument("--headwind", help="headwind component at every altitude, e.g. '20kt' "
+                                         "(negative: tailwind)")
+    p.add_argument("--course", type=float, help="true course [deg] for --wind")
+
+    p = sub.add_parser("card", help="one-page cruise card FILE.pdf and its markdown twin "
+                                    "FILE.md")
+    common(p, "FILE.pdf; the markdown twin FILE.md is written beside it")
+    p.add_argument("--altitudes", help="pressure altitudes (default 0:8000ft:2000ft; drones "
+                                       "0:400m:100m)")
+    p.add_argument("--power", help="power settings in %% of rated power (default 55,65,75; "
+                                   "drones 20,30,40)")
+    p.add_argument("--reserve", help="reserve to keep: '30min' (at best-endurance power at "
+                                     "the lowest altitude), '25%%' of the fuel or energy on "
+                                     "board, or '10L', '7kg', '120Wh' (default: piston 45min, "
+                                     "electric 20%%; local rules decide)")
+
+
+def _figure_path(text: str, suffixes) -> str:
+    from pathlib import Path
+
+    if Path(text).suffix.lower() not in suffixes:
+        raise CruiseplanError(f"--output {text}: the file must end in {' or '.join(suffixes)}")
+    return text
+
+
+def _wind_args(args):
+    """Wind profile, headwind [m/s] and text from --wind/--course or --headwind."""
+    from .units import parse_quantity
+    from .winds import parse_wind_profile
+
+    if args.wind:
+        if args.course is None:
+            raise CruiseplanError("--wind needs --course (true course in degrees)")
+        return (parse_wind_profile(args.wind), None,
+                f"{args.wind} on course {args.course:03.0f}")
+    if args.course is not None:
+        raise CruiseplanError("--course goes with --wind")
+    if args.headwind:
+        return (None, parse_quantity(args.headwind, "m/s", default_unit="kt",
+                                     what="--headwind"), f"headwind {args.headwind}")
+    return None, None, "calm"
+
+
+def _wind_grid(af, h, v, loading, dev, profile, course, headwind, stall_margin):
+    """Cruise grid whose ground speeds come from the full wind triangle at each altitude."""
+    import numpy as np
+
+    from .atmosphere import air_state, check_altitude
+    from .performance import cruise_points
+
+    h = check_altitude(h, "--altitudes")
+    if profile is not None:
+        hw, cw = profile.components(course, h)
+    else:
+        hw, cw = np.full(h.shape, headwind), np.zeros(h.shape)
+    res = af.loading(mass=loading["mass"], store=loading["fuel"], payload=loading["payload"])
+    tas = np.asarray(v, dtype=float)[None, :]
+    with np.errstate(invalid="ignore"):
+        gs = np.sqrt(tas * tas - cw[:, None] ** 2) - hw[:, None]
+    return cruise_points(af, res.mass, air_state(h, dev).column(), tas, res.store,
+                         ground_speed=gs, stall_margin=stall_margin)
+
+
+def cmd_plot(args):
+    """Draw a specific-range map, power curves or altitude profile to .png or .pdf."""
+    from .airframe_files import load_airframe
+    from .optimise import best_cruise
+    from .performance import cruise_grid
+    from .units import parse_quantity, parse_range
+
+    out = _figure_path(args.output, (".png", ".pdf"))
+    af = load_airframe(args.airframe)
+    electric = af.propulsion.store_name == "energy"
+    units = args.units or _default_units(af)
+    defaults = {"power": "0,200,400m" if electric else "0,4000,8000,12000ft"}
+    alt_text = args.altitudes or defaults.get(args.kind,
+                                              "0:500m:25m" if electric else "0:12000ft:500ft")
+    h = parse_range(alt_text, "m", default_unit="ft", what="--altitudes")
+    dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
+    loading = _loading_args(af, args)
+    profile, headwind, wind_text = _wind_args(args)
+    windy = profile is not None or headwind is not None
+    if args.speeds and args.kind == "altitude":
+        raise CruiseplanError("--speeds goes with --kind map or power; the altitude profile "
+                              "finds its own best speeds")
+    if windy and args.kind == "power":
+        raise CruiseplanError("wind does not change power curves: --wind and --headwind go "
+                              "with --kind map or altitude")
+    v = None
+    if args.speeds:
+        v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
+                        else "km/h", what="--speeds")
+        if v.size < 2 or (v <= 0).any() or (v[1:] <= v[:-1]).any():
+            raise UnitError(f"--speeds: {args.speeds!r} must be at least two increasing "
+                            "positive speeds")
+
+    from . import plots
+
+    wind_kw = dict(wind=profile, course=args.course, headwind=headwind)
+    if args.kind == "power":
+        fig = plots.power_curves(af, h, tas=v, isa_dev=dev, units=units,
+                                 stall_margin=args.stall_margin, **loading)
+    elif args.kind == "altitude":
+        calm = best_cruise(af, h, isa_dev=dev, stall_margin=args.stall_margin, **loading)
+        in_wind = best_cruise(af, h, isa_dev=dev, stall_margin=args.stall_margin,
+                              **wind_kw, **loading) if windy else None
+        fig = plots.altitude_profile(af, calm, in_wind, units=units, wind_text=wind_text)
+    else:
+        if v is None:
+            v = plots.speed_span(af, h, isa_dev=dev, **loading)
+        if windy:
+            grid = _wind_grid(af, h, v, loading, dev, profile, args.course, headwind,
+                              args.stall_margin)
+        else:
+            grid = cruise_grid(af, h, v, isa_dev=dev, stall_margin=args.stall_margin,
+                               **loading)
+        best = best_cruise(af, h, isa_dev=dev, stall_margin=args.stall_margin, **wind_kw,
+                           **loading)
+        fig = plots.specific_range_map(af, grid, best, units=units, ground=windy,
+                                       wind_text=wind_text, stall_margin=args.stall_margin)
+    data = plots.figure_bytes(fig, out)
+
+    from .reports import write_bytes_atomic
+
+    write_bytes_atomic(out, data)
+    sys.stdout.write(f"wrote {out}\n")
+
+
+def cmd_card(args):
+    """Write the one-page cruise card FILE.pdf and its markdown twin FILE.md."""
+    from pathlib import Path
+
+    import numpy as np
+
+    from .airframe_files import load_airframe
+    from .units import parse_quantity, parse_range
+
+    out = Path(_figure_path(args.output, (".pdf",)))
+    af = load_airframe(args.airframe)
+    h = None
+    if args.altitudes:
+        h = parse_range(args.altitudes, "m", default_unit="ft", what="--altitudes")
+    frac = None
+    if args.power:
+        frac = parse_range(args.power, "", default_unit="percent", what="--power")
+        if np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
+            raise UnitError(f"--power: {args.power!r} must be percentages of rated power "
+                            "in (0, 100]")
+    dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
+
+    from . import plots
+    from .card import cruise_card, parse_reserve
+
+    reserve = parse_reserve(af, args.reserve) if args.reserve else None
+    markdown, fig = cruise_card(af, altitudes=h, power_settings=frac, isa_dev=dev,
+                                reserve=reserve, units=args.units,
+                                stall_margin=args.stall_margin, **_loading_args(af, args))
+    pdf = plots.figure_bytes(fig, "pdf")
+
+    from .reports import write_atomic, write_bytes_atomic
+
+    twin = out.with_suffix(".md")
+    write_bytes_atomic(out, pdf)
+    try:
+        write_atomic(twin, markdown)
+    except BaseException:
+        out.unlink(missing_ok=True)  # the pair is written whole or not at all
+        raise
+    sys.stdout.write(f"wrote {out} and {twin}\n")
+
+
 COMMANDS = {"airframes": cmd_airframes, "atmosphere": cmd_atmosphere, "table": cmd_table,
-            "best": cmd_best, "plan": cmd_plan}
+            "best": cmd_best, "plan": cmd_plan, "plot": cmd_plot, "card": cmd_card}
 
 
 def _show_warning(message, category, filename, lineno, file=None, line=None):

@@ -1,0 +1,467 @@
+"""The printed cruise card for one day: a one-page PDF and its markdown twin.
+
+The card holds, for one airframe file, mass and ISA deviation: a cruise table by altitude
+and power setting (TAS, CAS, fuel flow or battery power, endurance, and range with and
+without the reserve), the best-range and best-endurance speeds at each altitude, the
+absolute and service ceilings, the reserve it keeps and the cautions in full.
+
+:func:`card_content` computes the content once (no matplotlib here); the markdown and the
+page (:func:`cruiseplan.plots.card_figure`) are both laid out from it, so they say the same.
+
+Reserves, in the order a crew would write them (``--reserve``):
+
+* a time, ``"30min"``: flown at best-endurance power at the lowest altitude of the card;
+* a share of the fuel or energy on board, ``"25%"``;
+* an amount, ``"10L"``, ``"7kg"`` (fuel) or ``"120Wh"`` (energy).
+
+Defaults, conservative and no more than that (local rules decide): piston, 45 min at
+best-endurance power at the card's lowest altitude; electric, 20 % of the usable energy on
+board.
+
+References
+----------
+.. [1] J. D. Anderson, *Aircraft Performance and Design*, McGraw-Hill, 1999, secs. 5.5
+   (power settings), 5.7 (range and endurance), 5.11 (ceilings).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from datetime import date
+
+import numpy as np
+
+from .airspeed import cas_from_tas
+from .constants import T_ZERO_C
+from .errors import CruiseplanError, UnitError
+from .optimise import CEILING_SEARCH_TOP, best_cruise, ceilings, describe
+from .performance import (
+    DEFAULT_STALL_MARGIN,
+    LIMIT_CODE,
+    LIMIT_TEXT,
+    _store_si,
+    explain,
+    power_setting_table,
+)
+from .reports import display, hours_minutes
+from .tables import airframe_lines, store_text
+from .units import parse_quantity, to_si
+
+#: Short caution in the footer of every card and figure.
+CAUTION_LINE = "Planning aid only \u2014 the flight manual and local rules come first"
+#: Default power settings [fraction of rated power] by store.
+DEFAULT_POWER = {"fuel": (0.55, 0.65, 0.75), "energy": (0.20, 0.30, 0.40)}
+#: Default card altitudes [m] by store: 0-8000 ft by 2000 ft; 0-400 m by 100 m.
+DEFAULT_ALTITUDES = {"fuel": tuple(np.arange(0.0, 8001.0, 2000.0) * 0.3048),
+                     "energy": (0.0, 100.0, 200.0, 300.0, 400.0)}
+
+
+# --- reserve ------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Reserve:
+    """A reserve as the crew gave it.
+
+    Attributes
+    ----------
+    kind : {"time", "share", "amount"}
+        Time at best-endurance power, share of the store on board, or an amount.
+    value : float
+        Time [s], share [-], or fuel [kg] / energy [J].
+    text : str
+        As written (``""`` for the default).
+    """
+
+    kind: str
+    value: float
+    text: str = ""
+
+    @property
+    def is_default(self) -> bool:
+        """True for the default reserve."""
+        return self.text == ""
+
+
+def default_reserve(airframe) -> Reserve:
+    """45 min at best-endurance power (piston) or 20 % of usable energy (electric).
+
+    Conservative defaults for planning only (common practice, no source); local rules
+    decide the minimum reserve.
+    """
+    if airframe.propulsion.store_name == "fuel":
+        return Reserve("time", 45 * 60.0)
+    return Reserve("share", 0.20)
+
+
+_BARE_NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
+
+
+def parse_reserve(airframe, text: str) -> Reserve:
+    """Read a reserve: ``"30min"``, ``"25%"``, ``"10L"``, ``"7kg"`` or ``"120Wh"``.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe (decides whether an amount is fuel or energy).
+    text : str
+        The reserve with its unit.
+
+    Returns
+    -------
+    Reserve
+        In SI: seconds, a share in (0, 1), kg of fuel or J.
+
+    Raises
+    ------
+    UnitError
+        When the text has no unit or is neither a time, a share nor an amount.
+    """
+    t = str(text).strip()
+    store = airframe.propulsion.store_name
+    example = "'10L' or '7kg'" if store == "fuel" else "'120Wh'"
+    if not t or _BARE_NUMBER.match(t):
+        raise UnitError(f"--reserve: {text!r} needs a unit: a time ('30min'), a share "
+                        f"('25%') or an amount ({example})")
+    if t.endswith("%"):
+        share = parse_quantity(t, "", what="--reserve")
+        if not 0.0 < share < 1.0:
+            raise UnitError(f"--reserve: {text!r} must be a share between 0 and 100 %")
+        return Reserve("share", share, t)
+    candidates = [("time", "s", 1.0)]
+    if store == "fuel":
+        candidates += [("amount", "m^3", airframe.propulsion.fuel_density),
+                       ("amount", "kg", 1.0)]
+    else:
+        candidates += [("amount", "J", 1.0)]
+    for kind, unit, scale in candidates:
+        try:
+            value = parse_quantity(t, unit, what="--reserve") * scale
+        except UnitError:
+            continue
+        if value <= 0:
+            raise UnitError(f"--reserve: {text!r} must be positive")
+        return Reserve(kind, value, t)
+    raise UnitError(f"--reserve: {text!r} is neither a time ('30min'), a share of the "
+                    f"{store} on board ('25%') nor an amount ({example})")
+
+
+def _amount_text(airframe, amount: float, units: str) -> str:
+    prop = airframe.propulsion
+    if prop.store_name == "fuel":
+        fv, lv = display("volume", units)
+        fm, lm = display("mass", units)
+        return f"{amount / prop.fuel_density * fv:.1f} {lv} ({amount * fm:.1f} {lm})"
+    fe, le = display("energy", units)
+    return f"{amount * fe:.0f} {le}"
+
+
+# --- content ------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class CardTable:
+    """A table of the card: columns (name, unit, "left"/"right"), rows of text."""
+
+    heading: str
+    columns: tuple
+    rows: tuple
+    groups: tuple
+    notes: tuple = ()
+
+
+@dataclass(frozen=True)
+class CardText:
+    """A block of text lines under a heading."""
+
+    heading: str
+    lines: tuple
+
+
+@dataclass(frozen=True)
+class CardContent:
+    """Everything the card says, laid out both as markdown and as a page.
+
+    Attributes
+    ----------
+    title : str
+        Title line.
+    meta : tuple of str
+        Airframe, file and checksum, loading and day, date made.
+    blocks : tuple
+        :class:`CardTable` and :class:`CardText` blocks, in order.
+    cautions : tuple of str
+        The cautions, in full.
+    footer : str
+        Footer line.
+    reserve : float
+        Reserve kept [kg of fuel or J].
+    """
+
+    title: str
+    meta: tuple
+    blocks: tuple
+    cautions: tuple
+    footer: str
+    reserve: float
+
+    def markdown(self) -> str:
+        """The card as markdown, with the same words and figures as the page."""
+        out = [f"# {self.title}", ""] + [f"- {m}" for m in self.meta]
+        for block in self.blocks:
+            out += ["", f"## {block.heading}", ""]
+            if isinstance(block, CardTable):
+                names = [" ".join(n.split("\n")) for n, _, _ in block.columns]
+                out.append("| " + " | ".join(f"{n} [{u}]" if u else n for n, (_, u, _)
+                                             in zip(names, block.columns)) + " |")
+                out.append("|" + "|".join(":---" if a == "left" else "---:"
+                                          for _, _, a in block.columns) + "|")
+                out += ["| " + " | ".join(row) + " |" for row in block.rows]
+                if block.notes:
+                    out += [""] + [f"{n}  " for n in block.notes]
+            else:
+                out += [f"{line}  " for line in block.lines]
+        out += ["", "## Cautions", ""] + [f"- {c}" for c in self.cautions]
+        out += ["", f"*{self.footer}*"]
+        return "\n".join(out) + "\n"
+
+
+def _cell(value, fmt: str) -> str:
+    if value is None or not math.isfinite(value):
+        return "-"
+    text = fmt.format(value)
+    return text[1:] if text.startswith("-") and not text.strip("-0.") else text
+
+
+def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
+                 payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
+                 stall_margin: float = DEFAULT_STALL_MARGIN) -> CardContent:
+    """Compute what the cruise card says.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    altitudes : array_like or pint.Quantity, optional
+        Pressure altitudes [m], increasing; by default 0-8000 ft by 2000 ft (piston) or
+        0-400 m by 100 m (electric).
+    power_settings : array_like, optional
+        Fractions of rated power [-]; by default 0.55, 0.65, 0.75 (piston) or 0.2, 0.3, 0.4
+        (electric).
+    mass, fuel, payload : float or pint.Quantity, optional
+        Loading, as in :func:`cruiseplan.cruise_grid` [kg, kg or J, kg].
+    isa_dev : float or pint.Quantity, optional
+        ISA deviation [K].
+    reserve : Reserve or str, optional
+        Reserve to keep; :func:`default_reserve` when not given.
+    units : {"aviation", "si"}, optional
+        Display units; aviation for piston airframes, SI for electric ones by default.
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-] (1.3, common practice).
+
+    Returns
+    -------
+    CardContent
+        Title, header, tables, ceilings, reserve, notes and cautions.
+
+    Raises
+    ------
+    CruiseplanError
+        When the reserve is not less than the fuel or energy on board, or a time reserve
+        cannot be flown at the lowest altitude.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.5, 5.7, 5.11.
+    """
+    from . import CAUTIONS, __version__
+
+    prop = airframe.propulsion
+    store_name = prop.store_name
+    fuel_kind = store_name == "fuel"
+    units = units or ("aviation" if fuel_kind else "si")
+    h = np.atleast_1d(to_si(DEFAULT_ALTITUDES[store_name] if altitudes is None
+                            else altitudes, "m", what="altitudes"))
+    frac = np.atleast_1d(np.asarray(DEFAULT_POWER[store_name] if power_settings is None
+                                    else power_settings, dtype=float))
+    if isinstance(reserve, str):
+        reserve = parse_reserve(airframe, reserve)
+    reserve = reserve or default_reserve(airframe)
+    dev = to_si(isa_dev, "K", what="isa_dev")
+    load = dict(mass=None if mass is None else to_si(mass, "kg", what="mass"),
+                fuel=None if fuel is None else _store_si(airframe, fuel),
+                payload=None if payload is None else to_si(payload, "kg", what="payload"))
+
+    table = power_setting_table(airframe, h, frac, isa_dev=dev, stall_margin=stall_margin,
+                                **load)
+    best = best_cruise(airframe, h, objective="endurance", isa_dev=dev,
+                       stall_margin=stall_margin, **load)
+    ceil = ceilings(airframe, isa_dev=dev, **load)
+    store = table.store
+    if store <= 0:
+        raise CruiseplanError(f"no {store_name} on board: a cruise card needs some")
+
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fd, ld = display("distance", units)
+
+    # Reserve, in kg of fuel or J. Endurance is linear in the store for both propulsion
+    # kinds (Peukert's law in Hart's form too), so a time t at power P needs t/E(P) of it.
+    sched = best.schedule
+    if reserve.kind == "time":
+        e_ref = best.points.endurance[0]
+        if not (sched.feasible[0] and math.isfinite(e_ref)):
+            raise CruiseplanError(
+                f"no best-endurance speed at {h[0] * fa:.0f} {la} to fly the "
+                f"{reserve.text or 'default'} time reserve ({best.reason(0)}): give the "
+                "reserve as an amount or a share")
+        amount = reserve.value * store / e_ref
+        v_e = sched.tas["endurance"][0]
+        how = (f"{reserve.value / 60:.0f} min at best-endurance power "
+               f"({best.points.power_fraction[0] * 100:.0f} % rated, {v_e * fs:.0f} {ls} TAS) "
+               f"at {h[0] * fa:.0f} {la}")
+    elif reserve.kind == "share":
+        amount = reserve.value * store
+        how = f"{reserve.value * 100:.0f} % of the usable {store_name} on board"
+    else:
+        amount = reserve.value
+        how = "as an amount"
+    if amount >= store:
+        raise CruiseplanError(
+            f"reserve {_amount_text(airframe, amount, units)} is not less than the "
+            f"{store_name} on board, {_amount_text(airframe, store, units)}: take more "
+            f"{store_name} or keep a smaller reserve")
+    keep = 1.0 - amount / store
+    who = ("conservative default; local rules decide" if reserve.is_default
+           else f"as set ({reserve.text}); local rules decide the minimum")
+    reserve_line = (f"Reserve kept: {how} = {_amount_text(airframe, amount, units)} "
+                    f"\u2014 {who}.")
+
+    # Table 1: by altitude and power setting.
+    n_alt, n_pow = table.shape
+    if fuel_kind:
+        fflow, lflow = display("volume_flow", units)
+        flow = table.fuel_volume_flow * fflow
+        flow_col, flow_fmt = ("fuel\nflow", lflow, "right"), "{:.1f}"
+    else:
+        fflow, lflow = display("electric_power", units)
+        flow = table.store_flow * fflow
+        flow_col, flow_fmt = ("battery\npower", lflow, "right"), "{:.0f}"
+    cas = table.cas()
+    rows, groups = [], []
+    for i in range(n_alt):
+        for j in range(n_pow):
+            code = int(table.limits[i, j])
+            rows.append((
+                f"{h[i] * fa:.0f}", f"{frac[j] * 100:.0f}",
+                _cell(table.tas[i, j] * fs, "{:.0f}"), _cell(cas[i, j] * fs, "{:.0f}"),
+                _cell(flow[i, j], flow_fmt),
+                hours_minutes(table.endurance[i, j]),
+                hours_minutes(table.endurance[i, j] * keep),
+                _cell(table.range_air[i, j] * fd, "{:.0f}"),
+                _cell(table.range_air[i, j] * keep * fd, "{:.0f}"),
+                explain(code, short=True)))
+            groups.append(i)
+    used = int(np.bitwise_or.reduce(table.limits.ravel()))
+    fp, lp = display("power" if fuel_kind else "electric_power", units)
+    notes = [
+        f"power: % of rated power ({table.rated_power * fp:.0f} {lp}). endur.: endurance; "
+        f"total: all usable {store_name}, NO reserve; to res.: until only the reserve is "
+        "left. Level flight, calm air; no allowance for taxi, climb or descent.",
+    ] + [f"{code}: {LIMIT_TEXT[flag]}." for flag, code in LIMIT_CODE.items() if used & flag]
+    columns = (("PA", la, "right"), ("power", "%", "right"), ("TAS", ls, "right"),
+               ("CAS", ls, "right"), flow_col, ("endur.\ntotal", "h:mm", "right"),
+               ("endur.\nto res.", "h:mm", "right"), ("range\ntotal", ld, "right"),
+               ("range\nto res.", ld, "right"), ("status", "", "left"))
+    if not used:  # every row flyable: no status column
+        columns, rows = columns[:-1], [r[:-1] for r in rows]
+    cruise = CardTable("Cruise by altitude and power setting", columns, tuple(rows),
+                       tuple(groups), tuple(notes))
+
+    # Table 2: best speeds by altitude.
+    air = sched.air
+    v_r, v_e = sched.tas["range"], sched.tas["endurance"]
+    cas_r = cas_from_tas(v_r, air.pressure, air.speed_of_sound)
+    cas_e = cas_from_tas(v_e, air.pressure, air.speed_of_sound)
+    pts = best.points
+    e_flow = (pts.fuel_volume_flow if fuel_kind else pts.store_flow) * fflow
+    speed_rows = []
+    for i in range(n_alt):
+        if not sched.feasible[i]:
+            held = "not flyable: " + describe(int(sched.infeasible[i]))
+        else:
+            texts = {"range": describe(int(sched.binding["range"][i])),
+                     "endur.": describe(int(sched.binding["endurance"][i]))}
+            if texts["range"] == texts["endur."]:
+                held = "-" if texts["range"] == "none" else f"both: {texts['range']}"
+            else:
+                held = "; ".join(f"{k}: {t}" for k, t in texts.items() if t != "none")
+        speed_rows.append((
+            f"{h[i] * fa:.0f}", f"{air.temperature[i] - T_ZERO_C:.0f}",
+            _cell(v_r[i] * fs, "{:.0f}"), _cell(cas_r[i] * fs, "{:.0f}"),
+            _cell(v_e[i] * fs, "{:.0f}"), _cell(cas_e[i] * fs, "{:.0f}"),
+            _cell(pts.power_fraction[i] * 100 if sched.feasible[i] else math.nan, "{:.0f}"),
+            _cell(e_flow[i] if sched.feasible[i] else math.nan, flow_fmt), held))
+    speeds = CardTable(
+        "Best-range and best-endurance speeds (calm air)",
+        (("PA", la, "right"), ("OAT", "degC", "right"), ("best\nrange\nTAS", ls, "right"),
+         ("best\nrange\nCAS", ls, "right"), ("best\nendur.\nTAS", ls, "right"),
+         ("best\nendur.\nCAS", ls, "right"), ("best\nendur.\npower", "%", "right"),
+         ("best\nendur.\n" + (flow_col[0].replace("\n", " ") if fuel_kind
+                                else flow_col[0]), lflow, "right"),
+         ("held by", "", "left")),
+        tuple(speed_rows), tuple(range(n_alt)),
+        (f"held by: the constraint that sets the best-range and best-endurance speed (stall "
+         f"margin: {stall_margin:g} x stall speed, common practice).",))
+
+    def ceiling_text(value, name):
+        if math.isfinite(value):
+            return f"{value * fa:.0f} {la}"
+        if f"{name} ceiling below sea level" in ceil.note:
+            return "below sea level"
+        return f"above {CEILING_SEARCH_TOP * fa:.0f} {la} (not searched higher)"
+
+    ceiling_line = (f"Absolute ceiling {ceiling_text(ceil.absolute, 'absolute')}, service "
+                    f"ceiling {ceiling_text(ceil.service, 'service')} (100 ft/min climb "
+                    f"left); pressure altitude, at this mass and ISA {dev:+.0f} K.")
+    fm, lm = display("mass", units)
+    meta = tuple(airframe_lines(airframe)) + (
+        f"Holds for: mass {table.mass * fm:.1f} {lm}; {store_text(airframe, store, units)}; "
+        f"ISA {dev:+.0f} K; altitudes are pressure altitudes (PA); calm air.",
+        f"Made {date.today().isoformat()} by cruiseplan {__version__}.",
+    )
+    blocks = (cruise, speeds, CardText("Ceilings and reserve", (ceiling_line, reserve_line)))
+    return CardContent(f"Cruise card \u2014 {airframe.name}", meta, blocks, tuple(CAUTIONS),
+                       CAUTION_LINE, float(amount))
+
+
+def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
+                payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
+                stall_margin: float = DEFAULT_STALL_MARGIN):
+    """The cruise card as markdown and as a one-page figure.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    altitudes, power_settings, mass, fuel, payload, isa_dev, reserve, units, stall_margin
+        As in :func:`card_content`.
+
+    Returns
+    -------
+    markdown : str
+        The card in markdown.
+    figure : matplotlib.figure.Figure
+        The same card on one portrait page (A5, or A4 when A5 is too small); save it with
+        :func:`cruiseplan.plots.figure_bytes`.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.5, 5.7, 5.11.
+    """
+    from .plots import card_figure
+
+    content = card_content(airframe, altitudes=altitudes, power_settings=power_settings,
+                           mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,
+                           reserve=reserve, units=units, stall_margin=stall_margin)
+    return content.markdown(), card_figure(content)

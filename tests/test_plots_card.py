@@ -1,0 +1,328 @@
+"""Plots, the printed cruise card and their CLI commands.
+
+Figures are checked for what a crew needs from them (files made, one page, the cautions and
+the same figures as the tables, legible font sizes, limit reasons written in the plot), not
+pixel by pixel. Grids are small so the file runs in a few seconds.
+"""
+
+from __future__ import annotations
+
+import re
+import subprocess
+import sys
+
+import numpy as np
+import pytest
+from matplotlib.text import Text
+
+import cruiseplan as cp
+from cruiseplan import card, cli, plots
+from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.optimise import best_cruise
+from cruiseplan.units import conversion_factor
+
+FT = 0.3048
+KT = conversion_factor("kt", "m/s")
+
+
+def squash(text: str) -> str:
+    """Whitespace collapsed to single spaces (PDF text breaks lines where it wraps)."""
+    return " ".join(text.split())
+
+
+def run(argv, capsys):
+    rc = cli.main(argv)
+    out, err = capsys.readouterr()
+    return rc, out, err
+
+
+def pdf_pages(path):
+    from pypdf import PdfReader
+
+    return PdfReader(str(path)).pages
+
+
+# --- plot files ----------------------------------------------------------------------------
+
+PLOT_CALLS = {
+    "map": ["--altitudes", "0:8000ft:2000ft", "--speeds", "55:125kt:5kt"],
+    "power": ["--altitudes", "0,8000ft", "--speeds", "55:125kt:5kt"],
+    "altitude": ["--altitudes", "0:8000ft:2000ft", "--wind", "270/25@0ft,250/40@8000ft",
+                 "--course", "260"],
+}
+MAGIC = {"png": b"\x89PNG\r\n\x1a\n", "pdf": b"%PDF-"}
+
+
+@pytest.mark.parametrize("ext", ["png", "pdf"])
+@pytest.mark.parametrize("kind", sorted(PLOT_CALLS))
+def test_plot_files_are_made(capsys, tmp_path, kind, ext):
+    out = tmp_path / f"{kind}.{ext}"
+    rc, stdout, err = run(["plot", "demo-trainer", "--kind", kind, "-o", str(out)]
+                          + PLOT_CALLS[kind], capsys)
+    assert (rc, err) == (0, "")
+    assert stdout == f"wrote {out}\n"
+    data = out.read_bytes()
+    assert data.startswith(MAGIC[ext]) and len(data) > 10_000
+    if ext == "pdf":
+        assert len(pdf_pages(out)) == 1
+    assert sorted(p.name for p in tmp_path.iterdir()) == [out.name]  # no temporary left
+
+
+def test_map_in_wind_for_a_drone(capsys, tmp_path):
+    out = tmp_path / "map.png"
+    rc, _, err = run(["plot", "demo-survey-drone", "-o", str(out), "--altitudes",
+                      "0:400m:100m", "--wind", "270/8m/s@0m,250/12m/s@400m", "--course", "90"],
+                     capsys)
+    assert (rc, err) == (0, "")
+    assert out.read_bytes().startswith(MAGIC["png"])
+
+
+# --- what the figures say ------------------------------------------------------------------
+
+@pytest.fixture(scope="module")
+def trainer_map():
+    af = cp.load_airframe("demo-trainer")
+    h = np.arange(0.0, 8001.0, 1000.0) * FT
+    grid = cp.cruise_grid(af, h, np.arange(50.0, 131.0, 4.0) * KT)
+    return af, grid, plots.specific_range_map(af, grid, best_cruise(af, h))
+
+
+def figure_texts(fig):
+    return [t for t in fig.findobj(Text) if t.get_visible() and t.get_text().strip()]
+
+
+def test_map_writes_each_limit_reason_inside_the_plot(trainer_map):
+    af, grid, fig = trainer_map
+    ax = fig.axes[0]
+    in_axes = [squash(t.get_text()) for t in ax.texts]
+    # This grid runs from below the stall to beyond full throttle: both limits show.
+    assert np.any(grid.limits & cp.Limit.STALL) and np.any(grid.limits & cp.Limit.POWER)
+    assert "STALL: below the stall margin" in in_axes
+    assert "POWER: power required exceeds power available" in in_axes
+    reasons = [t for t in ax.texts if t.get_text().startswith(("STALL", "POWER"))]
+    assert len(reasons) == 2
+    for t in reasons:  # placed in axes fractions, inside the frame
+        x, y = t.get_position()
+        assert t.get_transform() == ax.transAxes
+        assert 0.0 < x < 1.0 and 0.0 < y < 1.0
+    labels = [h.get_label() for h in ax.get_legend().legend_handles]
+    assert any(lab.startswith("best-range TAS") for lab in labels)
+    assert any(lab.startswith("best-endurance TAS") for lab in labels)
+    assert ax.get_xlabel() == "true airspeed, TAS [kt]"
+    assert ax.get_ylabel() == "pressure altitude [ft]"
+    assert fig.axes[1].get_ylabel() == "air specific range [nm/US gal]"
+
+
+def test_every_figure_is_legible_and_carries_the_caution(trainer_map, trainer):
+    af, _, fig_map = trainer_map
+    h = np.array([0.0, 4000.0, 8000.0]) * FT
+    best = best_cruise(af, h)
+    figs = [fig_map, plots.power_curves(trainer, h, tas=np.linspace(25.0, 65.0, 30)),
+            plots.altitude_profile(trainer, best, best_cruise(af, h, headwind=10.0),
+                                   wind_text="headwind 20 kt")]
+    for fig in figs:
+        texts = figure_texts(fig)
+        assert min(t.get_fontsize() for t in texts) >= plots.MIN_FONT
+        assert card.CAUTION_LINE in [t.get_text() for t in texts]
+        for ax in fig.axes:
+            if ax.get_xlabel():  # every labelled axis names its unit in brackets
+                assert re.search(r"\[.+\]$", ax.get_xlabel())
+                assert not ax.get_ylabel() or re.search(r"\[.+\]$", ax.get_ylabel())
+
+
+def test_power_curves_mark_min_power_and_best_lift_to_drag(trainer):
+    h = np.array([0.0, 2000.0])
+    fig = plots.power_curves(trainer, h, tas=np.linspace(25.0, 65.0, 30), units="si")
+    ax = fig.axes[0]
+    assert ax.get_ylabel() == "shaft power [kW]"
+    # Each altitude has its own colour, line style and marker (readable in grey).
+    curves = [ln for ln in ax.lines if ln.get_label().startswith("required at")]
+    assert [ln.get_label() for ln in curves] == ["required at 0 m", "required at 2000 m"]
+    styles = {(ln.get_color(), ln.get_linestyle(), ln.get_marker()) for ln in curves}
+    assert len({s[1] for s in styles}) == len({s[2] for s in styles}) == 2
+    # The (L/D)max mark sits at the minimum of drag = P eta / V on the plotted curve.
+    air = cp.air_state(h)
+    v_ld = plots.min_drag_speed(trainer, trainer.loading().mass, air)
+    v = np.linspace(20.0, 70.0, 5001)
+    drag = cp.cruise_points(trainer, trainer.loading().mass, air.column(), v[None, :],
+                            1.0).drag
+    np.testing.assert_allclose(v_ld, v[np.argmin(drag, axis=1)], atol=0.02)
+    hexagons = [ln for ln in ax.lines if ln.get_marker() == "h" and ln.get_label()[0] == "_"]
+    np.testing.assert_allclose(sorted(ln.get_xdata()[0] for ln in hexagons),
+                               v_ld * conversion_factor("m/s", "km/h"))
+
+
+def test_plot_function_errors(trainer):
+    grid = cp.cruise_grid(trainer, [0.0], [40.0, 50.0])
+    with pytest.raises(CruiseplanError, match=r"at least 2 altitudes x 2 speeds, got shape "
+                                              r"\(1, 2\)"):
+        plots.specific_range_map(trainer, grid)
+    with pytest.raises(CruiseplanError, match="shows 1 to 7 altitudes, got 8"):
+        plots.power_curves(trainer, np.arange(8) * 300.0)
+    fig = plots.power_curves(trainer, [0.0], tas=[30.0, 40.0, 50.0])
+    with pytest.raises(CruiseplanError, match=r"cannot draw 'plot\.svg': the format must "
+                                              "be png or pdf"):
+        plots.figure_bytes(fig, "plot.svg")
+    assert plots.figure_bytes(fig, "out.PDF").startswith(MAGIC["pdf"])
+
+
+# --- the cruise card ------------------------------------------------------------------------
+
+CARD_ARGS = ["--altitudes", "0,4000,8000ft", "--power", "55,75", "--isa-dev", "10",
+             "--reserve", "30min"]
+
+
+@pytest.fixture(scope="module")
+def trainer_card(tmp_path_factory):
+    folder = tmp_path_factory.mktemp("card")
+    out = folder / "card.pdf"
+    rc = cli.main(["card", "demo-trainer", "-o", str(out)] + CARD_ARGS)
+    assert rc == 0
+    pages = pdf_pages(out)
+    return folder, out, pages, (folder / "card.md").read_text(encoding="utf-8")
+
+
+def test_card_is_one_kneeboard_page(trainer_card):
+    folder, out, pages, _ = trainer_card
+    assert sorted(p.name for p in folder.iterdir()) == ["card.md", "card.pdf"]
+    assert len(pages) == 1
+    width, height = (float(x) for x in pages[0].mediabox[2:])
+    assert (round(width), round(height)) == (420, 595)  # A5 portrait [pt]
+    sizes = []
+    pages[0].extract_text(visitor_text=lambda text, cm, tm, font, size:
+                          sizes.append(size * tm[0]) if text.strip() else None)
+    assert sizes and min(sizes) >= 7.0
+
+
+def test_card_text_holds_cautions_and_table_values(trainer_card, trainer):
+    _, _, pages, markdown = trainer_card
+    text = squash(pages[0].extract_text())
+    for caution in cp.CAUTIONS:
+        assert caution in text
+        assert f"- {caution}" in markdown
+    # TAS and CAS at 4000 ft, 55 % from the public API, formatted as the card prints them.
+    pts = cp.power_setting_table(trainer, np.array([0.0, 4000.0, 8000.0]) * FT, [0.55, 0.75],
+                                 isa_dev=10.0)
+    tas, cas = pts.tas[1, 0] / KT, pts.cas()[1, 0] / KT
+    flow = pts.fuel_volume_flow[1, 0] * conversion_factor("m^3/s", "gallon/h")
+    row = f"4000 55 {tas:.0f} {cas:.0f} {flow:.1f}"
+    assert row in text
+    assert f"| {row.replace(' ', ' | ')} |" in markdown
+    # At 8000 ft on this ISA +10 K day full throttle gives less than 75 %: flagged.
+    assert "8000 75 - - - - - - - POWER" in text
+    assert "| 8000 | 75 | - | - | - | - | - | - | - | POWER |" in markdown
+    for words in ("sha256 7859130995a9d6e4", "ISA +10 K", "Absolute ceiling",
+                  "Reserve kept: 30 min at best-endurance power", "local rules decide"):
+        assert words in text and words in markdown
+
+
+def test_markdown_twin_says_what_the_page_says(trainer_card):
+    _, _, pages, markdown = trainer_card
+    text = squash(pages[0].extract_text())
+    rows = [line for line in markdown.splitlines() if re.match(r"^\| [-\d]", line)]
+    assert len(rows) == 6 + 3  # 3 altitudes x 2 settings, and 3 best-speed rows
+    for line in rows:
+        assert " ".join(c.strip() for c in line.strip("|").split("|")) in text
+    for line in markdown.splitlines():
+        if line.startswith(("- ", "## ")):
+            assert squash(line[2:].lstrip("# ")) in text
+
+
+def test_card_reserves(trainer, drone):
+    h = np.array([0.0, 4000.0]) * FT
+    # Piston default: 45 min at best-endurance power at the card's lowest altitude.
+    content = card.card_content(trainer, altitudes=h, power_settings=[0.65])
+    end = best_cruise(trainer, h, objective="endurance").points
+    assert content.reserve == pytest.approx(45 * 60 * end.store_flow[0], rel=1e-9)
+    assert "conservative default; local rules decide" in content.markdown()
+    # Range to reserve keeps that share of the fuel unburnt.
+    pts = cp.power_setting_table(trainer, h, [0.65])
+    keep = 1.0 - content.reserve / pts.store
+    row = content.blocks[0].rows[0]
+    assert row[-1] == f"{pts.range_air[0, 0] * keep / 1852.0:.0f}"
+    # Electric default: 20 % of the usable energy on board; watts and Wh, not fuel.
+    e = card.card_content(drone, altitudes=[0.0, 100.0], power_settings=[0.3])
+    assert e.reserve == pytest.approx(0.2 * drone.propulsion.battery_energy)
+    md = e.markdown()
+    assert "battery power [W]" in md and "= 120 Wh" in md and "fuel" not in md
+
+
+@pytest.mark.parametrize("text, kind, value", [
+    ("30min", "time", 1800.0),
+    ("1 h", "time", 3600.0),
+    ("25%", "share", 0.25),
+    ("10L", "amount", 10e-3 * 720.0),
+    ("7 kg", "amount", 7.0),
+])
+def test_parse_reserve(trainer, text, kind, value):
+    r = card.parse_reserve(trainer, text)
+    assert (r.kind, r.text) == (kind, text)
+    assert r.value == pytest.approx(value)
+
+
+def test_parse_reserve_errors(trainer, drone):
+    assert card.parse_reserve(drone, "120Wh").value == pytest.approx(432_000.0)
+    with pytest.raises(UnitError, match=r"'30' needs a unit: a time \('30min'\)"):
+        card.parse_reserve(trainer, "30")
+    with pytest.raises(UnitError, match=r"'150%' must be a share between 0 and 100 %"):
+        card.parse_reserve(trainer, "150%")
+    with pytest.raises(UnitError, match=r"'5 kt' is neither a time .* an amount "
+                                        r"\('10L' or '7kg'\)"):
+        card.parse_reserve(trainer, "5 kt")
+    with pytest.raises(UnitError, match=r"'10L' is neither .* amount \('120Wh'\)"):
+        card.parse_reserve(drone, "10L")
+    with pytest.raises(CruiseplanError, match=r"reserve 52\.8 US gal \(317\.5 lb\) is not "
+                                              r"less than the fuel on board, 26\.4 US gal"):
+        card.card_content(trainer, reserve="200L")
+
+
+def test_card_too_long_for_one_page(trainer):
+    content = card.card_content(trainer, altitudes=np.arange(0.0, 3001.0, 150.0),
+                                power_settings=[0.5, 0.6, 0.7])
+    with pytest.raises(CruiseplanError, match="card's 84 table rows do not fit one A4 page"):
+        plots.card_figure(content)
+
+
+# --- bad calls leave no file ----------------------------------------------------------------
+
+@pytest.mark.parametrize("argv, message", [
+    (["plot", "demo-trainer", "-o", "{d}/out.svg"],
+     "--output {d}/out.svg: the file must end in .png or .pdf"),
+    (["plot", "demo-trainer", "-o", "{d}/out.png", "--altitudes", "high"],
+     "--altitudes: cannot read 'high'"),
+    (["plot", "demo-trainer", "--kind", "power", "-o", "{d}/out.png", "--headwind", "10"],
+     "wind does not change power curves"),
+    (["plot", "demo-trainer", "-o", "{d}/out.png", "--wind", "270/20@0ft"],
+     "--wind needs --course"),
+    (["plot", "demo-trainer", "-o", "{d}/out.png", "--speeds", "90,80kt"],
+     "must be at least two increasing positive speeds"),
+    (["card", "demo-trainer", "-o", "{d}/out.png"],
+     "--output {d}/out.png: the file must end in .pdf"),
+    (["card", "demo-trainer", "-o", "{d}/out.pdf", "--reserve", "200L"],
+     "is not less than the fuel on board"),
+    (["card", "demo-trainer", "-o", "{d}/out.pdf", "--power", "55,120"],
+     "--power: '55,120' must be percentages of rated power"),
+    (["card", "demo-trainer", "-o", "{d}/out.pdf", "--altitudes", "0:30000ft:1000ft"],
+     "do not fit one A4 page"),
+])
+def test_bad_calls_exit_2_and_leave_no_file(capsys, tmp_path, argv, message):
+    argv = [a.format(d=tmp_path) for a in argv]
+    rc, out, err = run(argv, capsys)
+    assert rc == cli.EXIT_BAD_INPUT and out == ""
+    assert err.startswith("cruiseplan: error: ") and err.count("\n") == 1
+    assert message.format(d=tmp_path) in err
+    assert list(tmp_path.iterdir()) == []
+
+
+# --- matplotlib stays out of everything else ------------------------------------------------
+
+def test_matplotlib_is_imported_only_by_the_figure_commands():
+    code = ("import sys, io, contextlib; import cruiseplan\n"
+            "before = 'matplotlib' in sys.modules\n"
+            "import cruiseplan.cli\n"
+            "with contextlib.redirect_stdout(io.StringIO()):\n"
+            "    cruiseplan.cli.main(['table', 'demo-trainer'])\n"
+            "print(before, 'matplotlib' in sys.modules, 'cruiseplan.plots' in sys.modules)")
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                          check=True)
+    assert done.stdout.split() == ["False", "False", "False"]
