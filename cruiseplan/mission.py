@@ -44,7 +44,7 @@ import numpy as np
 from .aerodynamics import speed_for_lift_coefficient
 from .atmosphere import air_state
 from .constants import G0
-from .optimise import speed_schedule
+from .optimise import objective_speed, speed_schedule
 from .performance import DEFAULT_STALL_MARGIN, _shaft_power
 from .winds import WindProfile
 
@@ -271,6 +271,10 @@ class _Flight:
         self.dev = mission.isa_dev
         self.margin = mission.stall_margin
         self.burns_mass = self.prop.store_name == "fuel"
+        load = self.af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
+        # Past an empty tank the plan goes on counting the fuel it would need (to say by
+        # how much it falls short), but the mass stops at the zero-fuel mass.
+        self.zero_fuel_mass = load.mass - load.store if self.burns_mass else load.mass
 
     def air(self, h):
         return air_state(np.asarray(h, dtype=float), self.dev)
@@ -282,9 +286,12 @@ class _Flight:
         return self.prop.store_rate(shaft)
 
     @staticmethod
-    def ground(v, leg, h, gamma_rate=0.0):
-        """Ground speed and heading for TAS ``v`` (horizontal part when climbing)."""
-        head, cross = leg.wind.components(leg.course, h)
+    def ground(v, leg, h, gamma_rate=0.0, wind=None):
+        """Ground speed and heading for TAS ``v`` (horizontal part when climbing).
+
+        ``wind`` may carry the (headwind, crosswind) already found at ``h``.
+        """
+        head, cross = leg.wind.components(leg.course, h) if wind is None else wind
         vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
         with np.errstate(invalid="ignore"):
             wca = np.arcsin(np.clip(cross / vh, -1.0, 1.0))
@@ -293,63 +300,66 @@ class _Flight:
         return gs, heading, np.abs(cross) < vh
 
 
-def _vertical(fl: _Flight, leg, h0, h1, m0, v_eas, profile, climb: bool):
+def _vertical(fl: _Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
     """Climb or descend from h0 to h1 (arrays over candidates), integrated in steps.
 
-    Returns a dict of arrays: time, distance, used, mass_end, ok, worst (lowest climb rate
-    or the altitude where the climb failed), tas (mean), gs (mean), heading, power (mean
-    fraction of rated).
+    Each candidate climbs (h1 > h0) at the climb EAS ``v_climb`` and climb power, or
+    descends at the set rate and the EAS ``v_descent``; both kinds in one pass.
+
+    Returns a dict of arrays: time, distance, used, mass_end, ok (the climb rate held),
+    fail_at (altitude where it did not), tas, gs and power (time means), heading.
     """
     h0, h1, m = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float),
                                     np.asarray(m0, float))
     m = m.copy()
     dh = (h1 - h0) / CLIMB_STEPS
-    t = np.zeros_like(h0)
-    x = np.zeros_like(h0)
-    used = np.zeros_like(h0)
+    zero = np.zeros_like(h0)
+    t, x, used, tas_sum, gs_sum, pw_sum, heading = (zero.copy() for _ in range(7))
     ok = np.ones(h0.shape, dtype=bool)
     fail_at = np.full(h0.shape, np.nan)
-    tas_sum = np.zeros_like(h0)
-    gs_sum = np.zeros_like(h0)
-    pw_sum = np.zeros_like(h0)
-    heading = np.zeros_like(h0)
     moving = np.abs(dh) > 0
-    # The atmosphere once for every step of every candidate.
+    if not np.any(moving):
+        return dict(time=zero, distance=zero, used=zero, mass_end=m, ok=ok, fail_at=fail_at,
+                    tas=fail_at, gs=fail_at, heading=zero, power=fail_at)
+    climbing = dh > 0
+    v_eas = np.where(climbing, v_climb, v_descent)
+    # The atmosphere and the wind once for every step of every candidate.
     steps = (np.arange(CLIMB_STEPS) + 0.5).reshape((-1,) + (1,) * h0.ndim)
     h_steps = h0 + steps * dh
     air_steps = fl.air(h_steps)
+    head_steps, cross_steps = leg.wind.components(leg.course, h_steps)
+    idle = profile.idle_power * fl.prop.rated_power
     for j in range(CLIMB_STEPS):
-        hm = h_steps[j]
         air = air_steps.row(j)
         v = v_eas / np.sqrt(air.sigma)
         eta = fl.prop.propeller(v)
         p_level = fl.shaft(m, air, v)
         weight = m * G0
-        if climb:
-            p = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
-            roc = eta * (p - p_level) / weight
-            if profile.climb_rate is not None:
-                capped = roc > profile.climb_rate
-                roc = np.where(capped, profile.climb_rate, roc)
-                p = np.where(capped, p_level + weight * roc / eta, p)
-            # The climb-rate formula assumes a shallow climb; keep it below 0.9 x TAS.
-            roc = np.minimum(roc, 0.9 * v)
-            bad = moving & (roc < MIN_CLIMB_RATE)
-            fail_at = np.where(bad & ok, hm, fail_at)
-            ok &= ~bad
-            vz = np.where(bad, MIN_CLIMB_RATE, roc)
-        else:
-            vz = np.full(h0.shape, profile.descent_rate)
-            p = np.maximum(p_level - weight * vz / eta, profile.idle_power * fl.prop.rated_power)
+        # Climb: set power, rate from the excess (capped by a set rate, and kept below
+        # 0.9 x TAS where the shallow-climb formula holds).
+        p_up = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
+        roc = eta * (p_up - p_level) / weight
+        if profile.climb_rate is not None:
+            capped = roc > profile.climb_rate
+            roc = np.where(capped, profile.climb_rate, roc)
+            p_up = np.where(capped, p_level + weight * roc / eta, p_up)
+        roc = np.minimum(roc, 0.9 * v)
+        bad = moving & climbing & (roc < MIN_CLIMB_RATE)
+        fail_at = np.where(bad & ok, h_steps[j], fail_at)
+        ok &= ~bad
+        # Descent: the set rate, at the power that gives it, never below idle.
+        p_down = np.maximum(p_level - weight * profile.descent_rate / eta, idle)
+        vz = np.where(climbing, np.where(bad, MIN_CLIMB_RATE, roc), profile.descent_rate)
+        p = np.where(climbing, p_up, p_down)
         dt = np.where(moving, np.abs(dh) / vz, 0.0)
-        gs, heading, _ = fl.ground(v, leg, hm, vz)
-        # Candidates that do not move here contribute nothing (not NaN x 0).
+        gs, heading, _ = fl.ground(v, leg, h_steps[j], vz, (head_steps[j], cross_steps[j]))
+        # Candidates that do not move contribute nothing (not NaN x 0).
         burn = np.where(moving, fl.rate(p) * dt, 0.0)
         t += dt
         x += np.where(moving, gs * dt, 0.0)
         used += burn
         if fl.burns_mass:
-            m -= burn
+            m = np.maximum(m - burn, fl.zero_fuel_mass)
         tas_sum += np.where(moving, v * dt, 0.0)
         gs_sum += np.where(moving, gs * dt, 0.0)
         pw_sum += np.where(moving, p / fl.prop.rated_power * dt, 0.0)
@@ -360,24 +370,29 @@ def _vertical(fl: _Flight, leg, h0, h1, m0, v_eas, profile, climb: bool):
                     power=mean(pw_sum))
 
 
-def _cruise(fl: _Flight, leg, h, m0, store0, distance, v0):
+def _cruise(fl: _Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
     """Cruise at altitudes ``h`` over ``distance`` (arrays over candidates) by RK4.
 
-    ``v0`` is the TAS at the start; with ``leg.tas`` None the lift coefficient is held
-    (TAS falls as sqrt(mass)), else the TAS is held.
+    With ``leg.tas`` None the lift coefficient of TAS ``v_ref`` at mass ``m_ref`` is held
+    (TAS goes as sqrt(mass)); else the leg's TAS is held. The cruise starts at mass
+    ``m0``. ``air`` may carry the air at ``h``.
     """
-    air = fl.air(h)
+    air = fl.air(h) if air is None else air
+    wind = leg.wind.components(leg.course, h)
     m0 = np.asarray(m0, dtype=float)
     hold_cl = leg.tas is None
 
     def speed(m):
-        return v0 * np.sqrt(m / m0) if hold_cl else v0
+        return v_ref * np.sqrt(m / m_ref) if hold_cl else v_ref
+
+    v0 = speed(m0)
 
     def deriv(m):
         v = speed(m)
-        gs, _, _ = fl.ground(v, leg, h)
+        gs, _, _ = fl.ground(v, leg, h, wind=wind)
         r = fl.rate(fl.shaft(m, air, v))
-        return (-r / gs if fl.burns_mass else 0.0 * r), r / gs, 1.0 / gs
+        burning = fl.burns_mass & (m > fl.zero_fuel_mass)
+        return np.where(burning, -r / gs, 0.0), r / gs, 1.0 / gs
 
     n = CRUISE_STEPS
     dx = np.asarray(distance, dtype=float) / n
@@ -386,14 +401,15 @@ def _cruise(fl: _Flight, leg, h, m0, store0, distance, v0):
     t = np.zeros_like(dx)
     for _ in range(n):
         k1 = deriv(m)
-        k2 = deriv(m + 0.5 * dx * k1[0])
-        k3 = deriv(m + 0.5 * dx * k2[0])
-        k4 = deriv(m + dx * k3[0])
+        k2 = deriv(np.maximum(m + 0.5 * dx * k1[0], fl.zero_fuel_mass))
+        k3 = deriv(np.maximum(m + 0.5 * dx * k2[0], fl.zero_fuel_mass))
+        k4 = deriv(np.maximum(m + dx * k3[0], fl.zero_fuel_mass))
         for i, acc in ((1, used), (2, t)):
             acc += dx / 6.0 * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
-        m = m + dx / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0])
+        m = np.maximum(m + dx / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]),
+                       fl.zero_fuel_mass)
     v_end = speed(m)
-    gs0, heading, held = fl.ground(v0, leg, h)
+    gs0, heading, held = fl.ground(v0, leg, h, wind=wind)
     p0 = fl.shaft(m0, air, v0)
     p1 = fl.shaft(m, air, v_end)
     cl0 = 2 * m0 * G0 / (air.density * v0 * v0 * fl.af.wing_area)
@@ -406,17 +422,16 @@ def _cruise(fl: _Flight, leg, h, m0, store0, distance, v0):
                 wind_ok=held & (gs0 > 0), v_end=v_end)
 
 
-def _cruise_speed(fl: _Flight, leg, h, m, store):
+def _cruise_speed(fl: _Flight, leg, h, m, store, air=None):
     """TAS to start the cruise at: the leg's, or the objective's best (constrained)."""
     h = np.atleast_1d(np.asarray(h, dtype=float))
     if leg.tas is not None:
         return np.full(h.shape, leg.tas), np.ones(h.shape, dtype=bool)
-    air = fl.air(h)
+    air = fl.air(h) if air is None else air
     head, cross = leg.wind.components(leg.course, h)
-    s = speed_schedule(fl.af, m, air, store, headwind=head, crosswind=cross,
-                       stall_margin=fl.margin)
-    v = s.tas[leg.objective]
-    return np.where(s.feasible, v, s.tas_unconstrained[leg.objective]), s.feasible
+    # A planner needs the speed to 1e-6, not to the last digit.
+    return objective_speed(fl.af, m, air, store, leg.objective, headwind=head,
+                           crosswind=cross, stall_margin=fl.margin, xtol=1e-6)
 
 
 def climb_speed(mission: Mission) -> float:
@@ -439,29 +454,30 @@ def _leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates):
     """Evaluate a leg at candidate altitudes: transition, cruise, final descent."""
     prof = mission.profile
     H = np.asarray(candidates, dtype=float)
-    up = _vertical(fl, leg, h_now, np.maximum(H, h_now), m, v_climb, prof, climb=True)
-    v_cr, speed_ok = _cruise_speed(fl, leg, H, up["mass_end"], store)
     air_H = fl.air(H)
+    # Best (or set) speed at each candidate, at the leg's starting mass; a best speed is
+    # then flown at that lift coefficient.
+    v_cr, speed_ok = _cruise_speed(fl, leg, H, m, store, air_H)
     v_eas_cruise = v_cr * np.sqrt(air_H.sigma)
-    down = _vertical(fl, leg, np.maximum(H, h_now), H, up["mass_end"], v_eas_cruise, prof,
-                     climb=False)
-    m_cr = down["mass_end"]
-    # The final descent's distance is flown within the last leg (mass barely matters: use
-    # the mass at the start of the cruise, then recompute after the cruise).
+    trans = _vertical(fl, leg, h_now, H, m, v_climb, v_eas_cruise, prof)
+    m_cr = trans["mass_end"]
+    # The final descent's distance is flown within the last leg: estimate it from the mass
+    # at the start of the cruise, then integrate it after the cruise.
     if last:
-        fin0 = _vertical(fl, leg, H, prof.arrival_elevation, m_cr, v_eas_cruise, prof,
-                         climb=False)
+        fin0 = _vertical(fl, leg, H, prof.arrival_elevation, m_cr, v_climb, v_eas_cruise,
+                         prof)
         d_final = fin0["distance"]
     else:
         d_final = np.zeros_like(H)
-    d_cruise = leg.distance - up["distance"] - down["distance"] - d_final
+    d_cruise = leg.distance - trans["distance"] - d_final
     fits = d_cruise >= 0
-    cr = _cruise(fl, leg, H, m_cr, store, np.maximum(d_cruise, 0.0), v_cr)
+    cr = _cruise(fl, leg, H, m_cr, np.maximum(d_cruise, 0.0), v_cr, m, air_H)
+    # Same descent speed as the estimate, so that the leg's distances add up exactly.
     fin = _vertical(fl, leg, H, prof.arrival_elevation if last else H, cr["mass_end"],
-                    v_eas_cruise, prof, climb=False)
-    total = up["used"] + down["used"] + cr["used"] + fin["used"]
-    return dict(H=H, up=up, down=down, cruise=cr, final=fin, fits=fits, speed_ok=speed_ok,
-                total=total, time=up["time"] + down["time"] + cr["time"] + fin["time"])
+                    v_climb, v_eas_cruise, prof)
+    total = trans["used"] + cr["used"] + fin["used"]
+    return dict(H=H, trans=trans, cruise=cr, final=fin, fits=fits, speed_ok=speed_ok,
+                total=total, time=trans["time"] + cr["time"] + fin["time"])
 
 
 def ground_elevation(mission, leg) -> float:
@@ -487,7 +503,7 @@ def _caps(mission, leg):
 def _choose(options, lo, top):
     """Index of the candidate using the least store (ties: the quicker), or -1."""
     H = options["H"]
-    ok = (options["fits"] & options["up"]["ok"] & options["speed_ok"]
+    ok = (options["fits"] & options["trans"]["ok"] & options["speed_ok"]
           & options["cruise"]["power_ok"] & options["cruise"]["wind_ok"]
           & (H >= lo - 1e-6) & (H <= top + 1e-6))
     if not np.any(ok):
@@ -570,7 +586,7 @@ def plan_mission(mission: Mission) -> Plan:
         o = {k: (_pick(v, i) if isinstance(v, dict) else v[i]) for k, v in opts.items()}
         H = float(o["H"])
         leg_altitudes.append(H)
-        for kind, seg in (("climb" if H > h else "descent", o["up"] if H > h else o["down"]),
+        for kind, seg in (("climb" if H > h else "descent", o["trans"]),
                           ("cruise", o["cruise"]),
                           ("descent to arrival", o["final"])):
             if seg["time"] <= 0:
@@ -605,7 +621,7 @@ def _why_not(opts, leg, lo, top) -> str:
     parts = []
     if not np.any(opts["fits"]):
         parts.append("the leg is too short for the climb and descent")
-    if not np.any(opts["up"]["ok"]):
+    if not np.any(opts["trans"]["ok"]):
         parts.append("power insufficient to climb")
     if not np.any(opts["cruise"]["power_ok"]):
         parts.append("power insufficient to cruise")
@@ -630,9 +646,9 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
                    f"{mission.profile.min_clearance:.0f} m clearance over "
                    f"{ground_elevation(mission, leg):.0f} m "
                    f"ground")
-    if not opts["up"]["ok"][0]:
+    if not opts["trans"]["ok"][0]:
         out.append(f"power insufficient: leg {leg.name!r} cannot climb to {H:.0f} m (climb "
-                   f"rate gone at {opts['up']['fail_at'][0]:.0f} m)")
+                   f"rate gone at {opts['trans']['fail_at'][0]:.0f} m)")
     cr = opts["cruise"]
     if not cr["power_ok"][0] or not opts["speed_ok"][0]:
         out.append(f"power insufficient: leg {leg.name!r} cruise at {cr['tas'][0]:.1f} m/s "
@@ -665,14 +681,16 @@ def _reserve(fl: _Flight, mission: Mission, mass: float, leg_altitudes) -> tuple
         v = float(s.tas["endurance"][0]) if s.feasible[0] else float(
             s.tas_unconstrained["endurance"][0])
         required = float(fl.rate(fl.shaft(mass, air, v))[0]) * res.amount
-        text = f"{res.amount / 60:.0f} min at best-endurance speed at {h:.0f} m"
+        text = (f"{res.amount / 60:.0f} min at best-endurance speed at {h:.0f} m "
+                f"({h / FT:.0f} ft)")
     if res.alternate is not None:
         alt = res.alternate
         h = alt.altitude if alt.altitude is not None else (leg_altitudes[-1] if leg_altitudes
                                                            else 0.0)
         v0, _ = _cruise_speed(fl, alt, [h], mass, prop.store_capacity)
-        cr = _cruise(fl, alt, np.array([h]), np.array([mass]), prop.store_capacity,
-                     np.array([alt.distance]), v0)
+        cr = _cruise(fl, alt, np.array([h]), np.array([mass]), np.array([alt.distance]), v0,
+                     mass)
         required += float(cr["used"][0])
-        text += f" + alternate {alt.name!r} {alt.distance / 1852:.0f} nm"
+        text += (f" + alternate {alt.name!r} {alt.distance / 1000:.1f} km "
+                 f"({alt.distance / 1852:.1f} nm)")
     return float(required), text

@@ -43,7 +43,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from ._numerics import brent_minimise, illinois_root
+from ._numerics import brent_minimise, golden_minimise, illinois_root
 from .aerodynamics import ParabolicPolar, speed_for_lift_coefficient
 from .atmosphere import AirState, air_state, check_altitude
 from .constants import G0
@@ -171,6 +171,117 @@ def _window(airframe, mass, air, lo, hi, reserve_rate, shaft):
     return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), ok
 
 
+def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
+    """Best speeds before any constraint, for the objectives asked (economy needs range)."""
+    prop = airframe.propulsion
+    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
+    polar = airframe.polar
+    out = {}
+
+    def shaft(v):
+        return _shaft_power(airframe, mass, air, v)
+
+    def ground_range(v):
+        with np.errstate(invalid="ignore"):
+            gs = np.sqrt(v * v - cw * cw) - hw
+        return gs * prop.endurance(store, shaft(v))
+
+    # Brent's method needs fewer evaluations, golden section far fewer array operations
+    # per step: for a planner's modest tolerance golden section is the quicker.
+    search = golden_minimise if xtol >= 1e-7 else brent_minimise
+    if "range" in objectives or "economy" in objectives:
+        peukert = getattr(prop, "peukert_exponent", 1.0) != 1.0
+        if _closed_form_ok(airframe, hw, cw) and not peukert:
+            out["range"] = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
+                                                      np.sqrt(polar.cd0 / polar.k))
+        else:
+            out["range"] = search(lambda v: -ground_range(v), lo, hi, xtol_rel=xtol)
+    if "endurance" in objectives:
+        if _closed_form_ok(airframe, 0.0, 0.0):
+            out["endurance"] = speed_for_lift_coefficient(
+                mass, air.density, airframe.wing_area, np.sqrt(3.0 * polar.cd0 / polar.k))
+        else:
+            out["endurance"] = search(shaft, lo, hi, xtol_rel=xtol)
+    if "economy" in objectives:
+        best = ground_range(out["range"])
+        out["economy"] = illinois_root(lambda v: ECONOMY_FRACTION * best - ground_range(v),
+                                       out["range"], hi, xtol_rel=0.1 * xtol)
+    return out
+
+
+def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind=0.0,
+                    crosswind=0.0, stall_margin=DEFAULT_STALL_MARGIN, xtol=1e-10):
+    """Best TAS for one objective within the speed constraints, and whether it is flyable.
+
+    The quick path of :func:`speed_schedule` for planners: the free optimum is raised to
+    the stall-margin speed, and only where that needs more power than full throttle gives
+    is the full schedule (with its power window) computed.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float or array_like
+        Mass [kg].
+    air : AirState
+        One-dimensional air states.
+    store : float
+        Fuel [kg] or usable energy [J] on board.
+    objective : {"range", "endurance", "economy"}
+        What the speed is best for.
+    headwind, crosswind : array_like, optional
+        Wind components [m/s].
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-].
+    xtol : float, optional
+        Relative tolerance of the speed searches.
+
+    Returns
+    -------
+    tas : numpy.ndarray
+        TAS [m/s] (the free optimum where nothing is flyable).
+    feasible : numpy.ndarray
+        True where that speed is flyable.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.7.
+    """
+    shape = np.shape(air.density)
+    hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
+    cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
+    free = _free_speeds(airframe, mass, air, store, hw, cw, (objective,), xtol)[objective]
+    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v = np.maximum(free, stall_margin * v_s)
+    prop = airframe.propulsion
+    enough = _shaft_power(airframe, mass, air, v) <= prop.shaft_power_available(air.sigma)
+    feasible = np.ones(shape, dtype=bool)
+    if np.all(enough):
+        return v, feasible
+    # Short of power: above the minimum-power speed, power required rises with speed, so
+    # the best flyable speed is where it meets full throttle (if the minimum-power speed
+    # itself is flyable and above the stall margin).
+    short = ~enough
+    sub = AirState(*(np.broadcast_to(getattr(air, f), shape)[short] for f in
+                     AirState.__dataclass_fields__))
+    m_sub = np.broadcast_to(np.asarray(mass, dtype=float), shape)[short]
+    avail = prop.shaft_power_available(sub.sigma)
+
+    def deficit(x):
+        return _shaft_power(airframe, m_sub, sub, x) - avail
+
+    v_mp = _free_speeds(airframe, m_sub, sub, store, hw[short], cw[short],
+                        ("endurance",), xtol)["endurance"]
+    v_lo = np.maximum(v_mp, stall_margin * v_s[short] if np.ndim(v_s) else stall_margin * v_s)
+    ok = deficit(v_lo) <= 0
+    v_fit = illinois_root(deficit, v_lo, np.maximum(v[short], v_lo), xtol_rel=xtol)
+    v = v.copy()
+    v[short] = np.where(ok, v_fit, free[short])
+    feasible[short] = ok
+    return v, feasible
+
+
 def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crosswind=0.0,
                    stall_margin=DEFAULT_STALL_MARGIN, climb_reserve=0.0) -> SpeedSchedule:
     """Best-range, best-endurance and economy TAS at each altitude (SI core).
@@ -202,7 +313,6 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     .. [1] Anderson, *Aircraft Performance and Design*, eqs. 5.34, 5.54 (closed forms) and
        sec. 5.7 (range and endurance).
     """
-    prop = airframe.propulsion
     shape = np.shape(air.density)
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
@@ -212,29 +322,8 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     def shaft(v):
         return _shaft_power(airframe, mass, air, v)
 
-    def ground_speed(v):
-        with np.errstate(invalid="ignore"):
-            return np.sqrt(v * v - cw * cw) - hw
-
-    def ground_range(v):
-        return ground_speed(v) * prop.endurance(store, shaft(v))
-
-    peukert = getattr(prop, "peukert_exponent", 1.0) != 1.0
-    if _closed_form_ok(airframe, hw, cw) and not peukert:
-        polar = airframe.polar
-        v_range = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
-                                             np.sqrt(polar.cd0 / polar.k))
-    else:
-        v_range = brent_minimise(lambda v: -ground_range(v), lo, hi)
-    if _closed_form_ok(airframe, 0.0, 0.0):
-        polar = airframe.polar
-        v_end = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
-                                           np.sqrt(3.0 * polar.cd0 / polar.k))
-    else:
-        v_end = brent_minimise(shaft, lo, hi)
-    best = ground_range(v_range)
-    v_econ = illinois_root(lambda v: ECONOMY_FRACTION * best - ground_range(v),
-                               v_range, hi, xtol_rel=1e-11)
+    free = _free_speeds(airframe, mass, air, store, hw, cw, OBJECTIVES)
+    v_range, v_end, v_econ = free["range"], free["endurance"], free["economy"]
 
     # Windows: with and without the climb reserve, to tell which one binds.
     p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0, shaft)

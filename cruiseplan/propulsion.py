@@ -88,7 +88,12 @@ FUELS = {
 
 @dataclass(frozen=True)
 class PropellerEfficiency:
-    """Propeller efficiency, constant or tabulated against TAS (linear, clamped at the ends).
+    """Propeller efficiency, constant or tabulated against TAS.
+
+    A table is interpolated by a monotone cubic (Fritsch-Carlson), so the efficiency and
+    its slope are continuous, no overshoot appears between points, and optimum speeds do
+    not stick to the table's points as with straight-line interpolation; beyond the ends
+    the end values hold.
 
     Parameters
     ----------
@@ -96,10 +101,31 @@ class PropellerEfficiency:
         True airspeeds [m/s], increasing (one value for a constant efficiency).
     efficiency : tuple of float
         Efficiencies [-], in (0, 1].
+
+    References
+    ----------
+    .. [1] F. N. Fritsch and R. E. Carlson, "Monotone Piecewise Cubic Interpolation",
+       *SIAM J. Numer. Anal.* 17(2), 1980, pp. 238-246.
     """
 
     tas: tuple
     efficiency: tuple
+
+    def __post_init__(self):
+        if len(self.efficiency) > 1:
+            x = np.asarray(self.tas, dtype=float)
+            y = np.asarray(self.efficiency, dtype=float)
+            object.__setattr__(self, "_x", x)
+            object.__setattr__(self, "_y", y)
+            d = _monotone_slopes(x, y)
+            object.__setattr__(self, "_d", d)
+            # Per-interval polynomial in the local coordinate t in [0, 1], evaluated by
+            # Horner's rule: this is called thousands of times inside speed searches.
+            h = np.diff(x)
+            c0, c1 = y[:-1], h * d[:-1]
+            c2 = 3 * (y[1:] - y[:-1]) - h * (2 * d[:-1] + d[1:])
+            c3 = 2 * (y[:-1] - y[1:]) + h * (d[:-1] + d[1:])
+            object.__setattr__(self, "_poly", (c0, c1, c2, c3, 1.0 / h))
 
     @property
     def is_constant(self) -> bool:
@@ -110,7 +136,49 @@ class PropellerEfficiency:
         """Efficiency [-] at TAS [m/s]."""
         if self.is_constant:
             return self.efficiency[0]
-        return np.interp(tas, self.tas, self.efficiency)
+        x = self._x
+        c0, c1, c2, c3, inv_h = self._poly
+        v = np.minimum(np.maximum(tas, x[0]), x[-1])
+        i = np.minimum(np.searchsorted(x, v, side="right") - 1, x.size - 2)
+        t = (v - x[i]) * inv_h[i]
+        return ((c3[i] * t + c2[i]) * t + c1[i]) * t + c0[i]
+
+    def cubic(self, tas):
+        """The monotone cubic itself at TAS [m/s] (what the dense samples are taken of)."""
+        x, y, d = self._x, self._y, self._d
+        v = np.minimum(np.maximum(tas, x[0]), x[-1])
+        i = np.minimum(np.maximum(np.searchsorted(x, v) - 1, 0), x.size - 2)
+        x0, y0, y1 = x[i], y[i], y[i + 1]
+        h = x[i + 1] - x0
+        t = (v - x0) / h
+        t2 = t * t
+        t3 = t2 * t
+        return ((2 * t3 - 3 * t2 + 1) * y0 + (t3 - 2 * t2 + t) * h * d[i]
+                + (3 * t2 - 2 * t3) * y1 + (t3 - t2) * h * d[i + 1])
+
+
+def _monotone_slopes(x, y):
+    """Fritsch-Carlson end and interior slopes for a monotone cubic through (x, y)."""
+    h = np.diff(x)
+    delta = np.diff(y) / h
+    d = np.zeros_like(y)
+    if x.size == 2:
+        return np.full_like(y, delta[0])
+    # Interior: weighted harmonic mean where neighbouring secants agree in sign, else 0.
+    w1, w2 = 2 * h[1:] + h[:-1], h[1:] + 2 * h[:-1]
+    same = delta[:-1] * delta[1:] > 0
+    with np.errstate(divide="ignore", invalid="ignore"):
+        d[1:-1] = np.where(same, (w1 + w2) / (w1 / delta[:-1] + w2 / delta[1:]), 0.0)
+    # Ends: three-point formula, kept monotone.
+    for end, (h0, h1, d0, d1) in ((0, (h[0], h[1], delta[0], delta[1])),
+                                  (-1, (h[-1], h[-2], delta[-1], delta[-2]))):
+        slope = ((2 * h0 + h1) * d0 - h0 * d1) / (h0 + h1)
+        if np.sign(slope) != np.sign(d0):
+            slope = 0.0
+        elif np.sign(d0) != np.sign(d1) and abs(slope) > abs(3 * d0):
+            slope = 3 * d0
+        d[end] = slope
+    return d
 
 
 # --- Propulsion kinds ------------------------------------------------------------------

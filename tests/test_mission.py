@@ -364,3 +364,13 @@ def test_quantities_or_floats_give_the_same_plan(trainer):
     searched = replace(base, airframe=replace(trainer, propulsion=eff))
     # The closed-form and searched best-range speeds give the same fuel to 1e-6.
     assert plan_mission(searched).used == pytest.approx(plan_mission(base).used, rel=1e-6)
+
+
+def test_plan_cli_profile_plot(tmp_path, capsys):
+    png = tmp_path / "profile.png"
+    assert main(["plan", "demo-cross-country", "--plot", str(png)]) == 0
+    assert png.stat().st_size > 10_000 and png.read_bytes()[:4] == b"\x89PNG"
+    bad = tmp_path / "profile.svg"
+    assert main(["plan", "demo-cross-country", "--plot", str(bad)]) == 2
+    assert not bad.exists()
+    assert "must end in .png or .pdf" in capsys.readouterr().err
