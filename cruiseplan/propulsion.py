@@ -116,9 +116,7 @@ class PropellerEfficiency:
             x = np.asarray(self.tas, dtype=float)
             y = np.asarray(self.efficiency, dtype=float)
             object.__setattr__(self, "_x", x)
-            object.__setattr__(self, "_y", y)
             d = _monotone_slopes(x, y)
-            object.__setattr__(self, "_d", d)
             # Per-interval polynomial in the local coordinate t in [0, 1], evaluated by
             # Horner's rule: this is called thousands of times inside speed searches.
             h = np.diff(x)
@@ -142,19 +140,6 @@ class PropellerEfficiency:
         i = np.minimum(np.searchsorted(x, v, side="right") - 1, x.size - 2)
         t = (v - x[i]) * inv_h[i]
         return ((c3[i] * t + c2[i]) * t + c1[i]) * t + c0[i]
-
-    def cubic(self, tas):
-        """The monotone cubic itself at TAS [m/s] (what the dense samples are taken of)."""
-        x, y, d = self._x, self._y, self._d
-        v = np.minimum(np.maximum(tas, x[0]), x[-1])
-        i = np.minimum(np.maximum(np.searchsorted(x, v) - 1, 0), x.size - 2)
-        x0, y0, y1 = x[i], y[i], y[i + 1]
-        h = x[i + 1] - x0
-        t = (v - x0) / h
-        t2 = t * t
-        t3 = t2 * t
-        return ((2 * t3 - 3 * t2 + 1) * y0 + (t3 - 2 * t2 + t) * h * d[i]
-                + (3 * t2 - 2 * t3) * y1 + (t3 - t2) * h * d[i + 1])
 
 
 def _monotone_slopes(x, y):

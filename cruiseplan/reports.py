@@ -218,6 +218,10 @@ def write_bytes_atomic(path, data: bytes) -> None:
         raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
     fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
     try:
+        # mkstemp makes the file private (0600); give it the usual mode for new files.
+        umask = os.umask(0)
+        os.umask(umask)
+        os.fchmod(fd, 0o666 & ~umask)
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)
         os.replace(tmp, path)

@@ -127,7 +127,13 @@ def test_great_circle_against_geodesy_library(a, b):
 # --- NO-GO reasons -----------------------------------------------------------------------
 
 def test_no_go_fuel_below_reserve(trainer):
-    m = level_mission(trainer, 1000.0, 600 * NM, reserve=Reserve("time", 45 * 60.0))
+    # 97 % of the Breguet range on the whole tank: lands with fuel, but not 45 minutes.
+    pol, prop = trainer.polar, trainer.propulsion
+    load = trainer.loading()
+    ld = cp.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
+    full = (prop.propeller.efficiency[0] * ld / (prop.bsfc * 9.80665)
+            * np.log(load.mass / (load.mass - load.store)))
+    m = level_mission(trainer, 1000.0, 0.97 * full, reserve=Reserve("time", 45 * 60.0))
     plan = plan_mission(m)
     assert plan.verdict == "NO-GO" and plan.remaining > 0
     assert any(re.match(r"fuel below the reserve: \d+\.\d L at landing, \d+\.\d L required "
@@ -360,7 +366,8 @@ def test_plan_cli_bad_file_one_line_no_output(tmp_path, capsys):
 
 def test_quantities_or_floats_give_the_same_plan(trainer):
     base = level_mission(trainer, 1500.0, 100 * NM)
-    eff = replace(trainer.propulsion, propeller=PropellerEfficiency((5.0, 150.0), (0.78, 0.78)))
+    e = trainer.propulsion.propeller.efficiency[0]
+    eff = replace(trainer.propulsion, propeller=PropellerEfficiency((5.0, 150.0), (e, e)))
     searched = replace(base, airframe=replace(trainer, propulsion=eff))
     # The closed-form and searched best-range speeds give the same fuel to 1e-6.
     assert plan_mission(searched).used == pytest.approx(plan_mission(base).used, rel=1e-6)

@@ -33,7 +33,8 @@ def trainer():
 def trainer_searched(trainer):
     """The trainer with a two-point (but constant) efficiency table: the optimiser cannot
     use the closed form and must search."""
-    prop = replace(trainer.propulsion, propeller=PropellerEfficiency((5.0, 150.0), (0.78, 0.78)))
+    e = trainer.propulsion.propeller.efficiency[0]
+    prop = replace(trainer.propulsion, propeller=PropellerEfficiency((5.0, 150.0), (e, e)))
     return replace(trainer, propulsion=prop)
 
 

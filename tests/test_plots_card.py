@@ -211,7 +211,7 @@ def test_card_text_holds_cautions_and_table_values(trainer_card, trainer):
     # At 8000 ft on this ISA +10 K day full throttle gives less than 75 %: flagged.
     assert "8000 75 - - - - - - - POWER" in text
     assert "| 8000 | 75 | - | - | - | - | - | - | - | POWER |" in markdown
-    for words in ("sha256 7859130995a9d6e4", "ISA +10 K", "Absolute ceiling",
+    for words in (f"sha256 {trainer.checksum[:16]}", "ISA +10 K", "Absolute ceiling",
                   "Reserve kept: 30 min at best-endurance power", "local rules decide"):
         assert words in text and words in markdown
 
