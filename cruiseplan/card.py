@@ -41,13 +41,13 @@ from .performance import (
     DEFAULT_STALL_MARGIN,
     LIMIT_CODE,
     LIMIT_TEXT,
-    _store_si,
     explain,
     power_setting_table,
+    resolve_loading,
 )
 from .reports import display, hours_minutes
 from .tables import airframe_lines, store_text
-from .units import parse_quantity, to_si
+from .units import parse_quantity, temperature_difference, to_si
 
 #: Short caution in the footer of every card and figure.
 CAUTION_LINE = "Planning aid only \u2014 the flight manual and local rules come first"
@@ -287,10 +287,9 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     if isinstance(reserve, str):
         reserve = parse_reserve(airframe, reserve)
     reserve = reserve or default_reserve(airframe)
-    dev = to_si(isa_dev, "K", what="isa_dev")
-    load = dict(mass=None if mass is None else to_si(mass, "kg", what="mass"),
-                fuel=None if fuel is None else _store_si(airframe, fuel),
-                payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    dev = temperature_difference(isa_dev)
+    loading = resolve_loading(airframe, mass, fuel, payload)
+    load = dict(mass=loading.mass, fuel=loading.store)
 
     table = power_setting_table(airframe, h, frac, isa_dev=dev, stall_margin=stall_margin,
                                 **load)

@@ -34,6 +34,18 @@ def _add_output(p, formats=("text", "csv", "json", "markdown")):
                         "si for electric ones")
 
 
+def _add_loading(p):
+    """Add --weight | --fuel, --payload, --isa-dev and --stall-margin to a command."""
+    load = p.add_mutually_exclusive_group()
+    load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
+    load.add_argument("--fuel", help="fuel or energy on board: '80 L', '20 gal', '55 kg', "
+                                     "'450 Wh' or '80%%' of capacity (default full)")
+    p.add_argument("--payload", help="crew and payload, e.g. '170 kg' (default from file)")
+    p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
+    p.add_argument("--stall-margin", type=float, default=1.3,
+                   help="minimum TAS over stall speed (default 1.3)")
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``cruiseplan`` command."""
     parser = _Parser(prog="cruiseplan",
@@ -61,16 +73,9 @@ def build_parser() -> argparse.ArgumentParser:
     how = p.add_mutually_exclusive_group()
     how.add_argument("--speeds", help="true airspeeds, e.g. '90:130kt:10kt' or '20,25 m/s'")
     how.add_argument("--power", help="power settings in %% of rated power, e.g. '55,65,75'")
-    load = p.add_mutually_exclusive_group()
-    load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
-    load.add_argument("--fuel", help="fuel or energy on board: '80 L', '20 gal', '55 kg', "
-                                     "'450 Wh' or '80%%' of capacity (default full)")
-    p.add_argument("--payload", help="crew and payload, e.g. '170 kg' (default from file)")
-    p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
+    _add_loading(p)
     p.add_argument("--headwind", default="0",
                    help="headwind component, e.g. '20 kt' (negative: tailwind)")
-    p.add_argument("--stall-margin", type=float, default=1.3,
-                   help="minimum TAS over stall speed (default 1.3)")
     _add_output(p)
 
     p = sub.add_parser("best", help="best speed at each altitude and the best altitude")
@@ -91,13 +96,7 @@ def build_parser() -> argparse.ArgumentParser:
                                                     "route, e.g. '450m' (with --max-agl)")
     p.add_argument("--climb-reserve", default="0",
                    help="climb rate that must remain at cruise, e.g. '300ft/min'")
-    load = p.add_mutually_exclusive_group()
-    load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
-    load.add_argument("--fuel", help="fuel or energy on board (default full)")
-    p.add_argument("--payload", help="crew and payload (default from file)")
-    p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
-    p.add_argument("--stall-margin", type=float, default=1.3,
-                   help="minimum TAS over stall speed (default 1.3)")
+    _add_loading(p)
     _add_output(p, formats=("text", "json", "csv", "markdown"))
 
     p = sub.add_parser("plan", help="plan a mission file: segments, reserve, GO / NO-GO")
@@ -201,17 +200,10 @@ def cmd_table(args):
     alt_text = args.altitudes or ("0:400m:100m" if electric else "0:10000ft:2000ft")
     h = check_altitude(parse_range(alt_text, "m", default_unit="ft", what="--altitudes"),
                        "--altitudes")
-    if args.stall_margin < 1.0:
-        raise CruiseplanError(f"--stall-margin {args.stall_margin:g} must be at least 1")
     dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
     wind = parse_quantity(args.headwind, "m/s", default_unit="kt", what="--headwind")
-    mass = parse_quantity(args.weight, "kg", default_unit="lb", what="--weight") \
-        if args.weight else None
-    store = _parse_store(af, args.fuel) if args.fuel else None
-    payload = parse_quantity(args.payload, "kg", default_unit="kg", what="--payload") \
-        if args.payload else None
-    common = dict(mass=mass, fuel=store, payload=payload, isa_dev=dev, headwind=wind,
-                  stall_margin=args.stall_margin)
+    common = dict(isa_dev=dev, headwind=wind, stall_margin=args.stall_margin,
+                  **_loading_args(af, args))
     if args.speeds or (electric and not args.power):
         if args.speeds:
             v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
@@ -317,14 +309,7 @@ def _add_figure_commands(sub):
     def common(p, what):
         p.add_argument("airframe", help="bundled airframe name or path to an airframe TOML file")
         p.add_argument("--output", "-o", metavar="FILE", required=True, help=what)
-        load = p.add_mutually_exclusive_group()
-        load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
-        load.add_argument("--fuel", help="fuel or energy on board: '80 L', '20 gal', '55 kg', "
-                                         "'450 Wh' or '80%%' of capacity (default full)")
-        p.add_argument("--payload", help="crew and payload, e.g. '170 kg' (default from file)")
-        p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
-        p.add_argument("--stall-margin", type=float, default=1.3,
-                       help="minimum TAS over stall speed (default 1.3)")
+        _add_loading(p)
         p.add_argument("--units", choices=("aviation", "si"), default=None,
                        help="display units (default aviation for piston airframes, si for "
                             "electric ones)")

@@ -52,8 +52,8 @@ from .performance import (
     MACH_LIMIT,
     CruisePoints,
     _shaft_power,
-    _store_si,
     cruise_points,
+    resolve_loading,
 )
 from .units import temperature_difference, to_si
 
@@ -576,10 +576,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
     if wind is not None and course is None:
         raise CruiseplanError("a wind profile needs the true course to fly")
-    loading = airframe.loading(
-        mass=None if mass is None else to_si(mass, "kg", what="mass"),
-        store=None if fuel is None else _store_si(airframe, fuel),
-        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    loading = resolve_loading(airframe, mass, fuel, payload)
     air = air_state(h, temperature_difference(isa_dev))
     if wind is not None:
         hw, cw = wind.components(float(course), h)
@@ -688,10 +685,7 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.11 (absolute and service
        ceilings).
     """
-    loading = airframe.loading(
-        mass=None if mass is None else to_si(mass, "kg", what="mass"),
-        store=None if fuel is None else _store_si(airframe, fuel),
-        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    loading = resolve_loading(airframe, mass, fuel, payload)
     dev = temperature_difference(isa_dev)
     targets = np.array([0.0, float(service_rate)])
 

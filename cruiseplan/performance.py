@@ -340,22 +340,73 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     v = np.atleast_1d(to_si(tas, "m/s", what="tas"))
     if v.ndim != 1 or np.any(v <= 0):
         raise ValueError("tas must be a one-dimensional array of positive speeds")
-    loading = airframe.loading(
-        mass=None if mass is None else to_si(mass, "kg", what="mass"),
-        store=None if fuel is None else _store_si(airframe, fuel),
-        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    loading = resolve_loading(airframe, mass, fuel, payload)
     air, valid = _air_column(h, temperature_difference(isa_dev))
     wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
     return cruise_points(airframe, loading.mass, air, v[None, :], loading.store,
                          headwind=wind, stall_margin=stall_margin, valid_air=valid)
 
 
-def _store_si(airframe, fuel):
+def resolve_loading(airframe, mass=None, fuel=None, payload=None):
+    """Mass and fuel or energy on board from Quantities or SI floats (public API).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float or pint.Quantity, optional
+        Aircraft mass [kg].
+    fuel : float or pint.Quantity, optional
+        Fuel [kg] or usable energy [J] on board; full when neither is given.
+    payload : float or pint.Quantity, optional
+        Crew and payload [kg].
+
+    Returns
+    -------
+    Loading
+        See :meth:`cruiseplan.Airframe.loading`.
+    """
     unit = "kg" if airframe.propulsion.store_name == "fuel" else "J"
-    return to_si(fuel, unit, what=airframe.propulsion.store_name)
+    return airframe.loading(
+        mass=None if mass is None else to_si(mass, "kg", what="mass"),
+        store=None if fuel is None else to_si(fuel, unit, what=airframe.propulsion.store_name),
+        payload=None if payload is None else to_si(payload, "kg", what="payload"))
 
 
-def min_power_speed(airframe, mass, air: AirState, *, v_hi=None):
+def speed_for_min_drag(airframe, mass, air: AirState):
+    """TAS of minimum drag, i.e. of (L/D)max at this weight [m/s] (vectorised search).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float
+        Mass [kg].
+    air : AirState
+        Air states (any shape).
+
+    Returns
+    -------
+    numpy.ndarray
+        Speed of maximum lift-to-drag ratio [m/s], searched between 0.5 x stall speed and
+        the Mach model limit.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.4 (minimum drag and
+       (L/D)max).
+    """
+    v_stall = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+
+    def drag(v):
+        cl = lift_coefficient(mass, air.density, v, airframe.wing_area)
+        return 0.5 * air.density * v * v * airframe.wing_area * airframe.polar.drag_coefficient(
+            cl, v, air)
+
+    return brent_minimise(drag, 0.5 * v_stall, MACH_LIMIT * air.speed_of_sound)
+
+
+def speed_for_min_power(airframe, mass, air: AirState, *, v_hi=None):
     """TAS of minimum shaft power at each air state [m/s] (vectorised search).
 
     Parameters
@@ -423,7 +474,7 @@ def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *
     frac = np.asarray(power_fraction, dtype=float)
     target = frac * prop.rated_power
     available = prop.shaft_power_available(air.sigma)
-    v_mp = min_power_speed(airframe, mass, air)
+    v_mp = speed_for_min_power(airframe, mass, air)
     v_hi = MACH_LIMIT * air.speed_of_sound
     p_min = _shaft_power(airframe, mass, air, v_mp)
     p_hi = _shaft_power(airframe, mass, air, v_hi)
@@ -479,10 +530,7 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
     frac = np.atleast_1d(np.asarray(power_settings, dtype=float))
     if frac.ndim != 1 or np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
         raise ValueError("power settings must be fractions of rated power in (0, 1]")
-    loading = airframe.loading(
-        mass=None if mass is None else to_si(mass, "kg", what="mass"),
-        store=None if fuel is None else _store_si(airframe, fuel),
-        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    loading = resolve_loading(airframe, mass, fuel, payload)
     air, valid = _air_column(h, temperature_difference(isa_dev))
     if not np.all(valid):
         from .atmosphere import check_altitude

@@ -37,7 +37,6 @@ from matplotlib.patches import Patch, Rectangle
 from matplotlib.textpath import TextPath
 from matplotlib.ticker import MaxNLocator
 
-from ._numerics import golden_minimise
 from .aerodynamics import speed_for_lift_coefficient
 from .atmosphere import air_state, check_altitude
 from .card import CAUTION_LINE
@@ -50,15 +49,16 @@ from .performance import (
     MACH_LIMIT,
     CruisePoints,
     Limit,
-    _store_si,
     cruise_grid,
     cruise_points,
-    min_power_speed,
     power_setting_table,
+    resolve_loading,
+    speed_for_min_drag,
+    speed_for_min_power,
 )
 from .reports import display
 from .tables import store_text
-from .units import to_si
+from .units import temperature_difference, to_si
 
 matplotlib.use("Agg")
 
@@ -210,11 +210,8 @@ def speed_span(airframe, altitudes, *, mass=None, fuel=None, payload=None, isa_d
         full-throttle level speed (capped at the Mach model limit).
     """
     h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
-    isa_dev = to_si(isa_dev, "K", what="isa_dev")
-    loading = airframe.loading(
-        mass=None if mass is None else to_si(mass, "kg", what="mass"),
-        store=None if fuel is None else _store_si(airframe, fuel),
-        payload=None if payload is None else to_si(payload, "kg", what="payload"))
+    isa_dev = temperature_difference(isa_dev)
+    loading = resolve_loading(airframe, mass, fuel, payload)
     air = air_state(h, isa_dev)
     v_stall = speed_for_lift_coefficient(loading.mass, air.density, airframe.wing_area,
                                          airframe.cl_max)
@@ -438,38 +435,6 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = 
 
 # --- (b) power curves ---------------------------------------------------------------------
 
-def min_drag_speed(airframe, mass, air) -> np.ndarray:
-    """TAS of minimum drag, i.e. of (L/D)max at this weight [m/s] (vectorised search).
-
-    Parameters
-    ----------
-    airframe : Airframe
-        The airframe.
-    mass : float
-        Mass [kg].
-    air : AirState
-        Air states (any shape).
-
-    Returns
-    -------
-    numpy.ndarray
-        Speed of maximum lift-to-drag ratio [m/s], searched between 0.5 x stall speed and
-        the Mach model limit.
-
-    References
-    ----------
-    .. [3] Anderson, *Aircraft Performance and Design*, sec. 5.4 (minimum drag and
-       (L/D)max).
-    """
-    v_stall = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
-                                         airframe.cl_max)
-
-    def drag(v):
-        return cruise_points(airframe, mass, air, v, 1.0).drag
-
-    return golden_minimise(drag, 0.5 * v_stall, MACH_LIMIT * air.speed_of_sound)
-
-
 def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload=None,
                  isa_dev=0.0, units: str = "aviation",
                  stall_margin: float = DEFAULT_STALL_MARGIN) -> Figure:
@@ -524,12 +489,12 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     air = air_state(h, dev)
     v_stall = speed_for_lift_coefficient(grid.mass, air.density, airframe.wing_area,
                                          airframe.cl_max)
-    v_min_power = min_power_speed(airframe, grid.mass, air)
+    v_min_power = speed_for_min_power(airframe, grid.mass, air)
     # Where the polar's minimum-power point lies beyond CLmax, the curve's flyable
     # minimum is at the stall speed.
     clipped = v_min_power < v_stall
     special = {"min": np.maximum(v_min_power, v_stall),
-               "ld": min_drag_speed(airframe, grid.mass, air),
+               "ld": speed_for_min_drag(airframe, grid.mass, air),
                "margin": stall_margin * v_stall}
     special_power = {k: cruise_points(airframe, grid.mass, air, s, grid.store).shaft_power
                      for k, s in special.items()}

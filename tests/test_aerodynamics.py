@@ -12,7 +12,7 @@ import cruiseplan as cp
 from cruiseplan import aerodynamics as aero
 from cruiseplan.airframe import Airframe
 from cruiseplan.performance import Limit, cruise_points
-from cruiseplan.performance import min_power_speed as engine_min_power_speed
+from cruiseplan.performance import speed_for_min_power as engine_min_power_speed
 from cruiseplan.propulsion import PistonPropeller, PropellerEfficiency
 
 G0 = 9.80665

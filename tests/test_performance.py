@@ -13,7 +13,7 @@ from hypothesis import strategies as st
 import cruiseplan as cp
 from cruiseplan import aerodynamics as aero
 from cruiseplan.performance import Limit, cruise_points
-from cruiseplan.performance import min_power_speed as engine_min_power_speed
+from cruiseplan.performance import speed_for_min_power as engine_min_power_speed
 from cruiseplan.propulsion import ElectricPropeller, PropellerEfficiency
 from cruiseplan.units import registry
 

@@ -142,7 +142,7 @@ def test_power_curves_mark_min_power_and_best_lift_to_drag(trainer):
     assert len({s[1] for s in styles}) == len({s[2] for s in styles}) == 2
     # The (L/D)max mark sits at the minimum of drag = P eta / V on the plotted curve.
     air = cp.air_state(h)
-    v_ld = plots.min_drag_speed(trainer, trainer.loading().mass, air)
+    v_ld = cp.performance.speed_for_min_drag(trainer, trainer.loading().mass, air)
     v = np.linspace(20.0, 70.0, 5001)
     drag = cp.cruise_points(trainer, trainer.loading().mass, air.column(), v[None, :],
                             1.0).drag
