@@ -7,8 +7,12 @@ validated description and resolves a loading (mass and fuel or energy on board).
 from __future__ import annotations
 
 import warnings
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
+import numpy as np
+
+from .aerodynamics import speed_for_lift_coefficient
+from .constants import G0
 from .errors import CruiseplanError, CruiseplanWarning
 
 
@@ -68,11 +72,57 @@ class Airframe:
     propulsion: object
     source: str = ""
     checksum: str = ""
+    kind: str = field(default="fixed-wing", init=False)
 
     @property
     def aspect_ratio(self) -> float:
         """Aspect ratio b^2 / S [-]."""
         return self.span**2 / self.wing_area
+
+    def stall_speed(self, mass, density):
+        """Stall TAS at CLmax [m/s] for mass [kg] and density [kg/m^3]."""
+        return speed_for_lift_coefficient(mass, density, self.wing_area, self.cl_max)
+
+    def level_flight(self, mass, air, tas):
+        """Lift and drag coefficients, drag [N] and shaft power [W] in level flight.
+
+        Parameters
+        ----------
+        mass : array_like
+            Mass [kg].
+        air : AirState
+            Air, broadcastable against ``tas``.
+        tas : array_like
+            True airspeed [m/s].
+
+        Returns
+        -------
+        dict
+            ``cl``, ``cd`` [-], ``drag`` [N], ``shaft`` [W].
+
+        References
+        ----------
+        .. [1] J. D. Anderson, *Aircraft Performance and Design*, 1999, sec. 5.3.
+        """
+        tas = np.asarray(tas, dtype=float)
+        q_s = 0.5 * air.density * tas * tas * self.wing_area
+        cl = mass * G0 / q_s
+        cd = self.polar.drag_coefficient(cl, tas, air)
+        drag = q_s * cd
+        return dict(cl=cl, cd=cd, drag=drag, shaft=drag * tas / self.propulsion.propeller(tas))
+
+    def model_limits(self, flight, tas, stall_margin):
+        """Limit bits of the airframe's own model: stall margin, polar range."""
+        from .performance import Limit
+
+        cl = flight["cl"]
+        bits = np.where(cl > self.cl_max / stall_margin**2, np.uint16(Limit.STALL), 0)
+        bits = bits | np.where(self.polar.outside(cl), np.uint16(Limit.POLAR_RANGE), 0)
+        return bits.astype(np.uint16)
+
+    def stall_speed_ratio(self, flight):
+        """TAS over stall speed at each point [-]."""
+        return np.sqrt(self.cl_max / flight["cl"])
 
     def loading(self, mass=None, store=None, payload=None) -> Loading:
         """Resolve the mass and the fuel or energy on board.

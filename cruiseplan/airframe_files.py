@@ -53,7 +53,7 @@ def _dim(unit, lo=0.0, hi=math.inf, required=True, example="", lo_open=True):
 
 
 _SCHEMA = {
-    "airframe": {"name": None, "description": None},
+    "airframe": {"name": None, "description": None, "kind": None},
     "masses": {
         "empty": _dim("kg", example="'520 kg'"),
         "max_takeoff": _dim("kg", example="'760 kg'"),
@@ -76,9 +76,45 @@ _POLAR_SCHEMA = {
         "cl_min_drag": _num(-0.5, 1.0, required=False, example="0.0"),
     },
     "tabulated": {"kind": None, "cl": None, "cd": None},
+    "build-up": {
+        "kind": None, "components": None, "bodies": None,
+        "k": _num(0.005, 0.5, required=False, example="0.05"),
+        "oswald_e": _num(0.3, 1.0, required=False, example="0.78"),
+        "cl_min_drag": _num(-0.5, 1.0, required=False, example="0.0"),
+        "excrescence": _num(0.0, 0.5, required=False, example="0.05"),
+    },
 }
 
 _EFFICIENCY = _num(0.05, 1.0, example="0.8", lo_open=True)
+
+_COMPONENT_SCHEMA = {
+    "name": None, "friction": None,
+    "wetted_area": _dim("m^2", example="'2.1 m^2'"),
+    "length": _dim("m", example="'0.35 m'"),
+    "form_factor": _num(1.0, 3.0, required=False, example="1.2"),
+    "thickness_ratio": _num(0.02, 0.3, required=False, example="0.12"),
+    "fineness": _num(1.0, 50.0, required=False, example="6"),
+}
+_BODY_SCHEMA = {
+    "name": None, "shape": None,
+    "diameter": _dim("m", example="'0.12 m'"),
+    "length": _dim("m", required=False, example="'0.25 m'"),
+    "count": _num(1.0, 64.0, required=False, example="2"),
+}
+_ROTOR_SCHEMA = {
+    "count": _num(1.0, 16.0, example="4"),
+    "radius": _dim("m", hi=5.0, example="'0.19 m'"),
+    "blades": _num(2.0, 8.0, example="2"),
+    "chord": _dim("m", example="'0.025 m'"),
+    "blade_cd0": _num(0.005, 0.05, example="0.012"),
+    "hover_tip_speed": _dim("m/s", hi=250.0, required=False, example="'110 m/s'"),
+    "hover_rpm": _dim("1/s", required=False, example="'5500 rpm'"),
+    "induced_factor": _num(1.0, 1.6, required=False, example="1.15"),
+}
+_BODY_DRAG_SCHEMA = {
+    "drag_area": _dim("m^2", lo=0.0, lo_open=False, example="'0.02 m^2'"),
+    "bodies": None,
+}
 
 _PROPULSION_SCHEMA = {
     "piston-propeller": {
@@ -90,6 +126,17 @@ _PROPULSION_SCHEMA = {
         "fuel": None,
         "fuel_capacity": _dim("m^3", example="'100 L'"),
         "fuel_density": _dim("kg/m^3", 500.0, 1000.0, required=False, example="'0.72 kg/L'"),
+    },
+    "electric-rotor": {
+        "kind": None,
+        "battery_energy": _dim("J", example="'90 Wh'"),
+        "pack_voltage": _dim("V", example="'22.2 V'"),
+        "capacity": _dim("A*s", example="'5 Ah'"),
+        "peukert_exponent": _num(1.0, 1.6, required=False, example="1.05"),
+        "rating_time": _dim("s", required=False, example="'1 h'"),
+        "motor_efficiency": _EFFICIENCY,
+        "controller_efficiency": _EFFICIENCY,
+        "max_power": _dim("W", example="'900 W'"),
     },
     "electric-propeller": {
         "kind": None,
@@ -211,6 +258,65 @@ class _Reader:
         return PropellerEfficiency((0.0,), (value,))
 
 
+def _table_list(r: _Reader, sec: dict, key: str, where: str, schema: dict) -> list:
+    """Values of each table in a TOML array of tables, e.g. [[polar.components]]."""
+    raw = sec.get(key, [])
+    if not isinstance(raw, list) or not all(isinstance(t, dict) for t in raw):
+        r.fail(f"[{where}.{key}]", "expected a list of tables ([[...]] entries)")
+    out = []
+    for i, tbl in enumerate(raw, 1):
+        name = f"{where}.{key}[{i}]"
+        unknown = sorted(set(tbl) - set(schema))
+        if unknown:
+            r.fail(f"[{name}] {unknown[0]}",
+                   f"unknown field; expected one of {', '.join(sorted(schema))}")
+        vals = {k: r.value(name, tbl, k, spec) for k, spec in schema.items() if spec is not None}
+        vals.update({k: tbl[k] for k, spec in schema.items() if spec is None and k in tbl})
+        vals["_where"] = name
+        out.append(vals)
+    return out
+
+
+def _components(r: _Reader, sec: dict):
+    from .dragbuildup import CORRELATIONS, Component, body_form_factor, wing_form_factor
+
+    out = []
+    for c in _table_list(r, sec, "components", "polar", _COMPONENT_SCHEMA):
+        given = [k for k in ("form_factor", "thickness_ratio", "fineness") if c[k] is not None]
+        if len(given) > 1:
+            r.fail(f"[{c['_where']}] {given[1]}", "give one of form_factor, thickness_ratio "
+                                                   "(wings) or fineness (bodies)")
+        ff = (c["form_factor"] if c["form_factor"] is not None
+              else wing_form_factor(c["thickness_ratio"]) if c["thickness_ratio"] is not None
+              else body_form_factor(c["fineness"]) if c["fineness"] is not None else 1.0)
+        friction = c.get("friction", "turbulent")
+        if friction not in ("laminar", "turbulent", "mixed"):
+            r.fail(f"[{c['_where']}] friction",
+                   f"{friction!r} is not one of laminar, mixed, turbulent")
+        assert friction in CORRELATIONS
+        out.append(Component(str(c.get("name", c["_where"])), c["wetted_area"], c["length"],
+                             ff, friction))
+    return tuple(out)
+
+
+def _bodies(r: _Reader, sec: dict, where: str):
+    from .dragbuildup import AttachedBody
+
+    out = []
+    for b in _table_list(r, sec, "bodies", where, _BODY_SCHEMA):
+        shape = b.get("shape")
+        if shape not in ("sphere", "cylinder"):
+            r.fail(f"[{b['_where']}] shape", f"{shape!r} is not one of cylinder, sphere")
+        if shape == "cylinder" and b["length"] is None:
+            r.fail(f"[{b['_where']}] length", "a cylinder needs its length across the flow")
+        count = b["count"] or 1.0
+        if count != int(count):
+            r.fail(f"[{b['_where']}] count", f"{count:g} is not a whole number")
+        out.append(AttachedBody(str(b.get("name", b["_where"])), shape, b["diameter"],
+                                b["length"] or 0.0, int(count)))
+    return tuple(out)
+
+
 def _read_toml(path: Path) -> dict:
     try:
         raw = path.read_bytes()
@@ -241,17 +347,27 @@ def _polar(r: _Reader):
     has_k, has_e = vals["k"] is not None, vals["oswald_e"] is not None
     if has_k == has_e:
         r.fail("[polar] k", "give exactly one of k or oswald_e")
+    if kind == "build-up":
+        vals["components"] = _components(r, sec)
+        vals["bodies"] = _bodies(r, sec, "polar")
+        if not vals["components"] and not vals["bodies"]:
+            r.fail("[polar] components", "a build-up needs [[polar.components]] or "
+                                         "[[polar.bodies]] entries")
     return vals, kind
 
 
-def _propulsion(r: _Reader):
+def _propulsion(r: _Reader, airframe_kind: str):
     sec = r.data.get("propulsion")
     if not isinstance(sec, dict):
         r.fail("[propulsion]", "section missing")
     kind = r.choice("propulsion", sec, "kind", _PROPULSION_SCHEMA)
+    if airframe_kind == "multirotor" and kind != "electric-rotor":
+        r.fail("[propulsion] kind", f"{kind!r}: a multirotor takes kind = 'electric-rotor'")
     schema = _PROPULSION_SCHEMA[kind]
     vals = r.values("propulsion", schema)
-    prop = r.propeller(sec)
+    # A rotor's efficiency is in the momentum-theory power model itself.
+    prop = (PropellerEfficiency((0.0,), (1.0,)) if kind == "electric-rotor"
+            else r.propeller(sec))
     if kind == "piston-propeller":
         fuel = r.choice("propulsion", sec, "fuel", FUELS)
         lapse = r.choice("propulsion", sec, "power_lapse", POWER_LAPSE_LAWS,
@@ -294,14 +410,37 @@ def read_airframe(path) -> Airframe:
     path = Path(path)
     data, checksum = _read_toml(path)
     r = _Reader(path, data)
-    unknown = sorted(set(data) - {"airframe", "masses", "wing", "polar", "propulsion"})
-    if unknown:
-        r.fail(f"[{unknown[0]}]", "unknown section; expected airframe, masses, wing, "
-                                  "polar, propulsion")
     head = r.section("airframe", _SCHEMA["airframe"]) if "airframe" in data else {}
+    kind = r.choice("airframe", head, "kind", ("fixed-wing", "multirotor"),
+                    default="fixed-wing")
+    sections = _SECTIONS[kind]
+    unknown = sorted(set(data) - set(sections))
+    if unknown:
+        r.fail(f"[{unknown[0]}]", f"unknown section for a {kind} airframe; expected "
+                                  f"{', '.join(sections)}")
     masses = r.values("masses", _SCHEMA["masses"])
     if masses["max_takeoff"] < masses["empty"]:
         r.fail("[masses] max_takeoff", "is below the empty mass")
+    zero_fuel = masses["empty"] + masses["payload"]
+    if zero_fuel > masses["max_takeoff"] * (1 + 1e-9):
+        r.fail("[masses] payload", f"empty + payload = {zero_fuel:.1f} kg exceeds max_takeoff "
+                                   f"{masses['max_takeoff']:.1f} kg")
+    common = dict(name=str(head.get("name", path.stem)),
+                  description=str(head.get("description", "")),
+                  empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
+                  payload=masses["payload"], propulsion=_propulsion(r, kind),
+                  source=str(path), checksum=checksum)
+    return (_multirotor if kind == "multirotor" else _fixed_wing)(r, common, masses)
+
+
+_SECTIONS = {"fixed-wing": ("airframe", "masses", "wing", "polar", "propulsion"),
+             "multirotor": ("airframe", "masses", "rotors", "body", "propulsion")}
+
+
+def _fixed_wing(r: _Reader, common: dict, masses: dict) -> Airframe:
+    if r.data["propulsion"].get("kind") == "electric-rotor":
+        r.fail("[propulsion] kind", "'electric-rotor' is for multirotors; a fixed-wing "
+                                    "airframe takes piston-propeller or electric-propeller")
     wing = r.values("wing", _SCHEMA["wing"])
     if (wing["span"] is None) == (wing["aspect_ratio"] is None):
         r.fail("[wing] span", "give exactly one of span or aspect_ratio")
@@ -310,23 +449,44 @@ def read_airframe(path) -> Airframe:
     if not 2.0 <= aspect <= 40.0:
         r.fail("[wing] span", f"gives aspect ratio {aspect:.1f}; expected 2 to 40")
     polar_vals, kind = _polar(r)
-    if kind == "parabolic":
+    if kind in ("parabolic", "build-up"):
         k = polar_vals["k"] or induced_drag_factor(polar_vals["oswald_e"], aspect)
-        polar = ParabolicPolar(polar_vals["cd0"], k, polar_vals["cl_min_drag"] or 0.0)
+        if kind == "parabolic":
+            polar = ParabolicPolar(polar_vals["cd0"], k, polar_vals["cl_min_drag"] or 0.0)
+        else:
+            from .dragbuildup import BuildUpPolar
+
+            polar = BuildUpPolar(polar_vals["components"], polar_vals["bodies"], k,
+                                 wing["area"], polar_vals["cl_min_drag"] or 0.0,
+                                 polar_vals["excrescence"] or 0.0)
     else:
         polar = polar_vals
-    propulsion = _propulsion(r)
-    zero_fuel = masses["empty"] + masses["payload"]
-    if zero_fuel > masses["max_takeoff"] * (1 + 1e-9):
-        r.fail("[masses] payload", f"empty + payload = {zero_fuel:.1f} kg exceeds max_takeoff "
-                                   f"{masses['max_takeoff']:.1f} kg")
-    return Airframe(
-        name=str(head.get("name", path.stem)),
-        description=str(head.get("description", "")),
-        empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
-        payload=masses["payload"], wing_area=wing["area"], span=span,
-        cl_max=wing["cl_max"], polar=polar, propulsion=propulsion,
-        source=str(path), checksum=checksum)
+    return Airframe(wing_area=wing["area"], span=span, cl_max=wing["cl_max"], polar=polar,
+                    **common)
+
+
+def _multirotor(r: _Reader, common: dict, masses: dict):
+    from .dragbuildup import BodyDrag
+    from .rotorcraft import Multirotor, Rotors
+
+    rot = r.values("rotors", _ROTOR_SCHEMA)
+    for key in ("count", "blades"):
+        if rot[key] != int(rot[key]):
+            r.fail(f"[rotors] {key}", f"{rot[key]:g} is not a whole number")
+    if (rot["hover_tip_speed"] is None) == (rot["hover_rpm"] is None):
+        r.fail("[rotors] hover_tip_speed", "give exactly one of hover_tip_speed or hover_rpm")
+    tip = rot["hover_tip_speed"] or rot["hover_rpm"] * rot["radius"]
+    if rot["chord"] >= rot["radius"]:
+        r.fail("[rotors] chord", "must be smaller than the radius")
+    body_sec = r.section("body", _BODY_DRAG_SCHEMA)
+    area = r.value("body", body_sec, "drag_area", _BODY_DRAG_SCHEMA["drag_area"])
+    body = BodyDrag(area, _bodies(r, body_sec, "body"))
+    nan = float("nan")
+    return Multirotor(
+        wing_area=nan, span=nan, cl_max=nan, polar=None,
+        rotors=Rotors(int(rot["count"]), rot["radius"], int(rot["blades"]), rot["chord"],
+                      rot["blade_cd0"], tip, rot["induced_factor"] or 1.15),
+        body=body, **common)
 
 
 def bundled_airframes() -> dict:

@@ -155,14 +155,15 @@ def cmd_airframes(args):
     rows = []
     for name, path in bundled_airframes().items():
         af = read_airframe(path)
-        rows.append({"name": name, "kind": af.propulsion.kind, "description": af.description,
+        power = "piston" if af.propulsion.store_name == "fuel" else "electric"
+        rows.append({"name": name, "kind": f"{af.kind} {power}", "description": af.description,
                      "max_takeoff_kg": af.max_takeoff_mass, "file": str(path)})
     if args.format == "json":
         sys.stdout.write(json.dumps(rows, indent=1) + "\n")
         return
     width = max((len(r["name"]) for r in rows), default=4)
     for r in rows:
-        sys.stdout.write(f"{r['name']:<{width}}  {r['kind']:<18}  "
+        sys.stdout.write(f"{r['name']:<{width}}  {r['kind']:<19}  "
                          f"MTOM {r['max_takeoff_kg']:7.1f} kg  {r['description']}\n")
 
 

@@ -41,7 +41,6 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .aerodynamics import speed_for_lift_coefficient
 from .atmosphere import air_state
 from .constants import G0
 from .optimise import objective_speed, speed_schedule
@@ -412,13 +411,13 @@ def _cruise(fl: _Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
     gs0, heading, held = fl.ground(v0, leg, h, wind=wind)
     p0 = fl.shaft(m0, air, v0)
     p1 = fl.shaft(m, air, v_end)
-    cl0 = 2 * m0 * G0 / (air.density * v0 * v0 * fl.af.wing_area)
+    v_stall = fl.af.stall_speed(m0, air.density)
     return dict(time=t, distance=np.asarray(distance, float) + 0 * t, used=used, mass_end=m,
                 tas=v0 + 0 * t, gs=gs0 + 0 * t, heading=heading + 0 * t,
                 power=p0 / fl.prop.rated_power + 0 * t,
                 power_ok=np.maximum(p0, p1) <= fl.prop.shaft_power_available(air.sigma)
                 * (1 + 1e-9),
-                stall_ok=cl0 <= fl.af.cl_max / fl.margin**2 * (1 + 1e-9),
+                stall_ok=v0 >= fl.margin * v_stall * (1 - 1e-9),
                 wind_ok=held & (gs0 > 0), v_end=v_end)
 
 
@@ -444,7 +443,7 @@ def climb_speed(mission: Mission) -> float:
     load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
     air = air_state(mission.profile.departure_elevation, mission.isa_dev)
     _, v = max_climb_rate(af, load.mass, air)
-    v_s = speed_for_lift_coefficient(load.mass, air.density, af.wing_area, af.cl_max)
+    v_s = af.stall_speed(load.mass, air.density)
     # Never slower than the stall margin; held as EAS through the climb.
     v = np.maximum(v, mission.stall_margin * v_s)
     return float(v * np.sqrt(air.sigma))

@@ -145,7 +145,7 @@ class SpeedSchedule:
 
 
 def _closed_form_ok(airframe, headwind, crosswind) -> bool:
-    polar = airframe.polar
+    polar = getattr(airframe, "polar", None)
     prop = airframe.propulsion
     return (isinstance(polar, ParabolicPolar) and polar.cl_min_drag == 0.0
             and prop.propeller.is_constant
@@ -174,9 +174,9 @@ def _window(airframe, mass, air, lo, hi, reserve_rate, shaft):
 def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
     """Best speeds before any constraint, for the objectives asked (economy needs range)."""
     prop = airframe.propulsion
-    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
-    polar = airframe.polar
+    polar = getattr(airframe, "polar", None)
     out = {}
 
     def shaft(v):
@@ -252,7 +252,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
     free = _free_speeds(airframe, mass, air, store, hw, cw, (objective,), xtol)[objective]
-    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v_s = airframe.stall_speed(mass, air.density)
     v = np.maximum(free, stall_margin * v_s)
     prop = airframe.propulsion
     enough = _shaft_power(airframe, mass, air, v) <= prop.shaft_power_available(air.sigma)
@@ -316,7 +316,7 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     shape = np.shape(air.density)
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
-    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
 
     def shaft(v):
@@ -641,7 +641,7 @@ def max_climb_rate(airframe, mass, air: AirState):
     """
     prop = airframe.propulsion
     avail = prop.shaft_power_available(air.sigma)
-    v_s = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v_s = airframe.stall_speed(mass, air.density)
     weight = mass * G0
 
     def rate(v):

@@ -30,9 +30,7 @@ import numpy as np
 
 from . import airspeed as _airspeed
 from ._numerics import brent_minimise, illinois_root
-from .aerodynamics import lift_coefficient, speed_for_lift_coefficient
 from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state
-from .constants import G0
 from .units import temperature_difference, to_si
 
 #: Default stall margin: cruise at or above 1.3 x stall speed (common practice).
@@ -52,6 +50,7 @@ class Limit(enum.IntFlag):
     LAPSE_RANGE = 32
     NO_SOLUTION = 64
     WIND = 128
+    ROTOR_RANGE = 256
 
 
 #: One line per reason, for tables and errors.
@@ -64,13 +63,14 @@ LIMIT_TEXT = {
     Limit.LAPSE_RANGE: "density outside the power-lapse law's range",
     Limit.NO_SOLUTION: "power setting cannot hold level flight",
     Limit.WIND: "wind too strong to hold the course",
+    Limit.ROTOR_RANGE: "advance ratio above the rotor model's range (0.35)",
 }
 
 #: Short codes for the status column of printed tables.
 LIMIT_CODE = {
     Limit.STALL: "STALL", Limit.POWER: "POWER", Limit.ATMOSPHERE: "ATMOS",
     Limit.COMPRESSIBILITY: "MACH", Limit.POLAR_RANGE: "POLAR", Limit.LAPSE_RANGE: "LAPSE",
-    Limit.NO_SOLUTION: "NOSOL", Limit.WIND: "WIND",
+    Limit.NO_SOLUTION: "NOSOL", Limit.WIND: "WIND", Limit.ROTOR_RANGE: "ROTOR",
 }
 
 
@@ -192,10 +192,7 @@ class CruisePoints:
 
 
 def _shaft_power(airframe, mass, air, tas):
-    cl = lift_coefficient(mass, air.density, tas, airframe.wing_area)
-    cd = airframe.polar.drag_coefficient(cl, tas, air)
-    drag = 0.5 * air.density * tas * tas * airframe.wing_area * cd
-    return drag * tas / airframe.propulsion.propeller(tas)
+    return airframe.level_flight(mass, air, tas)["shaft"]
 
 
 def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
@@ -236,41 +233,36 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     """
     prop = airframe.propulsion
     tas = np.asarray(tas, dtype=float)
-    rho = air.density
-    q_s = 0.5 * rho * tas * tas * airframe.wing_area
-    cl = mass * G0 / q_s
-    cd = airframe.polar.drag_coefficient(cl, tas, air)
-    drag = q_s * cd
+    flight = airframe.level_flight(mass, air, tas)
+    cl, cd, drag, shaft = flight["cl"], flight["cd"], flight["drag"], flight["shaft"]
     thrust_power = drag * tas
-    shaft = thrust_power / prop.propeller(tas)
     sigma = air.sigma
     available = prop.shaft_power_available(sigma)
     flow = prop.store_flow(shaft)
     gs = tas - headwind if ground_speed is None else np.asarray(ground_speed, dtype=float)
     endurance = prop.endurance(store, shaft)
-    cl_allowed = airframe.cl_max / stall_margin**2
 
-    limits = (cl > cl_allowed).astype(np.uint16)
-    limits |= (shaft > available).astype(np.uint16) << 1
+    limits = airframe.model_limits(flight, tas, stall_margin)
+    limits = limits | (shaft > available).astype(np.uint16) << 1
     limits |= (tas > MACH_LIMIT * air.speed_of_sound).astype(np.uint16) << 3
-    limits |= airframe.polar.outside(cl).astype(np.uint16) << 4
     limits |= prop.lapse_outside(sigma).astype(np.uint16) << 5
     limits |= (~(gs > 0)).astype(np.uint16) << 7
-    limits = np.broadcast_to(limits, cl.shape).astype(np.uint16)
+    limits = np.broadcast_to(limits, np.shape(shaft)).astype(np.uint16)
 
+    shape = np.shape(shaft)
     out = dict(
         cl=cl, cd=cd, lift_to_drag=cl / cd, drag=drag, thrust_power=thrust_power,
         shaft_power=shaft, source_power=prop.source_power(shaft),
-        power_available=np.broadcast_to(available, cl.shape),
+        power_available=np.broadcast_to(available, shape),
         power_margin=available - shaft, store_flow=flow,
         fuel_volume_flow=(flow / prop.fuel_density if prop.store_name == "fuel" else None),
-        ground_speed=np.broadcast_to(gs, cl.shape),
+        ground_speed=np.broadcast_to(gs, shape),
         specific_range_air=tas / flow, specific_range_ground=gs / flow,
         endurance=endurance, range_air=tas * endurance, range_ground=gs * endurance,
-        stall_speed_ratio=np.sqrt(airframe.cl_max / cl),
+        stall_speed_ratio=airframe.stall_speed_ratio(flight),
     )
     if valid_air is not None and not np.all(valid_air):
-        bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), cl.shape)
+        bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), shape)
         out = {k: (None if v is None else np.where(bad, np.nan, v)) for k, v in out.items()}
         limits = np.where(bad, np.uint16(Limit.ATMOSPHERE), limits).astype(np.uint16)
     return CruisePoints(air=air, tas=tas, mass=float(mass), store=float(store),
@@ -396,12 +388,10 @@ def speed_for_min_drag(airframe, mass, air: AirState):
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.4 (minimum drag and
        (L/D)max).
     """
-    v_stall = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v_stall = airframe.stall_speed(mass, air.density)
 
     def drag(v):
-        cl = lift_coefficient(mass, air.density, v, airframe.wing_area)
-        return 0.5 * air.density * v * v * airframe.wing_area * airframe.polar.drag_coefficient(
-            cl, v, air)
+        return airframe.level_flight(mass, air, v)["drag"]
 
     return brent_minimise(drag, 0.5 * v_stall, MACH_LIMIT * air.speed_of_sound)
 
@@ -429,7 +419,7 @@ def speed_for_min_power(airframe, mass, air: AirState, *, v_hi=None):
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.4 (minimum power required).
     """
-    v_stall = speed_for_lift_coefficient(mass, air.density, airframe.wing_area, airframe.cl_max)
+    v_stall = airframe.stall_speed(mass, air.density)
     v_hi = MACH_LIMIT * air.speed_of_sound if v_hi is None else v_hi
     return brent_minimise(lambda v: _shaft_power(airframe, mass, air, v), 0.5 * v_stall, v_hi)
 

@@ -37,7 +37,6 @@ from matplotlib.patches import Patch, Rectangle
 from matplotlib.textpath import TextPath
 from matplotlib.ticker import MaxNLocator
 
-from .aerodynamics import speed_for_lift_coefficient
 from .atmosphere import air_state, check_altitude
 from .card import CAUTION_LINE
 from .errors import CruiseplanError
@@ -87,7 +86,7 @@ OBJECTIVE_STYLES = {
 LIMIT_HATCHES = {
     Limit.STALL: "///", Limit.POWER: "\\\\\\", Limit.ATMOSPHERE: "xx",
     Limit.COMPRESSIBILITY: "..", Limit.POLAR_RANGE: "|||", Limit.LAPSE_RANGE: "---",
-    Limit.NO_SOLUTION: "++", Limit.WIND: "oo",
+    Limit.NO_SOLUTION: "++", Limit.WIND: "oo", Limit.ROTOR_RANGE: "**",
 }
 #: Output formats of :func:`figure_bytes`.
 FORMATS = ("png", "pdf")
@@ -213,13 +212,13 @@ def speed_span(airframe, altitudes, *, mass=None, fuel=None, payload=None, isa_d
     isa_dev = temperature_difference(isa_dev)
     loading = resolve_loading(airframe, mass, fuel, payload)
     air = air_state(h, isa_dev)
-    v_stall = speed_for_lift_coefficient(loading.mass, air.density, airframe.wing_area,
-                                         airframe.cl_max)
+    v_stall = airframe.stall_speed(loading.mass, air.density)
     top = power_setting_table(airframe, h, [1.0], mass=loading.mass, fuel=loading.store,
                               isa_dev=isa_dev, stall_margin=1.0).tas
     v_hi = np.nanmax(top) if np.any(np.isfinite(top)) else 2.5 * np.max(v_stall)
     v_hi = min(1.12 * v_hi, MACH_LIMIT * float(np.min(air.speed_of_sound)))
-    return np.linspace(0.85 * float(np.min(v_stall)), v_hi, n)
+    # A multirotor has no stall speed: start just above the hover.
+    return np.linspace(max(0.85 * float(np.min(v_stall)), 1.0), v_hi, n)
 
 
 # --- (a) specific-range map ---------------------------------------------------------------
@@ -477,7 +476,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     if h.ndim != 1 or not 1 <= h.size <= len(SERIES_STYLES):
         raise CruiseplanError(f"a power plot shows 1 to {len(SERIES_STYLES)} altitudes, got "
                               f"{h.size}: give fewer altitudes")
-    dev = to_si(isa_dev, "K", what="isa_dev")
+    dev = temperature_difference(isa_dev)
     grid = cruise_grid(airframe, h, speed_span(airframe, h, mass=mass, fuel=fuel,
                                                payload=payload, isa_dev=dev)
                        if tas is None else tas, mass=mass, fuel=fuel, payload=payload,
@@ -487,8 +486,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     fp, lp = _power_display(airframe, units)
     v = np.broadcast_to(grid.tas, grid.shape)[0] * fs
     air = air_state(h, dev)
-    v_stall = speed_for_lift_coefficient(grid.mass, air.density, airframe.wing_area,
-                                         airframe.cl_max)
+    v_stall = airframe.stall_speed(grid.mass, air.density)
     v_min_power = speed_for_min_power(airframe, grid.mass, air)
     # Where the polar's minimum-power point lies beyond CLmax, the curve's flyable
     # minimum is at the stall speed.
@@ -502,7 +500,8 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
              "ld": dict(marker="h", markersize=10, markeredgecolor="black"),
              "margin": dict(marker="|", markersize=14, markeredgewidth=2.0,
                             markeredgecolor="black")}
-    required = np.where(grid.cl <= airframe.cl_max, grid.shaft_power, np.nan) * fp
+    below_stall = np.broadcast_to(grid.tas, grid.shape) < v_stall[:, None] * (1 - 1e-9)
+    required = np.where(below_stall, np.nan, grid.shaft_power) * fp
     available = grid.power_available[:, 0] * fp
 
     fig = Figure(figsize=PLOT_SIZE)
@@ -545,9 +544,14 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     ]
     ax.legend(handles=handles, loc="upper left", bbox_to_anchor=(1.02, 1.0),
               fontsize=MIN_FONT + 0.5, frameon=False, labelspacing=0.9)
-    note = (f"Curves start at the stall speed (CLmax {airframe.cl_max:g}); cruise at "
-            f"{stall_margin:g} x stall speed or faster (common practice). Level flight is "
-            "possible where power required is below power available.")
+    if airframe.kind == "multirotor":
+        note = ("A multirotor needs power to hover; induced power falls and parasite power "
+                "rises with speed (momentum theory). Level flight is possible where power "
+                "required is below power available.")
+    else:
+        note = (f"Curves start at the stall speed (CLmax {airframe.cl_max:g}); cruise at "
+                f"{stall_margin:g} x stall speed or faster (common practice). Level flight "
+                "is possible where power required is below power available.")
     if np.any(clipped):
         note += (" Where the polar's minimum-power point lies beyond CLmax, the star "
                  "sits at the stall speed.")

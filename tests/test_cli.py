@@ -38,12 +38,15 @@ def test_airframes_lists_the_bundled_ones(capsys):
     status, out, err = run(capsys, "airframes")
     assert status == 0 and err == ""
     lines = out.splitlines()
-    assert [ln.split()[0] for ln in lines] == ["demo-survey-drone", "demo-tourer",
+    assert [ln.split()[0] for ln in lines] == ["demo-mapping-quad", "demo-sensor-wing",
+                                               "demo-survey-drone", "demo-tourer",
                                                "demo-trainer"]
-    assert "piston-propeller" in out and "electric-propeller" in out
+    assert "fixed-wing piston" in out and "fixed-wing electric" in out
+    assert "multirotor electric" in out
     status, out, _ = run(capsys, "airframes", "--format", "json")
     rows = json.loads(out)
-    assert {r["name"] for r in rows} == {"demo-survey-drone", "demo-tourer", "demo-trainer"}
+    assert {r["name"] for r in rows} == {"demo-mapping-quad", "demo-sensor-wing",
+                                         "demo-survey-drone", "demo-tourer", "demo-trainer"}
     assert all(r["max_takeoff_kg"] > 0 for r in rows)
 
 

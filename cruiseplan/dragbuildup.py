@@ -1,0 +1,317 @@
+r"""Parasite drag built up from components, with Reynolds-number effects, and attached bodies.
+
+Small airframes fly at Reynolds numbers where drag coefficients change with altitude and
+speed. Here the zero-lift drag is the sum of
+
+* **components** (wing, tail, fuselage, booms): flat-plate skin friction at the component's
+  Reynolds number :math:`Re = \rho V \ell / \mu` times a form factor and the wetted area,
+  :math:`C_{D0} = \sum_i C_{f,i}(Re_i)\, FF_i\, S_{wet,i} / S_{ref}`, raised by an
+  excrescence fraction for leaks and protuberances;
+* **attached bodies** (camera domes and sensor balls as spheres, struts and legs as
+  cylinders across the flow): :math:`C_D(Re)` on the frontal area, from correlations that
+  cover the viscous regime (drag linear in speed), the quadratic regime and the drag
+  crisis.
+
+Every correlation is an entry of :data:`CORRELATIONS` with its validity range. All
+functions are vectorised: components and bodies along a leading axis, the air and speed
+broadcast behind it.
+
+References
+----------
+.. [1] H. Schlichting, *Boundary-Layer Theory*, 7th ed., McGraw-Hill, 1979, ch. 7 and 21
+   (Blasius laminar and Prandtl-Schlichting turbulent flat-plate friction; mixed flow).
+.. [2] D. P. Raymer, *Aircraft Design: A Conceptual Approach*, 6th ed., AIAA, 2018,
+   sec. 12.5 (component build-up, form factors, excrescence).
+.. [3] F. A. Morrison, *An Introduction to Fluid Mechanics*, Cambridge University Press,
+   2013, eq. 8.13 (sphere drag, Re <= 1e6).
+.. [4] F. M. White, *Viscous Fluid Flow*, 3rd ed., McGraw-Hill, 2006, eq. 3-225 (cylinder
+   in cross-flow, 1 < Re < 2e5).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+# --- correlations -------------------------------------------------------------------------
+
+
+def cf_laminar(re):
+    """Blasius mean skin friction of a laminar flat plate, 1.328 / sqrt(Re) [-]."""
+    return 1.328 / np.sqrt(re)
+
+
+def cf_turbulent(re):
+    """Prandtl-Schlichting mean skin friction, fully turbulent, 0.455 / (log10 Re)^2.58."""
+    return 0.455 / np.log10(re) ** 2.58
+
+
+def cf_mixed(re, re_transition=5e5):
+    r"""Laminar then turbulent flat plate (transition at ``re_transition``).
+
+    Prandtl's correction :math:`C_f = 0.455/(\log_{10} Re)^{2.58} - A/Re` with
+    :math:`A = Re_{tr}(C_{f,turb}(Re_{tr}) - C_{f,lam}(Re_{tr}))` (1700 for 5e5); fully
+    laminar below transition.
+    """
+    re = np.asarray(re, dtype=float)
+    a = re_transition * (cf_turbulent(re_transition) - cf_laminar(re_transition))
+    return np.where(re < re_transition, cf_laminar(re), cf_turbulent(re) - a / re)
+
+
+def cd_sphere_morrison(re):
+    r"""Sphere drag coefficient, Morrison's correlation (Re up to 1e6) [-].
+
+    .. math::
+
+        C_D = \frac{24}{Re} + \frac{2.6 (Re/5)}{1 + (Re/5)^{1.52}}
+            + \frac{0.411 (Re/263000)^{-7.94}}{1 + (Re/263000)^{-8}}
+            + \frac{Re^{0.8}}{461000}
+
+    It tends to Stokes' law (24/Re) at small Re and includes the drag crisis near 3e5.
+    """
+    re = np.asarray(re, dtype=float)
+    r = re / 263000.0
+    return (24.0 / re + 2.6 * (re / 5.0) / (1.0 + (re / 5.0) ** 1.52)
+            + 0.411 * r ** -7.94 / (1.0 + r ** -8.0) + re ** 0.8 / 461000.0)
+
+
+def cd_cylinder(re):
+    r"""Circular cylinder across the flow, drag per frontal area [-].
+
+    White's fit :math:`C_D = 1 + 10\,Re^{-2/3}` (1 < Re < 2e5); below Re = 1 Lamb's
+    low-Reynolds solution :math:`8\pi / (Re\,(2.002 - \ln Re))`; above 2e5 a drag crisis
+    falling log-linearly to 0.35 at 5e5 and held there (an approximation of the measured
+    crisis, from memory).
+    """
+    re = np.asarray(re, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        lamb = 8.0 * np.pi / (re * (2.002 - np.log(np.minimum(re, 1.0))))
+    white = 1.0 + 10.0 * re ** (-2.0 / 3.0)
+    c_crit = 1.0 + 10.0 * 2e5 ** (-2.0 / 3.0)
+    share = np.clip(np.log(re / 2e5) / np.log(5e5 / 2e5), 0.0, 1.0)
+    crisis = c_crit + (0.35 - c_crit) * share
+    return np.where(re < 1.0, lamb, np.where(re <= 2e5, white, crisis))
+
+
+@dataclass(frozen=True)
+class Correlation:
+    """Registry entry: a correlation of Reynolds number, its valid range and its source."""
+
+    function: object
+    re_range: tuple
+    reference: str
+
+    def __call__(self, re):
+        """The coefficient [-] at Reynolds numbers ``re``."""
+        return self.function(re)
+
+
+#: Skin-friction laws and body drag correlations by the name used in airframe files.
+CORRELATIONS = {
+    "laminar": Correlation(cf_laminar, (1e3, 1e6), "Blasius (Schlichting ch. 7)"),
+    "turbulent": Correlation(cf_turbulent, (1e5, 1e9),
+                             "Prandtl-Schlichting (Schlichting ch. 21)"),
+    "mixed": Correlation(cf_mixed, (1e3, 1e9),
+                         "Prandtl's laminar-turbulent correction, transition 5e5"),
+    "sphere": Correlation(cd_sphere_morrison, (1e-6, 1e6), "Morrison (2013) eq. 8.13"),
+    "cylinder": Correlation(cd_cylinder, (1e-3, 1e6),
+                            "White (2006) eq. 3-225; Lamb below Re 1; crisis from memory"),
+}
+
+
+# --- components and bodies ------------------------------------------------------------------
+
+def wing_form_factor(thickness_ratio, max_thickness_at=0.3):
+    """Raymer's form factor of a wing or tail, low speed: 1 + 0.6/(x/c) t/c + 100 (t/c)^4.
+
+    Parameters
+    ----------
+    thickness_ratio : float
+        Thickness over chord [-].
+    max_thickness_at : float
+        Chordwise position of maximum thickness over chord [-].
+
+    Returns
+    -------
+    float
+        Form factor [-].
+
+    References
+    ----------
+    .. [1] Raymer, *Aircraft Design*, eq. 12.30 (Mach term dropped at low speed).
+    """
+    t = thickness_ratio
+    return 1.0 + 0.6 / max_thickness_at * t + 100.0 * t**4
+
+
+def body_form_factor(fineness):
+    """Raymer's form factor of a fuselage or boom: 1 + 60/f^3 + f/400, f = length/diameter.
+
+    Parameters
+    ----------
+    fineness : float
+        Length over maximum diameter [-].
+
+    Returns
+    -------
+    float
+        Form factor [-].
+
+    References
+    ----------
+    .. [1] Raymer, *Aircraft Design*, eq. 12.31.
+    """
+    return 1.0 + 60.0 / fineness**3 + fineness / 400.0
+
+
+@dataclass(frozen=True)
+class Component:
+    """A streamlined component: wetted area, reference length, form factor, friction law."""
+
+    name: str
+    wetted_area: float
+    length: float
+    form_factor: float = 1.0
+    friction: str = "turbulent"
+
+
+@dataclass(frozen=True)
+class AttachedBody:
+    """A bluff body: sphere (dome, ball) or cylinder across the flow (strut, leg)."""
+
+    name: str
+    shape: str
+    diameter: float
+    length: float = 0.0
+    count: int = 1
+
+    @property
+    def frontal_area(self) -> float:
+        """Area facing the flow [m^2]."""
+        if self.shape == "sphere":
+            return np.pi * self.diameter**2 / 4.0
+        return self.diameter * self.length
+
+
+def reynolds(tas, air, length):
+    """Reynolds number rho V L / mu, with ``length`` on a leading axis [-].
+
+    Floored at 1e-9: at zero speed (a hovering multirotor) the coefficients stay finite
+    and the drag, which goes with V^2, is zero.
+    """
+    length = np.asarray(length, dtype=float).reshape((-1,) + (1,) * np.ndim(tas * air.density))
+    return np.maximum(air.density * tas * length / air.viscosity, 1e-9)
+
+
+def components_cd0(components, tas, air, reference_area):
+    """Zero-lift drag coefficient of streamlined components [-] (vectorised)."""
+    if not components:
+        return 0.0 * (tas * air.density)
+    total = 0.0
+    for law in {c.friction for c in components}:
+        group = [c for c in components if c.friction == law]
+        re = reynolds(tas, air, [c.length for c in group])
+        weight = np.array([c.form_factor * c.wetted_area for c in group])
+        weight = weight.reshape((-1,) + (1,) * (re.ndim - 1))
+        total = total + np.sum(CORRELATIONS[law](re) * weight, axis=0)
+    return total / reference_area
+
+
+def bodies_drag_area(bodies, tas, air):
+    """Drag area C_D x frontal area of attached bodies [m^2] (vectorised)."""
+    if not bodies:
+        return 0.0 * (tas * air.density)
+    total = 0.0
+    for shape in {b.shape for b in bodies}:
+        group = [b for b in bodies if b.shape == shape]
+        re = reynolds(tas, air, [b.diameter for b in group])
+        area = np.array([b.frontal_area * b.count for b in group])
+        area = area.reshape((-1,) + (1,) * (re.ndim - 1))
+        total = total + np.sum(CORRELATIONS[shape](re) * area, axis=0)
+    return total
+
+
+@dataclass(frozen=True)
+class BuildUpPolar:
+    r"""Drag polar with a built-up, Reynolds-dependent parasite drag.
+
+    .. math:: C_D = (1 + e_x)\,C_{D0,comp}(V, \rho, \mu) + \frac{\sum C_{D,body} A_{body}}{S}
+              + k (C_L - C_{L,md})^2
+
+    Parameters
+    ----------
+    components : tuple of Component
+        Streamlined parts.
+    bodies : tuple of AttachedBody
+        Bluff parts.
+    k : float
+        Induced-drag factor [-].
+    reference_area : float
+        Wing area the coefficients refer to [m^2].
+    cl_min_drag : float
+        Lift coefficient of minimum drag [-].
+    excrescence : float
+        Fraction added to the components' drag for leaks and protuberances [-]
+        (5-10 %, common practice).
+
+    References
+    ----------
+    .. [1] Raymer, *Aircraft Design*, sec. 12.5.
+    """
+
+    components: tuple
+    bodies: tuple
+    k: float
+    reference_area: float
+    cl_min_drag: float = 0.0
+    excrescence: float = 0.0
+    kind: str = field(default="build-up", init=False)
+
+    def cd0(self, tas, air):
+        """Zero-lift drag coefficient [-] at TAS [m/s] in the given air."""
+        tas = np.asarray(tas, dtype=float)
+        return ((1.0 + self.excrescence) * components_cd0(self.components, tas, air,
+                                                          self.reference_area)
+                + bodies_drag_area(self.bodies, tas, air) / self.reference_area)
+
+    def drag_coefficient(self, cl, tas=None, air=None):
+        """Drag coefficient [-] at lift coefficient ``cl``, TAS [m/s] and air."""
+        d = np.asarray(cl, dtype=float) - self.cl_min_drag
+        return self.cd0(tas, air) + self.k * d * d
+
+    def outside(self, cl):
+        """No lift-coefficient limit of its own (stall is checked separately)."""
+        return np.zeros(np.shape(cl), dtype=bool)
+
+    def reference_cd0(self):
+        """CD0 at sea level ISA and 30 m/s, for summaries [-]."""
+        from .atmosphere import air_state
+
+        return float(self.cd0(30.0, air_state(0.0)))
+
+
+@dataclass(frozen=True)
+class BodyDrag:
+    """Drag of a wingless body (a multirotor's frame): flat-plate area plus bodies.
+
+    Parameters
+    ----------
+    drag_area : float
+        Equivalent flat-plate area of the frame, C_D x A [m^2].
+    bodies : tuple of AttachedBody
+        Bluff parts with Reynolds-dependent drag (camera domes, legs).
+    """
+
+    drag_area: float
+    bodies: tuple = ()
+
+    def area(self, tas, air):
+        """Total drag area [m^2] at TAS [m/s] in the given air."""
+        tas = np.asarray(tas, dtype=float)
+        return self.drag_area + bodies_drag_area(self.bodies, tas, air)
+
+    def drag(self, tas, air):
+        """Drag [N]."""
+        tas = np.asarray(tas, dtype=float)
+        return 0.5 * air.density * tas * tas * self.area(tas, air)

@@ -1,0 +1,226 @@
+r"""Multirotor drones: power in hover and forward flight from momentum theory.
+
+For ``N`` rotors of radius :math:`R` (disk area :math:`A = \pi R^2` each) carrying weight
+:math:`W` against body drag :math:`D = \tfrac12\rho V^2 f`, the rotor plane tilts forward by
+:math:`\alpha = \arctan(D/W)` and each rotor gives thrust :math:`T = \sqrt{W^2 + D^2}/N`.
+
+* Induced velocity from Glauert's forward-flight relation, solved by Newton's method on
+  all points at once:
+
+  .. math:: v_i = \frac{v_h^2}{\sqrt{(V\cos\alpha)^2 + (V\sin\alpha + v_i)^2}}, \qquad
+            v_h = \sqrt{T / (2\rho A)}
+
+* induced power :math:`P_i = \kappa T v_i` per rotor (:math:`\kappa` the induced power
+  factor);
+* profile power :math:`P_0 = \tfrac{\sigma C_{d0}}{8}\rho A (\Omega R)^3 (1 + 4.65\mu^2)` per
+  rotor, with solidity :math:`\sigma = B c / (\pi R)` and advance ratio
+  :math:`\mu = V\cos\alpha / (\Omega R)`;
+* parasite power :math:`P_p = D V`.
+
+Fixed-pitch rotors change speed to change thrust, at a roughly constant thrust
+coefficient; the tip speed given for hover at maximum take-off mass at sea level sets that
+coefficient, and the tip speed elsewhere follows :math:`\Omega R = \sqrt{T/(\rho A C_T)}`.
+Hover power then rises as :math:`\sigma^{-1/2}` with altitude, induced and profile parts
+alike.
+
+References
+----------
+.. [1] J. G. Leishman, *Principles of Helicopter Aerodynamics*, 2nd ed., Cambridge
+   University Press, 2006, ch. 2 (momentum theory, hover and forward flight, Glauert's
+   inflow) and ch. 5 (power in forward flight; profile power with 1 + 4.65 mu^2).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .airframe import Airframe
+from .constants import G0, RHO0
+
+#: Advance ratio above which the simple profile-power model is not trusted.
+MAX_ADVANCE_RATIO = 0.35
+
+
+@dataclass(frozen=True)
+class Rotors:
+    """The rotor set (SI).
+
+    Parameters
+    ----------
+    count : int
+        Number of rotors.
+    radius : float
+        Rotor radius [m].
+    blades : int
+        Blades per rotor.
+    chord : float
+        Mean blade chord [m].
+    blade_cd0 : float
+        Blade section profile drag coefficient [-].
+    hover_tip_speed : float
+        Tip speed in hover at maximum take-off mass, sea-level ISA [m/s].
+    induced_factor : float
+        Induced power factor kappa [-] (1.1-1.2 typical, common practice).
+    """
+
+    count: int
+    radius: float
+    blades: int
+    chord: float
+    blade_cd0: float
+    hover_tip_speed: float
+    induced_factor: float = 1.15
+
+    @property
+    def disk_area(self) -> float:
+        """Area of one rotor disk [m^2]."""
+        return np.pi * self.radius**2
+
+    @property
+    def solidity(self) -> float:
+        """Blade area over disk area, B c / (pi R) [-]."""
+        return self.blades * self.chord / (np.pi * self.radius)
+
+
+def hover_induced_velocity(thrust, density, disk_area):
+    """Momentum-theory hover induced velocity sqrt(T / (2 rho A)) [m/s].
+
+    Parameters
+    ----------
+    thrust : array_like
+        Thrust of one rotor [N].
+    density : array_like
+        Air density [kg/m^3].
+    disk_area : float
+        Disk area of one rotor [m^2].
+
+    Returns
+    -------
+    numpy.ndarray
+        Induced velocity at the disk [m/s].
+
+    References
+    ----------
+    .. [1] Leishman (2006), eq. 2.14.
+    """
+    return np.sqrt(np.asarray(thrust) / (2.0 * np.asarray(density) * disk_area))
+
+
+def glauert_induced_velocity(v_hover, v_parallel, v_normal, iterations=30):
+    r"""Induced velocity in forward flight from Glauert's relation, vectorised Newton.
+
+    Solves :math:`v = v_h^2/\sqrt{V_\parallel^2 + (V_\perp + v)^2}` for :math:`v \ge 0`,
+    where :math:`V_\parallel` is the flow along the disk and :math:`V_\perp` the flow
+    through it (positive when it adds to the inflow).
+
+    Parameters
+    ----------
+    v_hover : array_like
+        Hover induced velocity at the same thrust and density [m/s].
+    v_parallel, v_normal : array_like
+        Free-stream components along and through the disk [m/s].
+    iterations : int
+        Newton steps (the function is monotone; a few suffice).
+
+    Returns
+    -------
+    numpy.ndarray
+        Induced velocity [m/s].
+
+    References
+    ----------
+    .. [1] Leishman (2006), eq. 2.118 (Glauert's forward-flight inflow).
+    """
+    vh2 = np.asarray(v_hover, dtype=float) ** 2
+    vp = np.asarray(v_parallel, dtype=float)
+    vn = np.asarray(v_normal, dtype=float)
+    v = np.sqrt(vh2) + 0.0 * vp + 0.0 * vn
+    for _ in range(iterations):
+        s = np.sqrt(vp * vp + (vn + v) ** 2)
+        f = v - vh2 / s
+        df = 1.0 + vh2 * (vn + v) / s**3
+        v_new = np.maximum(v - f / df, 0.5 * v)
+        if np.all(np.abs(v_new - v) <= 1e-13 * np.maximum(v, 1e-9)):
+            v = v_new
+            break
+        v = v_new
+    return v
+
+
+@dataclass(frozen=True)
+class Multirotor(Airframe):
+    """A multirotor drone: masses, rotors, body drag and an electric chain (SI).
+
+    Parameters
+    ----------
+    rotors : Rotors
+        The rotor set.
+    body : BodyDrag
+        Drag of the frame and attached bodies.
+
+    Notes
+    -----
+    The fixed-wing fields of :class:`~cruiseplan.Airframe` that a multirotor has no use for
+    (wing area, span, CLmax, polar) hold placeholders and are never read for it.
+    """
+
+    rotors: Rotors = None
+    body: object = None
+    kind: str = field(default="multirotor", init=False)
+
+    @property
+    def thrust_coefficient(self) -> float:
+        """C_T = T / (rho A (Omega R)^2) of one rotor, from hover at MTOM, sea level [-]."""
+        r = self.rotors
+        thrust = self.max_takeoff_mass * G0 / r.count
+        return thrust / (RHO0 * r.disk_area * r.hover_tip_speed**2)
+
+    def stall_speed(self, mass, density):
+        """A multirotor hovers: no stall speed (zeros)."""
+        return np.zeros(np.broadcast_shapes(np.shape(mass), np.shape(density)))
+
+    def level_flight(self, mass, air, tas):
+        """Power terms in level flight at TAS ``tas`` [m/s] (momentum theory)."""
+        r = self.rotors
+        tas = np.asarray(tas, dtype=float)
+        rho = air.density
+        weight = mass * G0
+        drag = self.body.drag(tas, air)
+        thrust = np.sqrt(weight * weight + drag * drag) / r.count
+        alpha = np.arctan2(drag, weight)
+        vh = hover_induced_velocity(thrust, rho, r.disk_area)
+        vp, vn = tas * np.cos(alpha), tas * np.sin(alpha)
+        vi = glauert_induced_velocity(vh, vp, vn)
+        tip = np.sqrt(thrust / (rho * r.disk_area * self.thrust_coefficient))
+        mu = vp / tip
+        profile = (r.solidity * r.blade_cd0 / 8.0 * rho * r.disk_area * tip**3
+                   * (1.0 + 4.65 * mu * mu))
+        induced = r.induced_factor * thrust * vi
+        shaft = r.count * (induced + profile) + drag * tas
+        nan = np.full(np.shape(shaft), np.nan)
+        return dict(cl=nan, cd=nan, drag=drag, shaft=shaft, induced=r.count * induced,
+                    profile=r.count * profile, parasite=drag * tas, advance_ratio=mu,
+                    tilt=alpha)
+
+    def model_limits(self, flight, tas, stall_margin):
+        """Limit bits: advance ratio beyond the rotor model's range."""
+        from .performance import Limit
+
+        return np.where(flight["advance_ratio"] > MAX_ADVANCE_RATIO,
+                        np.uint16(Limit.ROTOR_RANGE), np.uint16(0)).astype(np.uint16)
+
+    def stall_speed_ratio(self, flight):
+        """No stall for a multirotor: NaN."""
+        return np.full(np.shape(flight["shaft"]), np.nan)
+
+    def hover_power(self, mass, air):
+        """Shaft power to hover [W] (all rotors)."""
+        return self.level_flight(mass, air, 0.0)["shaft"]
+
+    def hover_endurance(self, mass, air, store=None):
+        """Hover endurance [s] on ``store`` joules (full usable energy by default)."""
+        prop = self.propulsion
+        store = prop.store_capacity if store is None else store
+        return prop.endurance(store, self.hover_power(mass, air))
