@@ -209,6 +209,8 @@ def cmd_table(args):
         if args.speeds:
             v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
                             else "km/h", what="--speeds")
+        elif af.kind == "multirotor":
+            v = np.arange(2.0, 22.01, 2.0)
         else:
             v = np.arange(14.0, 30.01, 2.0)
         if np.any(v <= 0):

@@ -217,6 +217,11 @@ def speed_span(airframe, altitudes, *, mass=None, fuel=None, payload=None, isa_d
                               isa_dev=isa_dev, stall_margin=1.0).tas
     v_hi = np.nanmax(top) if np.any(np.isfinite(top)) else 2.5 * np.max(v_stall)
     v_hi = min(1.12 * v_hi, MACH_LIMIT * float(np.min(air.speed_of_sound)))
+    if airframe.kind == "multirotor":
+        # Stay near the advance ratio the rotor model is trusted to.
+        from .rotorcraft import MAX_ADVANCE_RATIO
+
+        v_hi = min(v_hi, 1.15 * MAX_ADVANCE_RATIO * airframe.rotors.hover_tip_speed)
     # A multirotor has no stall speed: start just above the hover.
     return np.linspace(max(0.85 * float(np.min(v_stall)), 1.0), v_hi, n)
 
@@ -500,6 +505,10 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
              "ld": dict(marker="h", markersize=10, markeredgecolor="black"),
              "margin": dict(marker="|", markersize=14, markeredgewidth=2.0,
                             markeredgecolor="black")}
+    rotor = airframe.kind == "multirotor"
+    if rotor:
+        # No stall and no (L/D)max for a multirotor: its drag is least in the hover.
+        marks = {"min": marks["min"]}
     below_stall = np.broadcast_to(grid.tas, grid.shape) < v_stall[:, None] * (1 - 1e-9)
     required = np.where(below_stall, np.nan, grid.shaft_power) * fp
     available = grid.power_available[:, 0] * fp
@@ -537,11 +546,13 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
         Line2D([], [], color="black", linewidth=1.0, label="power available\n(full throttle)"),
         Line2D([], [], linestyle="none", markerfacecolor="white",
                label="minimum power\n(best endurance)", **marks["min"]),
-        Line2D([], [], linestyle="none", markerfacecolor="white",
-               label="(L/D)max, minimum drag\n(best range, calm air)", **marks["ld"]),
-        Line2D([], [], linestyle="none",
-               label=f"{stall_margin:g} x stall speed\n(slowest cruise)", **marks["margin"]),
     ]
+    if not rotor:
+        handles += [
+            Line2D([], [], linestyle="none", markerfacecolor="white",
+                   label="(L/D)max, minimum drag\n(best range, calm air)", **marks["ld"]),
+            Line2D([], [], linestyle="none", label=f"{stall_margin:g} x stall speed\n"
+                   "(slowest cruise)", **marks["margin"])]
     ax.legend(handles=handles, loc="upper left", bbox_to_anchor=(1.02, 1.0),
               fontsize=MIN_FONT + 0.5, frameon=False, labelspacing=0.9)
     if airframe.kind == "multirotor":

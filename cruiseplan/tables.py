@@ -46,6 +46,15 @@ def store_text(airframe, store: float, units: str) -> str:
     return f"usable energy on board {store * fe:.0f} {le} ({share:.0f} % of usable)"
 
 
+def endurance_column(prop, seconds) -> Column:
+    """Endurance in h:mm for fuel, in minutes for batteries (drone crews count minutes)."""
+    if prop.store_name == "fuel":
+        return Column("endurance", "h:mm",
+                      [hours_minutes(t) if t is not None else "-" for t in seconds], "{}")
+    return Column("endurance", "min", [None if t is None else t / 60.0 for t in seconds],
+                  "{:.0f}")
+
+
 def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "aviation",
                   title: str = "Cruise table", stall_margin: float = 1.3,
                   show_ground: bool = False) -> Report:
@@ -112,16 +121,17 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
         cols += [Column("battery", lw, flat(pts.store_flow * fw), "{:.0f}"),
                  Column("SR", lsr, flat(pts.specific_range_air * fsr), "{:.1f}")]
     cols += [
-        Column("endurance", "h:mm", [hours_minutes(t) for t in flat(pts.endurance)], "{}"),
+        endurance_column(prop, flat(pts.endurance)),
         Column("range", ld, flat(pts.range_air * fd), "{:.0f}"),
     ]
     if show_ground:
         cols.append(Column("gnd range", ld, flat(pts.range_ground * fd), "{:.0f}"))
-    cols += [
-        Column("L/D", "", flat(pts.lift_to_drag), "{:.1f}"),
-        Column("CL", "", flat(pts.cl), "{:.2f}"),
-        Column("V/Vs", "", flat(pts.stall_speed_ratio), "{:.2f}"),
-    ]
+    if airframe.kind != "multirotor":  # no wing: no CL, L/D or stall
+        cols += [
+            Column("L/D", "", flat(pts.lift_to_drag), "{:.1f}"),
+            Column("CL", "", flat(pts.cl), "{:.2f}"),
+            Column("V/Vs", "", flat(pts.stall_speed_ratio), "{:.2f}"),
+        ]
     codes = np.broadcast_to(pts.limits, shape).ravel()
     from .performance import explain
 
@@ -240,8 +250,8 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
                  Column("gnd SR", lsr, flat(pts.specific_range_ground * fsr), "{:.1f}")]
     feasible = best.feasible
     cols += [
-        Column("endurance", "h:mm", [hours_minutes(t) if ok else "-" for t, ok in
-                                     zip(flat(pts.endurance), feasible)], "{}"),
+        endurance_column(prop, [t if ok else None for t, ok in
+                                zip(flat(pts.endurance), feasible)]),
         Column("gnd range", ld, [r if ok else None for r, ok in
                                  zip(flat(pts.range_ground * fd), feasible)], "{:.0f}"),
         Column("status", "", [("BEST " if i == best.best_index else "") + best.reason(i)

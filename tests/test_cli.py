@@ -108,7 +108,7 @@ def test_table_drone_by_speed_si(capsys):
     comments, rows = _csv_rows(out)
     header = rows[0]
     for name in ("PA [m]", "TAS [km/h]", "CAS [km/h]", "shaft [W]", "battery [W]",
-                 "SR [km/kWh]", "endurance [h:mm]", "range [km]", "L/D", "status"):
+                 "SR [km/kWh]", "endurance [min]", "range [km]", "L/D", "status"):
         assert name in header, name
     data = rows[1:]
     assert len(data) == 5 * 4  # default drone altitudes 0:400m:100m x four speeds
