@@ -63,7 +63,7 @@ LIMIT_TEXT = {
     Limit.LAPSE_RANGE: "density outside the power-lapse law's range",
     Limit.NO_SOLUTION: "power setting cannot hold level flight",
     Limit.WIND: "wind too strong to hold the course",
-    Limit.ROTOR_RANGE: "advance ratio above the rotor model's range (0.35)",
+    Limit.ROTOR_RANGE: "beyond the rotor model's range (advance ratio 0.35, tilt 35 deg)",
 }
 
 #: Short codes for the status column of printed tables.

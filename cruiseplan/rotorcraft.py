@@ -41,6 +41,9 @@ from .constants import G0, RHO0
 
 #: Advance ratio above which the simple profile-power model is not trusted.
 MAX_ADVANCE_RATIO = 0.35
+#: Forward tilt of the rotor plane beyond which a multirotor is not flown (its flight
+#: controller's usual limit; common practice, no source).
+MAX_TILT_DEG = 35.0
 
 
 @dataclass(frozen=True)
@@ -205,11 +208,12 @@ class Multirotor(Airframe):
                     tilt=alpha)
 
     def model_limits(self, flight, tas, stall_margin):
-        """Limit bits: advance ratio beyond the rotor model's range."""
+        """Limit bits: advance ratio or tilt beyond the rotor model's range."""
         from .performance import Limit
 
-        return np.where(flight["advance_ratio"] > MAX_ADVANCE_RATIO,
-                        np.uint16(Limit.ROTOR_RANGE), np.uint16(0)).astype(np.uint16)
+        beyond = ((flight["advance_ratio"] > MAX_ADVANCE_RATIO)
+                  | (flight["tilt"] > np.radians(MAX_TILT_DEG)))
+        return np.where(beyond, np.uint16(Limit.ROTOR_RANGE), np.uint16(0)).astype(np.uint16)
 
     def stall_speed_ratio(self, flight):
         """No stall for a multirotor: NaN."""
