@@ -71,9 +71,12 @@ def cd_sphere_morrison(re):
     It tends to Stokes' law (24/Re) at small Re and includes the drag crisis near 3e5.
     """
     re = np.asarray(re, dtype=float)
-    r = re / 263000.0
-    return (24.0 / re + 2.6 * (re / 5.0) / (1.0 + (re / 5.0) ** 1.52)
-            + 0.411 * r ** -7.94 / (1.0 + r ** -8.0) + re ** 0.8 / 461000.0)
+    # Powers through one logarithm: exp is cheaper than four general powers per point.
+    lr = np.log(re)
+    a = lr - np.log(5.0)
+    b = lr - np.log(263000.0)
+    return (24.0 / re + 2.6 * np.exp(a) / (1.0 + np.exp(1.52 * a))
+            + 0.411 * np.exp(-7.94 * b) / (1.0 + np.exp(-8.0 * b)) + np.exp(0.8 * lr) / 461000.0)
 
 
 def cd_cylinder(re):
@@ -85,11 +88,11 @@ def cd_cylinder(re):
     crisis, from memory).
     """
     re = np.asarray(re, dtype=float)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        lamb = 8.0 * np.pi / (re * (2.002 - np.log(np.minimum(re, 1.0))))
-    white = 1.0 + 10.0 * re ** (-2.0 / 3.0)
+    lr = np.log(re)
+    lamb = 8.0 * np.pi / (re * (2.002 - np.minimum(lr, 0.0)))
+    white = 1.0 + 10.0 * np.exp(-2.0 / 3.0 * lr)
     c_crit = 1.0 + 10.0 * 2e5 ** (-2.0 / 3.0)
-    share = np.clip(np.log(re / 2e5) / np.log(5e5 / 2e5), 0.0, 1.0)
+    share = np.clip((lr - np.log(2e5)) / np.log(5e5 / 2e5), 0.0, 1.0)
     crisis = c_crit + (0.35 - c_crit) * share
     return np.where(re < 1.0, lamb, np.where(re <= 2e5, white, crisis))
 
@@ -223,9 +226,11 @@ def bodies_drag_area(bodies, tas, air):
     if not bodies:
         return 0.0 * (tas * air.density)
     total = 0.0
+    unit = air.density * tas / air.viscosity  # Reynolds number per metre, once
     for shape in {b.shape for b in bodies}:
         group = [b for b in bodies if b.shape == shape]
-        re = reynolds(tas, air, [b.diameter for b in group])
+        size = np.array([b.diameter for b in group]).reshape((-1,) + (1,) * np.ndim(unit))
+        re = np.maximum(unit * size, 1e-9)
         area = np.array([b.frontal_area * b.count for b in group])
         area = area.reshape((-1,) + (1,) * (re.ndim - 1))
         total = total + np.sum(CORRELATIONS[shape](re) * area, axis=0)

@@ -139,16 +139,21 @@ def glauert_induced_velocity(v_hover, v_parallel, v_normal, iterations=30):
     vh2 = np.asarray(v_hover, dtype=float) ** 2
     vp = np.asarray(v_parallel, dtype=float)
     vn = np.asarray(v_normal, dtype=float)
-    v = np.sqrt(vh2) + 0.0 * vp + 0.0 * vn
+    # Start from the exact answer without through-flow (V_perp = 0), where the relation is
+    # a quadratic in v^2: v^2 = (sqrt(V_par^4 + 4 v_h^4) - V_par^2) / 2; Newton then needs
+    # only a few steps. (Written as 2 v_h^4 / (sqrt(...) + V_par^2) to avoid cancellation.)
+    vp2 = vp * vp
+    v = np.sqrt(2.0 * vh2 * vh2 / (np.sqrt(vp2 * vp2 + 4.0 * vh2 * vh2) + vp2)) + 0.0 * vn
     for _ in range(iterations):
-        s = np.sqrt(vp * vp + (vn + v) ** 2)
+        u = vn + v
+        s2 = vp2 + u * u
+        s = np.sqrt(s2)
         f = v - vh2 / s
-        df = 1.0 + vh2 * (vn + v) / s**3
-        v_new = np.maximum(v - f / df, 0.5 * v)
-        if np.all(np.abs(v_new - v) <= 1e-13 * np.maximum(v, 1e-9)):
-            v = v_new
+        df = 1.0 + vh2 * u / (s2 * s)
+        step = f / df
+        v = np.maximum(v - step, 0.5 * v)
+        if np.max(np.abs(step) / np.maximum(v, 1e-9)) <= 1e-12:
             break
-        v = v_new
     return v
 
 
@@ -191,28 +196,30 @@ class Multirotor(Airframe):
         rho = air.density
         weight = mass * G0
         drag = self.body.drag(tas, air)
-        thrust = np.sqrt(weight * weight + drag * drag) / r.count
-        alpha = np.arctan2(drag, weight)
+        total = np.sqrt(weight * weight + drag * drag)
+        thrust = total / r.count
+        # Tilt alpha = atan(D/W): its cosine and sine without the trigonometry.
+        vp, vn = tas * weight / total, tas * drag / total
         vh = hover_induced_velocity(thrust, rho, r.disk_area)
-        vp, vn = tas * np.cos(alpha), tas * np.sin(alpha)
         vi = glauert_induced_velocity(vh, vp, vn)
-        tip = np.sqrt(thrust / (rho * r.disk_area * self.thrust_coefficient))
-        mu = vp / tip
-        profile = (r.solidity * r.blade_cd0 / 8.0 * rho * r.disk_area * tip**3
-                   * (1.0 + 4.65 * mu * mu))
+        tip2 = thrust / (rho * r.disk_area * self.thrust_coefficient)
+        tip = np.sqrt(tip2)
+        profile = (r.solidity * r.blade_cd0 / 8.0 * rho * r.disk_area * tip2 * tip
+                   * (1.0 + 4.65 * vp * vp / tip2))
         induced = r.induced_factor * thrust * vi
-        shaft = r.count * (induced + profile) + drag * tas
+        parasite = drag * tas
+        shaft = r.count * (induced + profile) + parasite
         nan = np.full(np.shape(shaft), np.nan)
         return dict(cl=nan, cd=nan, drag=drag, shaft=shaft, induced=r.count * induced,
-                    profile=r.count * profile, parasite=drag * tas, advance_ratio=mu,
-                    tilt=alpha)
+                    profile=r.count * profile, parasite=parasite, advance_ratio=vp / tip,
+                    tilt_tangent=drag / weight)
 
     def model_limits(self, flight, tas, stall_margin):
         """Limit bits: advance ratio or tilt beyond the rotor model's range."""
         from .performance import Limit
 
         beyond = ((flight["advance_ratio"] > MAX_ADVANCE_RATIO)
-                  | (flight["tilt"] > np.radians(MAX_TILT_DEG)))
+                  | (flight["tilt_tangent"] > np.tan(np.radians(MAX_TILT_DEG))))
         return np.where(beyond, np.uint16(Limit.ROTOR_RANGE), np.uint16(0)).astype(np.uint16)
 
     def stall_speed_ratio(self, flight):
