@@ -1,0 +1,613 @@
+r"""Flight logs for the drag-polar fit: CSV in, fitted airframe files and fit reports out.
+
+This is the file edge of :mod:`cruiseplan.fit` (pint is used here, never in the fit). A log
+is a CSV file whose header names each column from a fixed set, with its unit in brackets
+(``cas [kt]``, ``oat [degC]``, ``fuel_flow [L/h]``); any unit pint reads for the column's
+dimension is accepted. Lines starting with ``#`` are comments. One row is one stabilised
+level-flight point:
+
+========================  ==========================  =====================================
+column                    dimension                   notes
+========================  ==========================  =====================================
+``pressure_altitude``     length                      required
+``oat`` | ``isa_dev``     temperature | difference    exactly one
+``cas`` | ``tas``         speed                       exactly one (CAS is corrected to TAS)
+``mass`` | ``weight``     mass (weight: mass/force)   exactly one
+``electric_power``        power                       battery power; or ``voltage`` and
+                                                      ``current`` (their product)
+``shaft_power``           power                       or
+``fuel_flow``             volume/time or mass/time    exactly one power source
+``vertical_speed``        speed                       optional: rows beyond 100 ft/min are
+                                                      dropped (not level flight)
+``time``                  time                        optional, kept for reference
+========================  ==========================  =====================================
+
+:func:`read_flight_log` returns a :class:`FlightLog` of SI arrays. :func:`fitted_airframe_text`
+rewrites an airframe file's ``[polar]`` values, keeping every other byte, and
+:func:`fit_report` lays a fit out as a :class:`~cruiseplan.reports.Report`.
+
+References
+----------
+.. [1] R. D. Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, AIAA Education Series,
+   2003, ch. 9 (level-flight performance tests: stabilised points, PIW-VIW reduction).
+.. [2] J. D. Anderson, *Introduction to Flight*, 8th ed., McGraw-Hill, 2016, sec. 4.12
+   (calibrated to true airspeed).
+"""
+
+from __future__ import annotations
+
+import csv
+import hashlib
+import math
+import re
+from dataclasses import dataclass
+from datetime import date
+from pathlib import Path
+
+import numpy as np
+
+from .airspeed import tas_from_cas
+from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, air_state
+from .constants import G0
+from .errors import CruiseplanError, CruiseplanWarning, LogFileError
+from .units import _normalise_unit, registry
+
+#: Largest vertical speed of a level-flight point [m/s]: 100 ft/min (common practice for
+#: stabilised level points, no source).
+LEVEL_LIMIT = 100.0 * 0.3048 / 60.0
+#: Fewest level-flight points a log must hold for the fit.
+MIN_POINTS = 5
+
+
+@dataclass(frozen=True)
+class LogColumn:
+    """One column of the log format: SI units it may convert to, words for messages."""
+
+    si_units: tuple
+    what: str
+    example: str
+    positive: bool = True
+
+
+#: The documented columns, by name.
+LOG_COLUMNS = {
+    "pressure_altitude": LogColumn(("m",), "a length (altitude)", "ft", positive=False),
+    "oat": LogColumn(("K",), "a temperature", "degC"),
+    "isa_dev": LogColumn(("K",), "a temperature difference", "K", positive=False),
+    "cas": LogColumn(("m/s",), "a speed", "kt"),
+    "tas": LogColumn(("m/s",), "a speed", "m/s"),
+    "mass": LogColumn(("kg",), "a mass", "kg"),
+    "weight": LogColumn(("kg", "N"), "a mass or a force", "lb"),
+    "electric_power": LogColumn(("W",), "a power", "W"),
+    "voltage": LogColumn(("V",), "a voltage", "V"),
+    "current": LogColumn(("A",), "a current", "A"),
+    "shaft_power": LogColumn(("W",), "a power", "hp"),
+    "fuel_flow": LogColumn(("m^3/s", "kg/s"), "a volume or mass flow", "L/h"),
+    "vertical_speed": LogColumn(("m/s",), "a speed", "ft/min", positive=False),
+    "time": LogColumn(("s",), "a time", "s", positive=False),
+}
+
+#: What a log must give, one alternative from each group.
+_GROUPS = (
+    ("pressure altitude", (("pressure_altitude",),)),
+    ("temperature", (("oat",), ("isa_dev",))),
+    ("airspeed", (("cas",), ("tas",))),
+    ("mass", (("mass",), ("weight",))),
+    ("power source", (("electric_power",), ("voltage", "current"), ("shaft_power",),
+                      ("fuel_flow",))),
+)
+_OPTIONAL = ("vertical_speed", "time")
+
+_EXPECTED = ("expected columns: pressure_altitude [ft]; oat [degC] or isa_dev [K]; "
+             "cas [kt] or tas [m/s]; mass [kg] or weight [lb]; one power source: "
+             "electric_power [W], voltage [V] with current [A], shaft_power [hp] or "
+             "fuel_flow [L/h] (or [kg/h]); optional vertical_speed [ft/min] and time [s] "
+             "(any unit of the right dimension)")
+
+_HEADER = re.compile(r"^\s*([A-Za-z_][A-Za-z0-9_]*)\s*(?:\[(.*)\])?\s*$")
+
+
+@dataclass(frozen=True)
+class FlightLog:
+    """Level-flight points of a log in SI units.
+
+    Attributes
+    ----------
+    source : str
+        The file read.
+    checksum : str
+        SHA-256 of its bytes.
+    lines : numpy.ndarray
+        Line number of each point in the file (1-based, comments included).
+    pressure_altitude : numpy.ndarray
+        Pressure altitude [m].
+    temperature : numpy.ndarray
+        Outside air temperature [K].
+    density : numpy.ndarray
+        Air density [kg/m^3].
+    tas : numpy.ndarray
+        True airspeed [m/s].
+    mass : numpy.ndarray
+        Aircraft mass [kg].
+    power_source : str
+        A key of :data:`cruiseplan.fit.POWER_SOURCES`: ``electric_power``, ``shaft_power``,
+        ``fuel_mass_flow`` or ``fuel_volume_flow``.
+    power : numpy.ndarray
+        That quantity [W, W, kg/s or m^3/s].
+    vertical_speed : numpy.ndarray or None
+        Vertical speed [m/s], when logged.
+    time : numpy.ndarray or None
+        Time [s], when logged.
+    not_level : tuple of int
+        Lines dropped because the vertical speed exceeded :data:`LEVEL_LIMIT`.
+    airspeed_column : str
+        ``"cas"`` or ``"tas"``: what the log gave.
+    """
+
+    source: str
+    checksum: str
+    lines: np.ndarray
+    pressure_altitude: np.ndarray
+    temperature: np.ndarray
+    density: np.ndarray
+    tas: np.ndarray
+    mass: np.ndarray
+    power_source: str
+    power: np.ndarray
+    vertical_speed: np.ndarray | None
+    time: np.ndarray | None
+    not_level: tuple
+    airspeed_column: str
+
+    @property
+    def n_points(self) -> int:
+        """Number of level-flight points."""
+        return int(self.lines.size)
+
+
+# --- reading ---------------------------------------------------------------------------------
+
+def _rows(path: Path, text: str):
+    """Header cells and (line number, cells) of the data rows; comments and blanks skipped."""
+    header, rows = None, []
+    for number, line in enumerate(text.splitlines(), start=1):
+        if not line.strip() or line.lstrip().startswith("#"):
+            continue
+        cells = [c.strip() for c in next(csv.reader([line]))]
+        if header is None:
+            header = (number, cells)
+        else:
+            rows.append((number, cells))
+    if header is None:
+        raise LogFileError(f"{path}: no header line; {_EXPECTED}")
+    return header, rows
+
+
+def _columns(path: Path, cells: list) -> dict:
+    """Column name -> (index, unit text) from the header, checked against the format."""
+    found = {}
+    for i, cell in enumerate(cells):
+        m = _HEADER.match(cell)
+        name = m.group(1) if m else cell
+        if not m or name not in LOG_COLUMNS:
+            raise LogFileError(f"{path}: unknown column {cell!r}; {_EXPECTED}")
+        if m.group(2) is None or not m.group(2).strip():
+            raise LogFileError(f"{path}: column {name!r} has no unit; write it as "
+                               f"'{name} [{LOG_COLUMNS[name].example}]'")
+        if name in found:
+            raise LogFileError(f"{path}: column {name!r} appears twice")
+        found[name] = (i, m.group(2).strip())
+    for what, options in _GROUPS:
+        given = [opt for opt in options if any(c in found for c in opt)]
+        names = " or ".join(" with ".join(f"{c} [{LOG_COLUMNS[c].example}]" for c in opt)
+                            for opt in options)
+        if not given:
+            raise LogFileError(f"{path}: no {what} column (give {names}); {_EXPECTED}")
+        if len(given) > 1:
+            both = " and ".join("+".join(opt) for opt in given)
+            raise LogFileError(f"{path}: columns {both} both give the {what}; keep one")
+        missing = [c for c in given[0] if c not in found]
+        if missing:
+            raise LogFileError(f"{path}: column {given[0][0]!r} needs "
+                               f"'{missing[0]} [{LOG_COLUMNS[missing[0]].example}]' too; "
+                               f"{_EXPECTED}")
+    return found
+
+
+def _convert(path: Path, name: str, unit: str, values: np.ndarray):
+    """Values of a column in SI; returns (array, SI unit chosen)."""
+    spec = LOG_COLUMNS[name]
+    ureg = registry()
+    text = _normalise_unit(unit)
+    if name == "isa_dev":
+        text = {"degC": "delta_degC", "°C": "delta_degC", "degF": "delta_degF",
+                "°F": "delta_degF"}.get(text, text)
+    try:
+        units = ureg.parse_units(text)
+    except Exception:
+        raise LogFileError(f"{path}: column '{name} [{unit}]': unit {unit!r} is not known; "
+                           f"give {spec.what} in units such as {spec.example}") from None
+    for si in spec.si_units:
+        try:
+            return np.asarray(ureg.Quantity(values, units).to(si).magnitude, dtype=float), si
+        except Exception:
+            continue
+    raise LogFileError(f"{path}: column '{name} [{unit}]': {unit} is not {spec.what} "
+                       f"(dimension {ureg.get_dimensionality(spec.si_units[0])}); use "
+                       f"units such as {spec.example}")
+
+
+def _number_table(path: Path, header_cells, rows, columns: dict):
+    """Raw numbers of the used columns, shape (n_rows, n_columns), with line numbers."""
+    width = len(header_cells)
+    lines = np.array([n for n, _ in rows], dtype=int)
+    table = np.empty((len(rows), width))
+    for r, (number, cells) in enumerate(rows):
+        if len(cells) != width:
+            raise LogFileError(f"{path}: line {number} has {len(cells)} values; the header "
+                               f"has {width} columns")
+        for j, cell in enumerate(cells):
+            try:
+                value = float(cell)
+            except ValueError:
+                value = math.nan
+            if not math.isfinite(value):
+                raise LogFileError(f"{path}: line {number}, column {header_cells[j]!r}: "
+                                   f"{cell!r} is not a finite number")
+            table[r, j] = value
+    return lines, table
+
+
+def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
+    """Read a level-flight log (CSV with units in the header) into SI arrays.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The CSV file (see the module docstring for its columns).
+    level_limit : float, optional
+        Largest vertical speed of a level-flight point [m/s]; 100 ft/min by default
+        (common practice).
+
+    Returns
+    -------
+    FlightLog
+        The level points, air density and TAS worked out (CAS through the compressible
+        pitot relations [2]_ at the logged pressure altitude and temperature).
+
+    Raises
+    ------
+    LogFileError
+        For a missing, unknown or doubled column, a unit of the wrong dimension, a cell that
+        is not a number, an out-of-range value, or fewer than :data:`MIN_POINTS` level points.
+
+    Warns
+    -----
+    CruiseplanWarning
+        Naming the lines dropped as not level (|vertical speed| above ``level_limit``).
+
+    References
+    ----------
+    .. [1] Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, ch. 9.
+    .. [2] Anderson, *Introduction to Flight*, sec. 4.12.
+    """
+    import warnings
+
+    path = Path(path)
+    try:
+        raw = path.read_bytes()
+    except OSError as exc:
+        raise LogFileError(f"{path}: cannot read the flight log ({exc.strerror})") from None
+    try:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError:
+        raise LogFileError(f"{path}: not a UTF-8 text file") from None
+    (_, header_cells), rows = _rows(path, text)
+    columns = _columns(path, header_cells)
+    if not rows:
+        raise LogFileError(f"{path}: no data rows; the fit needs at least {MIN_POINTS} "
+                           "level-flight points")
+    lines, table = _number_table(path, header_cells, rows, columns)
+    si, kinds = {}, {}
+    for name, (j, unit) in columns.items():
+        si[name], kinds[name] = _convert(path, name, unit, table[:, j])
+        bad = ~(si[name] > 0) if LOG_COLUMNS[name].positive else np.zeros(lines.size, bool)
+        if np.any(bad):
+            i = int(np.argmax(bad))
+            raise LogFileError(f"{path}: line {lines[i]}, column '{header_cells[j]}': "
+                               f"{table[i, j]:g} must be positive")
+
+    h = si["pressure_altitude"]
+    out = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
+    if np.any(out):
+        i = int(np.argmax(out))
+        raise LogFileError(f"{path}: line {lines[i]}: pressure altitude {h[i]:.0f} m is "
+                           f"outside {ALTITUDE_MIN:.0f} to {ALTITUDE_MAX:.0f} m")
+
+    keep = np.ones(lines.size, dtype=bool)
+    not_level = ()
+    vs = si.get("vertical_speed")
+    if vs is not None:
+        keep = np.abs(vs) <= level_limit
+        not_level = tuple(int(n) for n in lines[~keep])
+        if not_level:
+            which = "line" if len(not_level) == 1 else "lines"
+            warnings.warn(f"{path}: {which} {', '.join(map(str, not_level))} dropped: "
+                          f"|vertical speed| above {level_limit / 0.00508:.0f} ft/min, not "
+                          "level flight (common practice)", CruiseplanWarning, stacklevel=2)
+    n = int(np.count_nonzero(keep))
+    if n < MIN_POINTS:
+        raise LogFileError(f"{path}: {n} level-flight points; the fit needs at least "
+                           f"{MIN_POINTS}, spread over the speed range")
+    si = {k: v[keep] for k, v in si.items()}
+    lines = lines[keep]
+    h = si["pressure_altitude"]
+
+    if "oat" in si:
+        air = air_state(h, oat=si["oat"])
+    else:
+        air = air_state(h, si["isa_dev"])
+    if "tas" in si:
+        tas, speed = si["tas"], "tas"
+    else:
+        tas, speed = tas_from_cas(si["cas"], air.pressure, air.speed_of_sound), "cas"
+    if "mass" in si:
+        mass = si["mass"]
+    else:
+        mass = si["weight"] / (G0 if kinds["weight"] == "N" else 1.0)
+    if "electric_power" in si:
+        source, power = "electric_power", si["electric_power"]
+    elif "voltage" in si:
+        source, power = "electric_power", si["voltage"] * si["current"]
+    elif "shaft_power" in si:
+        source, power = "shaft_power", si["shaft_power"]
+    else:
+        source = "fuel_volume_flow" if kinds["fuel_flow"] == "m^3/s" else "fuel_mass_flow"
+        power = si["fuel_flow"]
+    return FlightLog(
+        source=str(path), checksum=hashlib.sha256(raw).hexdigest(), lines=lines,
+        pressure_altitude=h, temperature=np.asarray(air.temperature, dtype=float),
+        density=np.asarray(air.density, dtype=float), tas=np.asarray(tas, dtype=float),
+        mass=mass, power_source=source, power=power, vertical_speed=si.get("vertical_speed"),
+        time=si.get("time"), not_level=not_level, airspeed_column=speed)
+
+
+# --- the fitted airframe file ----------------------------------------------------------------
+
+_SECTION = re.compile(r"^\s*\[\s*([A-Za-z0-9_.\-\"' ]+?)\s*\]\s*(#.*)?$")
+_KEY = re.compile(r"^(?P<lead>\s*)(?P<key>[A-Za-z0-9_]+)(?P<eq>\s*=\s*)(?P<value>[^#\r\n]*?)"
+                  r"(?P<tail>[ \t]*(?:#[^\r\n]*)?)(?P<eol>\r?\n?)$")
+
+
+def fitted_airframe_text(text: str, fit, *, log_name: str, when: date | None = None) -> str:
+    """An airframe file's text with the fitted CD0 and Oswald e (or k) in ``[polar]``.
+
+    Only the values of ``cd0`` and ``oswald_e`` (or ``k``, whichever the file uses) change,
+    and one comment line is added below the ``[polar]`` header naming the log, the date and
+    the standard errors; every other byte, comments and other sections included, is kept.
+
+    Parameters
+    ----------
+    text : str
+        The original airframe file.
+    fit : cruiseplan.fit.FitResult
+        The fit.
+    log_name : str
+        The flight log's file name, for the comment.
+    when : datetime.date, optional
+        Date for the comment (today by default).
+
+    Returns
+    -------
+    str
+        The new file text.
+
+    Raises
+    ------
+    CruiseplanError
+        When the file has no ``[polar]`` section with ``cd0`` and ``oswald_e`` or ``k``
+        written one per line.
+    """
+    lines = text.splitlines(keepends=True)
+    start = end = None
+    for i, line in enumerate(lines):
+        m = _SECTION.match(line)
+        if m and start is None and m.group(1) == "polar":
+            start = i
+        elif (m or line.lstrip().startswith("[")) and start is not None and i > start:
+            end = i
+            break
+    if start is None:
+        raise CruiseplanError("the airframe file has no [polar] section to update")
+    end = len(lines) if end is None else end
+    new = {"cd0": f"{fit.cd0:.5f}", "oswald_e": f"{fit.oswald_e:.4f}", "k": f"{fit.k:.5f}"}
+    done = set()
+    for i in range(start + 1, end):
+        m = _KEY.match(lines[i])
+        if m and m.group("key") in new:
+            key = m.group("key")
+            lines[i] = (m.group("lead") + key + m.group("eq") + new[key] + m.group("tail")
+                        + m.group("eol"))
+            done.add(key)
+    if "cd0" not in done or not done & {"oswald_e", "k"}:
+        raise CruiseplanError("the airframe file's [polar] section has no 'cd0 = ...' and "
+                              "'oswald_e = ...' (or 'k = ...') lines to update")
+    shape = "k" if "k" in done else "oswald_e"
+    se_shape = fit.se_k if shape == "k" else fit.se_oswald_e
+    when = when or date.today()
+    eta = "fitted" if fit.efficiency_fitted else "held"
+    note = (f"# cd0 and {shape} fitted from {log_name} on {when.isoformat()} by cruiseplan "
+            f"fit (PIW-VIW, {fit.n_used} points; standard errors {fit.se_cd0:.2g} and "
+            f"{se_shape:.2g}; propeller efficiency {eta})")
+    eol = "\r\n" if lines[start].endswith("\r\n") else "\n"
+    if not lines[start].endswith(("\n", "\r")):
+        lines[start] += eol
+    lines.insert(start + 1, note + eol)
+    return "".join(lines)
+
+
+def check_airframe_text(text: str):
+    """Read an airframe file's text as :func:`cruiseplan.read_airframe` would.
+
+    Parameters
+    ----------
+    text : str
+        The file text, e.g. from :func:`fitted_airframe_text`.
+
+    Returns
+    -------
+    Airframe
+        The airframe it describes.
+
+    Raises
+    ------
+    CruiseplanError
+        When the text is not a valid airframe file (e.g. a fitted value out of range).
+    """
+    import os
+    import tempfile
+
+    from .airframe_files import read_airframe
+    from .errors import AirframeFileError
+
+    fd, tmp = tempfile.mkstemp(suffix=".toml", prefix="cruiseplan-fit-")
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(text.encode("utf-8"))
+        return read_airframe(tmp)
+    except AirframeFileError as exc:
+        reason = str(exc).split(": ", 1)[-1]
+        raise CruiseplanError(f"the fitted polar does not make a valid airframe file: "
+                              f"{reason}; check the log's power source and masses and the "
+                              "propeller efficiency assumed") from None
+    finally:
+        os.unlink(tmp)
+
+
+# --- the report ------------------------------------------------------------------------------
+
+def fit_report(fit, log: FlightLog, airframe, *, units: str = "aviation"):
+    """Lay a polar fit out as a Report: the values, their uncertainty, the reduced points.
+
+    Parameters
+    ----------
+    fit : cruiseplan.fit.FitResult
+        The fit of ``log``.
+    log : FlightLog
+        The log it was made from.
+    airframe : Airframe
+        The airframe whose propulsion chain converted the power source.
+    units : {"aviation", "si"}
+        Display units.
+
+    Returns
+    -------
+    Report
+        Header lines with the fitted values (standard errors, 95 % intervals, correlation,
+        R^2, RMS residual, points dropped), one row per log point, notes and cautions; its
+        ``summary`` holds the fitted values in SI for JSON.
+
+    References
+    ----------
+    .. [1] Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, ch. 9 (PIW-VIW).
+    """
+    from . import CAUTIONS
+    from .fit import POWER_SOURCES
+    from .reports import Column, Report, display
+    from .tables import airframe_lines
+
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fm, lm = display("mass", units)
+    fp, lp = display("power" if airframe.propulsion.store_name == "fuel"
+                     else "electric_power", units)
+    pol = airframe.polar
+    file_e = 1.0 / (math.pi * airframe.aspect_ratio * pol.k) if hasattr(pol, "k") else None
+    file_cd0 = getattr(pol, "cd0", None)
+
+    def value_line(name, value, se, ci, digits, old):
+        was = f"; file {old:.{digits}f}" if old is not None else ""
+        if not math.isfinite(se):
+            return f"{name} = {value:.{digits}f} (held, not fitted){was}"
+        return (f"{name} = {value:.{digits}f} \u00b1 {se:.{digits}f} (1 standard error); "
+                f"95 % interval {ci[0]:.{digits}f} to {ci[1]:.{digits}f}{was}")
+
+    n_all = fit.lines.size + len(log.not_level)
+    meta = airframe_lines(airframe) + [
+        f"Log: {log.source} (sha256 {log.checksum[:16]}), {n_all} rows, "
+        f"{len(log.not_level)} not level",
+        f"Thrust power from {POWER_SOURCES[log.power_source].describe(airframe.propulsion)}",
+        f"Reduced by PIW-VIW to reference mass {fit.reference_mass * fm:.1f} {lm} and "
+        "sea-level standard density; fitted PIW = A VIW^3 + B / VIW by weighted nonlinear "
+        "least squares (relative residuals)",
+        value_line("CD0", fit.cd0, fit.se_cd0, fit.ci95["cd0"], 5, file_cd0),
+        value_line("oswald_e", fit.oswald_e, fit.se_oswald_e, fit.ci95["oswald_e"], 4,
+                   file_e),
+        value_line("k", fit.k, fit.se_k, fit.ci95["k"], 5, getattr(pol, "k", None)),
+        f"Correlation of CD0 and oswald_e {fit.correlation:+.3f}; R^2 {fit.r_squared:.4f}; "
+        f"RMS residual {fit.rms_residual * fp:.3g} {lp} ({fit.rms_relative * 100:.2f} % of "
+        f"PIW); residual degrees of freedom {fit.dof}",
+        f"Points used {fit.n_used} of {fit.lines.size} level points; "
+        + ("outliers dropped (|studentised residual| > "
+           f"{fit.outlier_limit:g}): "
+           + ", ".join(f"line {n} ({t:+.1f} in the fit of all points)"
+                       for n, t in fit.dropped)
+           if fit.dropped else "no outliers (|studentised residual| > "
+           f"{fit.outlier_limit:g})"),
+    ]
+    if log.not_level:
+        meta.append("Not level, dropped before the fit (|vertical speed| > 100 ft/min): "
+                    + ", ".join(f"line {n}" for n in log.not_level))
+    meta.append(f"Propeller efficiency: {fit.efficiency_note}")
+    meta += [f"Note: {w}" for w in fit.warnings]
+    meta.append(f"Made {date.today().isoformat()} by cruiseplan")
+
+    curve = fit.curve(fit.viw)
+    rel = (fit.piw - curve) / curve * 100.0
+    status = np.where(fit.used, "used", "outlier")
+    thrust = fit.thrust_power
+    columns = [
+        Column("line", "", fit.lines.tolist(), "{:d}"),
+        Column("PA", la, (log.pressure_altitude * fa).tolist(), "{:.0f}"),
+        Column("OAT", "degC", (log.temperature - 273.15).tolist(), "{:.1f}"),
+        Column("TAS", ls, (log.tas * fs).tolist(), "{:.1f}"),
+        Column("mass", lm, (log.mass * fm).tolist(), "{:.1f}"),
+        Column("thrust power", lp, (thrust * fp).tolist(), "{:.2f}" if fp * np.max(thrust)
+               < 100 else "{:.1f}"),
+        Column("VIW", ls, (fit.viw * fs).tolist(), "{:.1f}"),
+        Column("PIW", lp, (fit.piw * fp).tolist(), "{:.2f}" if fp * np.max(fit.piw) < 100
+               else "{:.1f}"),
+        Column("PIW fit", lp, (curve * fp).tolist(), "{:.2f}" if fp * np.max(curve) < 100
+               else "{:.1f}"),
+        Column("residual", "%", rel.tolist(), "{:+.2f}"),
+        Column("stud. res.", "", fit.studentised.tolist(), "{:+.2f}"),
+        Column("status", "", status.tolist(), "{}"),
+    ]
+    notes = [
+        "PIW = P sqrt(sigma) (W_ref/W)^1.5 and VIW = V_E (W_ref/W)^0.5 (power and "
+        "equivalent airspeed independent of weight; Kimberlin, Flight Testing of "
+        "Fixed-Wing Aircraft, ch. 9)",
+        "residual: measured PIW over the fitted curve, minus 1; stud. res.: residual over "
+        "its standard error with the point left out of the fit (externally studentised); "
+        "outliers were found by the same test in the fit of all level points",
+    ]
+    summary = {
+        "cd0": fit.cd0, "cd0_se": fit.se_cd0, "cd0_ci95_low": fit.ci95["cd0"][0],
+        "cd0_ci95_high": fit.ci95["cd0"][1], "oswald_e": fit.oswald_e,
+        "oswald_e_se": fit.se_oswald_e, "oswald_e_ci95_low": fit.ci95["oswald_e"][0],
+        "oswald_e_ci95_high": fit.ci95["oswald_e"][1], "k": fit.k, "k_se": fit.se_k,
+        "correlation_cd0_oswald_e": fit.correlation, "r_squared": fit.r_squared,
+        "rms_residual_W": fit.rms_residual, "rms_residual_relative": fit.rms_relative,
+        "points_used": fit.n_used, "points_level": int(fit.lines.size),
+        "outlier_lines": ",".join(str(n) for n, _ in fit.dropped),
+        "not_level_lines": ",".join(str(n) for n in log.not_level),
+        "reference_mass_kg": fit.reference_mass, "efficiency_scale": fit.efficiency_scale,
+        "efficiency_fitted": fit.efficiency_fitted,
+    }
+    return Report(title=f"Drag polar fitted from a flight log: {airframe.name}", meta=meta,
+                  columns=columns, notes=notes,
+                  cautions=tuple(CAUTIONS) + (
+                      "A fitted polar is only as good as the log (stabilised points, "
+                      "calibrated instruments, the propeller efficiency assumed): compare "
+                      "it with the flight manual before planning with it.",),
+                  summary=summary)
