@@ -104,6 +104,7 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--plot", metavar="FILE", help="also draw the profile (.png or .pdf)")
     _add_output(p, formats=("text", "json", "csv", "markdown"))
     _add_figure_commands(sub)
+    _add_fit_command(sub)
     return parser
 
 
@@ -503,8 +504,93 @@ def cmd_card(args):
     sys.stdout.write(f"wrote {out} and {twin}\n")
 
 
+# --- fit: drag polar from a flight log ---------------------------------------------------------
+
+def _add_fit_command(sub):
+    """The ``fit`` subcommand: drag polar from a level-flight log."""
+    p = sub.add_parser("fit", help="fit the drag polar (CD0, Oswald e) to a level-flight log "
+                                   "by PIW-VIW reduction")
+    p.add_argument("log", help="flight log CSV whose header names each column with its unit, "
+                               "e.g. 'cas [kt]' (see DEVELOPERS.md, Flight logs)")
+    p.add_argument("--airframe", required=True,
+                   help="bundled airframe name or path to an airframe TOML file")
+    p.add_argument("--output", "-o", metavar="NEW.toml",
+                   help="write a copy of the airframe file with the fitted cd0 and oswald_e "
+                        "(or k); everything else is kept")
+    p.add_argument("--plot", metavar="RESIDUALS.png",
+                   help="draw the reduced points, the fitted curve and the residuals "
+                        "(.png or .pdf)")
+    p.add_argument("--format", choices=("text", "json"), default="text", help="output format")
+    p.add_argument("--reference-mass", help="mass the points are reduced to, e.g. '1600 lb' "
+                                            "(default the maximum take-off mass)")
+    p.add_argument("--units", choices=("aviation", "si"), default=None,
+                   help="display units (default aviation for piston airframes, si for "
+                        "electric ones)")
+
+
+def cmd_fit(args):
+    """Fit the drag polar to a flight log; print it, optionally write the airframe and plot."""
+    from pathlib import Path
+
+    from .airframe_files import find_airframe, read_airframe
+    from .fit import fit_flight_log
+    from .flightlog import check_airframe_text, fit_report, fitted_airframe_text, read_flight_log
+    from .reports import write_atomic, write_bytes_atomic
+    from .units import parse_quantity
+
+    if args.plot and Path(args.plot).suffix.lower() not in (".png", ".pdf"):
+        raise CruiseplanError(f"--plot {args.plot}: the file must end in .png or .pdf")
+    path = find_airframe(args.airframe)
+    if args.output:
+        if Path(args.output).suffix.lower() != ".toml":
+            raise CruiseplanError(f"--output {args.output}: the airframe file must end in .toml")
+        if Path(args.output).resolve() == path.resolve():
+            raise CruiseplanError(f"--output {args.output} is the airframe file itself: write "
+                                  "the fitted polar to a new file and compare")
+        if args.plot and Path(args.plot).resolve() == Path(args.output).resolve():
+            raise CruiseplanError("--output and --plot name the same file")
+    af = read_airframe(path)
+    mass = (parse_quantity(args.reference_mass, "kg", default_unit="kg",
+                           what="--reference-mass") if args.reference_mass else None)
+    if mass is not None and mass <= 0:
+        raise UnitError(f"--reference-mass {args.reference_mass!r} must be positive")
+    log = read_flight_log(args.log)
+    fit = fit_flight_log(af, log, reference_mass=mass)
+    if args.output and getattr(af.polar, "kind", None) != "parabolic":
+        raise CruiseplanError(f"--output: {af.name} has a {getattr(af.polar, 'kind', 'no')} "
+                              "polar; the fit writes cd0 and oswald_e of a parabolic one")
+    units = args.units or _default_units(af)
+    text = fit_report(fit, log, af, units=units).render(args.format)
+    toml = None
+    if args.output:
+        toml = fitted_airframe_text(path.read_bytes().decode("utf-8"), fit,
+                                    log_name=Path(args.log).name)
+        check_airframe_text(toml)
+    figure = None
+    if args.plot:
+        from . import plots
+
+        figure = plots.figure_bytes(plots.fit_residuals(fit, af, units=units,
+                                                        log_name=Path(args.log).name),
+                                    args.plot)
+    written = []
+    try:
+        if toml is not None:
+            write_atomic(args.output, toml)
+            written.append(Path(args.output))
+        if figure is not None:
+            write_bytes_atomic(args.plot, figure)
+            written.append(Path(args.plot))
+    except BaseException:
+        for done in written:  # the outputs are written whole or not at all
+            done.unlink(missing_ok=True)
+        raise
+    sys.stdout.write(text)
+
+
 COMMANDS = {"airframes": cmd_airframes, "atmosphere": cmd_atmosphere, "table": cmd_table,
-            "best": cmd_best, "plan": cmd_plan, "plot": cmd_plot, "card": cmd_card}
+            "best": cmd_best, "plan": cmd_plan, "plot": cmd_plot, "card": cmd_card,
+            "fit": cmd_fit}
 
 
 def _show_warning(message, category, filename, lineno, file=None, line=None):
