@@ -41,6 +41,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .airspeed import wind_components
 from .atmosphere import air_state
 from .constants import G0
 from .optimise import objective_speed, speed_schedule
@@ -50,7 +51,7 @@ from .winds import WindProfile
 FT = 0.3048
 #: Integration steps per segment (altitude steps in climb and descent, RK4 steps in cruise).
 CLIMB_STEPS = 8
-CRUISE_STEPS = 8
+CRUISE_STEPS = 4
 #: Lowest climb rate accepted as "still climbing" [m/s] (about 20 ft/min).
 MIN_CLIMB_RATE = 0.1
 
@@ -217,6 +218,11 @@ class Plan:
         Cruise altitude chosen per leg [m].
     takeoff_mass : float
         Mass at engine start [kg].
+    leg_speeds : tuple of float
+        Cruise TAS at the start of each leg's cruise [m/s] (held, or its lift coefficient
+        held for a best speed).
+    climb_speed : float
+        Climb EAS [m/s].
     """
 
     mission: Mission
@@ -227,6 +233,8 @@ class Plan:
     reasons: tuple
     leg_altitudes: tuple
     takeoff_mass: float = 0.0
+    leg_speeds: tuple = ()
+    climb_speed: float = 0.0
 
     @property
     def go(self) -> bool:
@@ -262,15 +270,23 @@ class Plan:
 # --- the flight model used by the planner ---------------------------------------------
 
 class _Flight:
-    """Lean SI model of the airframe on the day, shared by all segments."""
+    """Lean SI model of the airframe on the day, shared by all segments.
 
-    def __init__(self, mission: Mission):
-        self.af = mission.airframe
+    For a Monte Carlo run the airframe's parameters may be arrays over samples, and
+    ``wind_error`` (speed [m/s], direction [deg] offsets, arrays over samples) shifts every
+    wind; ``sample_shape`` is then the shape of those arrays, () otherwise.
+    """
+
+    def __init__(self, mission: Mission, airframe=None, wind_error=None, sample_shape=()):
+        self.af = mission.airframe if airframe is None else airframe
         self.prop = self.af.propulsion
         self.dev = mission.isa_dev
         self.margin = mission.stall_margin
         self.burns_mass = self.prop.store_name == "fuel"
-        load = self.af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
+        self.wind_error = wind_error
+        self.sample_shape = sample_shape
+        load = mission.airframe.loading(mass=mission.mass, store=mission.store,
+                                        payload=mission.payload)
         # Past an empty tank the plan goes on counting the fuel it would need (to say by
         # how much it falls short), but the mass stops at the zero-fuel mass.
         self.zero_fuel_mass = load.mass - load.store if self.burns_mass else load.mass
@@ -284,13 +300,20 @@ class _Flight:
     def rate(self, shaft):
         return self.prop.store_rate(shaft)
 
-    @staticmethod
-    def ground(v, leg, h, gamma_rate=0.0, wind=None):
+    def wind(self, leg, h):
+        """Headwind and crosswind [m/s] on the leg's course at altitudes ``h``."""
+        if self.wind_error is None:
+            return leg.wind.components(leg.course, h)
+        direction, speed = leg.wind.at(h)
+        d_speed, d_dir = self.wind_error
+        return wind_components(leg.course, direction + d_dir, np.maximum(speed + d_speed, 0))
+
+    def ground(self, v, leg, h, gamma_rate=0.0, wind=None):
         """Ground speed and heading for TAS ``v`` (horizontal part when climbing).
 
         ``wind`` may carry the (headwind, crosswind) already found at ``h``.
         """
-        head, cross = leg.wind.components(leg.course, h) if wind is None else wind
+        head, cross = self.wind(leg, h) if wind is None else wind
         vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
         with np.errstate(invalid="ignore"):
             wca = np.arcsin(np.clip(cross / vh, -1.0, 1.0))
@@ -308,25 +331,28 @@ def _vertical(fl: _Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
     Returns a dict of arrays: time, distance, used, mass_end, ok (the climb rate held),
     fail_at (altitude where it did not), tas, gs and power (time means), heading.
     """
-    h0, h1, m = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float),
-                                    np.asarray(m0, float))
-    m = m.copy()
+    # Altitudes keep their own shape (candidates, or one altitude); masses and sampled
+    # parameters broadcast against them.
+    h0, h1 = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float))
+    shape = np.broadcast_shapes(h0.shape, np.shape(m0), np.shape(v_descent),
+                                fl.sample_shape)
+    m = np.broadcast_to(np.asarray(m0, float), shape).copy()
     dh = (h1 - h0) / CLIMB_STEPS
-    zero = np.zeros_like(h0)
+    zero = np.zeros(shape)
     t, x, used, tas_sum, gs_sum, pw_sum, heading = (zero.copy() for _ in range(7))
-    ok = np.ones(h0.shape, dtype=bool)
-    fail_at = np.full(h0.shape, np.nan)
-    moving = np.abs(dh) > 0
+    ok = np.ones(shape, dtype=bool)
+    fail_at = np.full(shape, np.nan)
+    moving = np.broadcast_to(np.abs(dh) > 0, shape)
     if not np.any(moving):
         return dict(time=zero, distance=zero, used=zero, mass_end=m, ok=ok, fail_at=fail_at,
                     tas=fail_at, gs=fail_at, heading=zero, power=fail_at)
     climbing = dh > 0
     v_eas = np.where(climbing, v_climb, v_descent)
-    # The atmosphere and the wind once for every step of every candidate.
+    # The atmosphere and the wind once for every step of every altitude.
     steps = (np.arange(CLIMB_STEPS) + 0.5).reshape((-1,) + (1,) * h0.ndim)
     h_steps = h0 + steps * dh
     air_steps = fl.air(h_steps)
-    head_steps, cross_steps = leg.wind.components(leg.course, h_steps)
+    head_steps, cross_steps = fl.wind(leg, h_steps)
     idle = profile.idle_power * fl.prop.rated_power
     for j in range(CLIMB_STEPS):
         air = air_steps.row(j)
@@ -377,7 +403,7 @@ def _cruise(fl: _Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
     ``m0``. ``air`` may carry the air at ``h``.
     """
     air = fl.air(h) if air is None else air
-    wind = leg.wind.components(leg.course, h)
+    wind = fl.wind(leg, h)
     m0 = np.asarray(m0, dtype=float)
     hold_cl = leg.tas is None
 
@@ -427,7 +453,7 @@ def _cruise_speed(fl: _Flight, leg, h, m, store, air=None):
     if leg.tas is not None:
         return np.full(h.shape, leg.tas), np.ones(h.shape, dtype=bool)
     air = fl.air(h) if air is None else air
-    head, cross = leg.wind.components(leg.course, h)
+    head, cross = fl.wind(leg, h)
     # A planner needs the speed to 1e-6, not to the last digit.
     return objective_speed(fl.af, m, air, store, leg.objective, headwind=head,
                            crosswind=cross, stall_margin=fl.margin, xtol=1e-6)
@@ -449,14 +475,22 @@ def climb_speed(mission: Mission) -> float:
     return float(v * np.sqrt(air.sigma))
 
 
-def _leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates):
-    """Evaluate a leg at candidate altitudes: transition, cruise, final descent."""
+def _leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
+                 v_cruise=None):
+    """Evaluate a leg at candidate altitudes: transition, cruise, final descent.
+
+    ``v_cruise`` fixes the cruise TAS at the leg's start (a plan being re-flown); by
+    default it is the leg's set speed or the objective's best at each candidate.
+    """
     prof = mission.profile
     H = np.asarray(candidates, dtype=float)
     air_H = fl.air(H)
     # Best (or set) speed at each candidate, at the leg's starting mass; a best speed is
     # then flown at that lift coefficient.
-    v_cr, speed_ok = _cruise_speed(fl, leg, H, m, store, air_H)
+    if v_cruise is None:
+        v_cr, speed_ok = _cruise_speed(fl, leg, H, m, store, air_H)
+    else:
+        v_cr, speed_ok = v_cruise + 0.0 * H, np.ones(H.shape, dtype=bool)
     v_eas_cruise = v_cr * np.sqrt(air_H.sigma)
     trans = _vertical(fl, leg, h_now, H, m, v_climb, v_eas_cruise, prof)
     m_cr = trans["mass_end"]
@@ -467,7 +501,7 @@ def _leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates):
                          prof)
         d_final = fin0["distance"]
     else:
-        d_final = np.zeros_like(H)
+        d_final = 0.0
     d_cruise = leg.distance - trans["distance"] - d_final
     fits = d_cruise >= 0
     cr = _cruise(fl, leg, H, m_cr, np.maximum(d_cruise, 0.0), v_cr, m, air_H)
@@ -476,7 +510,7 @@ def _leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates):
                     v_climb, v_eas_cruise, prof)
     total = trans["used"] + cr["used"] + fin["used"]
     return dict(H=H, trans=trans, cruise=cr, final=fin, fits=fits, speed_ok=speed_ok,
-                total=total, time=trans["time"] + cr["time"] + fin["time"])
+                total=total, time=trans["time"] + cr["time"] + fin["time"], v_cruise=v_cr)
 
 
 def ground_elevation(mission, leg) -> float:
@@ -560,7 +594,7 @@ def plan_mission(mission: Mission) -> Plan:
                             store, m, 0.0))
     h = prof.departure_elevation
     v_climb = climb_speed(mission)
-    leg_altitudes = []
+    leg_altitudes, leg_speeds = [], []
     for n, leg in enumerate(mission.legs):
         last = n == len(mission.legs) - 1
         lo, top, why = _caps(mission, leg)
@@ -582,9 +616,10 @@ def plan_mission(mission: Mission) -> Plan:
         else:
             i = 0
             reasons.extend(_leg_reasons(opts, leg, mission, lo, top, why))
+        H = float(opts["H"][i])
         o = {k: (_pick(v, i) if isinstance(v, dict) else v[i]) for k, v in opts.items()}
-        H = float(o["H"])
         leg_altitudes.append(H)
+        leg_speeds.append(float(o["v_cruise"]))
         for kind, seg in (("climb" if H > h else "descent", o["trans"]),
                           ("cruise", o["cruise"]),
                           ("descent to arrival", o["final"])):
@@ -613,7 +648,7 @@ def plan_mission(mission: Mission) -> Plan:
         reasons.append(f"{fl.prop.store_name} below the reserve: {_store_text(fl, store)} at "
                        f"landing, {_store_text(fl, required)} required ({reserve_text})")
     return Plan(mission, tuple(segments), initial, required, reserve_text, tuple(reasons),
-                tuple(leg_altitudes), load.mass)
+                tuple(leg_altitudes), load.mass, tuple(leg_speeds), v_climb)
 
 
 def _why_not(opts, leg, lo, top) -> str:

@@ -123,7 +123,9 @@ class PropellerEfficiency:
             c0, c1 = y[:-1], h * d[:-1]
             c2 = 3 * (y[1:] - y[:-1]) - h * (2 * d[:-1] + d[1:])
             c3 = 2 * (y[:-1] - y[1:]) + h * (d[:-1] + d[1:])
-            object.__setattr__(self, "_poly", (c0, c1, c2, c3, 1.0 / h))
+            # One row per interval, gathered in one indexing operation per call.
+            object.__setattr__(self, "_rows", np.stack([x[:-1], 1.0 / h, c3, c2, c1, c0],
+                                                       axis=-1))
 
     @property
     def is_constant(self) -> bool:
@@ -135,11 +137,10 @@ class PropellerEfficiency:
         if self.is_constant:
             return self.efficiency[0]
         x = self._x
-        c0, c1, c2, c3, inv_h = self._poly
         v = np.minimum(np.maximum(tas, x[0]), x[-1])
-        i = np.minimum(np.searchsorted(x, v, side="right") - 1, x.size - 2)
-        t = (v - x[i]) * inv_h[i]
-        return ((c3[i] * t + c2[i]) * t + c1[i]) * t + c0[i]
+        row = self._rows[np.minimum(np.searchsorted(x, v, side="right") - 1, x.size - 2)]
+        t = (v - row[..., 0]) * row[..., 1]
+        return ((row[..., 2] * t + row[..., 3]) * t + row[..., 4]) * t + row[..., 5]
 
 
 def _monotone_slopes(x, y):
