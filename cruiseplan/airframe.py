@@ -58,6 +58,8 @@ class Airframe:
         File the airframe was read from.
     checksum : str
         SHA-256 of that file's bytes.
+    tolerances : tuple
+        (parameter, :class:`~cruiseplan.uncertainty.Tolerance`) pairs for Monte Carlo.
     """
 
     name: str
@@ -72,6 +74,7 @@ class Airframe:
     propulsion: object
     source: str = ""
     checksum: str = ""
+    tolerances: tuple = ()
     kind: str = field(default="fixed-wing", init=False)
 
     @property

@@ -429,12 +429,57 @@ def read_airframe(path) -> Airframe:
                   description=str(head.get("description", "")),
                   empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
                   payload=masses["payload"], propulsion=_propulsion(r, kind),
-                  source=str(path), checksum=checksum)
+                  source=str(path), checksum=checksum, tolerances=_tolerances(r, kind))
     return (_multirotor if kind == "multirotor" else _fixed_wing)(r, common, masses)
 
 
-_SECTIONS = {"fixed-wing": ("airframe", "masses", "wing", "polar", "propulsion"),
-             "multirotor": ("airframe", "masses", "rotors", "body", "propulsion")}
+_SECTIONS = {"fixed-wing": ("airframe", "masses", "wing", "polar", "propulsion",
+                            "uncertainty"),
+             "multirotor": ("airframe", "masses", "rotors", "body", "propulsion",
+                            "uncertainty")}
+
+
+def read_tolerance(raw, where: str, fail):
+    """Read a relative tolerance: ``"5 %"`` (normal) or ``["-5 %", "+10 %"]`` (uniform).
+
+    ``fail(where, message)`` reports errors.
+    """
+    from .uncertainty import Tolerance
+
+    def fraction(text):
+        try:
+            return parse_quantity(text, "", what=where)
+        except UnitError:
+            fail(where, f"{text!r} is not a percentage such as '5 %'")
+
+    if isinstance(raw, str):
+        sd = fraction(raw)
+        if not 0.0 <= sd <= 0.5:
+            fail(where, f"{raw!r}: a standard deviation from 0 to 50 % is expected")
+        return Tolerance("normal", sd=sd)
+    if isinstance(raw, list) and len(raw) == 2 and all(isinstance(x, str) for x in raw):
+        lo, hi = fraction(raw[0]), fraction(raw[1])
+        if not -0.9 < lo <= hi < 1.0:
+            fail(where, f"{raw!r}: a range from low to high within -90 % and +100 % is "
+                        "expected")
+        return Tolerance("uniform", low=lo, high=hi)
+    fail(where, f"{raw!r}: expected a standard deviation such as '5 %' or a range such as "
+                "['-5 %', '+10 %']")
+
+
+def _tolerances(r: _Reader, kind: str) -> tuple:
+    from .uncertainty import AIRFRAME_KEYS
+
+    if "uncertainty" not in r.data:
+        return ()
+    keys = AIRFRAME_KEYS[kind]
+    sec = r.section("uncertainty", dict.fromkeys(keys))
+    if "bsfc" in sec and r.data["propulsion"].get("kind") != "piston-propeller":
+        r.fail("[uncertainty] bsfc", "a BSFC tolerance needs a piston-propeller engine")
+    if "battery_energy" in sec and r.data["propulsion"].get("kind") == "piston-propeller":
+        r.fail("[uncertainty] battery_energy", "a battery-energy tolerance needs a battery")
+    return tuple((k, read_tolerance(sec[k], f"[uncertainty] {k}", r.fail))
+                 for k in keys if k in sec)
 
 
 def _fixed_wing(r: _Reader, common: dict, masses: dict) -> Airframe:

@@ -46,6 +46,21 @@ def _add_loading(p):
                    help="minimum TAS over stall speed (default 1.3)")
 
 
+def _add_monte_carlo(p):
+    """Add --monte-carlo N and --seed to a command."""
+    p.add_argument("--monte-carlo", type=int, metavar="N",
+                   help="also report P10/P50/P90 over N samples of the tolerances in the "
+                        "airframe (and mission) files, e.g. 10000")
+    p.add_argument("--seed", type=int, default=0, help="seed of the Monte Carlo (default 0)")
+
+
+def _monte_carlo_n(args):
+    n = getattr(args, "monte_carlo", None)
+    if n is not None and not 1 <= n <= 1_000_000:
+        raise CruiseplanError(f"--monte-carlo {n}: give 1 to 1000000 samples")
+    return n
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``cruiseplan`` command."""
     parser = _Parser(prog="cruiseplan",
@@ -97,11 +112,13 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--climb-reserve", default="0",
                    help="climb rate that must remain at cruise, e.g. '300ft/min'")
     _add_loading(p)
+    _add_monte_carlo(p)
     _add_output(p, formats=("text", "json", "csv", "markdown"))
 
     p = sub.add_parser("plan", help="plan a mission file: segments, reserve, GO / NO-GO")
     p.add_argument("mission", help="mission TOML file, or a bundled mission name")
     p.add_argument("--plot", metavar="FILE", help="also draw the profile (.png or .pdf)")
+    _add_monte_carlo(p)
     _add_output(p, formats=("text", "json", "csv", "markdown"))
     _add_figure_commands(sub)
     _add_fit_command(sub)
@@ -283,7 +300,17 @@ def cmd_best(args):
         climb_reserve=parse_quantity(args.climb_reserve, "m/s", default_unit="ft/min",
                                      what="--climb-reserve"),
         stall_margin=args.stall_margin, **_loading_args(af, args))
-    rep = best_report(af, best, isa_dev=dev, units=units, wind_text=wind_text)
+    spread = None
+    n = _monte_carlo_n(args)
+    if n and best.best_index >= 0:
+        from .uncertainty import cruise_uncertainty
+
+        i = best.best_index
+        p = best.points
+        spread = cruise_uncertainty(af, p.mass, p.store, best.schedule.air.row(i),
+                                    float(p.tas[i]), float(p.ground_speed[i]), n, args.seed)
+    rep = best_report(af, best, isa_dev=dev, units=units, wind_text=wind_text,
+                      uncertainty=spread)
     _emit(rep.render(args.format), args.output)
 
 
@@ -295,8 +322,14 @@ def cmd_plan(args):
 
     if args.plot and not args.plot.lower().endswith((".png", ".pdf")):
         raise CruiseplanError(f"--plot {args.plot}: the file must end in .png or .pdf")
+    n = _monte_carlo_n(args)
     plan = plan_mission(load_mission(args.mission))
-    text = plan_report(plan, args.units).render(args.format)
+    spread = None
+    if n:
+        from .uncertainty import plan_uncertainty
+
+        spread = plan_uncertainty(plan, n, args.seed)
+    text = plan_report(plan, args.units, spread).render(args.format)
     if args.plot:
         from .plots import figure_bytes, mission_profile
         from .reports import write_bytes_atomic

@@ -271,14 +271,18 @@ class BuildUpPolar:
     reference_area: float
     cl_min_drag: float = 0.0
     excrescence: float = 0.0
+    scale: object = 1.0
     kind: str = field(default="build-up", init=False)
 
     def cd0(self, tas, air):
-        """Zero-lift drag coefficient [-] at TAS [m/s] in the given air."""
+        """Zero-lift drag coefficient [-] at TAS [m/s] in the given air.
+
+        ``scale`` multiplies it (1 as built; arrays of factors for uncertainty samples).
+        """
         tas = np.asarray(tas, dtype=float)
-        return ((1.0 + self.excrescence) * components_cd0(self.components, tas, air,
-                                                          self.reference_area)
-                + bodies_drag_area(self.bodies, tas, air) / self.reference_area)
+        return self.scale * ((1.0 + self.excrescence) * components_cd0(
+            self.components, tas, air, self.reference_area)
+            + bodies_drag_area(self.bodies, tas, air) / self.reference_area)
 
     def drag_coefficient(self, cl, tas=None, air=None):
         """Drag coefficient [-] at lift coefficient ``cl``, TAS [m/s] and air."""
@@ -310,11 +314,12 @@ class BodyDrag:
 
     drag_area: float
     bodies: tuple = ()
+    scale: object = 1.0
 
     def area(self, tas, air):
-        """Total drag area [m^2] at TAS [m/s] in the given air."""
+        """Total drag area [m^2] at TAS [m/s] in the given air (times ``scale``)."""
         tas = np.asarray(tas, dtype=float)
-        return self.drag_area + bodies_drag_area(self.bodies, tas, air)
+        return self.scale * (self.drag_area + bodies_drag_area(self.bodies, tas, air))
 
     def drag(self, tas, air):
         """Drag [N]."""

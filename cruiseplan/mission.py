@@ -174,6 +174,7 @@ class Mission:
     stall_margin: float = DEFAULT_STALL_MARGIN
     source: str = ""
     description: str = ""
+    wind_tolerance: object = None
 
 
 @dataclass(frozen=True)
@@ -421,9 +422,11 @@ def _cruise(fl: _Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
 
     n = CRUISE_STEPS
     dx = np.asarray(distance, dtype=float) / n
-    m = m0.copy() if np.ndim(m0) else m0 + 0.0 * dx
-    used = np.zeros_like(dx)
-    t = np.zeros_like(dx)
+    shape = np.broadcast_shapes(dx.shape, m0.shape, np.shape(h), np.shape(v_ref),
+                                fl.sample_shape)
+    m = np.broadcast_to(m0, shape).copy()
+    used = np.zeros(shape)
+    t = np.zeros(shape)
     for _ in range(n):
         k1 = deriv(m)
         k2 = deriv(np.maximum(m + 0.5 * dx * k1[0], fl.zero_fuel_mass))
@@ -697,34 +700,37 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
     return out
 
 
-def _reserve(fl: _Flight, mission: Mission, mass: float, leg_altitudes) -> tuple:
-    """Store required at landing [kg or J] and a description of the policy."""
+def _reserve(fl: _Flight, mission: Mission, mass, leg_altitudes) -> tuple:
+    """Store required at landing [kg or J] and a description of the policy.
+
+    ``mass`` may be an array over samples; the reserve then is too.
+    """
     res = mission.reserve
     prop = fl.prop
+    m = np.atleast_1d(np.asarray(mass, dtype=float))
     if res.kind == "fraction":
-        required = res.amount * prop.store_capacity
+        required = res.amount * prop.store_capacity + 0.0 * m
         text = f"{res.amount * 100:.0f} % of usable {prop.store_name}"
     elif res.kind == "fixed":
-        required = res.amount
-        text = f"fixed {_store_text(fl, required)}"
+        required = res.amount + 0.0 * m
+        text = f"fixed {_store_text(fl, res.amount)}"
     else:
         h = res.altitude if res.altitude is not None else (
             leg_altitudes[-1] if leg_altitudes else mission.profile.arrival_elevation)
         air = fl.air(np.array([h]))
-        s = speed_schedule(fl.af, mass, air, prop.store_capacity, stall_margin=fl.margin)
-        v = float(s.tas["endurance"][0]) if s.feasible[0] else float(
-            s.tas_unconstrained["endurance"][0])
-        required = float(fl.rate(fl.shaft(mass, air, v))[0]) * res.amount
+        s = speed_schedule(fl.af, m, air, prop.store_capacity, stall_margin=fl.margin)
+        v = np.where(s.feasible, s.tas["endurance"], s.tas_unconstrained["endurance"])
+        required = fl.rate(fl.shaft(m, air, v)) * res.amount
         text = (f"{res.amount / 60:.0f} min at best-endurance speed at {h:.0f} m "
                 f"({h / FT:.0f} ft)")
     if res.alternate is not None:
         alt = res.alternate
         h = alt.altitude if alt.altitude is not None else (leg_altitudes[-1] if leg_altitudes
                                                            else 0.0)
-        v0, _ = _cruise_speed(fl, alt, [h], mass, prop.store_capacity)
-        cr = _cruise(fl, alt, np.array([h]), np.array([mass]), np.array([alt.distance]), v0,
-                     mass)
-        required += float(cr["used"][0])
+        v0, _ = _cruise_speed(fl, alt, [h], m, prop.store_capacity)
+        cr = _cruise(fl, alt, np.array([h]), m, np.array([alt.distance]), v0, m)
+        required = required + cr["used"]
         text += (f" + alternate {alt.name!r} {alt.distance / 1000:.1f} km "
                  f"({alt.distance / 1852:.1f} nm)")
-    return float(required), text
+    required = np.broadcast_to(required, m.shape)
+    return (float(required[0]) if np.ndim(mass) == 0 else required), text

@@ -31,7 +31,7 @@ from .winds import WindProfile, parse_wind_profile
 _PACKAGE_DIR = Path(__file__).resolve().parent
 BUNDLED_DIRS = (_PACKAGE_DIR / "_bundled" / "missions", _PACKAGE_DIR.parent / "missions")
 
-_SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs"}
+_SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty"}
 _MISSION_FIELDS = {"name", "description", "airframe", "takeoff_mass", "fuel", "battery",
                    "payload", "stall_margin"}
 _DAY_FIELDS = {"isa_dev", "oat", "altimeter"}
@@ -345,11 +345,21 @@ def read_mission(path) -> Mission:
     legs = tuple(_leg(r, leg, f"leg {k}" + (f" {leg.get('name')!r}" if isinstance(leg, dict)
                                             and "name" in leg else ""), to_pa)
                  for k, leg in enumerate(legs_raw, 1))
+    unc = r.table(data, "uncertainty", {"wind_speed", "wind_direction"})
+    wind_tolerance = None
+    if unc:
+        from .uncertainty import WindTolerance
+
+        wind_tolerance = WindTolerance(
+            r.quantity(unc, "wind_speed", "m/s", "[uncertainty]", lo=0.0, hi=30.0,
+                       example="'4 kt'") or 0.0,
+            r.quantity(unc, "wind_direction", "deg", "[uncertainty]", lo=0.0, hi=90.0,
+                       example="'15 deg'") or 0.0)
     mission = Mission(
         name=str(head.get("name", path.stem)), airframe=af, legs=legs, reserve=reserve,
         profile=profile, isa_dev=isa_dev, mass=mass, store=store, payload=payload,
         allowance=allowance, stall_margin=margin or 1.3, source=str(path),
-        description=str(head.get("description", "")))
+        description=str(head.get("description", "")), wind_tolerance=wind_tolerance)
     try:
         af.loading(mass=mass, store=store, payload=payload)
     except CruiseplanError as exc:

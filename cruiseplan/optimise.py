@@ -248,7 +248,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.7.
     """
-    shape = np.shape(air.density)
+    shape = np.broadcast_shapes(np.shape(air.density), np.shape(mass))
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
     free = _free_speeds(airframe, mass, air, store, hw, cw, (objective,), xtol)[objective]
@@ -313,7 +313,7 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     .. [1] Anderson, *Aircraft Performance and Design*, eqs. 5.34, 5.54 (closed forms) and
        sec. 5.7 (range and endurance).
     """
-    shape = np.shape(air.density)
+    shape = np.broadcast_shapes(np.shape(air.density), np.shape(mass))
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
     v_s = airframe.stall_speed(mass, air.density)

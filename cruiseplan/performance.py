@@ -265,7 +265,8 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
         bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), shape)
         out = {k: (None if v is None else np.where(bad, np.nan, v)) for k, v in out.items()}
         limits = np.where(bad, np.uint16(Limit.ATMOSPHERE), limits).astype(np.uint16)
-    return CruisePoints(air=air, tas=tas, mass=float(mass), store=float(store),
+    return CruisePoints(air=air, tas=tas, mass=mass if np.ndim(mass) else float(mass),
+                        store=store if np.ndim(store) else float(store),
                         store_name=prop.store_name, limits=limits,
                         rated_power=float(prop.rated_power), **out)
 

@@ -101,6 +101,8 @@ class PropellerEfficiency:
         True airspeeds [m/s], increasing (one value for a constant efficiency).
     efficiency : tuple of float
         Efficiencies [-], in (0, 1].
+    factor : float or numpy.ndarray
+        Multiplies the efficiency (1; arrays of factors for uncertainty samples).
 
     References
     ----------
@@ -110,6 +112,7 @@ class PropellerEfficiency:
 
     tas: tuple
     efficiency: tuple
+    factor: object = 1.0
 
     def __post_init__(self):
         if len(self.efficiency) > 1:
@@ -135,7 +138,10 @@ class PropellerEfficiency:
     def __call__(self, tas):
         """Efficiency [-] at TAS [m/s]."""
         if self.is_constant:
-            return self.efficiency[0]
+            return self.efficiency[0] * self.factor
+        return self.factor * self._cubic(tas)
+
+    def _cubic(self, tas):
         x = self._x
         v = np.minimum(np.maximum(tas, x[0]), x[-1])
         row = self._rows[np.minimum(np.searchsorted(x, v, side="right") - 1, x.size - 2)]

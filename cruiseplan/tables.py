@@ -192,8 +192,33 @@ def atmosphere_report(air, units: str = "aviation") -> Report:
     return Report("Atmosphere", meta, cols, [], _cautions())
 
 
+def _spread_text(name, values, factor, unit, fmt="{:.0f}") -> str:
+    from .uncertainty import quantiles
+
+    p10, p50, p90 = (fmt.format(q * factor) for q in quantiles(values))
+    return f"{name} P10 / P50 / P90 = {p10} / {p50} / {p90} {unit}"
+
+
+def _spread_summary(u) -> dict:
+    """Monte Carlo quantiles as flat JSON keys: mc_remaining_p10, ..."""
+    out = {}
+    for k, v in u.summary().items():
+        if isinstance(v, tuple):
+            out.update({f"mc_{k}_{q}": x for q, x in zip(("p10", "p50", "p90"), v)})
+        else:
+            out[f"mc_{k}"] = v
+    return out
+
+
+def _tolerance_note(airframe, n, seed, extra="") -> str:
+    keys = ", ".join(k for k, _ in airframe.tolerances) or "none given"
+    return (f"Uncertainty: Monte Carlo, {n} samples, seed {seed}; tolerances from the "
+            f"airframe file ({keys}){extra}. P10 / P50 / P90: 10 %, 50 % and 90 % of the "
+            "samples lie below.")
+
+
 def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
-                wind_text: str = "calm") -> Report:
+                wind_text: str = "calm", uncertainty=None) -> Report:
     """Lay out a :class:`~cruiseplan.optimise.BestCruise` by altitude, best altitude first.
 
     Parameters
@@ -279,10 +304,19 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
              "specific range) TAS at each altitude, within the speed constraints"]
     summary = {f"best_{k}": v for k, v in b.items()}
     summary["units"] = "SI (m, m/s, s, and m for ranges)"
+    if uncertainty is not None:
+        u = uncertainty
+        meta.insert(3, _tolerance_note(airframe, u.range_ground.size, u.seed))
+        meta.insert(4, "At the best altitude and speed: "
+                    + _spread_text("ground range", u.range_ground, fd, ld) + "; "
+                    + (_spread_text("endurance", u.endurance, 1 / 3600.0, "h", "{:.1f}")
+                       if airframe.propulsion.store_name == "fuel"
+                       else _spread_text("endurance", u.endurance, 1 / 60.0, "min")))
+        summary.update(_spread_summary(u))
     return Report(f"Best cruise ({obj})", meta, cols, notes, _cautions(), summary)
 
 
-def plan_report(plan, units: str | None = None) -> Report:
+def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
     """Lay out a mission plan: one row per segment, totals and the verdict.
 
     Parameters
@@ -359,4 +393,14 @@ def plan_report(plan, units: str | None = None) -> Report:
                f"remaining_{'kg' if prop.store_name == 'fuel' else 'J'}": plan.remaining,
                f"reserve_required_{'kg' if prop.store_name == 'fuel' else 'J'}":
                    plan.reserve_required}
+    if uncertainty is not None:
+        u = uncertainty
+        extra = " and the mission file (winds)" if mission.wind_tolerance else ""
+        landing = _spread_text(f"{prop.store_name} at landing", u.remaining, fq, lq, qfmt)
+        meta.insert(1, _tolerance_note(af, u.n, u.seed, extra))
+        meta.insert(2, f"Spread: {landing}; "
+                    f"{_spread_text('reserve required', u.reserve_required, fq, lq, qfmt)}; "
+                    f"{_spread_text('flight time', u.time, 1 / 60.0, 'min')}; "
+                    f"probability the reserve holds {u.reserve_probability * 100:.1f} %")
+        summary.update(_spread_summary(u))
     return Report(f"Mission plan: {mission.name}", meta, cols, notes, _cautions(), summary)

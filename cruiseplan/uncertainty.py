@@ -1,0 +1,307 @@
+r"""How sure is a plan: Monte Carlo over the airframe's and the winds' tolerances.
+
+An airframe file may give tolerances on its drag (CD0), Oswald efficiency, propeller
+efficiency, BSFC and usable battery energy; a mission file on the wind speed and
+direction. Each tolerance is a relative standard deviation (normal) or a relative range
+(uniform). :func:`sample_airframe` draws ``n`` airframes at once: the same airframe object
+whose parameters are arrays over the samples, so the whole physics runs on them in one
+vectorised pass.
+
+:func:`plan_uncertainty` re-flies a planned mission (its altitudes, speeds and climb speed,
+as the crew would fly them) with every sample and reports the distribution of fuel or energy
+at landing, flight time and the reserve, and the probability that the reserve holds.
+:func:`cruise_uncertainty` does the same for cruise at one altitude and speed (range and
+endurance). Runs are seeded and reproducible; with all tolerances zero they give the
+deterministic answer exactly.
+
+References
+----------
+.. [1] N. Metropolis and S. Ulam, "The Monte Carlo Method", *J. Am. Stat. Assoc.* 44(247),
+   1949, pp. 335-341.
+.. [2] JCGM 101:2008, *Evaluation of measurement data - Propagation of distributions
+   using a Monte Carlo method* (coverage intervals from sample quantiles).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from .errors import CruiseplanError
+
+#: Quantiles reported (P10, P50, P90).
+QUANTILES = (0.10, 0.50, 0.90)
+#: Parameters an airframe file may give a tolerance on, by airframe kind.
+AIRFRAME_KEYS = {
+    "fixed-wing": ("cd0", "oswald_e", "propeller_efficiency", "bsfc", "battery_energy"),
+    "multirotor": ("cd0", "induced_factor", "motor_efficiency", "battery_energy"),
+}
+
+
+@dataclass(frozen=True)
+class Tolerance:
+    """A relative tolerance: normal (``sd``) or uniform on [``low``, ``high``].
+
+    All are fractions, e.g. 0.05 for 5 %.
+    """
+
+    kind: str
+    sd: float = 0.0
+    low: float = 0.0
+    high: float = 0.0
+
+    def factors(self, rng, n):
+        """``n`` multiplying factors 1 + delta, never below 5 % of nominal."""
+        if self.kind == "normal":
+            delta = self.sd * rng.standard_normal(n) if self.sd else np.zeros(n)
+        else:
+            delta = rng.uniform(self.low, self.high, n)
+        return np.maximum(1.0 + delta, 0.05)
+
+    @property
+    def is_zero(self) -> bool:
+        """True when it spreads nothing."""
+        return (self.kind == "normal" and self.sd == 0) or (self.low == self.high == 0)
+
+
+@dataclass(frozen=True)
+class WindTolerance:
+    """Standard deviations of the wind speed [m/s] and direction [deg], every leg."""
+
+    speed_sd: float = 0.0
+    direction_sd: float = 0.0
+
+
+def draw_factors(tolerances: dict, rng, n: int) -> dict:
+    """Factors for each toleranced parameter, ``n`` each, in a fixed order (reproducible)."""
+    return {key: tolerances[key].factors(rng, n) for key in sorted(tolerances)}
+
+
+def sample_airframe(airframe, factors: dict):
+    """The airframe with its toleranced parameters as arrays over samples.
+
+    Parameters
+    ----------
+    airframe : Airframe or Multirotor
+        The nominal airframe.
+    factors : dict
+        Parameter name to an array of multiplying factors (see :data:`AIRFRAME_KEYS`).
+
+    Returns
+    -------
+    Airframe or Multirotor
+        Same kind; every model function broadcasts over the sample axis.
+    """
+    from .aerodynamics import ParabolicPolar
+    from .dragbuildup import BuildUpPolar
+
+    af = airframe
+    prop = af.propulsion
+    changes, prop_changes = {}, {}
+    if af.kind == "multirotor":
+        if "cd0" in factors:
+            changes["body"] = replace(af.body, scale=factors["cd0"])
+        if "induced_factor" in factors:
+            changes["rotors"] = replace(af.rotors, induced_factor=af.rotors.induced_factor
+                                        * factors["induced_factor"])
+        if "motor_efficiency" in factors:
+            prop_changes["motor_efficiency"] = prop.motor_efficiency * factors[
+                "motor_efficiency"]
+    else:
+        polar = af.polar
+        if "cd0" in factors or "oswald_e" in factors:
+            f_cd0 = factors.get("cd0", 1.0)
+            f_e = factors.get("oswald_e", 1.0)
+            if isinstance(polar, ParabolicPolar):
+                polar = replace(polar, cd0=polar.cd0 * f_cd0, k=polar.k / f_e)
+            elif isinstance(polar, BuildUpPolar):
+                polar = replace(polar, scale=f_cd0, k=polar.k / f_e)
+            else:
+                raise CruiseplanError(f"{af.name}: tolerances on cd0 and oswald_e need a "
+                                      "parabolic or build-up polar")
+            changes["polar"] = polar
+        if "propeller_efficiency" in factors:
+            prop_changes["propeller"] = replace(prop.propeller,
+                                                factor=factors["propeller_efficiency"])
+    if "bsfc" in factors:
+        if prop.store_name != "fuel":
+            raise CruiseplanError(f"{af.name}: a BSFC tolerance needs a piston engine")
+        prop_changes["bsfc"] = prop.bsfc * factors["bsfc"]
+    if "battery_energy" in factors:
+        if prop.store_name != "energy":
+            raise CruiseplanError(f"{af.name}: a battery-energy tolerance needs a battery")
+        prop_changes["battery_energy"] = prop.battery_energy * factors["battery_energy"]
+    if prop_changes:
+        changes["propulsion"] = replace(prop, **prop_changes)
+    return replace(af, **changes) if changes else af
+
+
+def quantiles(values) -> tuple:
+    """P10, P50 and P90 of samples."""
+    return tuple(float(q) for q in np.quantile(np.asarray(values, dtype=float), QUANTILES))
+
+
+@dataclass(frozen=True)
+class PlanUncertainty:
+    """Distribution of a re-flown plan over ``n`` samples (SI arrays, one value each).
+
+    Attributes
+    ----------
+    remaining : numpy.ndarray
+        Fuel [kg] or usable energy [J] at landing.
+    used : numpy.ndarray
+        Fuel or energy used.
+    time : numpy.ndarray
+        Flight time [s].
+    reserve_required : numpy.ndarray
+        Reserve needed at landing by the mission's policy, per sample.
+    seed : int
+        Seed of the random generator.
+    """
+
+    remaining: np.ndarray
+    used: np.ndarray
+    time: np.ndarray
+    reserve_required: np.ndarray
+    seed: int
+
+    @property
+    def n(self) -> int:
+        """Number of samples."""
+        return int(np.size(self.remaining))
+
+    @property
+    def reserve_probability(self) -> float:
+        """Share of samples landing with at least the reserve."""
+        return float(np.mean(self.remaining >= self.reserve_required * (1 - 1e-12)))
+
+    def summary(self) -> dict:
+        """P10/P50/P90 of remaining, used and time, and the probability the reserve holds."""
+        return {"remaining": quantiles(self.remaining), "used": quantiles(self.used),
+                "time": quantiles(self.time),
+                "reserve_required": quantiles(self.reserve_required),
+                "reserve_probability": self.reserve_probability, "n": self.n,
+                "seed": self.seed}
+
+
+def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
+    """Re-fly a planned mission with ``n`` sampled airframes and winds.
+
+    The crew flies the plan: its altitudes, its cruise speeds at each leg's start and its
+    climb speed; what the samples change is how much that costs.
+
+    Parameters
+    ----------
+    plan : Plan
+        A plan from :func:`cruiseplan.mission.plan_mission`.
+    n : int
+        Number of samples.
+    seed : int
+        Seed of numpy's default generator.
+
+    Returns
+    -------
+    PlanUncertainty
+        Per-sample fuel or energy at landing, used, time and reserve.
+
+    References
+    ----------
+    .. [1] JCGM 101:2008, secs. 7-8 (Monte Carlo propagation, coverage intervals).
+    """
+    from .mission import _Flight, _leg_options, _reserve
+
+    if n < 1:
+        raise CruiseplanError(f"Monte Carlo needs at least one sample, got {n}")
+    mission = plan.mission
+    af = mission.airframe
+    rng = np.random.default_rng(seed)
+    factors = draw_factors(dict(af.tolerances), rng, n)
+    wt = mission.wind_tolerance
+    wind_error = None
+    if wt is not None and (wt.speed_sd or wt.direction_sd):
+        wind_error = (wt.speed_sd * rng.standard_normal(n),
+                      wt.direction_sd * rng.standard_normal(n))
+    af_s = sample_airframe(af, factors)
+    fl = _Flight(mission, af_s, wind_error, sample_shape=(n,))
+    prof = mission.profile
+    # A larger or smaller pack holds proportionally more or less usable energy.
+    store = plan.initial * factors.get("battery_energy", 1.0) + np.zeros(n)
+    m = plan.takeoff_mass + np.zeros(n)
+    allowance = np.minimum(mission.allowance, store)
+    store = store - allowance
+    if fl.burns_mass:
+        m = m - allowance
+    time = np.zeros(n)
+    h = prof.departure_elevation
+    legs = mission.legs
+    for k, leg in enumerate(legs):
+        last = k == len(legs) - 1
+        H = plan.leg_altitudes[k]
+        o = _leg_options(fl, mission, leg, h, m, store, plan.climb_speed, last,
+                         np.array([H]), plan.leg_speeds[k])
+        # The same order of subtraction as the plan's bookkeeping, segment by segment.
+        for part in ("trans", "cruise", "final"):
+            seg = o[part]
+            store = store - seg["used"]
+            time = time + seg["time"]
+            m = np.where(seg["time"] > 0, seg["mass_end"], m)
+        h = H if not last else prof.arrival_elevation
+    required, _ = _reserve(fl, mission, m, plan.leg_altitudes)
+    required = np.broadcast_to(np.asarray(required, dtype=float), (n,))
+    initial = plan.initial * factors.get("battery_energy", 1.0) + np.zeros(n)
+    return PlanUncertainty(store, initial - store, time, required, seed)
+
+
+@dataclass(frozen=True)
+class CruiseUncertainty:
+    """Range [m] and endurance [s] over samples, cruising at one altitude and TAS."""
+
+    range_ground: np.ndarray
+    endurance: np.ndarray
+    seed: int
+
+    def summary(self) -> dict:
+        """P10/P50/P90 of range and endurance."""
+        return {"range_ground": quantiles(self.range_ground),
+                "endurance": quantiles(self.endurance), "n": int(self.range_ground.size),
+                "seed": self.seed}
+
+
+def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, seed=0,
+                       reserve=0.0) -> CruiseUncertainty:
+    """Range and endurance at one cruise point over ``n`` sampled airframes.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The nominal airframe.
+    mass : float
+        Mass [kg].
+    store : float
+        Fuel [kg] or usable energy [J] on board (nominal).
+    air : AirState
+        Air at the cruise altitude (one state).
+    tas, ground_speed : float
+        TAS and ground speed [m/s].
+    n : int
+        Samples.
+    seed : int
+        Seed of numpy's default generator.
+    reserve : float
+        Fuel or energy kept back [kg or J]; range and endurance use the rest.
+
+    Returns
+    -------
+    CruiseUncertainty
+        Per-sample range and endurance.
+    """
+    from .performance import cruise_points
+
+    rng = np.random.default_rng(seed)
+    factors = draw_factors(dict(airframe.tolerances), rng, n)
+    af_s = sample_airframe(airframe, factors)
+    usable = np.maximum(store * factors.get("battery_energy", 1.0) - reserve, 0.0)
+    pts = cruise_points(af_s, mass, air, tas + np.zeros(n), usable,
+                        ground_speed=ground_speed + np.zeros(n))
+    return CruiseUncertainty(pts.range_ground, pts.endurance, seed)
