@@ -235,7 +235,8 @@ def _cell(value, fmt: str) -> str:
 
 def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
                  payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
-                 stall_margin: float = DEFAULT_STALL_MARGIN) -> CardContent:
+                 stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
+                 seed: int = 0) -> CardContent:
     """Compute what the cruise card says.
 
     Parameters
@@ -258,6 +259,11 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         Display units; aviation for piston airframes, SI for electric ones by default.
     stall_margin : float, optional
         Minimum TAS over stall speed [-] (1.3, common practice).
+    monte_carlo : int, optional
+        Samples of the airframe's tolerances: adds the spread of range and endurance to
+        the reserve at the best-range altitude and speed.
+    seed : int
+        Seed of the Monte Carlo.
 
     Returns
     -------
@@ -429,14 +435,43 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         f"ISA {dev:+.0f} K; altitudes are pressure altitudes (PA); calm air.",
         f"Made {date.today().isoformat()} by cruiseplan {__version__}.",
     )
-    blocks = (cruise, speeds, CardText("Ceilings and reserve", (ceiling_line, reserve_line)))
+    lines = (ceiling_line, reserve_line)
+    if monte_carlo:
+        lines += (_spread_line(airframe, table, store, amount, dev, h, units, stall_margin,
+                               monte_carlo, seed),)
+    blocks = (cruise, speeds, CardText("Ceilings and reserve", lines))
     return CardContent(f"Cruise card \u2014 {airframe.name}", meta, blocks, tuple(CAUTIONS),
                        CAUTION_LINE, float(amount))
 
 
+def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n, seed):
+    """Monte Carlo spread of range and endurance to the reserve at the best-range point."""
+    from .optimise import best_cruise
+    from .uncertainty import cruise_uncertainty, quantiles
+
+    best = best_cruise(airframe, h, objective="range", mass=table.mass, fuel=store,
+                       isa_dev=dev, stall_margin=stall_margin)
+    i = best.best_index
+    if i < 0:
+        return "Spread: no flyable altitude for best range."
+    p = best.points
+    u = cruise_uncertainty(airframe, p.mass, store, best.schedule.air.row(i),
+                           float(p.tas[i]), float(p.ground_speed[i]), n, seed, reserve)
+    fa, la = display("altitude", units)
+    fd, ld = display("distance", units)
+    fs, ls = display("speed", units)
+    r = " / ".join(f"{q * fd:.0f}" for q in quantiles(u.range_ground))
+    e = " / ".join(hours_minutes(q) for q in quantiles(u.endurance))
+    keys = ", ".join(k for k, _ in airframe.tolerances) or "none given"
+    return (f"Spread (Monte Carlo, {n} samples, seed {seed}; tolerances: {keys}): at "
+            f"best range, {h[i] * fa:.0f} {la} and {p.tas[i] * fs:.0f} {ls} TAS, range to "
+            f"reserve P10 / P50 / P90 = {r} {ld}, endurance to reserve {e} h:mm.")
+
+
 def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
                 payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
-                stall_margin: float = DEFAULT_STALL_MARGIN):
+                stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
+                seed: int = 0):
     """The cruise card as markdown and as a one-page figure.
 
     Parameters
@@ -445,6 +480,10 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
         The airframe.
     altitudes, power_settings, mass, fuel, payload, isa_dev, reserve, units, stall_margin
         As in :func:`card_content`.
+    monte_carlo : int, optional
+        Samples of the airframe's tolerances: adds the spread of range and endurance.
+    seed : int
+        Seed of the Monte Carlo.
 
     Returns
     -------
@@ -462,5 +501,6 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
 
     content = card_content(airframe, altitudes=altitudes, power_settings=power_settings,
                            mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,
-                           reserve=reserve, units=units, stall_margin=stall_margin)
+                           reserve=reserve, units=units, stall_margin=stall_margin,
+                           monte_carlo=monte_carlo, seed=seed)
     return content.markdown(), card_figure(content)

@@ -381,6 +381,7 @@ def _add_figure_commands(sub):
                                      "the lowest altitude), '25%%' of the fuel or energy on "
                                      "board, or '10L', '7kg', '120Wh' (default: piston 45min, "
                                      "electric 20%%; local rules decide)")
+    _add_monte_carlo(p)
 
 
 def _figure_path(text: str, suffixes) -> str:
@@ -522,7 +523,9 @@ def cmd_card(args):
     reserve = parse_reserve(af, args.reserve) if args.reserve else None
     markdown, fig = cruise_card(af, altitudes=h, power_settings=frac, isa_dev=dev,
                                 reserve=reserve, units=args.units,
-                                stall_margin=args.stall_margin, **_loading_args(af, args))
+                                stall_margin=args.stall_margin,
+                                monte_carlo=_monte_carlo_n(args), seed=args.seed,
+                                **_loading_args(af, args))
     pdf = plots.figure_bytes(fig, "pdf")
 
     from .reports import write_atomic, write_bytes_atomic

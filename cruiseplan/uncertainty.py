@@ -20,6 +20,7 @@ References
    1949, pp. 335-341.
 .. [2] JCGM 101:2008, *Evaluation of measurement data - Propagation of distributions
    using a Monte Carlo method* (coverage intervals from sample quantiles).
+.. [3] McKay, Beckman and Conover (1979): Latin hypercube sampling.
 """
 
 from __future__ import annotations
@@ -51,12 +52,15 @@ class Tolerance:
     low: float = 0.0
     high: float = 0.0
 
-    def factors(self, rng, n):
-        """``n`` multiplying factors 1 + delta, never below 5 % of nominal."""
+    def factors(self, u):
+        """Multiplying factors 1 + delta from uniform [0, 1) numbers ``u``.
+
+        Never below 5 % of nominal.
+        """
         if self.kind == "normal":
-            delta = self.sd * rng.standard_normal(n) if self.sd else np.zeros(n)
+            delta = self.sd * _normal_ppf(u) if self.sd else np.zeros(np.shape(u))
         else:
-            delta = rng.uniform(self.low, self.high, n)
+            delta = self.low + (self.high - self.low) * np.asarray(u)
         return np.maximum(1.0 + delta, 0.05)
 
     @property
@@ -73,9 +77,37 @@ class WindTolerance:
     direction_sd: float = 0.0
 
 
-def draw_factors(tolerances: dict, rng, n: int) -> dict:
-    """Factors for each toleranced parameter, ``n`` each, in a fixed order (reproducible)."""
-    return {key: tolerances[key].factors(rng, n) for key in sorted(tolerances)}
+def _normal_ppf(u):
+    from scipy.special import ndtri
+
+    return ndtri(u)
+
+
+def unit_samples(n: int, dims: int, seed: int):
+    """``n`` Latin-hypercube points in [0, 1)^dims, seeded.
+
+    Each margin is stratified, so quantiles settle with far fewer samples than plain
+    random draws.
+
+    References
+    ----------
+    .. [1] M. D. McKay, R. J. Beckman and W. J. Conover, "A Comparison of Three Methods for
+       Selecting Values of Input Variables in the Analysis of Output from a Computer Code",
+       *Technometrics* 21(2), 1979, pp. 239-245.
+    """
+    from scipy.stats import qmc
+
+    if dims == 0:
+        return np.zeros((n, 0))
+    return qmc.LatinHypercube(d=dims, seed=np.random.default_rng(seed)).random(n)
+
+
+def draw_factors(tolerances: dict, u) -> dict:
+    """Factors for each toleranced parameter from unit samples ``u`` (n, >= len).
+
+    Parameters take the columns in the sorted order of their names (reproducible).
+    """
+    return {key: tolerances[key].factors(u[:, j]) for j, key in enumerate(sorted(tolerances))}
 
 
 def sample_airframe(airframe, factors: dict):
@@ -215,13 +247,16 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
         raise CruiseplanError(f"Monte Carlo needs at least one sample, got {n}")
     mission = plan.mission
     af = mission.airframe
-    rng = np.random.default_rng(seed)
-    factors = draw_factors(dict(af.tolerances), rng, n)
+    tol = dict(af.tolerances)
     wt = mission.wind_tolerance
+    windy = wt is not None and bool(wt.speed_sd or wt.direction_sd)
+    u = unit_samples(n, len(tol) + 2 * windy, seed)
+    factors = draw_factors(tol, u)
     wind_error = None
-    if wt is not None and (wt.speed_sd or wt.direction_sd):
-        wind_error = (wt.speed_sd * rng.standard_normal(n),
-                      wt.direction_sd * rng.standard_normal(n))
+    if windy:
+        k = len(tol)
+        wind_error = (wt.speed_sd * _normal_ppf(u[:, k]),
+                      wt.direction_sd * _normal_ppf(u[:, k + 1]))
     af_s = sample_airframe(af, factors)
     fl = _Flight(mission, af_s, wind_error, sample_shape=(n,))
     prof = mission.profile
@@ -232,6 +267,7 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     store = store - allowance
     if fl.burns_mass:
         m = m - allowance
+    used = 0.0 + allowance  # summed in the plan's order, so zero spread gives its numbers
     time = np.zeros(n)
     h = prof.departure_elevation
     legs = mission.legs
@@ -244,13 +280,13 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
         for part in ("trans", "cruise", "final"):
             seg = o[part]
             store = store - seg["used"]
+            used = used + seg["used"]
             time = time + seg["time"]
             m = np.where(seg["time"] > 0, seg["mass_end"], m)
         h = H if not last else prof.arrival_elevation
     required, _ = _reserve(fl, mission, m, plan.leg_altitudes)
     required = np.broadcast_to(np.asarray(required, dtype=float), (n,))
-    initial = plan.initial * factors.get("battery_energy", 1.0) + np.zeros(n)
-    return PlanUncertainty(store, initial - store, time, required, seed)
+    return PlanUncertainty(store, np.broadcast_to(used, (n,)), time, required, seed)
 
 
 @dataclass(frozen=True)
@@ -298,8 +334,8 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     """
     from .performance import cruise_points
 
-    rng = np.random.default_rng(seed)
-    factors = draw_factors(dict(airframe.tolerances), rng, n)
+    tol = dict(airframe.tolerances)
+    factors = draw_factors(tol, unit_samples(n, len(tol), seed))
     af_s = sample_airframe(airframe, factors)
     usable = np.maximum(store * factors.get("battery_energy", 1.0) - reserve, 0.0)
     pts = cruise_points(af_s, mass, air, tas + np.zeros(n), usable,
