@@ -36,23 +36,6 @@ def golden_minimise(f, lo, hi, *, xtol_rel=1e-10, max_iter=200):
     return 0.5 * (a + b)
 
 
-def bisect_increasing(f, lo, hi, *, xtol_rel=1e-12, max_iter=200):
-    """Root of ``f`` on [lo, hi] element-wise, for ``f(lo) <= 0 <= f(hi)``.
-
-    Elements without a sign change converge to the nearer end; callers check the bracket.
-    """
-    a, b = np.broadcast_arrays(np.asarray(lo, dtype=float), np.asarray(hi, dtype=float))
-    a, b = a.copy(), b.copy()
-    for _ in range(max_iter):
-        if np.all(np.abs(b - a) <= xtol_rel * np.maximum(np.abs(a) + np.abs(b), 1e-300)):
-            break
-        m = 0.5 * (a + b)
-        below = f(m) < 0.0
-        a = np.where(below, m, a)
-        b = np.where(below, b, m)
-    return 0.5 * (a + b)
-
-
 _SQRT_EPS = np.sqrt(np.finfo(float).eps)
 _GOLDEN_MEAN = 0.5 * (3.0 - np.sqrt(5.0))
 
