@@ -33,5 +33,13 @@ test: lint
 bench: $(VENV)/.installed-test
 	$(BIN)/python benchmarks/run.py
 
+$(VENV)/.installed-notebooks: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install -q -e ".[notebooks]"
+	touch $@ $(VENV)/.installed
+
+# Opens the notebooks in JupyterLab (a local server; stop it with Ctrl-C).
+notebooks: $(VENV)/.installed-notebooks
+	$(BIN)/jupyter lab notebooks/
+
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache .ruff_cache
