@@ -636,6 +636,11 @@ def _show_warning(message, category, filename, lineno, file=None, line=None):
 def main(argv=None) -> int:
     """Run the command line; returns the exit status."""
     warnings.showwarning = _show_warning
+    # Figures are drawn off-screen; the backend is chosen here, in the command line's own
+    # process, not on importing the plotting module (which would change a notebook's).
+    import os
+
+    os.environ.setdefault("MPLBACKEND", "Agg")
     try:
         args = build_parser().parse_args(argv)
         COMMANDS[args.command](args)

@@ -54,6 +54,8 @@ CLIMB_STEPS = 8
 CRUISE_STEPS = 4
 #: Lowest climb rate accepted as "still climbing" [m/s] (about 20 ft/min).
 MIN_CLIMB_RATE = 0.1
+#: Ground speed floor [m/s] where the wind is as strong as the airspeed (see _cruise).
+GS_FLOOR = 0.5
 
 
 @dataclass(frozen=True)
@@ -416,6 +418,9 @@ def _cruise(fl: _Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
     def deriv(m):
         v = speed(m)
         gs, _, _ = fl.ground(v, leg, h, wind=wind)
+        # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
+        # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest.
+        gs = np.maximum(np.nan_to_num(gs, nan=GS_FLOOR), GS_FLOOR)
         r = fl.rate(fl.shaft(m, air, v))
         burning = fl.burns_mass & (m > fl.zero_fuel_mass)
         return np.where(burning, -r / gs, 0.0), r / gs, 1.0 / gs

@@ -31,6 +31,7 @@ import numpy as np
 from . import airspeed as _airspeed
 from ._numerics import brent_minimise, illinois_root
 from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state
+from .errors import CruiseplanError
 from .units import temperature_difference, to_si
 
 #: Default stall margin: cruise at or above 1.3 x stall speed (common practice).
@@ -275,7 +276,7 @@ def _air_column(altitudes, isa_dev):
     """Air state as a column over an altitude vector, clipping out-of-model altitudes."""
     h = np.atleast_1d(np.asarray(altitudes, dtype=float))
     if h.ndim != 1:
-        raise ValueError("altitudes must be one-dimensional")
+        raise CruiseplanError("altitudes must be one-dimensional")
     valid = (h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX)
     air = air_state(np.clip(h, ALTITUDE_MIN, ALTITUDE_MAX), isa_dev)
     if not np.all(valid):
@@ -291,7 +292,7 @@ def _column(value, n, what):
     if arr.ndim == 0:
         return arr
     if arr.shape != (n,):
-        raise ValueError(f"{what} must be a scalar or one value per altitude ({n})")
+        raise CruiseplanError(f"{what} must be a scalar or one value per altitude ({n})")
     return arr[:, None]
 
 
@@ -332,7 +333,7 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
     v = np.atleast_1d(to_si(tas, "m/s", what="tas"))
     if v.ndim != 1 or np.any(v <= 0):
-        raise ValueError("tas must be a one-dimensional array of positive speeds")
+        raise CruiseplanError("tas must be a one-dimensional array of positive speeds")
     loading = resolve_loading(airframe, mass, fuel, payload)
     air, valid = _air_column(h, temperature_difference(isa_dev))
     wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
@@ -520,7 +521,7 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
     h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
     frac = np.atleast_1d(np.asarray(power_settings, dtype=float))
     if frac.ndim != 1 or np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
-        raise ValueError("power settings must be fractions of rated power in (0, 1]")
+        raise CruiseplanError("power settings must be fractions of rated power in (0, 1]")
     loading = resolve_loading(airframe, mass, fuel, payload)
     air, valid = _air_column(h, temperature_difference(isa_dev))
     if not np.all(valid):

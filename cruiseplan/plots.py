@@ -59,8 +59,6 @@ from .reports import display
 from .tables import store_text
 from .units import temperature_difference, to_si
 
-matplotlib.use("Agg")
-
 #: Okabe-Ito palette [1]_ (yellow left out: it does not show on white paper).
 OKABE_ITO = {
     "black": "#000000", "orange": "#E69F00", "sky_blue": "#56B4E9", "green": "#009E73",

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .airspeed import wind_components
+from .errors import CruiseplanError
 
 
 @dataclass(frozen=True)
@@ -45,11 +46,11 @@ class WindProfile:
     def __post_init__(self):
         h = np.asarray(self.altitudes, dtype=float)
         if h.size == 0 or not (len(self.directions) == len(self.speeds) == h.size):
-            raise ValueError("a wind profile needs matching altitudes, directions and speeds")
+            raise CruiseplanError("a wind profile needs matching altitudes, directions and speeds")
         if np.any(np.diff(h) <= 0):
-            raise ValueError("wind profile altitudes must increase")
+            raise CruiseplanError("wind profile altitudes must increase")
         if np.any(np.asarray(self.speeds) < 0):
-            raise ValueError("wind speeds must not be negative")
+            raise CruiseplanError("wind speeds must not be negative")
 
     @classmethod
     def calm(cls) -> WindProfile:
