@@ -89,12 +89,16 @@ def cd_cylinder(re):
     """
     re = np.asarray(re, dtype=float)
     lr = np.log(re)
-    lamb = 8.0 * np.pi / (re * (2.002 - np.minimum(lr, 0.0)))
-    white = 1.0 + 10.0 * np.exp(-2.0 / 3.0 * lr)
-    c_crit = 1.0 + 10.0 * 2e5 ** (-2.0 / 3.0)
-    share = np.clip((lr - np.log(2e5)) / np.log(5e5 / 2e5), 0.0, 1.0)
-    crisis = c_crit + (0.35 - c_crit) * share
-    return np.where(re < 1.0, lamb, np.where(re <= 2e5, white, crisis))
+    cd = 1.0 + 10.0 * np.exp(-2.0 / 3.0 * lr)  # White's fit, the usual regime
+    low = re < 1.0
+    if np.any(low):
+        cd = np.where(low, 8.0 * np.pi / (re * (2.002 - np.minimum(lr, 0.0))), cd)
+    high = re > 2e5
+    if np.any(high):
+        c_crit = 1.0 + 10.0 * 2e5 ** (-2.0 / 3.0)
+        share = np.clip((lr - np.log(2e5)) / np.log(5e5 / 2e5), 0.0, 1.0)
+        cd = np.where(high, c_crit + (0.35 - c_crit) * share, cd)
+    return cd
 
 
 @dataclass(frozen=True)
