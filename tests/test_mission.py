@@ -283,7 +283,7 @@ def write(tmp_path, text, name="m.toml"):
 
 
 def test_bundled_missions_plan():
-    for name in ("demo-cross-country", "demo-survey-run"):
+    for name in ("demo-cross-country", "demo-survey-run", "demo-quad-inspection"):
         plan = plan_mission(load_mission(name))
         assert plan.verdict in ("GO", "NO-GO") and len(plan.segments) > 3
 
