@@ -114,13 +114,16 @@ class Airframe:
         drag = q_s * cd
         return dict(cl=cl, cd=cd, drag=drag, shaft=drag * tas / self.propulsion.propeller(tas))
 
-    def model_limits(self, flight, tas, stall_margin):
-        """Limit bits of the airframe's own model: stall margin, polar range."""
+    def model_limits(self, flight, tas, stall_margin, air=None):
+        """Limit bits of the airframe's own model: stall margin, polar and Reynolds range."""
         from .performance import Limit
 
         cl = flight["cl"]
         bits = np.where(cl > self.cl_max / stall_margin**2, np.uint16(Limit.STALL), 0)
         bits = bits | np.where(self.polar.outside(cl), np.uint16(Limit.POLAR_RANGE), 0)
+        if air is not None and hasattr(self.polar, "reynolds_outside"):
+            bits = bits | np.where(self.polar.reynolds_outside(tas, air),
+                                   np.uint16(Limit.REYNOLDS_RANGE), 0)
         return bits.astype(np.uint16)
 
     def stall_speed_ratio(self, flight):

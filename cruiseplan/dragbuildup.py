@@ -211,6 +211,17 @@ def reynolds(tas, air, length):
     return np.maximum(air.density * tas * length / air.viscosity, 1e-9)
 
 
+def outside_correlations(components, bodies, tas, air):
+    """True where any part's Reynolds number lies outside its correlation's valid range."""
+    out = np.zeros(np.shape(np.asarray(tas, dtype=float) * air.density), dtype=bool)
+    for part, law, length in ([(c, c.friction, c.length) for c in components]
+                              + [(b, b.shape, b.diameter) for b in bodies]):
+        lo, hi = CORRELATIONS[law].re_range
+        re = reynolds(tas, air, [length])[0]
+        out = out | (re < lo) | (re > hi)
+    return out
+
+
 def components_cd0(components, tas, air, reference_area):
     """Zero-lift drag coefficient of streamlined components [-] (vectorised)."""
     if not components:
@@ -297,6 +308,10 @@ class BuildUpPolar:
         """No lift-coefficient limit of its own (stall is checked separately)."""
         return np.zeros(np.shape(cl), dtype=bool)
 
+    def reynolds_outside(self, tas, air):
+        """True where a part's Reynolds number is outside its correlation's range."""
+        return outside_correlations(self.components, self.bodies, tas, air)
+
     def reference_cd0(self):
         """CD0 at sea level ISA and 30 m/s, for summaries [-]."""
         from .atmosphere import air_state
@@ -324,6 +339,10 @@ class BodyDrag:
         """Total drag area [m^2] at TAS [m/s] in the given air (times ``scale``)."""
         tas = np.asarray(tas, dtype=float)
         return self.scale * (self.drag_area + bodies_drag_area(self.bodies, tas, air))
+
+    def reynolds_outside(self, tas, air):
+        """True where a body's Reynolds number is outside its correlation's range."""
+        return outside_correlations((), self.bodies, tas, air)
 
     def drag(self, tas, air):
         """Drag [N]."""

@@ -52,6 +52,7 @@ class Limit(enum.IntFlag):
     NO_SOLUTION = 64
     WIND = 128
     ROTOR_RANGE = 256
+    REYNOLDS_RANGE = 512
 
 
 #: One line per reason, for tables and errors.
@@ -65,6 +66,7 @@ LIMIT_TEXT = {
     Limit.NO_SOLUTION: "power setting cannot hold level flight",
     Limit.WIND: "wind too strong to hold the course",
     Limit.ROTOR_RANGE: "beyond the rotor model's range (advance ratio 0.35, tilt 35 deg)",
+    Limit.REYNOLDS_RANGE: "a Reynolds number outside its drag correlation's range",
 }
 
 #: Short codes for the status column of printed tables.
@@ -72,6 +74,7 @@ LIMIT_CODE = {
     Limit.STALL: "STALL", Limit.POWER: "POWER", Limit.ATMOSPHERE: "ATMOS",
     Limit.COMPRESSIBILITY: "MACH", Limit.POLAR_RANGE: "POLAR", Limit.LAPSE_RANGE: "LAPSE",
     Limit.NO_SOLUTION: "NOSOL", Limit.WIND: "WIND", Limit.ROTOR_RANGE: "ROTOR",
+    Limit.REYNOLDS_RANGE: "RE",
 }
 
 
@@ -243,7 +246,7 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     gs = tas - headwind if ground_speed is None else np.asarray(ground_speed, dtype=float)
     endurance = prop.endurance(store, shaft)
 
-    limits = airframe.model_limits(flight, tas, stall_margin)
+    limits = airframe.model_limits(flight, tas, stall_margin, air)
     limits = limits | (shaft > available).astype(np.uint16) << 1
     limits |= (tas > MACH_LIMIT * air.speed_of_sound).astype(np.uint16) << 3
     limits |= prop.lapse_outside(sigma).astype(np.uint16) << 5

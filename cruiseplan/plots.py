@@ -85,6 +85,7 @@ LIMIT_HATCHES = {
     Limit.STALL: "///", Limit.POWER: "\\\\\\", Limit.ATMOSPHERE: "xx",
     Limit.COMPRESSIBILITY: "..", Limit.POLAR_RANGE: "|||", Limit.LAPSE_RANGE: "---",
     Limit.NO_SOLUTION: "++", Limit.WIND: "oo", Limit.ROTOR_RANGE: "**",
+    Limit.REYNOLDS_RANGE: "OO",
 }
 #: Output formats of :func:`figure_bytes`.
 FORMATS = ("png", "pdf")

@@ -214,13 +214,19 @@ class Multirotor(Airframe):
                     profile=r.count * profile, parasite=parasite, advance_ratio=vp / tip,
                     tilt_tangent=drag / weight)
 
-    def model_limits(self, flight, tas, stall_margin):
-        """Limit bits: advance ratio or tilt beyond the rotor model's range."""
+    def model_limits(self, flight, tas, stall_margin, air=None):
+        """Limit bits: rotor model range (advance ratio, tilt) and bodies' Reynolds range."""
         from .performance import Limit
 
         beyond = ((flight["advance_ratio"] > MAX_ADVANCE_RATIO)
                   | (flight["tilt_tangent"] > np.tan(np.radians(MAX_TILT_DEG))))
-        return np.where(beyond, np.uint16(Limit.ROTOR_RANGE), np.uint16(0)).astype(np.uint16)
+        bits = np.where(beyond, np.uint16(Limit.ROTOR_RANGE), np.uint16(0))
+        if air is not None and self.body.bodies:
+            # At the hover the bodies' Reynolds number is zero but their drag is too.
+            moving = np.asarray(tas) > 0
+            bits = bits | np.where(self.body.reynolds_outside(tas, air) & moving,
+                                   np.uint16(Limit.REYNOLDS_RANGE), 0)
+        return bits.astype(np.uint16)
 
     def stall_speed_ratio(self, flight):
         """No stall for a multirotor: NaN."""

@@ -273,3 +273,17 @@ def test_multirotor_needs_a_rotor_chain(tmp_path):
     with pytest.raises(cp.AirframeFileError,
                        match=r"\[propulsion\] kind: 'electric-propeller': a multirotor takes"):
         cp.read_airframe(p)
+
+
+def test_reynolds_outside_a_correlation_is_reported():
+    # The registry keeps each correlation's range (Prandtl-Schlichting is for turbulent
+    # plates above about Re 1e5, Schlichting ch. 21): a small part in turbulent flow at low
+    # speed is outside it, and the point says so.
+    wing = cp.load_airframe("demo-sensor-wing")
+    tiny = replace(wing.polar, components=wing.polar.components
+                   + (Component("antenna", 0.01, 0.02, 1.0, "turbulent"),))
+    g = cp.cruise_grid(replace(wing, polar=tiny), [0.0], [20.0, 30.0])
+    assert np.all(g.limits & cp.Limit.REYNOLDS_RANGE)
+    assert "Reynolds number outside its drag correlation's range" in g.reasons()[0, 0]
+    assert not np.any(cp.cruise_grid(wing, [0.0], [20.0, 30.0]).limits
+                      & cp.Limit.REYNOLDS_RANGE)
