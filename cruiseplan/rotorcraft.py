@@ -143,16 +143,27 @@ def glauert_induced_velocity(v_hover, v_parallel, v_normal, iterations=30):
     # a quadratic in v^2: v^2 = (sqrt(V_par^4 + 4 v_h^4) - V_par^2) / 2; Newton then needs
     # only a few steps. (Written as 2 v_h^4 / (sqrt(...) + V_par^2) to avoid cancellation.)
     vp2 = vp * vp
-    v = np.sqrt(2.0 * vh2 * vh2 / (np.sqrt(vp2 * vp2 + 4.0 * vh2 * vh2) + vp2)) + 0.0 * vn
-    for _ in range(iterations):
-        u = vn + v
-        s2 = vp2 + u * u
-        s = np.sqrt(s2)
-        f = v - vh2 / s
-        df = 1.0 + vh2 * u / (s2 * s)
-        step = f / df
-        v = np.maximum(v - step, 0.5 * v)
-        if np.max(np.abs(step) / np.maximum(v, 1e-9)) <= 1e-12:
+    shape = np.broadcast_shapes(vh2.shape, vp.shape, vn.shape)
+    vh2, vp2, vn = (np.broadcast_to(a, shape) for a in (vh2, vp2, vn))
+    v = np.array(np.sqrt(2.0 * vh2 * vh2 / (np.sqrt(vp2 * vp2 + 4.0 * vh2 * vh2) + vp2)),
+                 dtype=float)
+    # Newton steps in place: on large grids the time goes into allocating temporaries.
+    u, s2, s, f, g = (np.empty(shape) for _ in range(5))
+    for k in range(iterations):
+        np.add(vn, v, out=u)
+        np.multiply(u, u, out=s2)
+        s2 += vp2
+        np.sqrt(s2, out=s)
+        np.divide(vh2, s, out=f)             # v_h^2 / s
+        np.multiply(f, u, out=g)
+        g /= s2
+        g += 1.0                             # f'(v) = 1 + v_h^2 u / s^3
+        np.subtract(v, f, out=f)             # f(v) = v - v_h^2 / s
+        f /= g                               # the Newton step
+        np.subtract(v, f, out=g)
+        np.maximum(g, 0.5 * v, out=v)
+        # From that start four steps reach rounding even at a 35 deg tilt; check from then.
+        if k >= 3 and np.max(np.abs(f) / np.maximum(v, 1e-9)) <= 1e-12:
             break
     return v
 
@@ -195,7 +206,8 @@ class Multirotor(Airframe):
         tas = np.asarray(tas, dtype=float)
         rho = air.density
         weight = mass * G0
-        drag = self.body.drag(tas, air)
+        area, re_outside = self.body.area_and_range(tas, air)
+        drag = 0.5 * rho * tas * tas * area
         total = np.sqrt(weight * weight + drag * drag)
         thrust = total / r.count
         # Tilt alpha = atan(D/W): its cosine and sine without the trigonometry.
@@ -212,7 +224,7 @@ class Multirotor(Airframe):
         nan = np.full(np.shape(shaft), np.nan)
         return dict(cl=nan, cd=nan, drag=drag, shaft=shaft, induced=r.count * induced,
                     profile=r.count * profile, parasite=parasite, advance_ratio=vp / tip,
-                    tilt_tangent=drag / weight)
+                    tilt_tangent=drag / weight, reynolds_outside=re_outside)
 
     def model_limits(self, flight, tas, stall_margin, air=None):
         """Limit bits: rotor model range (advance ratio, tilt) and bodies' Reynolds range."""
@@ -221,11 +233,9 @@ class Multirotor(Airframe):
         beyond = ((flight["advance_ratio"] > MAX_ADVANCE_RATIO)
                   | (flight["tilt_tangent"] > np.tan(np.radians(MAX_TILT_DEG))))
         bits = np.where(beyond, np.uint16(Limit.ROTOR_RANGE), np.uint16(0))
-        if air is not None and self.body.bodies:
-            # At the hover the bodies' Reynolds number is zero but their drag is too.
-            moving = np.asarray(tas) > 0
-            bits = bits | np.where(self.body.reynolds_outside(tas, air) & moving,
-                                   np.uint16(Limit.REYNOLDS_RANGE), 0)
+        # At the hover the bodies' Reynolds number is zero, but so is their drag.
+        outside = flight["reynolds_outside"] & (np.asarray(tas) > 0)
+        bits = bits | np.where(outside, np.uint16(Limit.REYNOLDS_RANGE), 0)
         return bits.astype(np.uint16)
 
     def stall_speed_ratio(self, flight):
