@@ -1,0 +1,46 @@
+"""Figures for crews: specific-range map, power curves, altitude profile, cruise-card page.
+
+The only part of cruiseplan that imports matplotlib, one module per kind of figure; nothing
+imports it at package import, and the CLI imports it only in the commands that draw.
+Figures are drawn into :class:`matplotlib.figure.Figure` objects (no pyplot state, so a
+notebook's backend is left alone; the CLI renders off-screen on Agg) and turned into PNG or
+PDF bytes by :func:`figure_bytes`, so a failed drawing never leaves a partial file.
+
+Made to be printed: lines use the Okabe-Ito colour-blind-safe palette [1]_ and filled
+contours the cividis colour map [2]_; each series also differs in line style and marker so a
+grey print reads the same; every axis names its unit; every figure carries a caution footer.
+
+References
+----------
+.. [1] M. Okabe and K. Ito, "Color Universal Design (CUD): how to make figures and
+   presentations that are friendly to colorblind people", J*Fly, 2008.
+.. [2] J. R. Nunez, C. R. Anderton and R. S. Renslow, "Optimizing colormaps with
+   consideration for color vision deficiency to enable accurate interpretation of
+   scientific data", *PLoS ONE* 13(7), 2018, e0199239 (cividis).
+.. [3] J. D. Anderson, *Aircraft Performance and Design*, McGraw-Hill, 1999, secs. 5.4
+   (power required and available), 5.7 (range and endurance).
+"""
+
+from ._style import (
+    CARD_PAGES,
+    FORMATS,
+    LIMIT_HATCHES,
+    MIN_FONT,
+    OBJECTIVE_STYLES,
+    OKABE_ITO,
+    PLOT_SIZE,
+    SERIES_STYLES,
+    figure_bytes,
+    speed_span,
+)
+from .cardpage import CARD_FONTS, card_figure
+from .cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
+from .profile import mission_profile
+from .residuals import fit_residuals
+
+__all__ = [
+    "CARD_FONTS", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES", "MIN_FONT",
+    "OBJECTIVE_STYLES", "OKABE_ITO", "PLOT_SIZE", "SERIES_STYLES", "altitude_profile",
+    "card_figure", "figure_bytes", "fit_residuals", "mission_profile", "power_curves",
+    "specific_range_map", "speed_span",
+]

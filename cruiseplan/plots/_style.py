@@ -1,0 +1,192 @@
+"""Shared style, output and helpers of the figures (palette, fonts, footer, PNG/PDF bytes)."""
+
+from __future__ import annotations
+
+import io
+import textwrap
+from datetime import date
+
+import matplotlib
+import numpy as np
+from matplotlib import patheffects
+from matplotlib.figure import Figure
+
+from ..atmosphere import air_state, check_altitude
+from ..card import CAUTION_LINE
+from ..errors import CruiseplanError
+from ..performance import (
+    MACH_LIMIT,
+    Limit,
+    power_setting_table,
+    resolve_loading,
+)
+from ..reports import display
+from ..tables import store_text
+from ..units import temperature_difference, to_si
+
+#: Okabe-Ito palette [1]_ (yellow left out: it does not show on white paper).
+OKABE_ITO = {
+    "black": "#000000", "orange": "#E69F00", "sky_blue": "#56B4E9", "green": "#009E73",
+    "blue": "#0072B2", "vermillion": "#D55E00", "purple": "#CC79A7",
+}
+#: Colour, line style and marker of successive series (altitudes), distinct in grey print.
+SERIES_STYLES = (
+    (OKABE_ITO["blue"], "-", "o"),
+    (OKABE_ITO["vermillion"], "--", "s"),
+    (OKABE_ITO["green"], "-.", "^"),
+    (OKABE_ITO["purple"], ":", "D"),
+    (OKABE_ITO["orange"], (0, (7, 2, 1, 2, 1, 2)), "v"),
+    (OKABE_ITO["sky_blue"], (0, (1, 1)), "P"),
+    (OKABE_ITO["black"], (0, (10, 3)), "X"),
+)
+#: Colour and marker of each best-speed objective.
+OBJECTIVE_STYLES = {
+    "range": (OKABE_ITO["blue"], "o"),
+    "endurance": (OKABE_ITO["vermillion"], "s"),
+    "economy": (OKABE_ITO["green"], "^"),
+}
+#: Hatch pattern of each limit reason on the specific-range map.
+LIMIT_HATCHES = {
+    Limit.STALL: "///", Limit.POWER: "\\\\\\", Limit.ATMOSPHERE: "xx",
+    Limit.COMPRESSIBILITY: "..", Limit.POLAR_RANGE: "|||", Limit.LAPSE_RANGE: "---",
+    Limit.NO_SOLUTION: "++", Limit.WIND: "oo", Limit.ROTOR_RANGE: "**",
+    Limit.REYNOLDS_RANGE: "OO",
+}
+#: Output formats of :func:`figure_bytes`.
+FORMATS = ("png", "pdf")
+#: Size of the plots [in]: A5 landscape.
+PLOT_SIZE = (8.27, 5.83)
+#: Smallest font on any figure [pt] (kneeboard-legible).
+MIN_FONT = 7.0
+#: Card pages tried in turn, portrait [in].
+CARD_PAGES = {"A5": (5.83, 8.27), "A4": (8.27, 11.69)}
+
+_HALO = [patheffects.withStroke(linewidth=3.5, foreground="white")]
+
+
+# --- output -------------------------------------------------------------------------------
+
+def figure_bytes(fig: Figure, fmt: str, *, dpi: float = 150.0) -> bytes:
+    """Render a figure to PNG or PDF bytes.
+
+    PDF text is embedded as TrueType (font type 42) so that it can be searched and copied.
+
+    Parameters
+    ----------
+    fig : matplotlib.figure.Figure
+        The figure.
+    fmt : str
+        ``"png"`` or ``"pdf"``, or a file name whose extension (.png, .pdf) decides.
+    dpi : float, optional
+        Resolution of PNG output [dots per inch].
+
+    Returns
+    -------
+    bytes
+        The whole file.
+
+    Raises
+    ------
+    CruiseplanError
+        For any other format or extension.
+    """
+    text = str(fmt)
+    kind = text.rsplit(".", 1)[-1].lower() if "." in text else text.lower()
+    if kind not in FORMATS:
+        raise CruiseplanError(f"cannot draw {text!r}: the format must be "
+                              f"{' or '.join(FORMATS)} (a file ending in .png or .pdf)")
+    buf = io.BytesIO()
+    meta = {"Creator": "cruiseplan"} if kind == "pdf" else {"Software": "cruiseplan"}
+    with matplotlib.rc_context({"pdf.fonttype": 42}):
+        fig.savefig(buf, format=kind, dpi=dpi, metadata=meta)
+    return buf.getvalue()
+
+
+# --- shared pieces ------------------------------------------------------------------------
+
+def _footer(fig: Figure, context: str) -> None:
+    """Caution line, and the context above it, at the bottom of a plot."""
+    fig.text(0.012, 0.012, CAUTION_LINE, fontsize=MIN_FONT + 0.5, ha="left", va="bottom",
+             style="italic")
+    width = fig.get_size_inches()[0]
+    lines = textwrap.wrap(context, int(width * 17.5))  # ~17.5 characters per inch at 7 pt
+    fig.text(0.012, 0.042, "\n".join(lines), fontsize=MIN_FONT, ha="left", va="bottom",
+             color="0.25", linespacing=1.25)
+
+
+def _context(airframe, mass: float, store: float, isa_dev: float, units: str,
+             extra: str = "") -> str:
+    fm, lm = display("mass", units)
+    parts = [f"{airframe.name} (file sha256 {airframe.checksum[:16]})",
+             f"mass {mass * fm:.1f} {lm}", store_text(airframe, store, units),
+             f"ISA {isa_dev:+.0f} K"]
+    if extra:
+        parts.append(extra)
+    parts.append(f"made {date.today().isoformat()} by cruiseplan")
+    return " \u00b7 ".join(parts)
+
+
+def _sr_display(airframe, units: str):
+    """Factor from SI specific range (m/kg or m/J) to display units, and the label."""
+    prop = airframe.propulsion
+    if prop.store_name == "fuel":
+        f, label = display("sr_fuel", units)
+        return f * prop.fuel_density, label
+    return display("sr_energy", units)
+
+
+def _power_display(airframe, units: str):
+    kind = "power" if airframe.propulsion.store_name == "fuel" else "electric_power"
+    return display(kind, units)
+
+
+def _every(n: int, marks: int = 8):
+    """Marker spacing that puts about ``marks`` markers on a line of ``n`` points."""
+    return max(1, int(round(n / marks)))
+
+
+def _isa_dev(air) -> float:
+    return float(np.ravel(air.isa_dev)[0])
+
+
+def speed_span(airframe, altitudes, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
+               n: int = 60) -> np.ndarray:
+    """True airspeeds that span a plot: from below the stall to beyond full throttle.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    altitudes : array_like or pint.Quantity
+        Pressure altitudes [m] the plot shows.
+    mass, fuel, payload : float or pint.Quantity, optional
+        Loading [kg, kg or J, kg], as in :func:`cruiseplan.cruise_grid`.
+    isa_dev : float or pint.Quantity, optional
+        ISA deviation [K].
+    n : int, optional
+        Number of speeds.
+
+    Returns
+    -------
+    numpy.ndarray
+        ``n`` increasing TAS [m/s], from 0.85 x the lowest stall speed to 1.12 x the highest
+        full-throttle level speed (capped at the Mach model limit).
+    """
+    h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
+    isa_dev = temperature_difference(isa_dev)
+    loading = resolve_loading(airframe, mass, fuel, payload)
+    air = air_state(h, isa_dev)
+    v_stall = airframe.stall_speed(loading.mass, air.density)
+    top = power_setting_table(airframe, h, [1.0], mass=loading.mass, fuel=loading.store,
+                              isa_dev=isa_dev, stall_margin=1.0).tas
+    v_hi = np.nanmax(top) if np.any(np.isfinite(top)) else 2.5 * np.max(v_stall)
+    v_hi = min(1.12 * v_hi, MACH_LIMIT * float(np.min(air.speed_of_sound)))
+    if airframe.kind == "multirotor":
+        # Stay near the advance ratio the rotor model is trusted to.
+        from ..rotorcraft import MAX_ADVANCE_RATIO
+
+        v_hi = min(v_hi, 1.15 * MAX_ADVANCE_RATIO * airframe.rotors.hover_tip_speed)
+    # A multirotor has no stall speed: start just above the hover.
+    return np.linspace(max(0.85 * float(np.min(v_stall)), 1.0), v_hi, n)
+
+

@@ -1,0 +1,495 @@
+"""Cruise figures: specific-range map, power curves, best speeds by altitude."""
+
+from __future__ import annotations
+
+import textwrap
+
+import matplotlib
+import numpy as np
+from matplotlib.figure import Figure
+from matplotlib.lines import Line2D
+from matplotlib.patches import Patch
+from matplotlib.ticker import MaxNLocator
+
+from ..atmosphere import air_state, check_altitude
+from ..errors import CruiseplanError
+from ..optimise import OBJECTIVES, describe
+from ..performance import (
+    DEFAULT_STALL_MARGIN,
+    LIMIT_CODE,
+    LIMIT_TEXT,
+    MACH_LIMIT,
+    CruisePoints,
+    Limit,
+    cruise_grid,
+    cruise_points,
+    speed_for_min_drag,
+    speed_for_min_power,
+)
+from ..reports import display
+from ..units import temperature_difference, to_si
+from ._style import (
+    _HALO,
+    LIMIT_HATCHES,
+    MIN_FONT,
+    OBJECTIVE_STYLES,
+    OKABE_ITO,
+    PLOT_SIZE,
+    SERIES_STYLES,
+    _context,
+    _every,
+    _footer,
+    _isa_dev,
+    _power_display,
+    _sr_display,
+    speed_span,
+)
+
+# --- (a) specific-range map ---------------------------------------------------------------
+
+#: Continuous fields, positive inside a limit's region, that give its edge without the
+#: staircase of the grid: STALL (stall margin minus V/Vs), POWER (required minus available
+#: over rated) and MACH (Mach minus the model limit). Other reasons use their 0/1 mask.
+LIMIT_FIELDS = {
+    Limit.STALL: lambda grid, margin: margin - grid.stall_speed_ratio,
+    Limit.POWER: lambda grid, margin: -grid.power_margin / grid.rated_power,
+    Limit.COMPRESSIBILITY: lambda grid, margin: grid.mach() - MACH_LIMIT,
+}
+
+
+def _label_point(mask: np.ndarray, taken: np.ndarray):
+    """Grid index deep inside ``mask`` and near its middle, avoiding ``taken``."""
+    from scipy.ndimage import distance_transform_edt
+
+    free = mask & ~taken
+    use = free if free.any() else mask
+    n0, n1 = mask.shape
+    step = (1.0 / max(n0 - 1, 1), 1.0 / max(n1 - 1, 1))
+    depth = distance_transform_edt(np.pad(use, 1), sampling=step)[1:-1, 1:-1]
+    # Among the deepest points (a band has a whole line of them), the one nearest their
+    # centre, so a label sits mid-band rather than at an edge of the plot.
+    deep = np.argwhere(depth >= 0.9 * depth.max()) * step
+    k = np.argmin(np.hypot(*(deep - deep.mean(axis=0)).T))
+    return tuple(np.rint(deep[k] / step).astype(int))
+
+
+def _limit_regions(grid, limits: np.ndarray, stall_margin: float) -> list:
+    """(flag, mask, field) for each limit reason present; field > 0 inside the region."""
+    regions = []
+    shape = limits.shape
+    for flag in LIMIT_HATCHES:
+        mask = (limits & int(flag)) != 0
+        if not mask.any():
+            continue
+        field = mask.astype(float) - 0.5
+        if flag in LIMIT_FIELDS:
+            smooth = np.broadcast_to(LIMIT_FIELDS[flag](grid, stall_margin), shape)
+            finite = np.isfinite(smooth)
+            # Use the smooth edge only where it says exactly what the limit bits say.
+            if finite.all() and np.array_equal(smooth > 0, mask):
+                field = smooth
+        regions.append((flag, mask, field))
+    return regions
+
+
+def _shade_limits(ax, x, y, regions: list) -> list:
+    """Grey out, hatch and outline each limit region and write its reason inside it."""
+    handles = []
+    for _, _, field in regions:  # opaque fills first, so no hatch hides under another fill
+        ax.contourf(x, y, field, levels=[0.0, max(float(np.nanmax(field)), 0.0) + 1.0],
+                    colors=["0.88"], zorder=3)
+    taken = np.zeros(x.shape, dtype=bool)
+    n0, n1 = x.shape
+    ii, jj = np.meshgrid(np.arange(n0) / max(n0 - 1, 1), np.arange(n1) / max(n1 - 1, 1),
+                         indexing="ij")
+    for flag, mask, field in regions:
+        hatch = LIMIT_HATCHES[flag]
+        top = max(float(np.nanmax(field)), 0.0) + 1.0
+        with matplotlib.rc_context({"hatch.color": "0.2", "hatch.linewidth": 0.7}):
+            ax.contourf(x, y, field, levels=[0.0, top], colors="none", hatches=[hatch],
+                        zorder=3.5)
+        if not mask.all():
+            ax.contour(x, y, field, levels=[0.0], colors="0.15", linewidths=1.0, zorder=4)
+        i, j = _label_point(mask, taken)
+        # In axes fractions, kept far enough from the frame for the box to stay inside.
+        fx = np.clip((x[i, j] - x.min()) / np.ptp(x), 0.1, 0.9)
+        fy = np.clip((y[i, j] - y.min()) / np.ptp(y), 0.08, 0.92)
+        ax.text(fx, fy, textwrap.fill(f"{LIMIT_CODE[flag]}: {LIMIT_TEXT[flag]}", 22),
+                transform=ax.transAxes, fontsize=MIN_FONT + 0.5, ha="center", va="center",
+                zorder=6,
+                bbox=dict(boxstyle="round,pad=0.25", fc="white", ec="0.3", alpha=0.92))
+        taken |= np.hypot(ii - ii[i, j], jj - jj[i, j]) < 0.22
+        handles.append(Patch(facecolor="0.88", edgecolor="0.2", hatch=hatch,
+                             label=f"{LIMIT_CODE[flag]}: {LIMIT_TEXT[flag]}"))
+    return handles
+
+
+def _held_by(best, objective: str) -> str:
+    """Constraint text when one constraint holds the objective's speed at every altitude."""
+    codes = best.schedule.binding[objective][best.schedule.feasible]
+    texts = {describe(c) for c in np.ravel(codes)}
+    return f" (held by {texts.pop()})" if len(texts) == 1 and "none" not in texts else ""
+
+
+def _best_lines(ax, best, units: str) -> None:
+    fa, la = display("altitude", units)
+    fs, _ = display("speed", units)
+    h = best.altitudes * fa
+    every = _every(h.size)
+    styles = (("range", OKABE_ITO["black"], "-", "o", (0, every)),
+              ("endurance", OKABE_ITO["vermillion"], "--", "s", (every // 2, every)))
+    for objective, colour, style, marker, marks in styles:
+        ax.plot(best.schedule.tas[objective] * fs, h, color=colour, linestyle=style,
+                marker=marker, markevery=marks, markersize=5, linewidth=1.8,
+                path_effects=_HALO, zorder=7,
+                label=f"best-{objective} TAS{_held_by(best, objective)}")
+    i = best.best_index
+    if i >= 0:
+        ax.plot(best.points.tas[i] * fs, h[i], marker="*", markersize=16, linestyle="none",
+                markerfacecolor=OKABE_ITO["orange"], markeredgecolor="black", zorder=8,
+                clip_on=False, label=f"best altitude for {best.objective}: {h[i]:.0f} {la}")
+
+
+def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = "aviation",
+                       ground: bool = False, wind_text: str = "calm",
+                       stall_margin: float = DEFAULT_STALL_MARGIN) -> Figure:
+    r"""Filled contours of specific range over pressure altitude and TAS.
+
+    Specific range is distance per unit of fuel or energy, :math:`V/\dot s` (air) or
+    :math:`V_g/\dot s` (ground) [3]_. Regions that breach a limit are greyed out, hatched
+    with one pattern per :class:`~cruiseplan.performance.Limit` reason, outlined, and
+    labelled with the reason's text inside the region.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe the grid was computed for.
+    grid : CruisePoints
+        Cruise points of shape (n_alt, n_tas) from :func:`cruiseplan.cruise_grid`, with
+        increasing altitudes and speeds (at least 2 of each).
+    best : BestCruise, optional
+        Optimiser answer (:func:`cruiseplan.optimise.best_cruise`) whose best-range and
+        best-endurance TAS lines and best altitude are drawn over the map.
+    units : {"aviation", "si"}, optional
+        Display units.
+    ground : bool, optional
+        Contour ground specific range (with the grid's wind) instead of air specific range.
+    wind_text : str, optional
+        How the wind was given, for the title and footer.
+    stall_margin : float, optional
+        Stall margin the grid was computed with [-], for a smooth STALL edge.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        Altitude [ft or m] up, TAS [kt or km/h] across, specific range [nm/US gal, km/L,
+        nm/kWh or km/kWh] in colour.
+
+    References
+    ----------
+    .. [3] Anderson, *Aircraft Performance and Design*, sec. 5.7 (specific range).
+    """
+    shape = grid.shape
+    if len(shape) != 2 or shape[0] < 2 or shape[1] < 2:
+        raise CruiseplanError(f"a specific-range map needs a grid of at least 2 altitudes x "
+                              f"2 speeds, got shape {shape}")
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    h = np.broadcast_to(grid.air.pressure_altitude, shape)[:, 0]
+    v = np.broadcast_to(grid.tas, shape)[0, :]
+    if np.any(np.diff(h) <= 0) or np.any(np.diff(v) <= 0):
+        raise CruiseplanError("a specific-range map needs increasing altitudes and speeds")
+    factor, sr_label = _sr_display(airframe, units)
+    sr = np.broadcast_to((grid.specific_range_ground if ground else grid.specific_range_air)
+                         * factor, shape)
+    limits = np.broadcast_to(grid.limits, shape).astype(int)
+    x, y = np.meshgrid(v * fs, h * fa)
+    ok = (limits == 0) & np.isfinite(sr)
+
+    fig = Figure(figsize=PLOT_SIZE)
+    ax = fig.add_axes((0.085, 0.33, 0.70, 0.59))
+    cax = fig.add_axes((0.80, 0.33, 0.022, 0.59))
+    ax.set_facecolor("0.88")
+    kind = "ground" if ground else "air"
+    if ok.any():
+        lo, hi = float(sr[ok].min()), float(sr[ok].max())
+        levels = MaxNLocator(nbins=10).tick_values(lo, hi)
+        if levels.size < 2:
+            levels = np.array([lo, lo * 1.001 + 1e-9])
+        # Colours over every computed point (limit regions are covered below), so the
+        # colour meets each limit's smooth edge; levels span the flyable points only.
+        z = np.ma.masked_invalid(sr)
+        filled = ax.contourf(x, y, z, levels=levels, cmap="cividis", extend="both", zorder=1)
+        ax.contour(x, y, z, levels=levels, colors="black", linewidths=0.4, zorder=2)
+        labelled = ax.contour(x, y, np.ma.masked_where(~ok, sr), levels=levels[1::2],
+                              colors="none", linewidths=0)
+        for text in ax.clabel(labelled, fontsize=MIN_FONT, fmt="%.3g", colors="black",
+                              inline=False):
+            text.set_zorder(5)
+            text.set_bbox(dict(boxstyle="square,pad=0.05", fc="white", ec="none", alpha=0.7))
+        bar = fig.colorbar(filled, cax=cax)
+        bar.set_label(f"{kind} specific range [{sr_label}]", fontsize=9)
+        bar.ax.tick_params(labelsize=8)
+    else:
+        cax.set_axis_off()
+        ax.text(0.5, 0.5, "no flyable point on this grid", transform=ax.transAxes,
+                ha="center", va="center", fontsize=11, zorder=9,
+                bbox=dict(fc="white", ec="black"))
+    handles = _shade_limits(ax, x, y, _limit_regions(grid, limits, stall_margin))
+    if best is not None:
+        _best_lines(ax, best, units)
+    ax.set_xlim(x.min(), x.max())
+    ax.set_ylim(y.min(), y.max())
+    ax.set_xlabel(f"true airspeed, TAS [{ls}]", fontsize=9.5)
+    ax.set_ylabel(f"pressure altitude [{la}]", fontsize=9.5)
+    ax.tick_params(labelsize=8.5)
+    ax.set_title(textwrap.fill(f"{kind.capitalize()} specific range \u2014 {airframe.name} "
+                               f"({'wind ' + wind_text if ground else 'calm air'})", 80),
+                 fontsize=11, pad=12)
+    line_handles, _ = ax.get_legend_handles_labels()
+    if line_handles or handles:
+        ax.legend(handles=line_handles + handles, loc="upper center",
+                  bbox_to_anchor=(0.5, -0.1), ncol=2, fontsize=MIN_FONT + 0.5,
+                  frameon=False)
+    _footer(fig, _context(airframe, grid.mass, grid.store, _isa_dev(grid.air), units,
+                          f"wind {wind_text}"))
+    return fig
+
+
+# --- (b) power curves ---------------------------------------------------------------------
+
+def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload=None,
+                 isa_dev=0.0, units: str = "aviation",
+                 stall_margin: float = DEFAULT_STALL_MARGIN) -> Figure:
+    r"""Shaft power required and available against TAS at several altitudes.
+
+    Power required is :math:`P = D V / \eta_p`; power available is full-throttle shaft power
+    after the power lapse [3]_. Each altitude has its own colour, line style and marker;
+    the minimum-power speed (best endurance; at the stall speed where the polar's minimum
+    lies beyond CLmax), the minimum-drag speed ((L/D)max, best range in calm air with
+    constant propeller efficiency) and the stall-margin speed (slowest cruise) are marked
+    on each curve. Curves start at the stall speed (CLmax).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    altitudes : array_like or pint.Quantity
+        Pressure altitudes [m], at most 7.
+    tas : array_like or pint.Quantity, optional
+        True airspeeds [m/s]; by default :func:`speed_span`.
+    mass, fuel, payload : float or pint.Quantity, optional
+        Loading, as in :func:`cruiseplan.cruise_grid`.
+    isa_dev : float or pint.Quantity, optional
+        ISA deviation [K].
+    units : {"aviation", "si"}, optional
+        Display units.
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-], for the grid's limits.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        Shaft power [hp, kW or W] against TAS [kt or km/h].
+
+    References
+    ----------
+    .. [3] Anderson, *Aircraft Performance and Design*, secs. 5.4-5.5.
+    """
+    h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
+    if h.ndim != 1 or not 1 <= h.size <= len(SERIES_STYLES):
+        raise CruiseplanError(f"a power plot shows 1 to {len(SERIES_STYLES)} altitudes, got "
+                              f"{h.size}: give fewer altitudes")
+    dev = temperature_difference(isa_dev)
+    grid = cruise_grid(airframe, h, speed_span(airframe, h, mass=mass, fuel=fuel,
+                                               payload=payload, isa_dev=dev)
+                       if tas is None else tas, mass=mass, fuel=fuel, payload=payload,
+                       isa_dev=dev, stall_margin=stall_margin)
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fp, lp = _power_display(airframe, units)
+    v = np.broadcast_to(grid.tas, grid.shape)[0] * fs
+    air = air_state(h, dev)
+    v_stall = airframe.stall_speed(grid.mass, air.density)
+    v_min_power = speed_for_min_power(airframe, grid.mass, air)
+    # Where the polar's minimum-power point lies beyond CLmax, the curve's flyable
+    # minimum is at the stall speed.
+    clipped = v_min_power < v_stall
+    special = {"min": np.maximum(v_min_power, v_stall),
+               "ld": speed_for_min_drag(airframe, grid.mass, air),
+               "margin": stall_margin * v_stall}
+    special_power = {k: cruise_points(airframe, grid.mass, air, s, grid.store).shaft_power
+                     for k, s in special.items()}
+    marks = {"min": dict(marker="*", markersize=13, markeredgecolor="black"),
+             "ld": dict(marker="h", markersize=10, markeredgecolor="black"),
+             "margin": dict(marker="|", markersize=14, markeredgewidth=2.0,
+                            markeredgecolor="black")}
+    rotor = airframe.kind == "multirotor"
+    if rotor:
+        # No stall and no (L/D)max for a multirotor: its drag is least in the hover.
+        marks = {"min": marks["min"]}
+    below_stall = np.broadcast_to(grid.tas, grid.shape) < v_stall[:, None] * (1 - 1e-9)
+    required = np.where(below_stall, np.nan, grid.shaft_power) * fp
+    available = grid.power_available[:, 0] * fp
+
+    fig = Figure(figsize=PLOT_SIZE)
+    ax = fig.add_axes((0.085, 0.2, 0.60, 0.7))
+    one_available = np.allclose(available, available[0])
+    for i, (colour, style, marker) in enumerate(SERIES_STYLES[:h.size]):
+        ax.plot(v, required[i], color=colour, linestyle=style, marker=marker, markersize=4.5,
+                markevery=_every(v.size), linewidth=1.8,
+                label=f"required at {h[i] * fa:.0f} {la}")
+        if not one_available:
+            ax.plot(v, np.full(v.shape, available[i]), color=colour, linestyle=style,
+                    linewidth=1.0)
+            ax.text(v[-1], available[i], f"full throttle {h[i] * fa:.0f} {la}",
+                    fontsize=MIN_FONT, ha="right", va="bottom", color=colour,
+                    path_effects=_HALO)
+        for key, style_kw in marks.items():
+            ax.plot(special[key][i] * fs, special_power[key][i] * fp, linestyle="none",
+                    markerfacecolor=colour, zorder=5, **style_kw)
+    if one_available:
+        ax.axhline(available[0], color="black", linewidth=1.2)
+        ax.text(v[-1], available[0], "maximum continuous shaft power (all altitudes)",
+                fontsize=MIN_FONT + 0.5, ha="right", va="bottom", path_effects=_HALO)
+    top = max(np.nanmax(available), np.nanmax(required[np.isfinite(required)], initial=0.0))
+    ax.set_ylim(0.0, 1.12 * min(top, 1.6 * np.nanmax(available)))
+    ax.set_xlim(v[0], v[-1])
+    ax.set_xlabel(f"true airspeed, TAS [{ls}]", fontsize=9.5)
+    ax.set_ylabel(f"shaft power [{lp}]", fontsize=9.5)
+    ax.tick_params(labelsize=8.5)
+    ax.grid(True, color="0.85", linewidth=0.6)
+    ax.set_title(f"Shaft power required and available \u2014 {airframe.name}", fontsize=11)
+    handles, _ = ax.get_legend_handles_labels()
+    handles += [
+        Line2D([], [], color="black", linewidth=1.0, label="power available\n(full throttle)"),
+        Line2D([], [], linestyle="none", markerfacecolor="white",
+               label="minimum power\n(best endurance)", **marks["min"]),
+    ]
+    if not rotor:
+        handles += [
+            Line2D([], [], linestyle="none", markerfacecolor="white",
+                   label="(L/D)max, minimum drag\n(best range, calm air)", **marks["ld"]),
+            Line2D([], [], linestyle="none", label=f"{stall_margin:g} x stall speed\n"
+                   "(slowest cruise)", **marks["margin"])]
+    ax.legend(handles=handles, loc="upper left", bbox_to_anchor=(1.02, 1.0),
+              fontsize=MIN_FONT + 0.5, frameon=False, labelspacing=0.9)
+    if airframe.kind == "multirotor":
+        note = ("A multirotor needs power to hover; induced power falls and parasite power "
+                "rises with speed (momentum theory). Level flight is possible where power "
+                "required is below power available.")
+    else:
+        note = (f"Curves start at the stall speed (CLmax {airframe.cl_max:g}); cruise at "
+                f"{stall_margin:g} x stall speed or faster (common practice). Level flight "
+                "is possible where power required is below power available.")
+    if np.any(clipped):
+        note += (" Where the polar's minimum-power point lies beyond CLmax, the star "
+                 "sits at the stall speed.")
+    fig.text(0.71, 0.2, textwrap.fill(note, 40), fontsize=MIN_FONT + 0.5, va="bottom",
+             ha="left")
+    _footer(fig, _context(airframe, grid.mass, grid.store, dev, units))
+    return fig
+
+
+# --- (c) altitude profile -----------------------------------------------------------------
+
+def altitude_profile(airframe, calm, wind=None, *, units: str = "aviation",
+                     wind_text: str = "wind") -> Figure:
+    """Best TAS and ground specific range against altitude, calm (solid) and in wind (dashed).
+
+    Left: best-range, best-endurance and economy TAS at each altitude (colour and marker by
+    objective; filled markers in calm air, hollow in wind). Right: ground specific range at
+    the objective's speed of each answer, with each answer's best altitude starred.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    calm : BestCruise
+        Optimiser answer in calm air (:func:`cruiseplan.optimise.best_cruise`).
+    wind : BestCruise, optional
+        The same question with the day's wind.
+    units : {"aviation", "si"}, optional
+        Display units.
+    wind_text : str, optional
+        How the wind was given, for the subtitle.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        Two panels sharing the altitude axis [ft or m].
+
+    References
+    ----------
+    .. [3] Anderson, *Aircraft Performance and Design*, sec. 5.7 (best range and endurance
+       speeds).
+    """
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    factor, sr_label = _sr_display(airframe, units)
+    fig = Figure(figsize=PLOT_SIZE)
+    ax_v = fig.add_axes((0.085, 0.34, 0.42, 0.54))
+    ax_sr = fig.add_axes((0.56, 0.34, 0.42, 0.54), sharey=ax_v)
+    cases = [("calm air", calm, "-", True)]
+    if wind is not None:
+        cases.append(("wind", wind, "--", False))
+    best_lines = []
+    for case, best, style, filled in cases:
+        h = best.altitudes * fa
+        every = _every(h.size, 10)
+        for k, objective in enumerate(OBJECTIVES):
+            colour, marker = OBJECTIVE_STYLES[objective]
+            ax_v.plot(best.schedule.tas[objective] * fs, h, color=colour, linestyle=style,
+                      marker=marker, markevery=(k * every // 3, every), markersize=5,
+                      linewidth=1.6, markerfacecolor=colour if filled else "white")
+        sr = np.where(best.feasible, best.points.specific_range_ground, np.nan) * factor
+        ax_sr.plot(sr, h, color="black", linestyle=style, marker="o", markevery=every,
+                   markersize=5, linewidth=1.6, markerfacecolor="black" if filled else "white")
+        i = best.best_index
+        if i >= 0:
+            ax_sr.plot(sr[i], h[i], marker="*", markersize=16, linestyle="none", zorder=6,
+                       markerfacecolor=OKABE_ITO["orange"] if filled else "white",
+                       markeredgecolor="black", clip_on=False)
+            best_lines.append(f"{case}: {h[i]:.0f} {la}, {sr[i]:.3g} {sr_label} at "
+                              f"{best.points.tas[i] * fs:.0f} {ls} TAS")
+        else:
+            best_lines.append(f"{case}: no flyable altitude")
+    objective = calm.objective
+    fig.text(0.62, 0.235, f"Best altitude for {objective}:\n" + "\n".join(best_lines),
+             fontsize=MIN_FONT + 1, va="top", ha="left",
+             bbox=dict(boxstyle="round,pad=0.4", fc="white", ec="0.4"))
+    ax_v.set_xlabel(f"best true airspeed, TAS [{ls}]", fontsize=9.5)
+    ax_v.set_ylabel(f"pressure altitude [{la}]", fontsize=9.5)
+    ax_sr.set_xlabel(f"ground specific range at best-{objective} TAS [{sr_label}]",
+                     fontsize=9.5)
+    ax_sr.tick_params(labelleft=False)
+    for ax in (ax_v, ax_sr):
+        ax.tick_params(labelsize=8.5)
+        ax.grid(True, color="0.85", linewidth=0.6)
+    handles = [Line2D([], [], color=OBJECTIVE_STYLES[o][0], marker=OBJECTIVE_STYLES[o][1],
+                      linewidth=1.6, markersize=5, label=f"best-{o} TAS" if o != "economy"
+                      else "economy TAS (99 % of best specific range)")
+               for o in OBJECTIVES]
+    handles += [Line2D([], [], color="black", marker="o", linewidth=1.6, markersize=5,
+                       label="ground specific range"),
+                Line2D([], [], color="0.3", linestyle="-", marker="o", markersize=5,
+                       markerfacecolor="0.3", label="calm air: solid, filled"),
+                Line2D([], [], color="0.3", linestyle="--", marker="o", markersize=5,
+                       markerfacecolor="white", label="wind: dashed, hollow"),
+                Line2D([], [], marker="*", markersize=13, linestyle="none",
+                       markerfacecolor=OKABE_ITO["orange"], markeredgecolor="black",
+                       label="best altitude")]
+    if wind is None:
+        handles = handles[:-2] + handles[-1:]
+    fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.06, 0.245), ncol=2,
+               fontsize=MIN_FONT + 0.5, frameon=False)
+    fig.suptitle(f"Best speeds and specific range by altitude \u2014 {airframe.name}",
+                 fontsize=11, y=0.975)
+    fig.text(0.5, 0.905, ("wind: " + wind_text if wind is not None else "calm air only")
+             + "; speeds within the stall margin and the power available",
+             fontsize=MIN_FONT + 1, ha="center")
+    _footer(fig, _context(airframe, calm.points.mass, calm.points.store,
+                          _isa_dev(calm.schedule.air), units))
+    return fig
+
+

@@ -1,0 +1,105 @@
+"""Mission profile: altitude and fuel or energy remaining along the route."""
+
+from __future__ import annotations
+
+import textwrap
+
+import numpy as np
+from matplotlib.figure import Figure
+
+from ..reports import display
+from ._style import (
+    MIN_FONT,
+    OKABE_ITO,
+    PLOT_SIZE,
+    _context,
+    _footer,
+)
+
+# --- mission profile ------------------------------------------------------------------------
+
+def mission_profile(plan, *, units: str | None = None) -> Figure:
+    """Altitude and fuel or energy remaining against distance along a planned mission.
+
+    Parameters
+    ----------
+    plan : Plan
+        A planned mission (:func:`cruiseplan.mission.plan_mission`).
+    units : {"aviation", "si"}, optional
+        Display units; aviation for piston airframes, SI for electric ones by default.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        Two panels sharing the distance axis: the vertical profile with each leg's highest
+        ground, and the store remaining with the reserve line; the verdict in the title.
+    """
+    mission = plan.mission
+    af = mission.airframe
+    prop = af.propulsion
+    units = units or ("aviation" if prop.store_name == "fuel" else "si")
+    fa, la = display("altitude", units)
+    fd, ld = display("distance", units)
+    if prop.store_name == "fuel":
+        fq, lq = display("volume", units)
+        fq /= prop.fuel_density
+        what = "fuel remaining"
+    else:
+        fq, lq = display("energy", units)
+        what = "usable energy remaining"
+    # Points at every segment boundary: altitude and remaining vary linearly within one.
+    x, h, q = [0.0], [plan.segments[0].altitude_start], [plan.initial]
+    for seg in plan.segments:
+        x.append(x[-1] + seg.distance)
+        h.append(seg.altitude_end)
+        q.append(seg.remaining)
+    x, h, q = np.array(x) * fd, np.array(h) * fa, np.array(q) * fq
+    fig = Figure(figsize=PLOT_SIZE)
+    ax_h = fig.add_axes((0.09, 0.55, 0.86, 0.33))
+    ax_q = fig.add_axes((0.09, 0.17, 0.86, 0.33), sharex=ax_h)
+    ax_h.plot(x, h, color=OKABE_ITO["blue"], linewidth=2.0, marker="o", markersize=3.5,
+              label="pressure altitude flown")
+    from ..mission import ground_elevation
+
+    start = 0.0
+    for k, leg in enumerate(mission.legs):
+        end = start + leg.distance * fd
+        g = ground_elevation(mission, leg) * fa
+        ax_h.fill_between([start, end], 0, g, color="0.75", hatch="...", edgecolor="0.45",
+                          linewidth=0.0, label="highest ground (leg)" if k == 0 else None)
+        if leg.max_agl is not None:
+            cap = (ground_elevation(mission, leg) + leg.max_agl) * fa
+            ax_h.plot([start, end], [cap, cap], color=OKABE_ITO["vermillion"],
+                      linestyle="--", linewidth=1.4,
+                      label="height cap above ground" if k == 0 else None)
+        ax_h.axvline(end, color="0.6", linewidth=0.8, linestyle=":")
+        ax_h.text(0.5 * (start + end), 1.01, leg.name, transform=ax_h.get_xaxis_transform(),
+                  ha="center", va="bottom", fontsize=MIN_FONT, rotation=0, clip_on=False)
+        start = end
+    ax_q.plot(x, q, color=OKABE_ITO["green"], linewidth=2.0, marker="s", markersize=3.5,
+              label=what)
+    reserve = plan.reserve_required * fq
+    ax_q.axhline(reserve, color=OKABE_ITO["vermillion"], linestyle="--", linewidth=1.5,
+                 label=f"reserve required ({plan.reserve_text})")
+    ax_q.fill_between(x, 0, reserve, color=OKABE_ITO["vermillion"], alpha=0.12,
+                      hatch="///", edgecolor=OKABE_ITO["vermillion"], linewidth=0.0)
+    ax_h.set_ylabel(f"pressure altitude [{la}]", fontsize=9.5)
+    ax_q.set_ylabel(f"{what} [{lq}]", fontsize=9.5)
+    ax_q.set_xlabel(f"distance along the route [{ld}]", fontsize=9.5)
+    ax_h.tick_params(labelbottom=False, labelsize=8.5)
+    ax_q.tick_params(labelsize=8.5)
+    ax_q.set_ylim(bottom=min(0.0, float(np.min(q)) * 1.05))
+    ax_h.set_ylim(bottom=0.0)
+    for ax in (ax_h, ax_q):
+        ax.grid(True, color="0.85", linewidth=0.6)
+        ax.legend(loc="best", fontsize=MIN_FONT + 0.5, framealpha=0.9)
+    verdict = plan.verdict if plan.go else "NO-GO: " + "; ".join(plan.reasons)
+    fig.suptitle(f"Mission profile \u2014 {mission.name} ({af.name})", fontsize=11,
+                 y=0.985)
+    fig.text(0.5, 0.925, textwrap.shorten(f"VERDICT {verdict}", 150), ha="center",
+             fontsize=MIN_FONT + 1.5, weight="bold",
+             color="black" if plan.go else OKABE_ITO["vermillion"])
+    _footer(fig, _context(af, plan.takeoff_mass, plan.initial, mission.isa_dev, units))
+    return fig
+
+
