@@ -17,6 +17,7 @@ from pathlib import Path
 from .aerodynamics import ParabolicPolar, TabulatedPolar, induced_drag_factor
 from .airframe import Airframe
 from .errors import AirframeFileError, UnitError
+from .paths import AIRFRAME_DIRS
 from .propulsion import (
     FUELS,
     POWER_LAPSE_LAWS,
@@ -26,10 +27,8 @@ from .propulsion import (
 )
 from .units import parse_quantity
 
-_PACKAGE_DIR = Path(__file__).resolve().parent
-#: Where bundled airframes live: inside the package when installed from a wheel, else the
-#: repository's ``airframes/`` folder (editable install, as `make` sets up).
-BUNDLED_DIRS = (_PACKAGE_DIR / "_bundled" / "airframes", _PACKAGE_DIR.parent / "airframes")
+#: Where bundled airframes live (see :mod:`cruiseplan.paths`).
+BUNDLED_DIRS = AIRFRAME_DIRS
 
 
 @dataclass(frozen=True)

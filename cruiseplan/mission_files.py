@@ -25,11 +25,12 @@ from pathlib import Path
 from .airframe_files import find_airframe, read_airframe
 from .errors import AirframeFileError, CruiseplanError, MissionFileError, UnitError
 from .mission import FT, Leg, Mission, Profile, Reserve
+from .paths import MISSION_DIRS
 from .units import parse_quantity, temperature_difference
 from .winds import WindProfile, parse_wind_profile
 
-_PACKAGE_DIR = Path(__file__).resolve().parent
-BUNDLED_DIRS = (_PACKAGE_DIR / "_bundled" / "missions", _PACKAGE_DIR.parent / "missions")
+#: Where bundled missions live (see :mod:`cruiseplan.paths`).
+BUNDLED_DIRS = MISSION_DIRS
 
 _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty"}
 _MISSION_FIELDS = {"name", "description", "airframe", "takeoff_mass", "fuel", "battery",

@@ -11,6 +11,7 @@ from datetime import date
 import numpy as np
 
 from .constants import T_ZERO_C
+from .paths import shown_path
 from .performance import LIMIT_CODE, LIMIT_TEXT, CruisePoints
 from .reports import Column, Report, display, hours_minutes
 
@@ -23,14 +24,8 @@ def _cautions():
 
 def airframe_lines(airframe) -> list:
     """Header lines naming the airframe and its file with a checksum."""
-    from pathlib import Path
-
-    from .airframe_files import BUNDLED_DIRS
-
-    src = Path(airframe.source)
-    shown = f"bundled {src.name}" if src.parent in BUNDLED_DIRS else str(src)
     return [f"Airframe: {airframe.name} - {airframe.description}",
-            f"File: {shown} (sha256 {airframe.checksum[:16]})"]
+            f"File: {shown_path(airframe.source)} (sha256 {airframe.checksum[:16]})"]
 
 
 def store_text(airframe, store: float, units: str) -> str:
@@ -373,7 +368,7 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
     n_legs = len(mission.legs)
     meta = [f"VERDICT: {verdict}",
             f"Mission: {mission.name} - {mission.description}",
-            f"File: {mission.source}"] + airframe_lines(af) + [
+            f"File: {shown_path(mission.source)}"] + airframe_lines(af) + [
         f"Take-off mass {plan.takeoff_mass * fm:.1f} {lm}; "
         f"{store_text(af, plan.initial, units)}",
         f"Day: ISA {mission.isa_dev:+.1f} K; altitudes are pressure altitudes (PA)",
