@@ -1,7 +1,8 @@
 """Where the bundled airframe and mission files live.
 
-Inside the package (``_bundled/``) when installed from a wheel, else the repository's
-``airframes/`` and ``missions/`` folders (the editable install that ``make`` sets up).
+They are read from the repository's ``airframes/`` and ``missions/`` folders beside the
+package (the editable install that ``make`` sets up). A packaged build may copy them into
+``cruiseplan/_bundled/``, which is searched first.
 """
 
 from pathlib import Path
