@@ -152,14 +152,41 @@ def _closed_form_ok(airframe, headwind, crosswind) -> bool:
             and np.all(np.asarray(headwind) == 0) and np.all(np.asarray(crosswind) == 0))
 
 
-def _window(airframe, mass, air, lo, hi, reserve_rate, shaft):
-    """Speeds where eta (P_av - P_req) >= W x reserve rate; NaN where none."""
+def climb_rate(airframe, mass, air: AirState, tas):
+    r"""Steady climb rate at full throttle, :math:`\eta_p(V) (P_{av} - P_{req}(V)) / W`.
+
+    Small climb angle: power required is that of level flight at the same speed.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : array_like
+        Mass [kg].
+    air : AirState
+        Air states, broadcastable against ``tas``.
+    tas : array_like
+        True airspeed [m/s].
+
+    Returns
+    -------
+    numpy.ndarray
+        Climb rate [m/s] (negative: cannot hold altitude at this speed).
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10, eq. 5.77.
+    """
     prop = airframe.propulsion
-    avail = prop.shaft_power_available(air.sigma)
-    weight = mass * G0
+    excess = prop.shaft_power_available(air.sigma) - _shaft_power(airframe, mass, air, tas)
+    return prop.propeller(tas) * excess / (mass * G0)
+
+
+def _window(airframe, mass, air, lo, hi, reserve_rate):
+    """Speeds where the climb rate is at least ``reserve_rate``; NaN where none."""
 
     def excess(v):
-        return prop.propeller(v) * (avail - shaft(v)) - weight * reserve_rate
+        return climb_rate(airframe, mass, air, v) - reserve_rate
 
     # v_x only splits the bracket for the two roots: modest precision is enough.
     v_x = brent_minimise(lambda v: -excess(v), lo, hi, xtol_rel=1e-6)
@@ -318,17 +345,13 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
     v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
-
-    def shaft(v):
-        return _shaft_power(airframe, mass, air, v)
-
     free = _free_speeds(airframe, mass, air, store, hw, cw, OBJECTIVES)
     v_range, v_end, v_econ = free["range"], free["endurance"], free["economy"]
 
     # Windows: with and without the climb reserve, to tell which one binds.
-    p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0, shaft)
+    p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0)
     if climb_reserve > 0:
-        c_lo, c_hi, c_ok = _window(airframe, mass, air, lo, hi, climb_reserve, shaft)
+        c_lo, c_hi, c_ok = _window(airframe, mass, air, lo, hi, climb_reserve)
     else:
         c_lo, c_hi, c_ok = p_lo, p_hi, p_ok
     v_margin = stall_margin * v_s
@@ -639,16 +662,10 @@ def max_climb_rate(airframe, mass, air: AirState):
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10, eq. 5.77.
     """
-    prop = airframe.propulsion
-    avail = prop.shaft_power_available(air.sigma)
     v_s = airframe.stall_speed(mass, air.density)
-    weight = mass * G0
-
-    def rate(v):
-        return prop.propeller(v) * (avail - _shaft_power(airframe, mass, air, v)) / weight
-
-    v = brent_minimise(lambda x: -rate(x), v_s, MACH_LIMIT * air.speed_of_sound)
-    return rate(v), v
+    v = brent_minimise(lambda x: -climb_rate(airframe, mass, air, x), v_s,
+                       MACH_LIMIT * air.speed_of_sound)
+    return climb_rate(airframe, mass, air, v), v
 
 
 @dataclass(frozen=True)
