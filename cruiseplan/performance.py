@@ -30,7 +30,7 @@ import numpy as np
 
 from . import airspeed as _airspeed
 from ._numerics import brent_minimise, illinois_root
-from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state
+from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state, check_altitude
 from .errors import CruiseplanError
 from .units import temperature_difference, to_si
 
@@ -290,6 +290,15 @@ def _air_column(altitudes, isa_dev):
     return air.column(), valid[:, None]
 
 
+def _grid_inputs(airframe, altitudes, mass, fuel, payload, isa_dev, headwind):
+    """Public-API inputs of a grid in SI: loading, air column, valid rows, headwind column."""
+    h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
+    loading = resolve_loading(airframe, mass, fuel, payload)
+    air, valid = _air_column(h, temperature_difference(isa_dev))
+    wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
+    return loading, air, valid, wind
+
+
 def _column(value, n, what):
     arr = np.asarray(value, dtype=float)
     if arr.ndim == 0:
@@ -333,13 +342,11 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, ch. 5.
     """
-    h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
     v = np.atleast_1d(to_si(tas, "m/s", what="tas"))
     if v.ndim != 1 or np.any(v <= 0):
         raise CruiseplanError("tas must be a one-dimensional array of positive speeds")
-    loading = resolve_loading(airframe, mass, fuel, payload)
-    air, valid = _air_column(h, temperature_difference(isa_dev))
-    wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
+    loading, air, valid, wind = _grid_inputs(airframe, altitudes, mass, fuel, payload,
+                                             isa_dev, headwind)
     return cruise_points(airframe, loading.mass, air, v[None, :], loading.store,
                          headwind=wind, stall_margin=stall_margin, valid_air=valid)
 
@@ -521,16 +528,12 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.5.
     """
-    h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
     frac = np.atleast_1d(np.asarray(power_settings, dtype=float))
     if frac.ndim != 1 or np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
         raise CruiseplanError("power settings must be fractions of rated power in (0, 1]")
-    loading = resolve_loading(airframe, mass, fuel, payload)
-    air, valid = _air_column(h, temperature_difference(isa_dev))
-    if not np.all(valid):
-        from .atmosphere import check_altitude
-
-        check_altitude(h)
-    wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
+    # The speed searches need real air: altitudes outside the model are an error here.
+    check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
+    loading, air, _, wind = _grid_inputs(airframe, altitudes, mass, fuel, payload, isa_dev,
+                                         headwind)
     return power_setting_points(airframe, loading.mass, air, frac[None, :], loading.store,
                                 stall_margin=stall_margin, headwind=wind)
