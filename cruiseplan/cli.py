@@ -149,6 +149,18 @@ def _parse_store(airframe, text: str):
                     "('55 kg') nor a percentage ('80%')")
 
 
+def _power_settings(text: str):
+    """``--power 55,65,75`` as fractions of rated power."""
+    import numpy as np
+
+    from .units import parse_range
+
+    frac = parse_range(text, "", default_unit="percent", what="--power")
+    if np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
+        raise UnitError(f"--power: {text!r} must be percentages of rated power in (0, 100]")
+    return frac
+
+
 def _emit(text: str, output: str | None):
     if output:
         from .reports import write_atomic
@@ -237,10 +249,7 @@ def cmd_table(args):
         title = "Cruise table by true airspeed"
     else:
         text = args.power or "55,65,75"
-        frac = parse_range(text, "", default_unit="percent", what="--power")
-        if np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
-            raise UnitError(f"--power: {text!r} must be percentages of rated power in (0, 100]")
-        pts = power_setting_table(af, h, frac, **common)
+        pts = power_setting_table(af, h, _power_settings(text), **common)
         title = "Cruise table by power setting"
     rep = cruise_report(af, pts, isa_dev=dev, units=units, title=title,
                         stall_margin=args.stall_margin, show_ground=wind != 0.0)
@@ -499,8 +508,6 @@ def cmd_card(args):
     """Write the one-page cruise card FILE.pdf and its markdown twin FILE.md."""
     from pathlib import Path
 
-    import numpy as np
-
     from .airframe_files import load_airframe
     from .units import parse_quantity, parse_range
 
@@ -511,10 +518,7 @@ def cmd_card(args):
         h = parse_range(args.altitudes, "m", default_unit="ft", what="--altitudes")
     frac = None
     if args.power:
-        frac = parse_range(args.power, "", default_unit="percent", what="--power")
-        if np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
-            raise UnitError(f"--power: {args.power!r} must be percentages of rated power "
-                            "in (0, 100]")
+        frac = _power_settings(args.power)
     dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
 
     from . import plots
