@@ -11,7 +11,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .aerodynamics import speed_for_lift_coefficient
+from .aerodynamics import lift_coefficient, speed_for_lift_coefficient
 from .constants import G0
 from .errors import CruiseplanError, CruiseplanWarning
 
@@ -108,10 +108,9 @@ class Airframe:
         .. [1] J. D. Anderson, *Aircraft Performance and Design*, 1999, sec. 5.3.
         """
         tas = np.asarray(tas, dtype=float)
-        q_s = 0.5 * air.density * tas * tas * self.wing_area
-        cl = mass * G0 / q_s
+        cl = lift_coefficient(mass, air.density, tas, self.wing_area)
         cd = self.polar.drag_coefficient(cl, tas, air)
-        drag = q_s * cd
+        drag = mass * G0 * cd / cl  # lift = weight, drag = lift / (L/D)
         return dict(cl=cl, cd=cd, drag=drag, shaft=drag * tas / self.propulsion.propeller(tas))
 
     def model_limits(self, flight, tas, stall_margin, air=None):

@@ -63,11 +63,6 @@ class Tolerance:
             delta = self.low + (self.high - self.low) * np.asarray(u)
         return np.maximum(1.0 + delta, 0.05)
 
-    @property
-    def is_zero(self) -> bool:
-        """True when it spreads nothing."""
-        return (self.kind == "normal" and self.sd == 0) or (self.low == self.high == 0)
-
 
 @dataclass(frozen=True)
 class WindTolerance:
