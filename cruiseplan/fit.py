@@ -65,6 +65,9 @@ from .errors import CruiseplanError
 #: Largest |externally studentised residual| of a point kept in the fit (common practice,
 #: no source).
 OUTLIER_LIMIT = 3.0
+#: Relative residual below which no point is called an outlier: an exact fit leaves
+#: residuals at rounding level, whose studentised values are noise.
+RESIDUAL_FLOOR = 1e-9
 #: Fewest points a fit needs.
 MIN_POINTS = 5
 #: Fitted parameters, in the order of the parameter vector.
@@ -563,9 +566,9 @@ def fit_polar(thrust_power, tas, density, mass, *, wing_area, aspect_ratio, refe
     p = int(free.sum())
     warn = []
     theta = _solve(theta0, free, piw, viw, shape)
-    _, _, _, t_all, _ = _statistics(theta, free, piw, viw, shape)
+    _, r_all, _, t_all, _ = _statistics(theta, free, piw, viw, shape)
     used = np.ones(n, dtype=bool)
-    flagged = np.abs(t_all) > outlier_limit
+    flagged = (np.abs(t_all) > outlier_limit) & (np.abs(r_all) > RESIDUAL_FLOOR)
     if np.any(flagged):
         if n - int(flagged.sum()) >= max(MIN_POINTS, p + 3):
             used = ~flagged
