@@ -17,7 +17,7 @@ from pathlib import Path
 import numpy as np
 
 import cruiseplan as cp
-from cruiseplan.atmosphere import isa_temperature_pressure
+from cruiseplan.physics.atmosphere import isa_temperature_pressure
 
 
 def best_of(fn, repeat=5):

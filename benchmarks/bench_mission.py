@@ -11,8 +11,9 @@ import time
 import numpy as np
 
 import cruiseplan as cp
-from cruiseplan.mission import Leg, Mission, Profile, Reserve, plan_mission
-from cruiseplan.winds import parse_wind_profile
+from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.planning.mission import plan_mission
 
 
 def main():

@@ -16,10 +16,10 @@ import numpy as np
 from scipy.optimize import brentq, minimize_scalar
 
 import cruiseplan as cp
-from cruiseplan.aerodynamics import speed_for_lift_coefficient
-from cruiseplan.atmosphere import air_state
-from cruiseplan.optimise import best_cruise
-from cruiseplan.performance import _shaft_power
+from cruiseplan.physics.aerodynamics import speed_for_lift_coefficient
+from cruiseplan.physics.atmosphere import air_state
+from cruiseplan.planning.optimise import best_cruise
+from cruiseplan.planning.performance import shaft_power_required
 
 
 def loop_reference(af, h, headwind, mass, store):
@@ -35,13 +35,13 @@ def loop_reference(af, h, headwind, mass, store):
         avail = float(prop.shaft_power_available(air.sigma))
 
         def rng(v, air=air):
-            return (v - headwind) * prop.endurance(store, _shaft_power(af, mass, air, v))
+            return (v - headwind) * prop.endurance(store, shaft_power_required(af, mass, air, v))
 
         def power(v, air=air):
-            return _shaft_power(af, mass, air, v)
+            return shaft_power_required(af, mass, air, v)
 
         def excess(v, air=air):
-            return prop.propeller(v) * (avail - _shaft_power(af, mass, air, v))
+            return prop.propeller(v) * (avail - shaft_power_required(af, mass, air, v))
 
         vr = minimize_scalar(lambda v: -rng(v), bounds=(lo, top), method="bounded",
                              options=opts).x

@@ -12,9 +12,11 @@ import time
 import numpy as np
 
 import cruiseplan as cp
-from cruiseplan.mission import Leg, Mission, Profile, Reserve, plan_mission
-from cruiseplan.uncertainty import WindTolerance, plan_uncertainty
-from cruiseplan.winds import parse_wind_profile
+from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.model.tolerance import WindTolerance
+from cruiseplan.planning.mission import plan_mission
+from cruiseplan.planning.uncertainty import plan_uncertainty
 
 
 def main():

@@ -8,41 +8,49 @@ The public API accepts pint Quantities or SI floats and returns SI floats::
     import cruiseplan as cp
     af = cp.load_airframe("demo-trainer")
     grid = cp.cruise_grid(af, altitudes=[0, 1000, 2000], tas=[45, 50, 55])
+    plan = cp.plan_mission(cp.load_mission("demo-cross-country"))
+
+Layers, from the bottom: units, constants, errors, limits and cautions; ``physics``;
+``kinds`` (airframe kinds behind one protocol); ``model`` (missions and tolerances as
+data); ``planning``; ``io`` (files in); ``report``; ``plots``; ``cli``.
 """
 
-from .airframe import Airframe, Loading
-from .airframe_files import bundled_airframes, load_airframe, read_airframe
-from .atmosphere import AirState, air_state, density_altitude
-from .errors import (
+from cruiseplan.cautions import CAUTION_LINE, CAUTIONS
+from cruiseplan.errors import (
     AirframeFileError,
     AtmosphereRangeError,
     CruiseplanError,
     CruiseplanWarning,
+    LogFileError,
+    MissionFileError,
     UnitError,
 )
-from .performance import (
+from cruiseplan.io.airframe_file import bundled_airframes, load_airframe, read_airframe
+from cruiseplan.io.mission_file import bundled_missions, load_mission, read_mission
+from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.kinds import KINDS, Airframe, FixedWing, LevelFlight, Loading, Multirotor
+from cruiseplan.limits import Limit, describe, explain
+from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.physics.atmosphere import AirState, air_state, density_altitude
+from cruiseplan.physics.winds import WindProfile
+from cruiseplan.planning.mission import Plan, Segment, plan_mission
+from cruiseplan.planning.optimise import BestCruise, best_cruise, ceilings
+from cruiseplan.planning.performance import (
     CruisePoints,
-    Limit,
     cruise_grid,
     cruise_points,
-    explain,
     power_setting_table,
 )
-
-__version__ = "0.1.0"
-
-#: Cautions printed with every table, card and plan.
-CAUTIONS = (
-    "Planning aid only: not a substitute for the approved flight manual (AFM/POH), "
-    "licensed flight planning or local rules, which come first.",
-    "Figures come from a physics model of the airframe file; real aircraft, engines, "
-    "batteries and weather differ. Verify against the flight manual and add margins.",
-    "Reserves shown are those you set; local rules decide the minimum reserve.",
-)
+from cruiseplan.version import __version__
 
 __all__ = [
-    "Airframe", "Loading", "AirState", "CruisePoints", "Limit", "CAUTIONS",
-    "AirframeFileError", "AtmosphereRangeError", "CruiseplanError", "CruiseplanWarning",
-    "UnitError", "air_state", "bundled_airframes", "cruise_grid", "cruise_points",
-    "density_altitude", "explain", "load_airframe", "power_setting_table", "read_airframe",
+    "KINDS", "Airframe", "AirframeFileError", "AirState", "AtmosphereRangeError",
+    "BestCruise", "CAUTIONS", "CAUTION_LINE", "CruisePoints", "CruiseplanError",
+    "CruiseplanWarning", "FixedWing", "Leg", "LevelFlight", "Limit", "Loading",
+    "LogFileError", "Mission", "MissionFileError", "Multirotor", "Plan", "Profile",
+    "Reserve", "Segment", "UnitError", "WindProfile", "__version__", "air_state",
+    "best_cruise", "bundled_airframes", "bundled_missions", "ceilings", "cruise_grid",
+    "cruise_points", "density_altitude", "describe", "explain", "load_airframe",
+    "load_mission", "parse_wind_profile", "plan_mission", "power_setting_table",
+    "read_airframe", "read_mission",
 ]

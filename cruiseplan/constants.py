@@ -31,3 +31,16 @@ S_SUTH = 110.4
 T_ZERO_C = 273.15
 #: Mean Earth radius for great-circle navigation [m] (IUGG mean radius R1).
 R_EARTH_MEAN = 6371008.8
+
+# --- Conventions and conversion factors, defined once ----------------------------------
+
+#: International foot [m].
+FT = 0.3048
+#: International nautical mile [m].
+NMI = 1852.0
+#: Foot per minute [m/s].
+FT_PER_MIN = FT / 60.0
+#: Default stall margin: cruise at or above 1.3 x stall speed (common practice, no source).
+DEFAULT_STALL_MARGIN = 1.3
+#: Mach number above which the incompressible drag polar is not trusted (common practice).
+MACH_LIMIT = 0.6

@@ -18,7 +18,7 @@ import re
 
 import numpy as np
 
-from .errors import UnitError
+from cruiseplan.errors import UnitError
 
 #: SI unit of each physical kind used by cruiseplan (the core's units).
 SI_UNITS = {
@@ -78,7 +78,19 @@ def registry():
     return ureg
 
 
-def _normalise_unit(unit: str) -> str:
+def normalise_unit(unit: str) -> str:
+    """Unit text with the aviation spellings pint misreads replaced (``nm`` -> ``nmi``).
+
+    Parameters
+    ----------
+    unit : str
+        A unit expression as written.
+
+    Returns
+    -------
+    str
+        The expression pint reads as meant.
+    """
     for pattern, repl in _ALIASES:
         unit = pattern.sub(repl, unit)
     return unit.strip()
@@ -108,7 +120,7 @@ def conversion_factor(from_unit: str, to_unit: str) -> float:
     float
         The multiplicative conversion factor.
     """
-    return _factor(_normalise_unit(from_unit), _normalise_unit(to_unit))
+    return _factor(normalise_unit(from_unit), normalise_unit(to_unit))
 
 
 def parse_quantity(text, si_unit: str, *, default_unit: str | None = None,
@@ -152,7 +164,7 @@ def parse_quantity(text, si_unit: str, *, default_unit: str | None = None,
         raise UnitError(f"{what}: cannot read {text!r} as a number with a unit "
                         f"(expected e.g. '12 {si_unit or 'units'}')")
     number = float(match.group(1))
-    unit = _normalise_unit(match.group(2))
+    unit = normalise_unit(match.group(2))
     if not unit:
         unit = default_unit or si_unit
     if delta_temperature:

@@ -17,10 +17,10 @@ from pathlib import Path
 import numpy as np
 
 import cruiseplan as cp
-from cruiseplan.airspeed import tas_from_cas
-from cruiseplan.atmosphere import air_state
 from cruiseplan.constants import G0
-from cruiseplan.performance import cruise_points
+from cruiseplan.physics.airspeed import tas_from_cas
+from cruiseplan.physics.atmosphere import air_state
+from cruiseplan.planning.performance import cruise_points
 
 SEED = 7
 OUT = Path(__file__).resolve().parent / "demo-trainer-flight-test.csv"

@@ -9,11 +9,11 @@ import pytest
 from scipy.optimize import minimize_scalar
 
 import cruiseplan as cp
-from cruiseplan import aerodynamics as aero
-from cruiseplan.airframe import Airframe
-from cruiseplan.performance import Limit, cruise_points
-from cruiseplan.performance import speed_for_min_power as engine_min_power_speed
-from cruiseplan.propulsion import PistonPropeller, PropellerEfficiency
+from cruiseplan.kinds import FixedWing
+from cruiseplan.physics import aerodynamics as aero
+from cruiseplan.physics.propulsion import PistonPropeller, PropellerEfficiency
+from cruiseplan.planning.performance import Limit, cruise_points
+from cruiseplan.planning.performance import speed_for_min_power as engine_min_power_speed
 
 G0 = 9.80665
 MPH = 0.44704  # statute mile per hour [m/s], exact
@@ -135,7 +135,7 @@ def test_tabulated_polar_exact_at_points_linear_between():
 
 def test_tabulated_polar_points_outside_are_flagged_in_cruise(trainer):
     polar = aero.TabulatedPolar(TAB_CL, TAB_CD)
-    af = Airframe(**{**trainer.__dict__, "polar": polar})
+    af = FixedWing(**{**trainer.__dict__, "polar": polar})
     air = cp.air_state(np.array([0.0])).column()
     # CL = m g / (0.5 rho V^2 S): 760 kg at sea level, CL from 1.76 (30 m/s) to 0.07 (85 m/s).
     tas = np.array([[30.0, 40.0, 60.0, 85.0]])
@@ -151,7 +151,7 @@ def test_tabulated_polar_points_outside_are_flagged_in_cruise(trainer):
 # --- the identities inside the cruise engine -----------------------------------------------------
 
 def _constant_eta_airframe(trainer, cd0=0.036, k=0.05, eta=0.8):
-    return Airframe(**{**trainer.__dict__, "polar": aero.ParabolicPolar(cd0, k),
+    return FixedWing(**{**trainer.__dict__, "polar": aero.ParabolicPolar(cd0, k),
                        "propulsion": PistonPropeller(
                            rated_power=200e3, bsfc=7.6e-8,
                            propeller=PropellerEfficiency((0.0,), (eta,)), fuel="avgas",

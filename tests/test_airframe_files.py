@@ -8,7 +8,7 @@ import re
 import pytest
 
 import cruiseplan as cp
-from cruiseplan.airframe_files import bundled_airframes, find_airframe
+from cruiseplan.io.airframe_file import bundled_airframes, find_airframe
 from cruiseplan.units import parse_quantity
 
 KT = 1852.0 / 3600.0  # knot [m/s], exact

@@ -10,7 +10,7 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 import cruiseplan as cp
-from cruiseplan import airspeed as asp
+from cruiseplan.physics import airspeed as asp
 
 FT = 0.3048  # international foot [m], exact
 KT = 1852.0 / 3600.0  # knot [m/s], exact

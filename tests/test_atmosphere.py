@@ -13,7 +13,7 @@ from hypothesis import assume, example, given
 from hypothesis import strategies as st
 
 import cruiseplan as cp
-from cruiseplan.atmosphere import check_altitude
+from cruiseplan.physics.atmosphere import check_altitude
 
 FT = 0.3048  # international foot [m], exact by definition
 R0_1976 = 6356766.0  # Earth radius of the 1976 standard for geopotential height [m]

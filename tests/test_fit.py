@@ -17,10 +17,11 @@ import numpy as np
 import pytest
 
 import cruiseplan as cp
-from cruiseplan.airspeed import cas_from_tas
 from cruiseplan.cli import main
 from cruiseplan.errors import CruiseplanError, CruiseplanWarning, LogFileError
-from cruiseplan.fit import (
+from cruiseplan.io.flightlog import fitted_airframe_text, read_flight_log
+from cruiseplan.physics.airspeed import cas_from_tas
+from cruiseplan.planning.fit import (
     fit_flight_log,
     fit_polar,
     piw_coefficients,
@@ -28,7 +29,6 @@ from cruiseplan.fit import (
     sensitivity_rank,
     thrust_power,
 )
-from cruiseplan.flightlog import fitted_airframe_text, read_flight_log
 
 G0, RHO0 = 9.80665, 1.225
 FT, KT, LB = 0.3048, 1852.0 / 3600.0, 0.45359237
@@ -159,7 +159,7 @@ def test_efficiency_is_confounded_with_the_polar_and_held():
     assert "confounded (sensitivity rank 2 of 3)" in res.efficiency_note
     assert res.parameters == ("cd0", "oswald_e")
     # The sensitivity matrix of (CD0, e, c) has rank 2 exactly.
-    from cruiseplan.fit import _model
+    from cruiseplan.planning.fit import _model
 
     theta = np.array([CD0, E, 1.0])
     piw, viw = piw_viw(power, tas, rho, mass, W_REF)
@@ -220,7 +220,7 @@ def test_power_source_chains(trainer, drone):
 def test_multirotor_is_refused():
     quad = cp.load_airframe("demo-mapping-quad")
     mass, rho, tas, _ = test_matrix()
-    from cruiseplan.flightlog import FlightLog
+    from cruiseplan.io.flightlog import FlightLog
 
     log = FlightLog("x.csv", "0" * 64, np.arange(20), np.zeros(20), np.full(20, 288.0), rho,
                     tas, mass, "electric_power", np.full(20, 300.0), None, None, (), "tas")

@@ -12,11 +12,12 @@ from hypothesis import strategies as st
 
 import cruiseplan as cp
 from cruiseplan.cli import main
-from cruiseplan.geo import great_circle
-from cruiseplan.mission import Leg, Mission, Profile, Reserve, plan_mission
-from cruiseplan.mission_files import load_mission, read_mission
-from cruiseplan.propulsion import PropellerEfficiency
-from cruiseplan.winds import parse_wind_profile
+from cruiseplan.io.mission_file import load_mission, read_mission
+from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.physics.geo import great_circle
+from cruiseplan.physics.propulsion import PropellerEfficiency
+from cruiseplan.planning.mission import plan_mission
 
 NM = 1852.0
 FT = 0.3048
@@ -54,7 +55,7 @@ def test_piston_cruise_with_burn_off_matches_breguet(trainer):
     cruise = [s for s in plan.segments if s.kind == "cruise"]
     assert len(cruise) == 1 and cruise[0].distance == pytest.approx(distance)
     pol, prop = trainer.polar, trainer.propulsion
-    ld = cp.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
+    ld = cp.physics.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
     m0 = 745.0
     m1 = m0 * np.exp(-distance * prop.bsfc * 9.80665 / (prop.propeller.efficiency[0] * ld))
     assert plan.used == pytest.approx(m0 - m1, rel=1e-3)
@@ -71,7 +72,7 @@ def test_battery_cruise_matches_the_electric_range_form(drone):
     plan = plan_mission(level_mission(drone, h, distance, stall_margin=1.0))
     prop, pol = drone.propulsion, drone.polar
     eta = prop.propeller.efficiency[0] * prop.motor_efficiency * prop.controller_efficiency
-    ld = cp.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
+    ld = cp.physics.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
     mass = drone.loading().mass
     assert plan.used == pytest.approx(distance * mass * 9.80665 / (eta * ld), rel=1e-3)
 
@@ -84,7 +85,7 @@ def test_peukert_battery_matches_the_published_example(drone):
     tas, h = 16.0, 100.0
     pts = cp.cruise_points(drone, drone.loading().mass, cp.air_state(h), tas,
                            drone.propulsion.battery_energy)
-    volts = float(pts.store_flow) / 5.0
+    volts = float(pts.source_power) / 5.0
     capacity = 100.0 ** (1 / 1.2) * 3600.0
     prop = replace(drone.propulsion, pack_voltage=volts, capacity=capacity,
                    battery_energy=volts * capacity, peukert_exponent=1.2, rating_time=3600.0,
@@ -130,7 +131,7 @@ def test_no_go_fuel_below_reserve(trainer):
     # 97 % of the Breguet range on the whole tank: lands with fuel, but not 45 minutes.
     pol, prop = trainer.polar, trainer.propulsion
     load = trainer.loading()
-    ld = cp.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
+    ld = cp.physics.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
     full = (prop.propeller.efficiency[0] * ld / (prop.bsfc * 9.80665)
             * np.log(load.mass / (load.mass - load.store)))
     m = level_mission(trainer, 1000.0, 0.97 * full, reserve=Reserve("time", 45 * 60.0))
@@ -200,7 +201,7 @@ def test_short_leg_is_not_flown_high(trainer):
 
     short, long = plan_for(12 * NM), plan_for(300 * NM)
     # Cruise alone is best high up (the strongest tailwind, 8000 ft) ...
-    cruise_only = cp.optimise.best_cruise(trainer, np.arange(1000, 9001, 500) * FT,
+    cruise_only = cp.planning.optimise.best_cruise(trainer, np.arange(1000, 9001, 500) * FT,
                                           wind=tail, course=90.0).best()["altitude"]
     assert cruise_only == pytest.approx(8000 * FT)
     # ... the long leg goes there, the short one stays well below it.

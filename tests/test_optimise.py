@@ -7,18 +7,19 @@ import pytest
 from scipy.optimize import brentq
 
 import cruiseplan as cp
-from cruiseplan.aerodynamics import min_drag_speed, min_power_speed
-from cruiseplan.atmosphere import air_state
-from cruiseplan.optimise import (
+from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.limits import Limit
+from cruiseplan.physics.aerodynamics import min_drag_speed, min_power_speed
+from cruiseplan.physics.atmosphere import air_state
+from cruiseplan.physics.propulsion import PropellerEfficiency
+from cruiseplan.physics.winds import WindProfile
+from cruiseplan.planning.optimise import (
     SERVICE_CEILING_RATE,
-    Constraint,
     best_cruise,
     ceilings,
     max_climb_rate,
     speed_schedule,
 )
-from cruiseplan.propulsion import PropellerEfficiency
-from cruiseplan.winds import WindProfile, parse_wind_profile
 
 ALTITUDES = np.linspace(0.0, 4000.0, 9)
 FT = 0.3048
@@ -191,7 +192,7 @@ def test_drone_ceiling_note_when_above_search(request):
 def test_ceiling_binds(trainer):
     b = best_cruise(trainer, np.arange(0, 4001, 500.0), ceiling=2000.0)
     assert b.best()["altitude"] == 2000.0
-    assert b.binding & Constraint.CEILING
+    assert b.binding & Limit.CEILING
     assert "ceiling" in b.best()["binding"]
     assert "altitude band ceiling" in b.reason(6)
 
@@ -200,14 +201,14 @@ def test_floor_binds():
     drone = cp.load_airframe("demo-survey-drone")
     b = best_cruise(drone, np.arange(0, 451, 50.0), floor=100.0)
     assert b.best()["altitude"] == 100.0
-    assert b.binding & Constraint.FLOOR
+    assert b.binding & Limit.FLOOR
     assert "floor" in b.best()["binding"]
 
 
 def test_height_above_ground_binds(trainer):
     b = best_cruise(trainer, np.arange(0, 4001, 500.0), max_agl=1000.0, elevation=500.0)
     assert b.best()["altitude"] == 1500.0
-    assert b.binding == Constraint.HEIGHT_AGL
+    assert b.binding == Limit.HEIGHT_AGL
     assert "maximum height above ground" in b.best()["binding"]
     assert "not flyable: maximum height above ground" == b.reason(4)
 
@@ -216,7 +217,7 @@ def test_stall_margin_binds():
     # The demo drone's (L/D)max lift coefficient (0.98) is above CLmax / 1.3^2 (0.77).
     drone = cp.load_airframe("demo-survey-drone")
     b = best_cruise(drone, [0.0, 100.0])
-    assert b.binding == Constraint.STALL_MARGIN
+    assert b.binding == Limit.STALL
     s = b.schedule
     np.testing.assert_allclose(s.tas["range"], 1.3 * s.stall_speed, rtol=1e-12)
     assert np.all(s.tas_unconstrained["range"] < s.tas["range"])
@@ -226,7 +227,7 @@ def test_stall_margin_binds():
 def test_power_binds_at_the_performance_ceiling(trainer):
     b = best_cruise(trainer, np.arange(0, 8001, 500.0), isa_dev=10)
     top = b.best()["altitude"]
-    assert b.binding & Constraint.POWER
+    assert b.binding & Limit.POWER
     # One step higher the power available either cannot hold level flight or pushes the
     # speed off best range; both are reported.
     above = int(np.flatnonzero(b.altitudes > top)[0])
@@ -239,7 +240,7 @@ def test_climb_reserve_binds(trainer):
     free = best_cruise(trainer, np.arange(0, 5001, 500.0))
     held = best_cruise(trainer, np.arange(0, 5001, 500.0), climb_reserve=2.0)
     assert held.best()["altitude"] < free.best()["altitude"]
-    assert held.binding & Constraint.CLIMB_RESERVE
+    assert held.binding & Limit.CLIMB_RESERVE
     assert "climb-rate reserve" in held.best()["binding"]
     # Where it is flown, the climb reserve really is there.
     i = held.best_index

@@ -11,10 +11,10 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 import cruiseplan as cp
-from cruiseplan import aerodynamics as aero
-from cruiseplan.performance import Limit, cruise_points
-from cruiseplan.performance import speed_for_min_power as engine_min_power_speed
-from cruiseplan.propulsion import ElectricPropeller, PropellerEfficiency
+from cruiseplan.physics import aerodynamics as aero
+from cruiseplan.physics.propulsion import ElectricPropeller, PropellerEfficiency
+from cruiseplan.planning.performance import Limit, cruise_points
+from cruiseplan.planning.performance import speed_for_min_power as engine_min_power_speed
 from cruiseplan.units import registry
 
 G0 = 9.80665
@@ -22,7 +22,7 @@ FT = 0.3048
 KT = 1852.0 / 3600.0
 
 ARRAY_FIELDS = ("cl", "cd", "lift_to_drag", "drag", "thrust_power", "shaft_power",
-                "source_power", "power_available", "power_margin", "store_flow",
+                "source_power", "power_available", "power_margin", "store_rate",
                 "ground_speed", "specific_range_air", "specific_range_ground", "endurance",
                 "range_air", "range_ground", "stall_speed_ratio")
 
@@ -33,7 +33,7 @@ def _gagg_ferrar(sigma):
     return 1.132 * np.asarray(sigma) - 0.132
 
 
-def _shaft_power(af, mass, rho, tas):
+def shaft_power_required(af, mass, rho, tas):
     # Level flight (Anderson, Aircraft Performance and Design, ch. 5): CL = 2 m g/(rho V^2 S),
     # D = q S CD(CL), shaft power = D V / eta_p.
     qs = 0.5 * rho * tas**2 * af.wing_area
@@ -122,7 +122,7 @@ def test_power_flag_exactly_where_required_exceeds_available(trainer):
     available = trainer.propulsion.rated_power * _gagg_ferrar(air.sigma)[:, None]
     np.testing.assert_allclose(np.broadcast_to(pts.power_available, pts.shape),
                                np.broadcast_to(available, pts.shape), rtol=1e-13)
-    shaft, _ = _shaft_power(trainer, 740.0, air.density[:, None], v[None, :])
+    shaft, _ = shaft_power_required(trainer, 740.0, air.density[:, None], v[None, :])
     np.testing.assert_allclose(pts.shaft_power, shaft, rtol=1e-13)
     expected = shaft > available
     assert expected.any() and (~expected).any()
@@ -137,7 +137,7 @@ def test_other_limits(trainer):
     pts = cp.cruise_grid(trainer, [0.0, 13000.0], [60.0, 220.0], headwind=[0.0, 70.0])
     assert not pts.limits[0, 0] & Limit.LAPSE_RANGE
     assert pts.limits[1, 0] & Limit.LAPSE_RANGE
-    assert pts.limits[0, 1] & Limit.COMPRESSIBILITY  # 220 m/s = Mach 0.65 at sea level
+    assert pts.limits[0, 1] & Limit.MACH  # 220 m/s = Mach 0.65 at sea level
     assert pts.limits[1, 0] & Limit.WIND
     assert not pts.limits[1, 1] & Limit.WIND
     assert pts.ground_speed[1, 0] == pytest.approx(-10.0)
@@ -150,12 +150,12 @@ def test_other_limits(trainer):
 def test_fuel_flow_is_bsfc_times_shaft_power(trainer):
     pts = cp.cruise_grid(trainer, [0.0, 1500.0], [45.0, 55.0, 65.0])
     prop = trainer.propulsion
-    np.testing.assert_allclose(pts.store_flow, prop.bsfc * pts.shaft_power, rtol=1e-15)
-    np.testing.assert_allclose(pts.fuel_volume_flow, pts.store_flow / 720.0, rtol=1e-15)
+    np.testing.assert_allclose(pts.store_rate, prop.bsfc * pts.shaft_power, rtol=1e-15)
+    np.testing.assert_allclose(pts.fuel_volume_flow, pts.store_rate / 720.0, rtol=1e-15)
     # 0.46 lb/(hp h) at 60 hp: 27.6 lb/h = 12.519 kg/h = 4.6 US gal/h at 6.0 lb/gal
     # (avgas density 0.72 kg/L = 6.01 lb/gal, REFERENCES.md sec. 5).
     hp = 550 * FT * 0.45359237 * G0
-    flow = float(prop.store_flow(60 * hp)) * 3600
+    flow = float(prop.store_rate(60 * hp)) * 3600
     assert flow == pytest.approx(27.6 * 0.45359237, rel=1e-12)
 
 
@@ -194,7 +194,7 @@ def test_electric_endurance_without_peukert_is_energy_over_power(drone):
     prop = af.propulsion
     pts = cp.cruise_grid(af, [0.0, 300.0], [16.0, 20.0, 24.0])
     battery_power = pts.shaft_power / (0.85 * 0.95)
-    np.testing.assert_allclose(pts.store_flow, battery_power, rtol=1e-14)
+    np.testing.assert_allclose(pts.source_power, battery_power, rtol=1e-14)
     np.testing.assert_allclose(pts.endurance, 600 * 3600.0 / battery_power, rtol=1e-14)
     np.testing.assert_allclose(pts.range_air, pts.tas * pts.endurance, rtol=1e-14)
     assert pts.fuel_volume_flow is None
@@ -244,7 +244,7 @@ def test_peukert_shortens_endurance_at_high_current(drone):
     rated_current = prop.capacity / prop.rating_time
     v = np.array([16.0, 22.0, 28.0])
     a, b = cp.cruise_grid(ideal, [0.0], v), cp.cruise_grid(real, [0.0], v)
-    current = b.store_flow / prop.pack_voltage
+    current = b.source_power / prop.pack_voltage
     longer = b.endurance > a.endurance
     assert longer.any() and (~longer).any()
     np.testing.assert_array_equal(longer, current < rated_current)
@@ -261,7 +261,7 @@ def test_power_setting_table_hits_the_setting_on_the_fast_branch(trainer):
     ok = pts.limits == 0
     assert ok.sum() >= 12
     rho = np.broadcast_to(air.density[:, None], pts.shape)
-    shaft, _ = _shaft_power(trainer, 740.0, rho[ok], pts.tas[ok])
+    shaft, _ = shaft_power_required(trainer, 740.0, rho[ok], pts.tas[ok])
     target = np.broadcast_to(fractions[None, :], pts.shape)[ok] * trainer.propulsion.rated_power
     np.testing.assert_allclose(shaft, target, rtol=1e-9)
     np.testing.assert_allclose(pts.power_fraction[ok],
@@ -333,8 +333,8 @@ def test_piston_properties(trainer, H, dev, tas, mass):
     fuel = mass - 680.0 if mass > 680.0 else 30.0
     p = cruise_points(trainer, mass, air, np.array(tas), fuel)
     assert float(p.drag) > 0 and float(p.shaft_power) > 0
-    assert float(p.specific_range_air) == pytest.approx(tas / float(p.store_flow), rel=1e-14)
-    assert float(p.endurance) * float(p.store_flow) == pytest.approx(fuel, rel=1e-13)
+    assert float(p.specific_range_air) == pytest.approx(tas / float(p.store_rate), rel=1e-14)
+    assert float(p.endurance) * float(p.store_rate) == pytest.approx(fuel, rel=1e-13)
     assert float(p.range_air) == pytest.approx(tas * float(p.endurance), rel=1e-14)
     # Heavier at the same speed needs more lift, hence more induced drag and power.
     heavier = cruise_points(trainer, mass * 1.05, air, np.array(tas), fuel)
@@ -348,8 +348,8 @@ def test_electric_properties(drone, H, tas, share):
     store = share * af.propulsion.battery_energy
     p = cruise_points(af, 13.5, cp.air_state(H), np.array(tas), store)
     assert float(p.drag) > 0
-    assert float(p.specific_range_air) == pytest.approx(tas / float(p.store_flow), rel=1e-14)
-    assert float(p.endurance) * float(p.store_flow) == pytest.approx(store, rel=1e-13)
+    assert float(p.specific_range_air) == pytest.approx(tas / float(p.store_rate), rel=1e-14)
+    assert float(p.endurance) * float(p.store_rate) == pytest.approx(store, rel=1e-13)
 
 
 # --- Quantities at the public API -----------------------------------------------------------------
@@ -411,7 +411,7 @@ def test_min_power_speed_with_tabulated_propeller(tourer):
     air = cp.air_state(1000.0)
     mass = 1100.0
     v = np.linspace(20.0, 80.0, 60001)
-    shaft, _ = _shaft_power(tourer, mass, float(air.density), v)
+    shaft, _ = shaft_power_required(tourer, mass, float(air.density), v)
     v_best = v[np.argmin(shaft)]
     assert float(engine_min_power_speed(tourer, mass, air)) == pytest.approx(v_best, abs=2e-3)
     assert math.isfinite(v_best)

@@ -16,9 +16,10 @@ import pytest
 from matplotlib.text import Text
 
 import cruiseplan as cp
-from cruiseplan import card, cli, plots
+from cruiseplan import cli, plots
 from cruiseplan.errors import CruiseplanError, UnitError
-from cruiseplan.optimise import best_cruise
+from cruiseplan.planning.optimise import best_cruise
+from cruiseplan.report import card
 from cruiseplan.units import conversion_factor
 
 FT = 0.3048
@@ -142,7 +143,7 @@ def test_power_curves_mark_min_power_and_best_lift_to_drag(trainer):
     assert len({s[1] for s in styles}) == len({s[2] for s in styles}) == 2
     # The (L/D)max mark sits at the minimum of drag = P eta / V on the plotted curve.
     air = cp.air_state(h)
-    v_ld = cp.performance.speed_for_min_drag(trainer, trainer.loading().mass, air)
+    v_ld = cp.planning.performance.speed_for_min_drag(trainer, trainer.loading().mass, air)
     v = np.linspace(20.0, 70.0, 5001)
     drag = cp.cruise_points(trainer, trainer.loading().mass, air.column(), v[None, :],
                             1.0).drag
@@ -233,7 +234,7 @@ def test_card_reserves(trainer, drone):
     # Piston default: 45 min at best-endurance power at the card's lowest altitude.
     content = card.card_content(trainer, altitudes=h, power_settings=[0.65])
     end = best_cruise(trainer, h, objective="endurance").points
-    assert content.reserve == pytest.approx(45 * 60 * end.store_flow[0], rel=1e-9)
+    assert content.reserve == pytest.approx(45 * 60 * end.store_rate[0], rel=1e-9)
     assert "conservative default; local rules decide" in content.markdown()
     # Range to reserve keeps that share of the fuel unburnt.
     pts = cp.power_setting_table(trainer, h, [0.65])

@@ -7,7 +7,8 @@ import pytest
 from scipy.optimize import brentq
 
 import cruiseplan as cp
-from cruiseplan.dragbuildup import (
+from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.physics.dragbuildup import (
     AttachedBody,
     BodyDrag,
     BuildUpPolar,
@@ -18,9 +19,9 @@ from cruiseplan.dragbuildup import (
     cf_mixed,
     cf_turbulent,
 )
-from cruiseplan.mission import Leg, Mission, Profile, Reserve, plan_mission
-from cruiseplan.optimise import best_cruise
-from cruiseplan.rotorcraft import glauert_induced_velocity, hover_induced_velocity
+from cruiseplan.physics.rotor import glauert_induced_velocity, hover_induced_velocity
+from cruiseplan.planning.mission import plan_mission
+from cruiseplan.planning.optimise import best_cruise
 
 G = 9.80665
 
@@ -50,7 +51,7 @@ def test_hover_induced_velocity_and_ideal_power(quad):
     np.testing.assert_allclose(hover_induced_velocity(thrust, air.density, area), v_h,
                                rtol=1e-15)
     flight = q.level_flight(mass, air, 0.0)
-    np.testing.assert_allclose(flight["shaft"], 4 * thrust**1.5 / np.sqrt(2 * air.density
+    np.testing.assert_allclose(flight.shaft, 4 * thrust**1.5 / np.sqrt(2 * air.density
                                                                            * area), rtol=1e-12)
 
 
@@ -95,18 +96,18 @@ def test_power_curve_shape_and_parts(quad):
     f = quad.level_flight(mass, air, v)
     # Induced power falls, parasite power rises, and the total has a minimum in between
     # (the bucket of Leishman fig. 5.3).
-    assert np.all(np.diff(f["induced"]) < 0)
-    assert np.all(np.diff(f["parasite"]) >= 0)
-    i = int(np.argmin(f["shaft"]))
+    assert np.all(np.diff(f.rotor.induced) < 0)
+    assert np.all(np.diff(f.rotor.parasite) >= 0)
+    i = int(np.argmin(f.shaft))
     assert 0 < i < v.size - 1 and 6.0 < v[i] < 15.0
-    np.testing.assert_allclose(f["shaft"], f["induced"] + f["profile"] + f["parasite"],
+    np.testing.assert_allclose(f.shaft, f.rotor.induced + f.rotor.profile + f.rotor.parasite,
                                rtol=1e-12)
 
 
 def test_multirotor_grid_best_and_plan(quad):
     g = cp.cruise_grid(quad, [0.0, 300.0], [2.0, 8.0, 14.0, 20.0])
     assert np.all(np.isfinite(g.shaft_power)) and not np.any(g.limits)
-    assert np.all(np.isnan(g.cl))  # a multirotor has no lift coefficient
+    assert g.cl is None and g.lift_to_drag is None  # a multirotor has no wing
     b = best_cruise(quad, np.arange(0.0, 301.0, 50.0))
     s = b.schedule
     assert np.all(s.tas["endurance"] < s.tas["range"])
@@ -205,10 +206,10 @@ def test_build_up_tuned_to_cd0_reproduces_the_fixed_polar():
     built = replace(wing, polar=_build_up())
     h, v = 300.0, 18.0
     cd0 = float(built.polar.cd0(v, cp.air_state(h)))
-    fixed = replace(wing, polar=cp.aerodynamics.ParabolicPolar(cd0, built.polar.k))
+    fixed = replace(wing, polar=cp.physics.aerodynamics.ParabolicPolar(cd0, built.polar.k))
     a = cp.cruise_grid(built, [h], [v])
     b = cp.cruise_grid(fixed, [h], [v])
-    for name in ("cd", "drag", "shaft_power", "store_flow", "endurance"):
+    for name in ("cd", "drag", "shaft_power", "store_rate", "endurance"):
         np.testing.assert_allclose(getattr(a, name), getattr(b, name), rtol=1e-12)
     other = cp.cruise_grid(built, [3000.0], [30.0]).cd
     assert other != pytest.approx(cp.cruise_grid(fixed, [3000.0], [30.0]).cd, rel=1e-4)
@@ -271,7 +272,8 @@ def test_multirotor_needs_a_rotor_chain(tmp_path):
     p = tmp_path / "quad.toml"
     p.write_text(text)
     with pytest.raises(cp.AirframeFileError,
-                       match=r"\[propulsion\] kind: 'electric-propeller': a multirotor takes"):
+                       match=r"\[propulsion\] kind: 'electric-propeller': a multirotor airframe "
+                             "takes electric-rotor"):
         cp.read_airframe(p)
 
 

@@ -20,8 +20,8 @@ import pytest
 from scipy.integrate import simpson
 
 import cruiseplan as cp
-from cruiseplan import aerodynamics as aero
-from cruiseplan.performance import cruise_points
+from cruiseplan.physics import aerodynamics as aero
+from cruiseplan.planning.performance import cruise_points
 
 # Exact unit definitions.
 FT = 0.3048
@@ -226,7 +226,7 @@ def test_breguet_endurance_at_sea_level(cp1):
     for m in masses:
         v_mp = float(aero.min_power_speed(m, air.density, cp1.wing_area, cp1.polar.cd0,
                                           cp1.polar.k))
-        inv_flow.append(1.0 / float(cruise_points(cp1, m, air, np.array(v_mp), 1.0).store_flow))
+        inv_flow.append(1.0 / float(cruise_points(cp1, m, air, np.array(v_mp), 1.0).store_rate))
     hours = simpson(np.array(inv_flow), x=masses) / 3600.0
     ep = float(aero.max_endurance_parameter(cp1.polar.cd0, cp1.polar.k))
     closed = 0.8 / (prop.bsfc * 9.80665) * ep * math.sqrt(2 * float(air.density) * cp1.wing_area) \

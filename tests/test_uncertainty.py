@@ -8,10 +8,10 @@ import pytest
 
 import cruiseplan as cp
 from cruiseplan.cli import main
-from cruiseplan.mission import plan_mission
-from cruiseplan.mission_files import load_mission
-from cruiseplan.uncertainty import (
-    Tolerance,
+from cruiseplan.io.mission_file import load_mission
+from cruiseplan.model.tolerance import Tolerance
+from cruiseplan.planning.mission import plan_mission
+from cruiseplan.planning.uncertainty import (
     cruise_uncertainty,
     plan_uncertainty,
     quantiles,
@@ -108,7 +108,7 @@ def test_sampled_airframe_broadcasts():
     f = {"cd0": np.array([1.0, 1.2]), "battery_energy": np.array([1.0, 0.9])}
     s = sample_airframe(af, f)
     g = s.level_flight(3.0, cp.air_state(0.0), 12.0)
-    assert g["shaft"].shape == (2,) and g["shaft"][1] > g["shaft"][0]
+    assert g.shaft.shape == (2,) and g.shaft[1] > g.shaft[0]
     np.testing.assert_allclose(s.propulsion.battery_energy, af.propulsion.battery_energy
                                * np.array([1.0, 0.9]))
 

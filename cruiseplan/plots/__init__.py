@@ -21,7 +21,7 @@ References
    (power required and available), 5.7 (range and endurance).
 """
 
-from ._style import (
+from cruiseplan.plots._style import (
     CARD_PAGES,
     FORMATS,
     LIMIT_HATCHES,
@@ -33,10 +33,10 @@ from ._style import (
     figure_bytes,
     speed_span,
 )
-from .cardpage import CARD_FONTS, card_figure
-from .cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
-from .profile import mission_profile
-from .residuals import fit_residuals
+from cruiseplan.plots.cardpage import CARD_FONTS, card_figure
+from cruiseplan.plots.cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
+from cruiseplan.plots.profile import mission_profile
+from cruiseplan.plots.residuals import fit_residuals
 
 __all__ = [
     "CARD_FONTS", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES", "MIN_FONT",

@@ -11,18 +11,15 @@ import numpy as np
 from matplotlib import patheffects
 from matplotlib.figure import Figure
 
-from ..atmosphere import air_state, check_altitude
-from ..card import CAUTION_LINE
-from ..errors import CruiseplanError
-from ..performance import (
-    MACH_LIMIT,
-    Limit,
-    power_setting_table,
-    resolve_loading,
-)
-from ..reports import display
-from ..tables import store_text
-from ..units import temperature_difference, to_si
+from cruiseplan.cautions import CAUTION_LINE
+from cruiseplan.constants import MACH_LIMIT
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.limits import Limit
+from cruiseplan.physics.atmosphere import air_state, check_altitude
+from cruiseplan.planning.performance import power_setting_table, resolve_loading
+from cruiseplan.report.output import display
+from cruiseplan.report.tables import store_text
+from cruiseplan.units import temperature_difference, to_si
 
 #: Okabe-Ito palette [1]_ (yellow left out: it does not show on white paper).
 OKABE_ITO = {
@@ -48,7 +45,7 @@ OBJECTIVE_STYLES = {
 #: Hatch pattern of each limit reason on the specific-range map.
 LIMIT_HATCHES = {
     Limit.STALL: "///", Limit.POWER: "\\\\\\", Limit.ATMOSPHERE: "xx",
-    Limit.COMPRESSIBILITY: "..", Limit.POLAR_RANGE: "|||", Limit.LAPSE_RANGE: "---",
+    Limit.MACH: "..", Limit.POLAR_RANGE: "|||", Limit.LAPSE_RANGE: "---",
     Limit.NO_SOLUTION: "++", Limit.WIND: "oo", Limit.ROTOR_RANGE: "**",
     Limit.REYNOLDS_RANGE: "OO",
 }
@@ -181,11 +178,8 @@ def speed_span(airframe, altitudes, *, mass=None, fuel=None, payload=None, isa_d
                               isa_dev=isa_dev, stall_margin=1.0).tas
     v_hi = np.nanmax(top) if np.any(np.isfinite(top)) else 2.5 * np.max(v_stall)
     v_hi = min(1.12 * v_hi, MACH_LIMIT * float(np.min(air.speed_of_sound)))
-    if airframe.kind == "multirotor":
-        # Stay near the advance ratio the rotor model is trusted to.
-        from ..rotorcraft import MAX_ADVANCE_RATIO
-
-        v_hi = min(v_hi, 1.15 * MAX_ADVANCE_RATIO * airframe.rotors.hover_tip_speed)
+    # Stay near the speeds the kind's model is trusted to (a rotor's advance ratio).
+    v_hi = min(v_hi, 1.15 * airframe.model_speed_limit)
     # A multirotor has no stall speed: start just above the hover.
     return np.linspace(max(0.85 * float(np.min(v_stall)), 1.0), v_hi, n)
 

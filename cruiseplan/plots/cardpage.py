@@ -11,8 +11,8 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Rectangle
 from matplotlib.textpath import TextPath
 
-from ..errors import CruiseplanError
-from ._style import (
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.plots._style import (
     CARD_PAGES,
 )
 

@@ -11,24 +11,19 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Patch
 from matplotlib.ticker import MaxNLocator
 
-from ..atmosphere import air_state, check_altitude
-from ..errors import CruiseplanError
-from ..optimise import OBJECTIVES, describe
-from ..performance import (
-    DEFAULT_STALL_MARGIN,
-    LIMIT_CODE,
-    LIMIT_TEXT,
-    MACH_LIMIT,
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, Limit, describe
+from cruiseplan.physics.atmosphere import air_state, check_altitude
+from cruiseplan.planning.optimise import OBJECTIVES
+from cruiseplan.planning.performance import (
     CruisePoints,
-    Limit,
     cruise_grid,
     cruise_points,
     speed_for_min_drag,
     speed_for_min_power,
 )
-from ..reports import display
-from ..units import temperature_difference, to_si
-from ._style import (
+from cruiseplan.plots._style import (
     _HALO,
     LIMIT_HATCHES,
     MIN_FONT,
@@ -44,6 +39,8 @@ from ._style import (
     _sr_display,
     speed_span,
 )
+from cruiseplan.report.output import display
+from cruiseplan.units import temperature_difference, to_si
 
 # --- (a) specific-range map ---------------------------------------------------------------
 
@@ -53,7 +50,7 @@ from ._style import (
 LIMIT_FIELDS = {
     Limit.STALL: lambda grid, margin: margin - grid.stall_speed_ratio,
     Limit.POWER: lambda grid, margin: -grid.power_margin / grid.rated_power,
-    Limit.COMPRESSIBILITY: lambda grid, margin: grid.mach() - MACH_LIMIT,
+    Limit.MACH: lambda grid, margin: grid.mach() - MACH_LIMIT,
 }
 
 
@@ -324,7 +321,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
              "ld": dict(marker="h", markersize=10, markeredgecolor="black"),
              "margin": dict(marker="|", markersize=14, markeredgewidth=2.0,
                             markeredgecolor="black")}
-    rotor = airframe.kind == "multirotor"
+    rotor = not airframe.has_wing
     if rotor:
         # No stall and no (L/D)max for a multirotor: its drag is least in the hover.
         marks = {"min": marks["min"]}
@@ -374,7 +371,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
                    "(slowest cruise)", **marks["margin"])]
     ax.legend(handles=handles, loc="upper left", bbox_to_anchor=(1.02, 1.0),
               fontsize=MIN_FONT + 0.5, frameon=False, labelspacing=0.9)
-    if airframe.kind == "multirotor":
+    if not airframe.has_wing:
         note = ("A multirotor needs power to hover; induced power falls and parasite power "
                 "rises with speed (momentum theory). Level flight is possible where power "
                 "required is below power available.")

@@ -7,14 +7,14 @@ import textwrap
 import numpy as np
 from matplotlib.figure import Figure
 
-from ..reports import display
-from ._style import (
+from cruiseplan.plots._style import (
     MIN_FONT,
     OKABE_ITO,
     PLOT_SIZE,
     _context,
     _footer,
 )
+from cruiseplan.report.output import display
 
 # --- mission profile ------------------------------------------------------------------------
 
@@ -59,7 +59,7 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     ax_q = fig.add_axes((0.09, 0.17, 0.86, 0.33), sharex=ax_h)
     ax_h.plot(x, h, color=OKABE_ITO["blue"], linewidth=2.0, marker="o", markersize=3.5,
               label="pressure altitude flown")
-    from ..mission import ground_elevation
+    from cruiseplan.planning.mission import ground_elevation
 
     start = 0.0
     for k, leg in enumerate(mission.legs):

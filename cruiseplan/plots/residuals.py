@@ -8,8 +8,7 @@ from datetime import date
 import numpy as np
 from matplotlib.figure import Figure
 
-from ..reports import display
-from ._style import (
+from cruiseplan.plots._style import (
     _HALO,
     MIN_FONT,
     OKABE_ITO,
@@ -18,6 +17,7 @@ from ._style import (
     _footer,
     _power_display,
 )
+from cruiseplan.report.output import display
 
 # --- drag-polar fit ---------------------------------------------------------------------------
 
@@ -68,8 +68,8 @@ def fit_residuals(fit_result, airframe, *, units: str | None = None,
     ----------
     .. [1] R. D. Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, AIAA, 2003, ch. 9.
     """
-    from ..constants import RHO0
-    from ..fit import piw_coefficients
+    from cruiseplan.constants import RHO0
+    from cruiseplan.planning.fit import piw_coefficients
 
     fit = fit_result
     units = units or ("aviation" if airframe.propulsion.store_name == "fuel" else "si")

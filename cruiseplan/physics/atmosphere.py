@@ -33,7 +33,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .constants import BETA_S, G0, GAMMA, LAPSE, P0, R_AIR, RHO0, S_SUTH, T0
+from cruiseplan.constants import BETA_S, G0, GAMMA, LAPSE, P0, R_AIR, RHO0, S_SUTH, T0
 
 #: Valid pressure-altitude range [m] (ambiance: -5004 m to 81 020 m geometric).
 ALTITUDE_MIN = -5000.0
@@ -87,7 +87,7 @@ def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
     AtmosphereRangeError
         Naming the offending value and the valid range.
     """
-    from .errors import AtmosphereRangeError
+    from cruiseplan.errors import AtmosphereRangeError
 
     h = np.asarray(pressure_altitude, dtype=float)
     bad = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
@@ -240,7 +240,7 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
         dT = np.asarray(isa_dev, dtype=float) + 0.0 * T_isa
         T = T_isa + dT
     if np.any(T <= 0):
-        from .errors import CruiseplanError
+        from cruiseplan.errors import CruiseplanError
 
         raise CruiseplanError(f"temperature {np.min(T):.1f} K is not physical: "
                               "check the ISA deviation or OAT")
@@ -300,7 +300,7 @@ def density_altitude(density):
     .. [1] ICAO Doc 7488/3 (1993), defining equations of the troposphere and
        lower stratosphere.
     """
-    from .errors import AtmosphereRangeError
+    from cruiseplan.errors import AtmosphereRangeError
 
     rho = np.asarray(density, dtype=float)
     rho_lo = float(air_state(_DA_MAX).density)

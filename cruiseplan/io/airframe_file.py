@@ -14,21 +14,29 @@ import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
-from .aerodynamics import ParabolicPolar, TabulatedPolar, induced_drag_factor
-from .airframe import Airframe
-from .errors import AirframeFileError, UnitError
-from .paths import AIRFRAME_DIRS
-from .propulsion import (
+from cruiseplan.errors import AirframeFileError, UnitError
+from cruiseplan.io.bundled import bundled_files, find_file
+from cruiseplan.kinds import KINDS, Airframe, FixedWing, Multirotor
+from cruiseplan.model.tolerance import Tolerance
+from cruiseplan.physics.aerodynamics import ParabolicPolar, TabulatedPolar, induced_drag_factor
+from cruiseplan.physics.dragbuildup import (
+    CORRELATIONS,
+    AttachedBody,
+    BodyDrag,
+    BuildUpPolar,
+    Component,
+    body_form_factor,
+    wing_form_factor,
+)
+from cruiseplan.physics.propulsion import (
     FUELS,
     POWER_LAPSE_LAWS,
     ElectricPropeller,
     PistonPropeller,
     PropellerEfficiency,
 )
-from .units import parse_quantity
-
-#: Where bundled airframes live (see :mod:`cruiseplan.paths`).
-BUNDLED_DIRS = AIRFRAME_DIRS
+from cruiseplan.physics.rotor import Rotors
+from cruiseplan.units import parse_quantity
 
 
 @dataclass(frozen=True)
@@ -277,8 +285,6 @@ def _table_list(r: _Reader, sec: dict, key: str, where: str, schema: dict) -> li
 
 
 def _components(r: _Reader, sec: dict):
-    from .dragbuildup import CORRELATIONS, Component, body_form_factor, wing_form_factor
-
     out = []
     for c in _table_list(r, sec, "components", "polar", _COMPONENT_SCHEMA):
         given = [k for k in ("form_factor", "thickness_ratio", "fineness") if c[k] is not None]
@@ -299,8 +305,6 @@ def _components(r: _Reader, sec: dict):
 
 
 def _bodies(r: _Reader, sec: dict, where: str):
-    from .dragbuildup import AttachedBody
-
     out = []
     for b in _table_list(r, sec, "bodies", where, _BODY_SCHEMA):
         shape = b.get("shape")
@@ -360,8 +364,10 @@ def _propulsion(r: _Reader, airframe_kind: str):
     if not isinstance(sec, dict):
         r.fail("[propulsion]", "section missing")
     kind = r.choice("propulsion", sec, "kind", _PROPULSION_SCHEMA)
-    if airframe_kind == "multirotor" and kind != "electric-rotor":
-        r.fail("[propulsion] kind", f"{kind!r}: a multirotor takes kind = 'electric-rotor'")
+    allowed = KIND_READERS[airframe_kind].propulsion
+    if kind not in allowed:
+        r.fail("[propulsion] kind", f"{kind!r}: a {airframe_kind} airframe takes "
+                                    f"{' or '.join(allowed)}")
     schema = _PROPULSION_SCHEMA[kind]
     vals = r.values("propulsion", schema)
     # A rotor's efficiency is in the momentum-theory power model itself.
@@ -410,9 +416,8 @@ def read_airframe(path) -> Airframe:
     data, checksum = _read_toml(path)
     r = _Reader(path, data)
     head = r.section("airframe", _SCHEMA["airframe"]) if "airframe" in data else {}
-    kind = r.choice("airframe", head, "kind", ("fixed-wing", "multirotor"),
-                    default="fixed-wing")
-    sections = _SECTIONS[kind]
+    kind = r.choice("airframe", head, "kind", KIND_READERS, default="fixed-wing")
+    sections = KIND_READERS[kind].sections
     unknown = sorted(set(data) - set(sections))
     if unknown:
         r.fail(f"[{unknown[0]}]", f"unknown section for a {kind} airframe; expected "
@@ -429,13 +434,7 @@ def read_airframe(path) -> Airframe:
                   empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
                   payload=masses["payload"], propulsion=_propulsion(r, kind),
                   source=str(path), checksum=checksum, tolerances=_tolerances(r, kind))
-    return (_multirotor if kind == "multirotor" else _fixed_wing)(r, common, masses)
-
-
-_SECTIONS = {"fixed-wing": ("airframe", "masses", "wing", "polar", "propulsion",
-                            "uncertainty"),
-             "multirotor": ("airframe", "masses", "rotors", "body", "propulsion",
-                            "uncertainty")}
+    return KIND_READERS[kind].read(r, common, masses)
 
 
 def read_tolerance(raw, where: str, fail):
@@ -443,8 +442,6 @@ def read_tolerance(raw, where: str, fail):
 
     ``fail(where, message)`` reports errors.
     """
-    from .uncertainty import Tolerance
-
     def fraction(text):
         try:
             return parse_quantity(text, "", what=where)
@@ -467,11 +464,9 @@ def read_tolerance(raw, where: str, fail):
 
 
 def _tolerances(r: _Reader, kind: str) -> tuple:
-    from .uncertainty import AIRFRAME_KEYS
-
     if "uncertainty" not in r.data:
         return ()
-    keys = AIRFRAME_KEYS[kind]
+    keys = KINDS[kind].tolerance_keys
     sec = r.section("uncertainty", dict.fromkeys(keys))
     if "bsfc" in sec and r.data["propulsion"].get("kind") != "piston-propeller":
         r.fail("[uncertainty] bsfc", "a BSFC tolerance needs a piston-propeller engine")
@@ -481,10 +476,7 @@ def _tolerances(r: _Reader, kind: str) -> tuple:
                  for k in keys if k in sec)
 
 
-def _fixed_wing(r: _Reader, common: dict, masses: dict) -> Airframe:
-    if r.data["propulsion"].get("kind") == "electric-rotor":
-        r.fail("[propulsion] kind", "'electric-rotor' is for multirotors; a fixed-wing "
-                                    "airframe takes piston-propeller or electric-propeller")
+def _fixed_wing(r: _Reader, common: dict, masses: dict) -> FixedWing:
     wing = r.values("wing", _SCHEMA["wing"])
     if (wing["span"] is None) == (wing["aspect_ratio"] is None):
         r.fail("[wing] span", "give exactly one of span or aspect_ratio")
@@ -498,21 +490,16 @@ def _fixed_wing(r: _Reader, common: dict, masses: dict) -> Airframe:
         if kind == "parabolic":
             polar = ParabolicPolar(polar_vals["cd0"], k, polar_vals["cl_min_drag"] or 0.0)
         else:
-            from .dragbuildup import BuildUpPolar
-
             polar = BuildUpPolar(polar_vals["components"], polar_vals["bodies"], k,
                                  wing["area"], polar_vals["cl_min_drag"] or 0.0,
                                  polar_vals["excrescence"] or 0.0)
     else:
         polar = polar_vals
-    return Airframe(wing_area=wing["area"], span=span, cl_max=wing["cl_max"], polar=polar,
-                    **common)
+    return FixedWing(wing_area=wing["area"], span=span, cl_max=wing["cl_max"], polar=polar,
+                     **common)
 
 
 def _multirotor(r: _Reader, common: dict, masses: dict):
-    from .dragbuildup import BodyDrag
-    from .rotorcraft import Multirotor, Rotors
-
     rot = r.values("rotors", _ROTOR_SCHEMA)
     for key in ("count", "blades"):
         if rot[key] != int(rot[key]):
@@ -525,12 +512,40 @@ def _multirotor(r: _Reader, common: dict, masses: dict):
     body_sec = r.section("body", _BODY_DRAG_SCHEMA)
     area = r.value("body", body_sec, "drag_area", _BODY_DRAG_SCHEMA["drag_area"])
     body = BodyDrag(area, _bodies(r, body_sec, "body"))
-    nan = float("nan")
     return Multirotor(
-        wing_area=nan, span=nan, cl_max=nan, polar=None,
         rotors=Rotors(int(rot["count"]), rot["radius"], int(rot["blades"]), rot["chord"],
                       rot["blade_cd0"], tip, rot["induced_factor"] or 1.15),
         body=body, **common)
+
+
+@dataclass(frozen=True)
+class KindReader:
+    """Registry entry: how the file of one airframe kind is read.
+
+    Attributes
+    ----------
+    sections : tuple of str
+        Sections the file may have.
+    propulsion : tuple of str
+        Propulsion kinds the airframe kind takes.
+    read : callable
+        ``read(reader, common, masses)`` builds the airframe from its own sections.
+    """
+
+    sections: tuple
+    propulsion: tuple
+    read: object
+
+
+#: Readers of the airframe kinds in :data:`cruiseplan.kinds.KINDS`, by the same names.
+KIND_READERS = {
+    FixedWing.kind: KindReader(
+        ("airframe", "masses", "wing", "polar", "propulsion", "uncertainty"),
+        ("piston-propeller", "electric-propeller"), _fixed_wing),
+    Multirotor.kind: KindReader(
+        ("airframe", "masses", "rotors", "body", "propulsion", "uncertainty"),
+        ("electric-rotor",), _multirotor),
+}
 
 
 def bundled_airframes() -> dict:
@@ -541,10 +556,7 @@ def bundled_airframes() -> dict:
     dict
         Name to :class:`pathlib.Path`.
     """
-    for folder in BUNDLED_DIRS:
-        if folder.is_dir():
-            return {p.stem: p for p in sorted(folder.glob("*.toml"))}
-    return {}
+    return bundled_files("airframe")
 
 
 def find_airframe(name_or_path) -> Path:
@@ -559,21 +571,8 @@ def find_airframe(name_or_path) -> Path:
     -------
     pathlib.Path
         The file.
-
-    Raises
-    ------
-    AirframeFileError
-        When neither a bundled name nor an existing file.
     """
-    text = str(name_or_path)
-    bundled = bundled_airframes()
-    if text in bundled:
-        return bundled[text]
-    path = Path(text)
-    if path.is_file():
-        return path
-    raise AirframeFileError(f"{text}: no such airframe file, nor a bundled airframe "
-                            f"(bundled: {', '.join(bundled) or 'none'})")
+    return find_file(name_or_path, "airframe")
 
 
 def load_airframe(name_or_path) -> Airframe:

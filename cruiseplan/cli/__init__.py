@@ -11,7 +11,7 @@ import argparse
 import sys
 import warnings
 
-from .errors import CruiseplanError, UnitError
+from cruiseplan.errors import CruiseplanError, UnitError
 
 EXIT_BAD_INPUT = 2
 
@@ -129,7 +129,7 @@ def build_parser() -> argparse.ArgumentParser:
 
 def _parse_store(airframe, text: str):
     """Fuel or energy on board from text, in SI (kg of fuel or J)."""
-    from .units import parse_quantity
+    from cruiseplan.units import parse_quantity
 
     prop = airframe.propulsion
     t = text.strip()
@@ -153,7 +153,7 @@ def _power_settings(text: str):
     """``--power 55,65,75`` as fractions of rated power."""
     import numpy as np
 
-    from .units import parse_range
+    from cruiseplan.units import parse_range
 
     frac = parse_range(text, "", default_unit="percent", what="--power")
     if np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
@@ -163,7 +163,7 @@ def _power_settings(text: str):
 
 def _emit(text: str, output: str | None):
     if output:
-        from .reports import write_atomic
+        from cruiseplan.report.output import write_atomic
 
         write_atomic(output, text)
     else:
@@ -180,7 +180,7 @@ def cmd_airframes(args):
     """List the bundled airframes, one line each."""
     import json
 
-    from .airframe_files import bundled_airframes, read_airframe
+    from cruiseplan.io.airframe_file import bundled_airframes, read_airframe
 
     rows = []
     for name, path in bundled_airframes().items():
@@ -199,9 +199,9 @@ def cmd_airframes(args):
 
 def cmd_atmosphere(args):
     """Print the atmosphere at pressure altitudes."""
-    from .atmosphere import air_state, check_altitude
-    from .tables import atmosphere_report
-    from .units import parse_quantity, parse_range
+    from cruiseplan.physics.atmosphere import air_state, check_altitude
+    from cruiseplan.report.tables import atmosphere_report
+    from cruiseplan.units import parse_quantity, parse_range
 
     h = check_altitude(parse_range(args.altitudes, "m", default_unit="ft",
                                    what="--altitudes"), "--altitudes")
@@ -219,11 +219,11 @@ def cmd_table(args):
     """Print a cruise table by speed or by power setting."""
     import numpy as np
 
-    from .airframe_files import load_airframe
-    from .atmosphere import check_altitude
-    from .performance import cruise_grid, power_setting_table
-    from .tables import cruise_report
-    from .units import parse_quantity, parse_range
+    from cruiseplan.io.airframe_file import load_airframe
+    from cruiseplan.physics.atmosphere import check_altitude
+    from cruiseplan.planning.performance import cruise_grid, power_setting_table
+    from cruiseplan.report.tables import cruise_report
+    from cruiseplan.units import parse_quantity, parse_range
 
     af = load_airframe(args.airframe)
     electric = af.propulsion.store_name == "energy"
@@ -239,7 +239,7 @@ def cmd_table(args):
         if args.speeds:
             v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
                             else "km/h", what="--speeds")
-        elif af.kind == "multirotor":
+        elif af.hovers:
             v = np.arange(2.0, 22.01, 2.0)
         else:
             v = np.arange(14.0, 30.01, 2.0)
@@ -257,7 +257,7 @@ def cmd_table(args):
 
 
 def _loading_args(af, args):
-    from .units import parse_quantity
+    from cruiseplan.units import parse_quantity
 
     if args.stall_margin < 1.0:
         raise CruiseplanError(f"--stall-margin {args.stall_margin:g} must be at least 1")
@@ -271,11 +271,11 @@ def _loading_args(af, args):
 
 def cmd_best(args):
     """Print the best speeds by altitude and the best altitude."""
-    from .airframe_files import load_airframe
-    from .optimise import best_cruise
-    from .tables import best_report
-    from .units import parse_quantity, parse_range
-    from .winds import parse_wind_profile
+    from cruiseplan.io.airframe_file import load_airframe
+    from cruiseplan.io.text import parse_wind_profile
+    from cruiseplan.planning.optimise import best_cruise
+    from cruiseplan.report.tables import best_report
+    from cruiseplan.units import parse_quantity, parse_range
 
     af = load_airframe(args.airframe)
     electric = af.propulsion.store_name == "energy"
@@ -312,7 +312,7 @@ def cmd_best(args):
     spread = None
     n = _monte_carlo_n(args)
     if n and best.best_index >= 0:
-        from .uncertainty import cruise_uncertainty
+        from cruiseplan.planning.uncertainty import cruise_uncertainty
 
         i = best.best_index
         p = best.points
@@ -325,9 +325,9 @@ def cmd_best(args):
 
 def cmd_plan(args):
     """Plan a mission; a NO-GO is a result (exit 0), not an error."""
-    from .mission import plan_mission
-    from .mission_files import load_mission
-    from .tables import plan_report
+    from cruiseplan.io.mission_file import load_mission
+    from cruiseplan.planning.mission import plan_mission
+    from cruiseplan.report.tables import plan_report
 
     if args.plot and not args.plot.lower().endswith((".png", ".pdf")):
         raise CruiseplanError(f"--plot {args.plot}: the file must end in .png or .pdf")
@@ -335,13 +335,13 @@ def cmd_plan(args):
     plan = plan_mission(load_mission(args.mission))
     spread = None
     if n:
-        from .uncertainty import plan_uncertainty
+        from cruiseplan.planning.uncertainty import plan_uncertainty
 
         spread = plan_uncertainty(plan, n, args.seed)
     text = plan_report(plan, args.units, spread).render(args.format)
     if args.plot:
-        from .plots import figure_bytes, mission_profile
-        from .reports import write_bytes_atomic
+        from cruiseplan.plots import figure_bytes, mission_profile
+        from cruiseplan.report.output import write_bytes_atomic
 
         data = figure_bytes(mission_profile(plan, units=args.units), args.plot)
         write_bytes_atomic(args.plot, data)
@@ -403,8 +403,8 @@ def _figure_path(text: str, suffixes) -> str:
 
 def _wind_args(args):
     """Wind profile, headwind [m/s] and text from --wind/--course or --headwind."""
-    from .units import parse_quantity
-    from .winds import parse_wind_profile
+    from cruiseplan.io.text import parse_wind_profile
+    from cruiseplan.units import parse_quantity
 
     if args.wind:
         if args.course is None:
@@ -423,8 +423,8 @@ def _wind_grid(af, h, v, loading, dev, profile, course, headwind, stall_margin):
     """Cruise grid whose ground speeds come from the full wind triangle at each altitude."""
     import numpy as np
 
-    from .atmosphere import air_state, check_altitude
-    from .performance import cruise_points
+    from cruiseplan.physics.atmosphere import air_state, check_altitude
+    from cruiseplan.planning.performance import cruise_points
 
     h = check_altitude(h, "--altitudes")
     if profile is not None:
@@ -441,10 +441,10 @@ def _wind_grid(af, h, v, loading, dev, profile, course, headwind, stall_margin):
 
 def cmd_plot(args):
     """Draw a specific-range map, power curves or altitude profile to .png or .pdf."""
-    from .airframe_files import load_airframe
-    from .optimise import best_cruise
-    from .performance import cruise_grid
-    from .units import parse_quantity, parse_range
+    from cruiseplan.io.airframe_file import load_airframe
+    from cruiseplan.planning.optimise import best_cruise
+    from cruiseplan.planning.performance import cruise_grid
+    from cruiseplan.units import parse_quantity, parse_range
 
     out = _figure_path(args.output, (".png", ".pdf"))
     af = load_airframe(args.airframe)
@@ -472,7 +472,7 @@ def cmd_plot(args):
             raise UnitError(f"--speeds: {args.speeds!r} must be at least two increasing "
                             "positive speeds")
 
-    from . import plots
+    from cruiseplan import plots
 
     wind_kw = dict(wind=profile, course=args.course, headwind=headwind)
     if args.kind == "power":
@@ -498,7 +498,7 @@ def cmd_plot(args):
                                        wind_text=wind_text, stall_margin=args.stall_margin)
     data = plots.figure_bytes(fig, out)
 
-    from .reports import write_bytes_atomic
+    from cruiseplan.report.output import write_bytes_atomic
 
     write_bytes_atomic(out, data)
     sys.stdout.write(f"wrote {out}\n")
@@ -508,8 +508,8 @@ def cmd_card(args):
     """Write the one-page cruise card FILE.pdf and its markdown twin FILE.md."""
     from pathlib import Path
 
-    from .airframe_files import load_airframe
-    from .units import parse_quantity, parse_range
+    from cruiseplan.io.airframe_file import load_airframe
+    from cruiseplan.units import parse_quantity, parse_range
 
     out = Path(_figure_path(args.output, (".pdf",)))
     af = load_airframe(args.airframe)
@@ -521,8 +521,8 @@ def cmd_card(args):
         frac = _power_settings(args.power)
     dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
 
-    from . import plots
-    from .card import cruise_card, parse_reserve
+    from cruiseplan import plots
+    from cruiseplan.report.card import cruise_card, parse_reserve
 
     reserve = parse_reserve(af, args.reserve) if args.reserve else None
     markdown, fig = cruise_card(af, altitudes=h, power_settings=frac, isa_dev=dev,
@@ -532,7 +532,7 @@ def cmd_card(args):
                                 **_loading_args(af, args))
     pdf = plots.figure_bytes(fig, "pdf")
 
-    from .reports import write_atomic, write_bytes_atomic
+    from cruiseplan.report.output import write_atomic, write_bytes_atomic
 
     twin = out.with_suffix(".md")
     write_bytes_atomic(out, pdf)
@@ -572,11 +572,12 @@ def cmd_fit(args):
     """Fit the drag polar to a flight log; print it, optionally write the airframe and plot."""
     from pathlib import Path
 
-    from .airframe_files import find_airframe, read_airframe
-    from .fit import fit_flight_log
-    from .flightlog import check_airframe_text, fit_report, fitted_airframe_text, read_flight_log
-    from .reports import write_atomic, write_bytes_atomic
-    from .units import parse_quantity
+    from cruiseplan.io.airframe_file import find_airframe, read_airframe
+    from cruiseplan.io.flightlog import check_airframe_text, fitted_airframe_text, read_flight_log
+    from cruiseplan.planning.fit import fit_flight_log
+    from cruiseplan.report.fit_report import fit_report
+    from cruiseplan.report.output import write_atomic, write_bytes_atomic
+    from cruiseplan.units import parse_quantity
 
     if args.plot and Path(args.plot).suffix.lower() not in (".png", ".pdf"):
         raise CruiseplanError(f"--plot {args.plot}: the file must end in .png or .pdf")
@@ -608,7 +609,7 @@ def cmd_fit(args):
         check_airframe_text(toml)
     figure = None
     if args.plot:
-        from . import plots
+        from cruiseplan import plots
 
         figure = plots.figure_bytes(plots.fit_residuals(fit, af, units=units,
                                                         log_name=Path(args.log).name),

@@ -4,9 +4,7 @@ A profile is a list of (altitude, direction from, speed). Between altitudes the 
 north and east components are interpolated linearly (so a veer of 350 to 010 degrees passes
 through north, not south); beyond the ends the nearest wind holds.
 
-Text form, as forecasts are read: ``"270/25@3000ft,250/40@8000ft"`` — direction the wind
-blows from in degrees true, speed (knots unless a unit is given), and the altitude
-(feet unless a unit is given).
+The text form ``"270/25@3000ft,250/40@8000ft"`` is read by :mod:`cruiseplan.io.text`.
 
 References
 ----------
@@ -16,13 +14,12 @@ References
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 
 import numpy as np
 
-from .airspeed import wind_components
-from .errors import CruiseplanError
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.physics.airspeed import wind_components
 
 
 @dataclass(frozen=True)
@@ -77,49 +74,3 @@ class WindProfile:
         """Headwind and crosswind from the right [m/s] on a true course at altitudes [m]."""
         direction, speed = self.at(altitude)
         return wind_components(course_deg, direction, speed)
-
-
-_WIND = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*/\s*([^@]+?)\s*@\s*(.+?)\s*$")
-
-
-def parse_wind_profile(text: str) -> WindProfile:
-    """Read ``"270/25@3000ft,250/40@8000ft"`` into a :class:`WindProfile`.
-
-    Parameters
-    ----------
-    text : str
-        Comma-separated ``DIR/SPEED@ALTITUDE`` entries; speed in knots and altitude in feet
-        unless units are written (``"250/12m/s@300m"``).
-
-    Returns
-    -------
-    WindProfile
-        Sorted by altitude.
-
-    Raises
-    ------
-    UnitError
-        Naming the entry that cannot be read.
-    """
-    from .errors import UnitError
-    from .units import parse_quantity
-
-    entries = []
-    for item in text.split(","):
-        m = _WIND.match(item)
-        if not m:
-            raise UnitError(f"wind {item.strip()!r}: expected DIR/SPEED@ALTITUDE, "
-                            "e.g. '270/25@3000ft'")
-        direction = float(m.group(1))
-        if not 0.0 <= direction <= 360.0:
-            raise UnitError(f"wind {item.strip()!r}: direction {direction:g} is not 0-360 deg")
-        speed = parse_quantity(m.group(2), "m/s", default_unit="kt", what="wind speed")
-        if speed < 0:
-            raise UnitError(f"wind {item.strip()!r}: speed must not be negative")
-        alt = parse_quantity(m.group(3), "m", default_unit="ft", what="wind altitude")
-        entries.append((alt, direction, speed))
-    entries.sort()
-    alts = [e[0] for e in entries]
-    if len(set(alts)) != len(alts):
-        raise UnitError(f"wind {text!r}: two winds at the same altitude")
-    return WindProfile(tuple(alts), tuple(e[1] for e in entries), tuple(e[2] for e in entries))

@@ -1,4 +1,4 @@
-r"""Multirotor drones: power in hover and forward flight from momentum theory.
+r"""Rotor sets: power in hover and forward flight from momentum theory.
 
 For ``N`` rotors of radius :math:`R` (disk area :math:`A = \pi R^2` each) carrying weight
 :math:`W` against body drag :math:`D = \tfrac12\rho V^2 f`, the rotor plane tilts forward by
@@ -32,12 +32,9 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 import numpy as np
-
-from .airframe import Airframe
-from .constants import G0, RHO0
 
 #: Advance ratio above which the simple profile-power model is not trusted.
 MAX_ADVANCE_RATIO = 0.35
@@ -168,86 +165,47 @@ def glauert_induced_velocity(v_hover, v_parallel, v_normal, iterations=30):
     return v
 
 
-@dataclass(frozen=True)
-class Multirotor(Airframe):
-    """A multirotor drone: masses, rotors, body drag and an electric chain (SI).
+def rotor_power(rotors: Rotors, thrust_coefficient, weight, drag, tas, density):
+    """Power terms of a rotor set carrying ``weight`` against ``drag`` at TAS ``tas``.
 
     Parameters
     ----------
     rotors : Rotors
         The rotor set.
-    body : BodyDrag
-        Drag of the frame and attached bodies.
+    thrust_coefficient : float
+        C_T = T / (rho A (Omega R)^2) held by the rotors [-].
+    weight : array_like
+        Weight carried [N].
+    drag : array_like
+        Body drag [N].
+    tas : array_like
+        True airspeed [m/s].
+    density : array_like
+        Air density [kg/m^3].
 
-    Notes
-    -----
-    The fixed-wing fields of :class:`~cruiseplan.Airframe` that a multirotor has no use for
-    (wing area, span, CLmax, polar) hold placeholders and are never read for it.
+    Returns
+    -------
+    induced, profile : numpy.ndarray
+        Induced and profile power of all rotors [W].
+    advance_ratio : numpy.ndarray
+        mu = V cos(alpha) / (Omega R) [-].
+
+    References
+    ----------
+    .. [1] Leishman (2006), eq. 2.118 (Glauert's inflow) and ch. 5 (profile power with
+       1 + 4.65 mu^2).
     """
+    r = rotors
+    total = np.sqrt(weight * weight + drag * drag)
+    thrust = total / r.count
+    # Tilt alpha = atan(D/W): its cosine and sine without the trigonometry.
+    vp, vn = tas * weight / total, tas * drag / total
+    vh = hover_induced_velocity(thrust, density, r.disk_area)
+    vi = glauert_induced_velocity(vh, vp, vn)
+    tip2 = thrust / (density * r.disk_area * thrust_coefficient)
+    tip = np.sqrt(tip2)
+    profile = (r.solidity * r.blade_cd0 / 8.0 * density * r.disk_area * tip2 * tip
+               * (1.0 + 4.65 * vp * vp / tip2))
+    induced = r.induced_factor * thrust * vi
+    return r.count * induced, r.count * profile, vp / tip
 
-    rotors: Rotors = None
-    body: object = None
-    kind: str = field(default="multirotor", init=False)
-
-    @property
-    def thrust_coefficient(self) -> float:
-        """C_T = T / (rho A (Omega R)^2) of one rotor, from hover at MTOM, sea level [-]."""
-        r = self.rotors
-        thrust = self.max_takeoff_mass * G0 / r.count
-        return thrust / (RHO0 * r.disk_area * r.hover_tip_speed**2)
-
-    def stall_speed(self, mass, density):
-        """A multirotor hovers: no stall speed (zeros)."""
-        return np.zeros(np.broadcast_shapes(np.shape(mass), np.shape(density)))
-
-    def level_flight(self, mass, air, tas):
-        """Power terms in level flight at TAS ``tas`` [m/s] (momentum theory)."""
-        r = self.rotors
-        tas = np.asarray(tas, dtype=float)
-        rho = air.density
-        weight = mass * G0
-        area, re_outside = self.body.area_and_range(tas, air)
-        drag = 0.5 * rho * tas * tas * area
-        total = np.sqrt(weight * weight + drag * drag)
-        thrust = total / r.count
-        # Tilt alpha = atan(D/W): its cosine and sine without the trigonometry.
-        vp, vn = tas * weight / total, tas * drag / total
-        vh = hover_induced_velocity(thrust, rho, r.disk_area)
-        vi = glauert_induced_velocity(vh, vp, vn)
-        tip2 = thrust / (rho * r.disk_area * self.thrust_coefficient)
-        tip = np.sqrt(tip2)
-        profile = (r.solidity * r.blade_cd0 / 8.0 * rho * r.disk_area * tip2 * tip
-                   * (1.0 + 4.65 * vp * vp / tip2))
-        induced = r.induced_factor * thrust * vi
-        parasite = drag * tas
-        shaft = r.count * (induced + profile) + parasite
-        nan = np.full(np.shape(shaft), np.nan)
-        return dict(cl=nan, cd=nan, drag=drag, shaft=shaft, induced=r.count * induced,
-                    profile=r.count * profile, parasite=parasite, advance_ratio=vp / tip,
-                    tilt_tangent=drag / weight, reynolds_outside=re_outside)
-
-    def model_limits(self, flight, tas, stall_margin, air=None):
-        """Limit bits: rotor model range (advance ratio, tilt) and bodies' Reynolds range."""
-        from .performance import Limit
-
-        beyond = ((flight["advance_ratio"] > MAX_ADVANCE_RATIO)
-                  | (flight["tilt_tangent"] > np.tan(np.radians(MAX_TILT_DEG))))
-        bits = np.where(beyond, np.uint16(Limit.ROTOR_RANGE), np.uint16(0))
-        # At the hover the bodies' Reynolds number is zero, but so is their drag.
-        outside = flight["reynolds_outside"] & (np.asarray(tas) > 0)
-        bits = bits | np.where(outside, np.uint16(Limit.REYNOLDS_RANGE), 0)
-        return bits.astype(np.uint16)
-
-    def stall_speed_ratio(self, flight):
-        """No stall for a multirotor: NaN."""
-        return np.full(np.shape(flight["shaft"]), np.nan)
-
-    def hover_power(self, mass, air):
-        """Shaft power to hover [W] (all rotors)."""
-        return self.level_flight(mass, air, 0.0)["shaft"]
-
-    def hover_endurance(self, mass, air, store=None):
-        """Hover endurance [s] on ``store`` joules (full usable energy by default)."""
-        prop = self.propulsion
-        store = prop.store_capacity if store is None else store
-        return prop.endurance(store, self.hover_power(mass, air))

@@ -38,24 +38,22 @@ References
 
 from __future__ import annotations
 
-import enum
 from dataclasses import dataclass, replace
 
 import numpy as np
 
-from ._numerics import brent_minimise, golden_minimise, illinois_root
-from .aerodynamics import ParabolicPolar, speed_for_lift_coefficient
-from .atmosphere import AirState, air_state, check_altitude
-from .constants import G0
-from .performance import (
-    DEFAULT_STALL_MARGIN,
-    MACH_LIMIT,
+from cruiseplan._numerics import brent_minimise, golden_minimise, illinois_root
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, G0, MACH_LIMIT
+from cruiseplan.limits import Limit, describe
+from cruiseplan.physics.aerodynamics import ParabolicPolar, speed_for_lift_coefficient
+from cruiseplan.physics.atmosphere import AirState, air_state, check_altitude
+from cruiseplan.planning.performance import (
     CruisePoints,
-    _shaft_power,
     cruise_points,
     resolve_loading,
+    shaft_power_required,
 )
-from .units import temperature_difference, to_si
+from cruiseplan.units import temperature_difference, to_si
 
 #: Fraction of the best specific range kept by the economy speed (common practice).
 ECONOMY_FRACTION = 0.99
@@ -67,39 +65,6 @@ OBJECTIVES = ("range", "endurance", "economy")
 TIE_TOLERANCE = 1e-9
 #: Altitude searched for ceilings [m].
 CEILING_SEARCH_TOP = 20000.0
-
-
-class Constraint(enum.IntFlag):
-    """Constraints that can bind a best-cruise answer (bit flags)."""
-
-    STALL_MARGIN = 1
-    POWER = 2
-    CLIMB_RESERVE = 4
-    MACH = 8
-    CEILING = 16
-    FLOOR = 32
-    HEIGHT_AGL = 64
-    WIND = 128
-
-
-CONSTRAINT_TEXT = {
-    Constraint.STALL_MARGIN: "stall margin",
-    Constraint.POWER: "power available",
-    Constraint.CLIMB_RESERVE: "climb-rate reserve",
-    Constraint.MACH: f"Mach {MACH_LIMIT} model limit",
-    Constraint.CEILING: "altitude band ceiling or top of the altitudes searched",
-    Constraint.FLOOR: "altitude band floor",
-    Constraint.HEIGHT_AGL: "maximum height above ground",
-    Constraint.WIND: "wind (ground speed not positive or course cannot be held)",
-}
-
-
-def describe(code: int) -> str:
-    """Text for a constraint bit set; ``"none"`` when no constraint binds."""
-    code = int(code)
-    if code == 0:
-        return "none"
-    return "; ".join(t for flag, t in CONSTRAINT_TEXT.items() if code & flag)
 
 
 @dataclass(frozen=True)
@@ -118,13 +83,13 @@ class SpeedSchedule:
         Slowest and fastest flyable TAS within all speed constraints [m/s]; NaN where
         no speed is flyable.
     infeasible : numpy.ndarray
-        :class:`Constraint` bits explaining why no speed is flyable (0 where one is).
+        :class:`~cruiseplan.limits.Limit` bits explaining why no speed is flyable (0 where one is).
     tas : dict
         Objective name to constrained best TAS [m/s].
     tas_unconstrained : dict
         Objective name to best TAS before the speed constraints [m/s].
     binding : dict
-        Objective name to :class:`Constraint` bits binding the speed.
+        Objective name to :class:`~cruiseplan.limits.Limit` bits binding the speed.
     """
 
     air: AirState
@@ -178,7 +143,7 @@ def climb_rate(airframe, mass, air: AirState, tas):
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10, eq. 5.77.
     """
     prop = airframe.propulsion
-    excess = prop.shaft_power_available(air.sigma) - _shaft_power(airframe, mass, air, tas)
+    excess = prop.shaft_power_available(air.sigma) - shaft_power_required(airframe, mass, air, tas)
     return prop.propeller(tas) * excess / (mass * G0)
 
 
@@ -207,7 +172,7 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     out = {}
 
     def shaft(v):
-        return _shaft_power(airframe, mass, air, v)
+        return shaft_power_required(airframe, mass, air, v)
 
     def ground_range(v):
         with np.errstate(invalid="ignore"):
@@ -282,7 +247,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     v_s = airframe.stall_speed(mass, air.density)
     v = np.maximum(free, stall_margin * v_s)
     prop = airframe.propulsion
-    enough = _shaft_power(airframe, mass, air, v) <= prop.shaft_power_available(air.sigma)
+    enough = shaft_power_required(airframe, mass, air, v) <= prop.shaft_power_available(air.sigma)
     feasible = np.ones(shape, dtype=bool)
     if np.all(enough):
         return v, feasible
@@ -296,7 +261,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     avail = prop.shaft_power_available(sub.sigma)
 
     def deficit(x):
-        return _shaft_power(airframe, m_sub, sub, x) - avail
+        return shaft_power_required(airframe, m_sub, sub, x) - avail
 
     v_mp = _free_speeds(airframe, m_sub, sub, store, hw[short], cw[short],
                         ("endurance",), xtol)["endurance"]
@@ -358,11 +323,11 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     win_lo = np.maximum(c_lo, v_margin)
     win_hi = c_hi
     infeasible = np.zeros(shape, dtype=np.uint16)
-    infeasible |= np.where(~p_ok, Constraint.POWER, 0).astype(np.uint16)
-    infeasible |= np.where(p_ok & ~c_ok, Constraint.CLIMB_RESERVE, 0).astype(np.uint16)
+    infeasible |= np.where(~p_ok, Limit.POWER, 0).astype(np.uint16)
+    infeasible |= np.where(p_ok & ~c_ok, Limit.CLIMB_RESERVE, 0).astype(np.uint16)
     squeezed = c_ok & (v_margin > c_hi)
-    infeasible |= np.where(squeezed, Constraint.STALL_MARGIN | (
-        Constraint.CLIMB_RESERVE if climb_reserve > 0 else Constraint.POWER), 0
+    infeasible |= np.where(squeezed, Limit.STALL | (
+        Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER), 0
     ).astype(np.uint16)
     ok = infeasible == 0
     win_lo = np.where(ok, win_lo, np.nan)
@@ -374,15 +339,15 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
         below = v_unc < win_lo
         above = v_unc > win_hi
         stall_bound = below & (v_margin >= c_lo)
-        code |= np.where(stall_bound, Constraint.STALL_MARGIN, 0).astype(np.uint16)
+        code |= np.where(stall_bound, Limit.STALL, 0).astype(np.uint16)
         power_side = (below & ~stall_bound) | above
         at_mach = above & (win_hi >= hi * (1 - 1e-9))
         outside_p = (v_unc < p_lo) | (v_unc > p_hi)
-        code |= np.where(power_side & ~at_mach & outside_p, Constraint.POWER, 0
+        code |= np.where(power_side & ~at_mach & outside_p, Limit.POWER, 0
                          ).astype(np.uint16)
-        code |= np.where(power_side & ~at_mach & ~outside_p, Constraint.CLIMB_RESERVE, 0
+        code |= np.where(power_side & ~at_mach & ~outside_p, Limit.CLIMB_RESERVE, 0
                          ).astype(np.uint16)
-        code |= np.where(at_mach, Constraint.MACH, 0).astype(np.uint16)
+        code |= np.where(at_mach, Limit.MACH, 0).astype(np.uint16)
         return np.where(ok, v, np.nan), np.where(ok, code, 0).astype(np.uint16)
 
     tas, binding = {}, {}
@@ -415,11 +380,12 @@ class BestCruise:
         The objective at each altitude: ground range [m] for range and economy, endurance
         [s] for endurance; NaN where infeasible or out of band.
     out_of_band : numpy.ndarray
-        :class:`Constraint` bits (CEILING, FLOOR, HEIGHT_AGL) for altitudes outside the band.
+        :class:`~cruiseplan.limits.Limit` bits (CEILING, FLOOR, HEIGHT_AGL) for altitudes
+        outside the band.
     best_index : int
         Index of the best altitude, -1 when no altitude is flyable.
     binding : int
-        :class:`Constraint` bits binding the chosen answer (0: unconstrained optimum).
+        :class:`~cruiseplan.limits.Limit` bits binding the chosen answer (0: unconstrained optimum).
     """
 
     objective: str
@@ -469,15 +435,15 @@ class BestCruise:
 def _band(altitudes, floor, ceiling, max_agl, elevation):
     code = np.zeros(np.shape(altitudes), dtype=np.uint16)
     if floor is not None:
-        code |= np.where(altitudes < floor, Constraint.FLOOR, 0).astype(np.uint16)
+        code |= np.where(altitudes < floor, Limit.FLOOR, 0).astype(np.uint16)
     top = np.inf if ceiling is None else ceiling
     if max_agl is not None:
         cap = elevation + max_agl
-        code |= np.where((altitudes > cap) & (cap <= top), Constraint.HEIGHT_AGL, 0
+        code |= np.where((altitudes > cap) & (cap <= top), Limit.HEIGHT_AGL, 0
                          ).astype(np.uint16)
         top = min(top, cap)
     if ceiling is not None:
-        code |= np.where((altitudes > ceiling) & (ceiling <= top), Constraint.CEILING, 0
+        code |= np.where((altitudes > ceiling) & (ceiling <= top), Limit.CEILING, 0
                          ).astype(np.uint16)
     return code
 
@@ -519,7 +485,7 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
     best_index : int
         -1 when nothing is flyable.
     binding : int
-        :class:`Constraint` bits.
+        :class:`~cruiseplan.limits.Limit` bits.
     """
     feasible = schedule.feasible
     speed_binding = schedule.binding[objective]
@@ -539,7 +505,7 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
         j = int(between[np.argmax(free[between] >= threshold)])
         binding |= int(out_of_band[j]) | int(schedule.infeasible[j]) | int(speed_binding[j])
     if i == value.size - 1 and i > 0 and value[i] >= value[i - 1] * (1 - TIE_TOLERANCE):
-        binding |= int(Constraint.CEILING)  # the top of the altitudes searched
+        binding |= int(Limit.CEILING)  # the top of the altitudes searched
     return i, binding
 
 
@@ -588,7 +554,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.7.
     """
-    from .errors import CruiseplanError
+    from cruiseplan.errors import CruiseplanError
 
     if objective not in OBJECTIVES:
         raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
@@ -615,7 +581,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin)
     wind_bad = sched.feasible & ~(gs > 0)
-    infeasible = sched.infeasible | np.where(wind_bad, Constraint.WIND, 0).astype(np.uint16)
+    infeasible = sched.infeasible | np.where(wind_bad, Limit.WIND, 0).astype(np.uint16)
     sched = replace(sched, infeasible=infeasible)
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)

@@ -22,7 +22,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .constants import A0, P0, RHO0
+from cruiseplan.constants import A0, P0, RHO0
 
 
 def mach_from_tas(tas, speed_of_sound):

@@ -10,16 +10,12 @@ from datetime import date
 
 import numpy as np
 
-from .constants import T_ZERO_C
-from .paths import shown_path
-from .performance import LIMIT_CODE, LIMIT_TEXT, CruisePoints
-from .reports import Column, Report, display, hours_minutes
-
-
-def _cautions():
-    from . import CAUTIONS
-
-    return CAUTIONS
+from cruiseplan.cautions import CAUTIONS
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
+from cruiseplan.io.bundled import shown_path
+from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, explain
+from cruiseplan.planning.performance import CruisePoints
+from cruiseplan.report.output import Column, Report, display, hours_minutes
 
 
 def airframe_lines(airframe) -> list:
@@ -51,7 +47,7 @@ def endurance_column(prop, seconds) -> Column:
 
 
 def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "aviation",
-                  title: str = "Cruise table", stall_margin: float = 1.3,
+                  title: str = "Cruise table", stall_margin: float = DEFAULT_STALL_MARGIN,
                   show_ground: bool = False) -> Report:
     """Lay out cruise points (any 2-D shape, rows by altitude) as a Report.
 
@@ -77,7 +73,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
     Report
         The table with header, notes and cautions.
     """
-    shape = np.broadcast_shapes(pts.cl.shape, np.shape(pts.tas))
+    shape = np.broadcast_shapes(pts.shaft_power.shape, np.shape(pts.tas))
 
     def flat(a):
         return np.broadcast_to(a, shape).ravel().tolist()
@@ -113,7 +109,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
     else:
         fw, lw = display("electric_power", units)
         fsr, lsr = display("sr_energy", units)
-        cols += [Column("battery", lw, flat(pts.store_flow * fw), "{:.0f}"),
+        cols += [Column("battery", lw, flat(pts.source_power * fw), "{:.0f}"),
                  Column("SR", lsr, flat(pts.specific_range_air * fsr), "{:.1f}")]
     cols += [
         endurance_column(prop, flat(pts.endurance)),
@@ -121,15 +117,13 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
     ]
     if show_ground:
         cols.append(Column("gnd range", ld, flat(pts.range_ground * fd), "{:.0f}"))
-    if airframe.kind != "multirotor":  # no wing: no CL, L/D or stall
+    if airframe.has_wing:  # CL, L/D and stall exist only for a wing
         cols += [
             Column("L/D", "", flat(pts.lift_to_drag), "{:.1f}"),
             Column("CL", "", flat(pts.cl), "{:.2f}"),
             Column("V/Vs", "", flat(pts.stall_speed_ratio), "{:.2f}"),
         ]
     codes = np.broadcast_to(pts.limits, shape).ravel()
-    from .performance import explain
-
     cols.append(Column("status", "", [explain(c, short=True) for c in codes], "{}"))
     fm, lm = display("mass", units)
     meta = airframe_lines(airframe) + [
@@ -145,7 +139,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
     notes += [f"{code}: {LIMIT_TEXT[flag]}" + (
         f" (V < {stall_margin:g} x stall speed)" if code == "STALL" else "")
         for flag, code in LIMIT_CODE.items() if used & flag]
-    return Report(title, meta, cols, notes, _cautions())
+    return Report(title, meta, cols, notes, CAUTIONS)
 
 
 def atmosphere_report(air, units: str = "aviation") -> Report:
@@ -184,11 +178,11 @@ def atmosphere_report(air, units: str = "aviation") -> Report:
     ]
     meta = ["ISA (ICAO Doc 7488/3) evaluated by ambiance at pressure altitude; temperature "
             "ISA + deviation, pressure unchanged, density from the gas law"]
-    return Report("Atmosphere", meta, cols, [], _cautions())
+    return Report("Atmosphere", meta, cols, [], CAUTIONS)
 
 
 def _spread_text(name, values, factor, unit, fmt="{:.0f}") -> str:
-    from .uncertainty import quantiles
+    from cruiseplan.planning.uncertainty import quantiles
 
     p10, p50, p90 = (fmt.format(q * factor) for q in quantiles(values))
     return f"{name} P10 / P50 / P90 = {p10} / {p50} / {p90} {unit}"
@@ -266,7 +260,7 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
     else:
         fw, lw = display("electric_power", units)
         fsr, lsr = display("sr_energy", units)
-        cols += [Column("battery", lw, flat(pts.store_flow * fw), "{:.0f}"),
+        cols += [Column("battery", lw, flat(pts.source_power * fw), "{:.0f}"),
                  Column("gnd SR", lsr, flat(pts.specific_range_ground * fsr), "{:.1f}")]
     feasible = best.feasible
     cols += [
@@ -308,7 +302,7 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
                        if airframe.propulsion.store_name == "fuel"
                        else _spread_text("endurance", u.endurance, 1 / 60.0, "min")))
         summary.update(_spread_summary(u))
-    return Report(f"Best cruise ({obj})", meta, cols, notes, _cautions(), summary)
+    return Report(f"Best cruise ({obj})", meta, cols, notes, CAUTIONS, summary)
 
 
 def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
@@ -398,4 +392,4 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
                     f"{_spread_text('flight time', u.time, 1 / 60.0, 'min')}; "
                     f"probability the reserve holds {u.reserve_probability * 100:.1f} %")
         summary.update(_spread_summary(u))
-    return Report(f"Mission plan: {mission.name}", meta, cols, notes, _cautions(), summary)
+    return Report(f"Mission plan: {mission.name}", meta, cols, notes, CAUTIONS, summary)

@@ -14,7 +14,10 @@ Two kinds, registered in :data:`PROPULSION_KINDS` under the names used in airfra
 Shaft power required is thrust power over propeller efficiency,
 :math:`P_{shaft} = D V / \eta_p(V)`.
 
-Each kind's "store" is what it burns: fuel mass [kg] or usable battery energy [J].
+Each kind's "store" is what it uses up: fuel mass [kg] or usable battery energy [J]
+(:class:`Store`). One store rate serves every output: :meth:`store_rate` [kg/s or W] is the
+rate the store is used at a shaft power, Peukert's law included, so that endurance is
+store / rate and specific range TAS / rate, and specific range x store = range exactly.
 
 References
 ----------
@@ -28,9 +31,42 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
+
+from cruiseplan.errors import CruiseplanError
+
+
+@dataclass(frozen=True)
+class Store:
+    """What a propulsion kind uses up, and how it is counted.
+
+    Attributes
+    ----------
+    name : str
+        ``"fuel"`` or ``"energy"``.
+    unit : str
+        SI unit of the amount: ``"kg"`` or ``"J"``.
+    unit_text : str
+        The unit in words, for messages.
+    burns_mass : bool
+        The aircraft gets lighter as the store is used.
+    default_units : str
+        Display unit system its crews use: ``"aviation"`` or ``"si"``.
+    """
+
+    name: str
+    unit: str
+    unit_text: str
+    burns_mass: bool
+    default_units: str
+
+
+#: Fuel, counted by mass [kg].
+FUEL = Store("fuel", "kg", "kg of fuel", True, "aviation")
+#: Usable battery energy [J].
+ENERGY = Store("energy", "J", "J of usable energy", False, "si")
 
 # --- Power-lapse laws --------------------------------------------------------------
 
@@ -205,7 +241,12 @@ class PistonPropeller:
     fuel_capacity: float
     power_lapse: str = "gagg-ferrar"
     kind: str = field(default="piston-propeller", init=False)
-    store_name: str = field(default="fuel", init=False)
+    store: Store = field(default=FUEL, init=False)
+
+    @property
+    def store_name(self) -> str:
+        """``"fuel"``."""
+        return self.store.name
 
     @property
     def store_capacity(self) -> float:
@@ -226,21 +267,42 @@ class PistonPropeller:
         """Full-throttle shaft power [W] at density ratio ``sigma``."""
         return self.rated_power * self.lapse(sigma)
 
-    def store_flow(self, shaft_power):
-        """Fuel mass flow [kg/s] at shaft power [W]."""
+    def store_rate(self, shaft_power):
+        """Rate the store is used [kg/s] at shaft power [W]: the fuel flow, BSFC x P."""
         return self.bsfc * shaft_power
 
     def source_power(self, shaft_power):
         """Fuel heat release rate [W] (lower heating value) at shaft power [W]."""
-        return self.store_flow(shaft_power) * FUELS[self.fuel].lower_heating_value
+        return self.store_rate(shaft_power) * FUELS[self.fuel].lower_heating_value
 
     def endurance(self, store, shaft_power):
         """Time [s] to burn ``store`` kg of fuel at constant shaft power [W]."""
-        return store / self.store_flow(shaft_power)
+        return store / self.store_rate(shaft_power)
 
-    def store_rate(self, shaft_power):
-        """Rate the store is used [kg/s] at shaft power [W]: the fuel flow."""
-        return self.store_flow(shaft_power)
+    def sampled(self, name: str, factors: dict):
+        """The engine with toleranced parameters (bsfc, propeller_efficiency) as arrays.
+
+        Parameters
+        ----------
+        name : str
+            Airframe name, for errors.
+        factors : dict
+            Parameter name to an array of factors [-].
+
+        Returns
+        -------
+        PistonPropeller
+            Same engine, parameters multiplied by the factors.
+        """
+        if "battery_energy" in factors:
+            raise CruiseplanError(f"{name}: a battery-energy tolerance needs a battery")
+        changes = {}
+        if "bsfc" in factors:
+            changes["bsfc"] = self.bsfc * factors["bsfc"]
+        if "propeller_efficiency" in factors:
+            changes["propeller"] = replace(self.propeller,
+                                           factor=factors["propeller_efficiency"])
+        return replace(self, **changes) if changes else self
 
 
 @dataclass(frozen=True)
@@ -277,7 +339,12 @@ class ElectricPropeller:
     peukert_exponent: float = 1.0
     rating_time: float = 3600.0
     kind: str = field(default="electric-propeller", init=False)
-    store_name: str = field(default="energy", init=False)
+    store: Store = field(default=ENERGY, init=False)
+
+    @property
+    def store_name(self) -> str:
+        """``"energy"``."""
+        return self.store.name
 
     @property
     def rated_power(self) -> float:
@@ -301,39 +368,97 @@ class ElectricPropeller:
         """Maximum shaft power [W], the same at every altitude."""
         return self.max_power * self.lapse(sigma)
 
-    def store_flow(self, shaft_power):
+    def source_power(self, shaft_power):
         """Battery power drawn [W] at shaft power [W]."""
         return shaft_power / (self.motor_efficiency * self.controller_efficiency)
 
-    source_power = store_flow
+    def store_rate(self, shaft_power):
+        r"""Rate the usable energy is used [W] at shaft power [W], Peukert included.
 
-    def endurance(self, store, shaft_power):
-        r"""Time [s] to draw ``store`` joules of usable energy at shaft power [W].
+        Peukert's law in Hart's form gives the time a pack lasts at current :math:`I`,
+        :math:`t = R_t (C/(I R_t))^n`, for its rated energy :math:`U C`; the usable energy
+        is used at that pack's rate,
 
-        Peukert's law in Hart's form, :math:`t = R_t (C/(I R_t))^n` scaled by the share of
-        the usable energy ``store`` in the rated pack energy :math:`U C`.
+        .. math:: \dot E = \frac{U C}{t} = \frac{U C}{R_t}\left(\frac{I R_t}{C}\right)^n,
+                  \qquad I = P_{batt} / U,
+
+        the battery power when :math:`n = 1`, more at high currents otherwise. Segments
+        flown at different powers add their shares of the pack this way (each uses
+        :math:`\Delta t / t(I)` of it).
+
+        Parameters
+        ----------
+        shaft_power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray
+            Rate of use of the usable energy [W].
 
         References
         ----------
         .. [1] Traub (2011), eq. 9.
         """
-        p_batt = self.store_flow(shaft_power)
+        p_batt = self.source_power(shaft_power)
         n = self.peukert_exponent
-        if n == 1.0:
-            return store / p_batt
+        if np.all(n == 1.0):
+            return p_batt
         current = p_batt / self.pack_voltage
-        fraction = store / (self.pack_voltage * self.capacity)
-        return fraction * self.rating_time * (self.capacity / (current * self.rating_time)) ** n
+        return (self.pack_voltage * self.capacity / self.rating_time
+                * (current * self.rating_time / self.capacity) ** n)
 
-    def store_rate(self, shaft_power):
-        r"""Rate the usable energy is used [W] at shaft power [W], Peukert included.
+    def endurance(self, store, shaft_power):
+        """Time [s] to use ``store`` joules of usable energy at shaft power [W].
 
-        Usable energy over the time it lasts at this draw, :math:`E/t(I)`; equal to the
-        battery power when the Peukert exponent is 1, larger at high currents otherwise.
-        Segments flown at different powers add their shares of the pack this way (each
-        uses :math:`\Delta t / t(I)` of it).
+        Store over :meth:`store_rate`; with Peukert's law in Hart's form the time is
+        linear in the share of the pack used, so this equals the law itself.
+
+        Parameters
+        ----------
+        store : array_like
+            Usable energy [J].
+        shaft_power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray
+            Endurance [s].
+
+        References
+        ----------
+        .. [1] Traub (2011), eq. 9.
         """
-        return self.battery_energy / self.endurance(self.battery_energy, shaft_power)
+        return store / self.store_rate(shaft_power)
+
+    def sampled(self, name: str, factors: dict):
+        """The battery chain with toleranced parameters as arrays over samples.
+
+        Parameters
+        ----------
+        name : str
+            Airframe name, for errors.
+        factors : dict
+            Parameter name (battery_energy, motor_efficiency, propeller_efficiency) to an
+            array of factors [-].
+
+        Returns
+        -------
+        ElectricPropeller
+            Same chain, parameters multiplied by the factors.
+        """
+        if "bsfc" in factors:
+            raise CruiseplanError(f"{name}: a BSFC tolerance needs a piston engine")
+        changes = {}
+        if "battery_energy" in factors:
+            changes["battery_energy"] = self.battery_energy * factors["battery_energy"]
+        if "motor_efficiency" in factors:
+            changes["motor_efficiency"] = self.motor_efficiency * factors["motor_efficiency"]
+        if "propeller_efficiency" in factors:
+            changes["propeller"] = replace(self.propeller,
+                                           factor=factors["propeller_efficiency"])
+        return replace(self, **changes) if changes else self
 
 
 #: Propulsion kinds by the name used in airframe files.

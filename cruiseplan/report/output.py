@@ -18,7 +18,7 @@ from pathlib import Path
 
 import numpy as np
 
-from .units import conversion_factor
+from cruiseplan.units import conversion_factor
 
 #: Display units by physical kind: (pint unit, label) per unit system.
 UNIT_SYSTEMS = {
@@ -213,7 +213,7 @@ def write_bytes_atomic(path, data: bytes) -> None:
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
     if not folder.is_dir():
-        from .errors import CruiseplanError
+        from cruiseplan.errors import CruiseplanError
 
         raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
     fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")

@@ -22,15 +22,17 @@ import math
 import tomllib
 from pathlib import Path
 
-from .airframe_files import find_airframe, read_airframe
-from .errors import AirframeFileError, CruiseplanError, MissionFileError, UnitError
-from .mission import FT, Leg, Mission, Profile, Reserve
-from .paths import MISSION_DIRS
-from .units import parse_quantity, temperature_difference
-from .winds import WindProfile, parse_wind_profile
-
-#: Where bundled missions live (see :mod:`cruiseplan.paths`).
-BUNDLED_DIRS = MISSION_DIRS
+from cruiseplan.constants import FT
+from cruiseplan.errors import AirframeFileError, CruiseplanError, MissionFileError, UnitError
+from cruiseplan.io.airframe_file import find_airframe, read_airframe
+from cruiseplan.io.bundled import bundled_files, find_file
+from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.model.tolerance import WindTolerance
+from cruiseplan.physics.atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
+from cruiseplan.physics.geo import great_circle
+from cruiseplan.physics.winds import WindProfile
+from cruiseplan.units import parse_quantity, temperature_difference
 
 _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty"}
 _MISSION_FIELDS = {"name", "description", "airframe", "takeoff_mass", "fuel", "battery",
@@ -153,8 +155,6 @@ def _wind(r, leg, where):
 
 
 def _leg(r, raw, where, to_pa):
-    from .geo import great_circle
-
     if not isinstance(raw, dict):
         r.fail(where, "expected a table of leg fields")
     leg = r.table({"x": raw}, "x", _LEG_FIELDS, where=where)
@@ -232,8 +232,6 @@ def read_mission(path) -> Mission:
     MissionFileError
         Naming the file, the leg and the field.
     """
-    from .atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
-
     path = Path(path)
     r = _Reader(path)
     try:
@@ -349,8 +347,6 @@ def read_mission(path) -> Mission:
     unc = r.table(data, "uncertainty", {"wind_speed", "wind_direction"})
     wind_tolerance = None
     if unc:
-        from .uncertainty import WindTolerance
-
         wind_tolerance = WindTolerance(
             r.quantity(unc, "wind_speed", "m/s", "[uncertainty]", lo=0.0, hi=30.0,
                        example="'4 kt'") or 0.0,
@@ -369,11 +365,14 @@ def read_mission(path) -> Mission:
 
 
 def bundled_missions() -> dict:
-    """Bundled mission files by name (file stem)."""
-    for folder in BUNDLED_DIRS:
-        if folder.is_dir():
-            return {p.stem: p for p in sorted(folder.glob("*.toml"))}
-    return {}
+    """Bundled mission files by name (file stem), sorted.
+
+    Returns
+    -------
+    dict
+        Name to :class:`pathlib.Path`.
+    """
+    return bundled_files("mission")
 
 
 def load_mission(name_or_path) -> Mission:
@@ -389,12 +388,4 @@ def load_mission(name_or_path) -> Mission:
     Mission
         The validated mission.
     """
-    text = str(name_or_path)
-    bundled = bundled_missions()
-    if text in bundled:
-        return read_mission(bundled[text])
-    path = Path(text)
-    if not path.is_file():
-        raise MissionFileError(f"{text}: no such mission file, nor a bundled mission "
-                               f"(bundled: {', '.join(bundled) or 'none'})")
-    return read_mission(path)
+    return read_mission(find_file(name_or_path, "mission"))

@@ -37,18 +37,17 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 import numpy as np
 
-from .airspeed import wind_components
-from .atmosphere import air_state
-from .constants import G0
-from .optimise import objective_speed, speed_schedule
-from .performance import DEFAULT_STALL_MARGIN, _shaft_power
-from .winds import WindProfile
+from cruiseplan.constants import FT, G0
+from cruiseplan.model.mission import Mission
+from cruiseplan.physics.airspeed import wind_components
+from cruiseplan.physics.atmosphere import air_state
+from cruiseplan.planning.optimise import objective_speed, speed_schedule
+from cruiseplan.planning.performance import shaft_power_required
 
-FT = 0.3048
 #: Integration steps per segment (altitude steps in climb and descent, RK4 steps in cruise).
 CLIMB_STEPS = 8
 CRUISE_STEPS = 4
@@ -56,127 +55,6 @@ CRUISE_STEPS = 4
 MIN_CLIMB_RATE = 0.1
 #: Ground speed floor [m/s] where the wind is as strong as the airspeed (see _cruise).
 GS_FLOOR = 0.5
-
-
-@dataclass(frozen=True)
-class Leg:
-    """One leg of a route (SI).
-
-    Parameters
-    ----------
-    name : str
-        Name used in plans and errors.
-    distance : float
-        Leg length [m].
-    course : float
-        True course [deg] (needed with winds; 0 in calm air is fine).
-    wind : WindProfile
-        Winds aloft along the leg.
-    altitude : float or None
-        Cruise pressure altitude [m]; None for the best one.
-    tas : float or None
-        Cruise TAS [m/s]; None for the objective's best speed.
-    objective : str
-        ``"range"``, ``"endurance"`` or ``"economy"`` for a best speed.
-    elevation : float or None
-        Highest ground under the leg [m]; the higher of the departure and arrival
-        elevations when None.
-    max_agl : float or None
-        Maximum height above that ground [m] (e.g. a drone's legal cap).
-    max_altitude : float or None
-        Highest altitude allowed (airspace) [m].
-    """
-
-    name: str
-    distance: float
-    course: float = 0.0
-    wind: WindProfile = field(default_factory=WindProfile.calm)
-    altitude: float | None = None
-    tas: float | None = None
-    objective: str = "range"
-    elevation: float | None = None
-    max_agl: float | None = None
-    max_altitude: float | None = None
-
-
-@dataclass(frozen=True)
-class Reserve:
-    """Reserve policy: what must remain at landing.
-
-    Parameters
-    ----------
-    kind : {"time", "fraction", "fixed"}
-        Time at best-endurance power, a fraction of the usable capacity, or a quantity.
-    amount : float
-        Seconds, a fraction, or kg of fuel / J of usable energy.
-    altitude : float or None
-        Altitude for a time reserve [m]; the last leg's altitude when None.
-    alternate : Leg or None
-        A diversion leg flown at best range, added to the reserve.
-    """
-
-    kind: str
-    amount: float
-    altitude: float | None = None
-    alternate: Leg | None = None
-
-
-@dataclass(frozen=True)
-class Profile:
-    """How the aircraft climbs and descends between legs (SI).
-
-    Parameters
-    ----------
-    departure_elevation, arrival_elevation : float
-        Field pressure altitudes [m].
-    climb_speed : float or None
-        Climb equivalent airspeed [m/s]; the best-rate speed at departure when None.
-    climb_power : float
-        Fraction of full-throttle power in the climb [-].
-    climb_rate : float or None
-        Cap on the climb rate [m/s] (drones usually climb at a set rate).
-    descent_rate : float
-        Descent rate [m/s].
-    min_clearance : float
-        Minimum height above each leg's highest ground for a ``best`` altitude [m].
-    altitude_step : float
-        Spacing of candidate altitudes for ``best`` [m].
-    top : float
-        Highest candidate altitude for ``best`` [m].
-    idle_power : float
-        Fraction of rated power at idle in descents [-].
-    """
-
-    departure_elevation: float = 0.0
-    arrival_elevation: float = 0.0
-    climb_speed: float | None = None
-    climb_power: float = 1.0
-    climb_rate: float | None = None
-    descent_rate: float = 500 * FT / 60.0
-    min_clearance: float = 1000 * FT
-    altitude_step: float = 500 * FT
-    top: float = 12000 * FT
-    idle_power: float = 0.05
-
-
-@dataclass(frozen=True)
-class Mission:
-    """A mission: airframe, loading, day, legs, allowance, reserve and profile (SI)."""
-
-    name: str
-    airframe: object
-    legs: tuple
-    reserve: Reserve
-    profile: Profile = field(default_factory=Profile)
-    isa_dev: float = 0.0
-    mass: float | None = None
-    store: float | None = None
-    payload: float | None = None
-    allowance: float = 0.0
-    stall_margin: float = DEFAULT_STALL_MARGIN
-    source: str = ""
-    description: str = ""
-    wind_tolerance: object = None
 
 
 @dataclass(frozen=True)
@@ -272,7 +150,7 @@ class Plan:
 
 # --- the flight model used by the planner ---------------------------------------------
 
-class _Flight:
+class Flight:
     """Lean SI model of the airframe on the day, shared by all segments.
 
     For a Monte Carlo run the airframe's parameters may be arrays over samples, and
@@ -295,12 +173,15 @@ class _Flight:
         self.zero_fuel_mass = load.mass - load.store if self.burns_mass else load.mass
 
     def air(self, h):
+        """Air at pressure altitudes ``h`` [m] on the day."""
         return air_state(np.asarray(h, dtype=float), self.dev)
 
     def shaft(self, m, air, v):
-        return _shaft_power(self.af, m, air, v)
+        """Shaft power [W] in level flight at mass ``m``, TAS ``v``."""
+        return shaft_power_required(self.af, m, air, v)
 
     def rate(self, shaft):
+        """Rate the store is used [kg/s or W] at shaft power ``shaft`` [W]."""
         return self.prop.store_rate(shaft)
 
     def wind(self, leg, h):
@@ -325,7 +206,7 @@ class _Flight:
         return gs, heading, np.abs(cross) < vh
 
 
-def _vertical(fl: _Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
+def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
     """Climb or descend from h0 to h1 (arrays over candidates), integrated in steps.
 
     Each candidate climbs (h1 > h0) at the climb EAS ``v_climb`` and climb power, or
@@ -398,7 +279,7 @@ def _vertical(fl: _Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
                     power=mean(pw_sum))
 
 
-def _cruise(fl: _Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
+def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
     """Cruise at altitudes ``h`` over ``distance`` (arrays over candidates) by RK4.
 
     With ``leg.tas`` None the lift coefficient of TAS ``v_ref`` at mass ``m_ref`` is held
@@ -455,7 +336,7 @@ def _cruise(fl: _Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
                 wind_ok=held & (gs0 > 0), v_end=v_end)
 
 
-def _cruise_speed(fl: _Flight, leg, h, m, store, air=None):
+def _cruise_speed(fl: Flight, leg, h, m, store, air=None):
     """TAS to start the cruise at: the leg's, or the objective's best (constrained)."""
     h = np.atleast_1d(np.asarray(h, dtype=float))
     if leg.tas is not None:
@@ -471,7 +352,7 @@ def climb_speed(mission: Mission) -> float:
     """Climb EAS [m/s]: the profile's, or the best-rate speed at departure, mass at start."""
     if mission.profile.climb_speed is not None:
         return mission.profile.climb_speed
-    from .optimise import max_climb_rate
+    from cruiseplan.planning.optimise import max_climb_rate
 
     af = mission.airframe
     load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
@@ -483,7 +364,7 @@ def climb_speed(mission: Mission) -> float:
     return float(v * np.sqrt(air.sigma))
 
 
-def _leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
+def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
                  v_cruise=None):
     """Evaluate a leg at candidate altitudes: transition, cruise, final descent.
 
@@ -583,7 +464,7 @@ def plan_mission(mission: Mission) -> Plan:
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.10-5.14.
     """
     af = mission.airframe
-    fl = _Flight(mission)
+    fl = Flight(mission)
     prof = mission.profile
     reasons = []
     load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
@@ -614,7 +495,7 @@ def plan_mission(mission: Mission) -> Plan:
                 cands = np.array([lo])
         else:
             cands = np.array([leg.altitude])
-        opts = _leg_options(fl, mission, leg, h, m, store, v_climb, last, cands)
+        opts = leg_options(fl, mission, leg, h, m, store, v_climb, last, cands)
         if leg.altitude is None:
             i = _choose(opts, lo, top)
             if i < 0:
@@ -705,7 +586,7 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
     return out
 
 
-def _reserve(fl: _Flight, mission: Mission, mass, leg_altitudes) -> tuple:
+def _reserve(fl: Flight, mission: Mission, mass, leg_altitudes) -> tuple:
     """Store required at landing [kg or J] and a description of the policy.
 
     ``mass`` may be an array over samples; the reserve then is too.

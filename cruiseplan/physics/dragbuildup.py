@@ -30,7 +30,7 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -342,9 +342,24 @@ class BuildUpPolar:
         """True where a part's Reynolds number is outside its correlation's range."""
         return outside_correlations(self.components, self.bodies, tas, air)
 
+    def scaled(self, cd0_factor, oswald_factor):
+        """The polar with its parasite drag and Oswald e multiplied by factors.
+
+        Parameters
+        ----------
+        cd0_factor, oswald_factor : array_like
+            Factors on the built-up CD0 and on e [-].
+
+        Returns
+        -------
+        BuildUpPolar
+            The scaled polar.
+        """
+        return replace(self, scale=cd0_factor, k=self.k / oswald_factor)
+
     def reference_cd0(self):
         """CD0 at sea level ISA and 30 m/s, for summaries [-]."""
-        from .atmosphere import air_state
+        from cruiseplan.physics.atmosphere import air_state
 
         return float(self.cd0(30.0, air_state(0.0)))
 

@@ -23,69 +23,23 @@ References
 
 from __future__ import annotations
 
-import enum
 from dataclasses import dataclass
 
 import numpy as np
 
-from . import airspeed as _airspeed
-from ._numerics import brent_minimise, illinois_root
-from .atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, AirState, air_state, check_altitude
-from .errors import CruiseplanError
-from .units import temperature_difference, to_si
-
-#: Default stall margin: cruise at or above 1.3 x stall speed (common practice).
-DEFAULT_STALL_MARGIN = 1.3
-#: Mach number above which the incompressible drag polar is not trusted.
-MACH_LIMIT = 0.6
-
-
-class Limit(enum.IntFlag):
-    """Reasons a cruise point is not flyable or not trusted (bit flags)."""
-
-    STALL = 1
-    POWER = 2
-    ATMOSPHERE = 4
-    COMPRESSIBILITY = 8
-    POLAR_RANGE = 16
-    LAPSE_RANGE = 32
-    NO_SOLUTION = 64
-    WIND = 128
-    ROTOR_RANGE = 256
-    REYNOLDS_RANGE = 512
-
-
-#: One line per reason, for tables and errors.
-LIMIT_TEXT = {
-    Limit.STALL: "below the stall margin",
-    Limit.POWER: "power required exceeds power available",
-    Limit.ATMOSPHERE: "outside the atmosphere model",
-    Limit.COMPRESSIBILITY: f"Mach above {MACH_LIMIT}, outside the incompressible polar",
-    Limit.POLAR_RANGE: "CL outside the tabulated polar (extrapolated)",
-    Limit.LAPSE_RANGE: "density outside the power-lapse law's range",
-    Limit.NO_SOLUTION: "power setting cannot hold level flight",
-    Limit.WIND: "wind too strong to hold the course",
-    Limit.ROTOR_RANGE: "beyond the rotor model's range (advance ratio 0.35, tilt 35 deg)",
-    Limit.REYNOLDS_RANGE: "a Reynolds number outside its drag correlation's range",
-}
-
-#: Short codes for the status column of printed tables.
-LIMIT_CODE = {
-    Limit.STALL: "STALL", Limit.POWER: "POWER", Limit.ATMOSPHERE: "ATMOS",
-    Limit.COMPRESSIBILITY: "MACH", Limit.POLAR_RANGE: "POLAR", Limit.LAPSE_RANGE: "LAPSE",
-    Limit.NO_SOLUTION: "NOSOL", Limit.WIND: "WIND", Limit.ROTOR_RANGE: "ROTOR",
-    Limit.REYNOLDS_RANGE: "RE",
-}
-
-
-def explain(code: int, short: bool = False) -> str:
-    """Text for a limit bit set: ``"ok"`` when clear, otherwise the reasons joined."""
-    code = int(code)
-    if code == 0:
-        return "ok"
-    table = LIMIT_CODE if short else LIMIT_TEXT
-    sep = "+" if short else "; "
-    return sep.join(text for flag, text in table.items() if code & flag)
+from cruiseplan._numerics import brent_minimise, illinois_root
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.limits import Limit, explain
+from cruiseplan.physics import airspeed as _airspeed
+from cruiseplan.physics.atmosphere import (
+    ALTITUDE_MAX,
+    ALTITUDE_MIN,
+    AirState,
+    air_state,
+    check_altitude,
+)
+from cruiseplan.units import temperature_difference, to_si
 
 
 @dataclass(frozen=True)
@@ -104,8 +58,8 @@ class CruisePoints:
         Fuel [kg] or usable energy [J] on board.
     store_name : str
         ``"fuel"`` or ``"energy"``.
-    cl, cd, lift_to_drag : numpy.ndarray
-        Lift and drag coefficients and their ratio [-].
+    cl, cd, lift_to_drag : numpy.ndarray or None
+        Lift and drag coefficients and their ratio [-]; None for a kind without a wing.
     drag : numpy.ndarray
         Drag = thrust required [N].
     thrust_power : numpy.ndarray
@@ -118,8 +72,10 @@ class CruisePoints:
         Full-throttle shaft power [W].
     power_margin : numpy.ndarray
         Shaft power available minus required [W].
-    store_flow : numpy.ndarray
-        Fuel mass flow [kg/s] or battery power [W].
+    store_rate : numpy.ndarray
+        Rate the store is used: fuel mass flow [kg/s], or usable energy per second [W]
+        (the battery power, raised by Peukert's law at high currents). Specific range is
+        TAS over it and endurance the store over it, so specific range x store = range.
     fuel_volume_flow : numpy.ndarray or None
         Fuel volume flow [m^3/s] (piston only).
     ground_speed : numpy.ndarray
@@ -143,16 +99,16 @@ class CruisePoints:
     mass: float
     store: float
     store_name: str
-    cl: np.ndarray
-    cd: np.ndarray
-    lift_to_drag: np.ndarray
+    cl: np.ndarray | None
+    cd: np.ndarray | None
+    lift_to_drag: np.ndarray | None
     drag: np.ndarray
     thrust_power: np.ndarray
     shaft_power: np.ndarray
     source_power: np.ndarray
     power_available: np.ndarray
     power_margin: np.ndarray
-    store_flow: np.ndarray
+    store_rate: np.ndarray
     fuel_volume_flow: np.ndarray | None
     ground_speed: np.ndarray
     specific_range_air: np.ndarray
@@ -177,7 +133,7 @@ class CruisePoints:
     @property
     def shape(self) -> tuple:
         """Broadcast shape of the points."""
-        return self.cl.shape
+        return self.shaft_power.shape
 
     def cas(self) -> np.ndarray:
         """Calibrated airspeed [m/s]."""
@@ -195,8 +151,26 @@ class CruisePoints:
         return texts[inverse].reshape(self.limits.shape)
 
 
-def _shaft_power(airframe, mass, air, tas):
-    return airframe.level_flight(mass, air, tas)["shaft"]
+def shaft_power_required(airframe, mass, air, tas):
+    """Shaft power to hold level flight [W].
+
+    Parameters
+    ----------
+    airframe : AirframeKind
+        The airframe.
+    mass : array_like
+        Mass [kg].
+    air : AirState
+        Air, broadcastable against ``tas``.
+    tas : array_like
+        True airspeed [m/s].
+
+    Returns
+    -------
+    numpy.ndarray
+        Shaft power required [W].
+    """
+    return airframe.level_flight(mass, air, tas).shaft
 
 
 def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
@@ -238,13 +212,14 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     prop = airframe.propulsion
     tas = np.asarray(tas, dtype=float)
     flight = airframe.level_flight(mass, air, tas)
-    cl, cd, drag, shaft = flight["cl"], flight["cd"], flight["drag"], flight["shaft"]
+    cl, cd, drag, shaft = flight.cl, flight.cd, flight.drag, flight.shaft
     thrust_power = drag * tas
     sigma = air.sigma
     available = prop.shaft_power_available(sigma)
-    flow = prop.store_flow(shaft)
+    # One store rate for every output: endurance and specific range both divide by it.
+    rate = prop.store_rate(shaft)
     gs = tas - headwind if ground_speed is None else np.asarray(ground_speed, dtype=float)
-    endurance = prop.endurance(store, shaft)
+    endurance = store / rate
 
     limits = airframe.model_limits(flight, tas, stall_margin, air)
     limits = limits | (shaft > available).astype(np.uint16) << 1
@@ -255,13 +230,13 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
 
     shape = np.shape(shaft)
     out = dict(
-        cl=cl, cd=cd, lift_to_drag=cl / cd, drag=drag, thrust_power=thrust_power,
-        shaft_power=shaft, source_power=prop.source_power(shaft),
+        cl=cl, cd=cd, lift_to_drag=None if cl is None else cl / cd, drag=drag,
+        thrust_power=thrust_power, shaft_power=shaft, source_power=prop.source_power(shaft),
         power_available=np.broadcast_to(available, shape),
-        power_margin=available - shaft, store_flow=flow,
-        fuel_volume_flow=(flow / prop.fuel_density if prop.store_name == "fuel" else None),
+        power_margin=available - shaft, store_rate=rate,
+        fuel_volume_flow=(rate / prop.fuel_density if prop.store.burns_mass else None),
         ground_speed=np.broadcast_to(gs, shape),
-        specific_range_air=tas / flow, specific_range_ground=gs / flow,
+        specific_range_air=tas / rate, specific_range_ground=gs / rate,
         endurance=endurance, range_air=tas * endurance, range_ground=gs * endurance,
         stall_speed_ratio=airframe.stall_speed_ratio(flight),
     )
@@ -370,7 +345,7 @@ def resolve_loading(airframe, mass=None, fuel=None, payload=None):
     Loading
         See :meth:`cruiseplan.Airframe.loading`.
     """
-    unit = "kg" if airframe.propulsion.store_name == "fuel" else "J"
+    unit = airframe.propulsion.store.unit
     return airframe.loading(
         mass=None if mass is None else to_si(mass, "kg", what="mass"),
         store=None if fuel is None else to_si(fuel, unit, what=airframe.propulsion.store_name),
@@ -403,7 +378,7 @@ def speed_for_min_drag(airframe, mass, air: AirState):
     v_stall = airframe.stall_speed(mass, air.density)
 
     def drag(v):
-        return airframe.level_flight(mass, air, v)["drag"]
+        return airframe.level_flight(mass, air, v).drag
 
     return brent_minimise(drag, 0.5 * v_stall, MACH_LIMIT * air.speed_of_sound)
 
@@ -433,7 +408,8 @@ def speed_for_min_power(airframe, mass, air: AirState, *, v_hi=None):
     """
     v_stall = airframe.stall_speed(mass, air.density)
     v_hi = MACH_LIMIT * air.speed_of_sound if v_hi is None else v_hi
-    return brent_minimise(lambda v: _shaft_power(airframe, mass, air, v), 0.5 * v_stall, v_hi)
+    return brent_minimise(lambda v: shaft_power_required(airframe, mass, air, v),
+                          0.5 * v_stall, v_hi)
 
 
 def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *,
@@ -478,10 +454,10 @@ def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *
     available = prop.shaft_power_available(air.sigma)
     v_mp = speed_for_min_power(airframe, mass, air)
     v_hi = MACH_LIMIT * air.speed_of_sound
-    p_min = _shaft_power(airframe, mass, air, v_mp)
-    p_hi = _shaft_power(airframe, mass, air, v_hi)
+    p_min = shaft_power_required(airframe, mass, air, v_mp)
+    p_hi = shaft_power_required(airframe, mass, air, v_hi)
     shape = np.broadcast_shapes(np.shape(target), np.shape(v_mp))
-    v = illinois_root(lambda x: _shaft_power(airframe, mass, air, x) - target,
+    v = illinois_root(lambda x: shaft_power_required(airframe, mass, air, x) - target,
                           np.broadcast_to(v_mp, shape), np.broadcast_to(v_hi, shape))
     too_much = target > available * (1 + 1e-12)
     too_little = target < p_min

@@ -25,59 +25,15 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import CruiseplanError
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.model.tolerance import normal_ppf
 
 #: Quantiles reported (P10, P50, P90).
 QUANTILES = (0.10, 0.50, 0.90)
-#: Parameters an airframe file may give a tolerance on, by airframe kind.
-AIRFRAME_KEYS = {
-    "fixed-wing": ("cd0", "oswald_e", "propeller_efficiency", "bsfc", "battery_energy"),
-    "multirotor": ("cd0", "induced_factor", "motor_efficiency", "battery_energy"),
-}
-
-
-@dataclass(frozen=True)
-class Tolerance:
-    """A relative tolerance: normal (``sd``) or uniform on [``low``, ``high``].
-
-    All are fractions, e.g. 0.05 for 5 %.
-    """
-
-    kind: str
-    sd: float = 0.0
-    low: float = 0.0
-    high: float = 0.0
-
-    def factors(self, u):
-        """Multiplying factors 1 + delta from uniform [0, 1) numbers ``u``.
-
-        Never below 5 % of nominal.
-        """
-        if self.kind == "normal":
-            delta = self.sd * _normal_ppf(u) if self.sd else np.zeros(np.shape(u))
-        else:
-            delta = self.low + (self.high - self.low) * np.asarray(u)
-        return np.maximum(1.0 + delta, 0.05)
-
-
-@dataclass(frozen=True)
-class WindTolerance:
-    """Standard deviations of the wind speed [m/s] and direction [deg], every leg."""
-
-    speed_sd: float = 0.0
-    direction_sd: float = 0.0
-
-
-def _normal_ppf(u):
-    from scipy.special import ndtri
-
-    return ndtri(u)
-
-
 def unit_samples(n: int, dims: int, seed: int):
     """``n`` Latin-hypercube points in [0, 1)^dims, seeded.
 
@@ -110,58 +66,18 @@ def sample_airframe(airframe, factors: dict):
 
     Parameters
     ----------
-    airframe : Airframe or Multirotor
-        The nominal airframe.
+    airframe : Airframe
+        The nominal airframe, of any kind.
     factors : dict
-        Parameter name to an array of multiplying factors (see :data:`AIRFRAME_KEYS`).
+        Parameter name to an array of multiplying factors [-] (see the kind's
+        ``tolerance_keys``).
 
     Returns
     -------
-    Airframe or Multirotor
+    Airframe
         Same kind; every model function broadcasts over the sample axis.
     """
-    from .aerodynamics import ParabolicPolar
-    from .dragbuildup import BuildUpPolar
-
-    af = airframe
-    prop = af.propulsion
-    changes, prop_changes = {}, {}
-    if af.kind == "multirotor":
-        if "cd0" in factors:
-            changes["body"] = replace(af.body, scale=factors["cd0"])
-        if "induced_factor" in factors:
-            changes["rotors"] = replace(af.rotors, induced_factor=af.rotors.induced_factor
-                                        * factors["induced_factor"])
-        if "motor_efficiency" in factors:
-            prop_changes["motor_efficiency"] = prop.motor_efficiency * factors[
-                "motor_efficiency"]
-    else:
-        polar = af.polar
-        if "cd0" in factors or "oswald_e" in factors:
-            f_cd0 = factors.get("cd0", 1.0)
-            f_e = factors.get("oswald_e", 1.0)
-            if isinstance(polar, ParabolicPolar):
-                polar = replace(polar, cd0=polar.cd0 * f_cd0, k=polar.k / f_e)
-            elif isinstance(polar, BuildUpPolar):
-                polar = replace(polar, scale=f_cd0, k=polar.k / f_e)
-            else:
-                raise CruiseplanError(f"{af.name}: tolerances on cd0 and oswald_e need a "
-                                      "parabolic or build-up polar")
-            changes["polar"] = polar
-        if "propeller_efficiency" in factors:
-            prop_changes["propeller"] = replace(prop.propeller,
-                                                factor=factors["propeller_efficiency"])
-    if "bsfc" in factors:
-        if prop.store_name != "fuel":
-            raise CruiseplanError(f"{af.name}: a BSFC tolerance needs a piston engine")
-        prop_changes["bsfc"] = prop.bsfc * factors["bsfc"]
-    if "battery_energy" in factors:
-        if prop.store_name != "energy":
-            raise CruiseplanError(f"{af.name}: a battery-energy tolerance needs a battery")
-        prop_changes["battery_energy"] = prop.battery_energy * factors["battery_energy"]
-    if prop_changes:
-        changes["propulsion"] = replace(prop, **prop_changes)
-    return replace(af, **changes) if changes else af
+    return airframe.sampled(factors) if factors else airframe
 
 
 def quantiles(values) -> tuple:
@@ -236,7 +152,7 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     ----------
     .. [1] JCGM 101:2008, secs. 7-8 (Monte Carlo propagation, coverage intervals).
     """
-    from .mission import _Flight, _leg_options, _reserve
+    from cruiseplan.planning.mission import Flight, _reserve, leg_options
 
     if n < 1:
         raise CruiseplanError(f"Monte Carlo needs at least one sample, got {n}")
@@ -250,10 +166,10 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     wind_error = None
     if windy:
         k = len(tol)
-        wind_error = (wt.speed_sd * _normal_ppf(u[:, k]),
-                      wt.direction_sd * _normal_ppf(u[:, k + 1]))
+        wind_error = (wt.speed_sd * normal_ppf(u[:, k]),
+                      wt.direction_sd * normal_ppf(u[:, k + 1]))
     af_s = sample_airframe(af, factors)
-    fl = _Flight(mission, af_s, wind_error, sample_shape=(n,))
+    fl = Flight(mission, af_s, wind_error, sample_shape=(n,))
     prof = mission.profile
     # A larger or smaller pack holds proportionally more or less usable energy.
     store = plan.initial * factors.get("battery_energy", 1.0) + np.zeros(n)
@@ -269,7 +185,7 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     for k, leg in enumerate(legs):
         last = k == len(legs) - 1
         H = plan.leg_altitudes[k]
-        o = _leg_options(fl, mission, leg, h, m, store, plan.climb_speed, last,
+        o = leg_options(fl, mission, leg, h, m, store, plan.climb_speed, last,
                          np.array([H]), plan.leg_speeds[k])
         # The same order of subtraction as the plan's bookkeeping, segment by segment.
         for part in ("trans", "cruise", "final"):
@@ -327,7 +243,7 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     CruiseUncertainty
         Per-sample range and endurance.
     """
-    from .performance import cruise_points
+    from cruiseplan.planning.performance import cruise_points
 
     tol = dict(airframe.tolerances)
     factors = draw_factors(tol, unit_samples(n, len(tol), seed))

@@ -17,11 +17,11 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from .constants import G0
+from cruiseplan.constants import G0
 
 
 def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
@@ -112,6 +112,21 @@ class ParabolicPolar:
     def reference_cd0(self):
         """Zero-lift-like parasite drag coefficient used in summaries [-]."""
         return self.cd0
+
+    def scaled(self, cd0_factor, oswald_factor):
+        """The polar with CD0 and Oswald e multiplied by factors (arrays for samples).
+
+        Parameters
+        ----------
+        cd0_factor, oswald_factor : array_like
+            Factors on CD0 and on e [-]; k = 1/(pi e A) divides by the second.
+
+        Returns
+        -------
+        ParabolicPolar
+            The scaled polar.
+        """
+        return replace(self, cd0=self.cd0 * cd0_factor, k=self.k / oswald_factor)
 
 
 @dataclass(frozen=True)

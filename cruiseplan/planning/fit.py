@@ -59,8 +59,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .constants import G0, RHO0
-from .errors import CruiseplanError
+from cruiseplan.constants import G0, RHO0
+from cruiseplan.errors import CruiseplanError
 
 #: Largest |externally studentised residual| of a point kept in the fit (common practice,
 #: no source).

@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .constants import R_EARTH_MEAN
+from cruiseplan.constants import R_EARTH_MEAN
 
 
 def great_circle(lat1, lon1, lat2, lon2, radius=R_EARTH_MEAN):

@@ -33,24 +33,18 @@ from datetime import date
 
 import numpy as np
 
-from .airspeed import cas_from_tas
-from .constants import T_ZERO_C
-from .errors import CruiseplanError, UnitError
-from .optimise import CEILING_SEARCH_TOP, best_cruise, ceilings, describe
-from .performance import (
-    DEFAULT_STALL_MARGIN,
-    LIMIT_CODE,
-    LIMIT_TEXT,
-    explain,
-    power_setting_table,
-    resolve_loading,
-)
-from .reports import display, hours_minutes
-from .tables import airframe_lines, store_text
-from .units import parse_quantity, temperature_difference, to_si
+from cruiseplan.cautions import CAUTION_LINE, CAUTIONS
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
+from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, describe, explain
+from cruiseplan.physics.airspeed import cas_from_tas
+from cruiseplan.planning.optimise import CEILING_SEARCH_TOP, best_cruise, ceilings
+from cruiseplan.planning.performance import power_setting_table, resolve_loading
+from cruiseplan.report.output import display, hours_minutes
+from cruiseplan.report.tables import airframe_lines, store_text
+from cruiseplan.units import parse_quantity, temperature_difference, to_si
+from cruiseplan.version import __version__
 
-#: Short caution in the footer of every card and figure.
-CAUTION_LINE = "Planning aid only \u2014 the flight manual and local rules come first"
 #: Default power settings [fraction of rated power] by store.
 DEFAULT_POWER = {"fuel": (0.55, 0.65, 0.75), "energy": (0.20, 0.30, 0.40)}
 #: Default card altitudes [m] by store: 0-8000 ft by 2000 ft; 0-400 m by 100 m.
@@ -280,8 +274,6 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.5, 5.7, 5.11.
     """
-    from . import CAUTIONS, __version__
-
     prop = airframe.propulsion
     store_name = prop.store_name
     fuel_kind = store_name == "fuel"
@@ -350,7 +342,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         flow_col, flow_fmt = ("fuel\nflow", lflow, "right"), "{:.1f}"
     else:
         fflow, lflow = display("electric_power", units)
-        flow = table.store_flow * fflow
+        flow = table.source_power * fflow
         flow_col, flow_fmt = ("battery\npower", lflow, "right"), "{:.0f}"
     cas = table.cas()
     rows, groups = [], []
@@ -389,7 +381,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     cas_r = cas_from_tas(v_r, air.pressure, air.speed_of_sound)
     cas_e = cas_from_tas(v_e, air.pressure, air.speed_of_sound)
     pts = best.points
-    e_flow = (pts.fuel_volume_flow if fuel_kind else pts.store_flow) * fflow
+    e_flow = (pts.fuel_volume_flow if fuel_kind else pts.source_power) * fflow
     speed_rows = []
     for i in range(n_alt):
         if not sched.feasible[i]:
@@ -446,8 +438,8 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
 
 def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n, seed):
     """Monte Carlo spread of range and endurance to the reserve at the best-range point."""
-    from .optimise import best_cruise
-    from .uncertainty import cruise_uncertainty, quantiles
+    from cruiseplan.planning.optimise import best_cruise
+    from cruiseplan.planning.uncertainty import cruise_uncertainty, quantiles
 
     best = best_cruise(airframe, h, objective="range", mass=table.mass, fuel=store,
                        isa_dev=dev, stall_margin=stall_margin)
@@ -497,7 +489,7 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.5, 5.7, 5.11.
     """
-    from .plots import card_figure
+    from cruiseplan.plots import card_figure
 
     content = card_content(airframe, altitudes=altitudes, power_settings=power_settings,
                            mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,

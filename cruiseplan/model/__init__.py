@@ -1,0 +1,1 @@
+"""What is planned, as data: missions (legs, profile, reserve policy) and tolerances."""
