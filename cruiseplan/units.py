@@ -287,3 +287,60 @@ def temperature_difference(value, *, what: str = "isa_dev") -> float:
             mag = np.asarray(value.magnitude, dtype=float) * scale
             return mag if mag.ndim else float(mag)
     return to_si(value, "K", what=what)
+
+
+# --- Display units ---------------------------------------------------------------------
+
+#: Display units by physical kind: (pint unit, label) per unit system.
+UNIT_SYSTEMS = {
+    "si": {
+        "altitude": ("m", "m"), "speed": ("km/h", "km/h"), "mass": ("kg", "kg"),
+        "volume": ("L", "L"), "distance": ("km", "km"), "power": ("kW", "kW"),
+        "volume_flow": ("L/h", "L/h"), "mass_flow": ("kg/h", "kg/h"),
+        "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
+        "sr_fuel": ("km/L", "km/L"), "sr_energy": ("km/kWh", "km/kWh"),
+        "rate": ("m/s", "m/s"), "pressure": ("hPa", "hPa"),
+    },
+    "aviation": {
+        "altitude": ("ft", "ft"), "speed": ("kt", "kt"), "mass": ("lb", "lb"),
+        "volume": ("gallon", "US gal"), "distance": ("nmi", "nm"), "power": ("hp", "hp"),
+        "volume_flow": ("gallon/h", "US gal/h"), "mass_flow": ("lb/h", "lb/h"),
+        "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
+        "sr_fuel": ("nmi/gallon", "nm/US gal"), "sr_energy": ("nmi/kWh", "nm/kWh"),
+        "rate": ("ft/min", "ft/min"), "pressure": ("hPa", "hPa"),
+    },
+}
+_SI_OF_KIND = {
+    "altitude": "m", "speed": "m/s", "mass": "kg", "volume": "m^3", "distance": "m",
+    "power": "W", "volume_flow": "m^3/s", "mass_flow": "kg/s", "energy": "J",
+    "electric_power": "W", "sr_fuel": "m/m^3", "sr_energy": "m/J", "rate": "m/s",
+    "pressure": "Pa",
+}
+
+
+def display(kind: str, units: str):
+    """Factor from SI and label of a physical kind in a display unit system.
+
+    Parameters
+    ----------
+    kind : str
+        A key of the unit systems, e.g. ``"altitude"``, ``"speed"``, ``"volume_flow"``.
+    units : {"aviation", "si"}
+        The display unit system.
+
+    Returns
+    -------
+    factor : float
+        Multiplies an SI value to give the display value.
+    label : str
+        The unit as printed.
+
+    Raises
+    ------
+    CruiseplanError
+        For an unknown unit system, listing the known ones.
+    """
+    if units not in UNIT_SYSTEMS:
+        raise UnitError(f"units {units!r} is not one of {', '.join(UNIT_SYSTEMS)}")
+    pint_unit, label = UNIT_SYSTEMS[units][kind]
+    return conversion_factor(_SI_OF_KIND[kind], pint_unit), label

@@ -137,8 +137,8 @@ def test_no_go_fuel_below_reserve(trainer):
     m = level_mission(trainer, 1000.0, 0.97 * full, reserve=Reserve("time", 45 * 60.0))
     plan = plan_mission(m)
     assert plan.verdict == "NO-GO" and plan.remaining > 0
-    assert any(re.match(r"fuel below the reserve: \d+\.\d L at landing, \d+\.\d L required "
-                        r"\(45 min at best-endurance speed", r) for r in plan.reasons)
+    assert any(re.match(r"fuel below the reserve: \d+\.\d US gal at landing, \d+\.\d US gal "
+                        r"required \(45 min at best-endurance power", r) for r in plan.reasons)
 
 
 def test_no_go_runs_out(trainer):

@@ -18,6 +18,7 @@ from matplotlib.text import Text
 import cruiseplan as cp
 from cruiseplan import cli, plots
 from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.io.text import parse_reserve
 from cruiseplan.planning.optimise import best_cruise
 from cruiseplan.report import card
 from cruiseplan.units import conversion_factor
@@ -235,43 +236,44 @@ def test_card_reserves(trainer, drone):
     content = card.card_content(trainer, altitudes=h, power_settings=[0.65])
     end = best_cruise(trainer, h, objective="endurance").points
     assert content.reserve == pytest.approx(45 * 60 * end.store_rate[0], rel=1e-9)
-    assert "conservative default; local rules decide" in content.markdown()
+    assert "default for planning; local rules decide the minimum" in content.markdown()
     # Range to reserve keeps that share of the fuel unburnt.
     pts = cp.power_setting_table(trainer, h, [0.65])
     keep = 1.0 - content.reserve / pts.store
     row = content.blocks[0].rows[0]
     assert row[-1] == f"{pts.range_air[0, 0] * keep / 1852.0:.0f}"
-    # Electric default: 20 % of the usable energy on board; watts and Wh, not fuel.
+    # Electric default: 25 % of the usable capacity; watts and Wh, not fuel.
     e = card.card_content(drone, altitudes=[0.0, 100.0], power_settings=[0.3])
-    assert e.reserve == pytest.approx(0.2 * drone.propulsion.battery_energy)
+    assert e.reserve == pytest.approx(0.25 * drone.propulsion.battery_energy, rel=1e-15)
     md = e.markdown()
-    assert "battery power [W]" in md and "= 120 Wh" in md and "fuel" not in md
+    assert "battery power [W]" in md and "= 150 Wh" in md and "fuel" not in md
 
 
 @pytest.mark.parametrize("text, kind, value", [
     ("30min", "time", 1800.0),
     ("1 h", "time", 3600.0),
-    ("25%", "share", 0.25),
+    ("25%", "fraction", 0.25),
     ("10L", "amount", 10e-3 * 720.0),
     ("7 kg", "amount", 7.0),
 ])
 def test_parse_reserve(trainer, text, kind, value):
-    r = card.parse_reserve(trainer, text)
+    r = parse_reserve(text, trainer.propulsion)
     assert (r.kind, r.text) == (kind, text)
-    assert r.value == pytest.approx(value)
+    assert r.amount == pytest.approx(value, rel=1e-12)
 
 
 def test_parse_reserve_errors(trainer, drone):
-    assert card.parse_reserve(drone, "120Wh").value == pytest.approx(432_000.0)
+    assert parse_reserve("120Wh", drone.propulsion).amount == pytest.approx(432_000.0,
+                                                                           rel=1e-12)
     with pytest.raises(UnitError, match=r"'30' needs a unit: a time \('30min'\)"):
-        card.parse_reserve(trainer, "30")
+        parse_reserve("30", trainer.propulsion)
     with pytest.raises(UnitError, match=r"'150%' must be a share between 0 and 100 %"):
-        card.parse_reserve(trainer, "150%")
+        parse_reserve("150%", trainer.propulsion)
     with pytest.raises(UnitError, match=r"'5 kt' is neither a time .* an amount "
-                                        r"\('10L' or '7kg'\)"):
-        card.parse_reserve(trainer, "5 kt")
-    with pytest.raises(UnitError, match=r"'10L' is neither .* amount \('120Wh'\)"):
-        card.parse_reserve(drone, "10L")
+                                        r"\('80 L', '20 gal' or '55 kg'\)"):
+        parse_reserve("5 kt", trainer.propulsion)
+    with pytest.raises(UnitError, match=r"'10L' is neither .* amount \('450 Wh'\)"):
+        parse_reserve("10L", drone.propulsion)
     with pytest.raises(CruiseplanError, match=r"reserve 52\.8 US gal \(317\.5 lb\) is not "
                                               r"less than the fuel on board, 26\.4 US gal"):
         card.card_content(trainer, reserve="200L")

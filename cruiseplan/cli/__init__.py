@@ -522,9 +522,10 @@ def cmd_card(args):
     dev = parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
 
     from cruiseplan import plots
-    from cruiseplan.report.card import cruise_card, parse_reserve
+    from cruiseplan.io.text import parse_reserve
+    from cruiseplan.report.card import cruise_card
 
-    reserve = parse_reserve(af, args.reserve) if args.reserve else None
+    reserve = parse_reserve(args.reserve, af.propulsion) if args.reserve else None
     markdown, fig = cruise_card(af, altitudes=h, power_settings=frac, isa_dev=dev,
                                 reserve=reserve, units=args.units,
                                 stall_margin=args.stall_margin,

@@ -22,12 +22,13 @@ import math
 import tomllib
 from pathlib import Path
 
+from cruiseplan.amounts import parse_amount
 from cruiseplan.constants import FT
 from cruiseplan.errors import AirframeFileError, CruiseplanError, MissionFileError, UnitError
 from cruiseplan.io.airframe_file import find_airframe, read_airframe
 from cruiseplan.io.bundled import bundled_files, find_file
 from cruiseplan.io.text import parse_wind_profile
-from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.model.mission import Leg, Mission, Profile, Reserve, default_reserve
 from cruiseplan.model.tolerance import WindTolerance
 from cruiseplan.physics.atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
 from cruiseplan.physics.geo import great_circle
@@ -46,11 +47,9 @@ _RESERVE_FIELDS = {"time", "fraction", "quantity", "altitude", "alternate"}
 
 #: Conservative defaults by propulsion kind (stated in every plan).
 DEFAULTS = {
-    "fuel": dict(reserve=("time", 45 * 60.0, "45 min at best-endurance power"),
-                 allowance_fraction=0.03, descent_rate=500 * FT / 60, climb_rate=None,
+    "fuel": dict(allowance_fraction=0.03, descent_rate=500 * FT / 60, climb_rate=None,
                  min_clearance=1000 * FT, altitude_step=500 * FT, top=12000 * FT),
-    "energy": dict(reserve=("fraction", 0.25, "25 % of usable energy"),
-                   allowance_fraction=0.02, descent_rate=2.0, climb_rate=3.0,
+    "energy": dict(allowance_fraction=0.02, descent_rate=2.0, climb_rate=3.0,
                    min_clearance=30.0, altitude_step=10.0, top=1000.0),
 }
 
@@ -98,25 +97,11 @@ class _Reader:
 
 
 def _store_amount(r, raw, key, where, prop):
-    """Fuel or energy text to SI (kg or J): a volume, mass, energy or a percentage."""
-    if not isinstance(raw, str):
-        r.fail(f"{where} {key}", f"{raw!r} needs a unit, e.g. '80 L', '55 kg', '500 Wh' "
-                                 "or '80 %'")
-    text = raw.strip()
-    if text.endswith("%"):
-        share = parse_quantity(text, "", what=key)
-        if not 0 <= share <= 1:
-            r.fail(f"{where} {key}", f"{raw!r} must be between 0 and 100 %")
-        return share * prop.store_capacity
-    options = (("m^3", getattr(prop, "fuel_density", None)), ("kg", 1.0)) \
-        if prop.store_name == "fuel" else (("J", 1.0),)
-    for unit, factor in options:
-        try:
-            return parse_quantity(text, unit, what=key) * factor
-        except UnitError:
-            continue
-    kind = "a volume, a mass" if prop.store_name == "fuel" else "an energy"
-    r.fail(f"{where} {key}", f"{raw!r} is not {kind} or a percentage of capacity")
+    """Fuel or energy to SI (kg or J): a volume, mass, energy or a percentage of capacity."""
+    try:
+        return parse_amount(raw, prop, what=key)
+    except UnitError as exc:
+        r.fail(f"{where} {key}", str(exc).split(": ", 1)[-1])
 
 
 def _wind(r, leg, where):
@@ -322,7 +307,8 @@ def read_mission(path) -> Mission:
     if len(kinds) > 1:
         r.fail(f"[reserve] {kinds[1]}", "give one of time, fraction or quantity")
     if not kinds:
-        kind, amount, _ = defaults["reserve"]
+        default = default_reserve(prop)
+        kind, amount = default.kind, default.amount
     elif kinds[0] == "time":
         kind, amount = "time", r.quantity(res_raw, "time", "s", "[reserve]", lo=0.0,
                                           example="'45 min'")
@@ -330,13 +316,16 @@ def read_mission(path) -> Mission:
         kind, amount = "fraction", r.quantity(res_raw, "fraction", "", "[reserve]", lo=0.0,
                                               hi=1.0, example="'20 %'")
     else:
-        kind, amount = "fixed", _store_amount(r, res_raw["quantity"], "quantity", "[reserve]",
+        kind, amount = "amount", _store_amount(r, res_raw["quantity"], "quantity", "[reserve]",
                                               prop)
     res_alt = r.quantity(res_raw, "altitude", "m", "[reserve]", lo=-500.0, example="'3000 ft'")
     alternate = None
     if "alternate" in res_raw:
         alternate = _leg(r, res_raw["alternate"], "[reserve.alternate]", to_pa)
-    reserve = Reserve(kind, amount, None if res_alt is None else to_pa(res_alt), alternate)
+    written = {"time": res_raw.get("time"), "fraction": res_raw.get("fraction"),
+               "quantity": res_raw.get("quantity")}
+    reserve = Reserve(kind, amount, None if res_alt is None else to_pa(res_alt), alternate,
+                      text=str(written[kinds[0]]) if kinds else "")
 
     legs_raw = data.get("legs")
     if not isinstance(legs_raw, list) or not legs_raw:

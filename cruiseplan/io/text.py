@@ -1,16 +1,21 @@
-"""Text forms shared by files and the command line: winds aloft written as text.
+"""Text forms shared by files and the command line: winds aloft and reserves.
 
-``"270/25@3000ft,250/40@8000ft"`` (direction from, speed, altitude) is read here, once, for
-mission files and the ``--wind`` option alike.
+``"270/25@3000ft,250/40@8000ft"`` (direction from, speed, altitude) and ``"45min"``,
+``"25%"``, ``"10L"`` (a reserve) are read here, once, for files and options alike.
 """
 
 from __future__ import annotations
 
 import re
 
+from cruiseplan.amounts import examples, parse_amount
 from cruiseplan.errors import UnitError
+from cruiseplan.model.mission import Reserve
 from cruiseplan.physics.winds import WindProfile
 from cruiseplan.units import parse_quantity
+
+# A letter after the number: the text names a unit.
+_HAS_UNIT = re.compile(r"\d\s*[A-Za-z]")
 
 _WIND = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*/\s*([^@]+?)\s*@\s*(.+?)\s*$")
 
@@ -53,3 +58,54 @@ def parse_wind_profile(text: str) -> WindProfile:
     if len(set(alts)) != len(alts):
         raise UnitError(f"wind {text!r}: two winds at the same altitude")
     return WindProfile(tuple(alts), tuple(e[1] for e in entries), tuple(e[2] for e in entries))
+
+
+def parse_reserve(text: str, propulsion, *, what: str = "--reserve") -> Reserve:
+    """Read a reserve as a crew writes it: ``"30min"``, ``"25%"``, ``"10L"`` or ``"120Wh"``.
+
+    Parameters
+    ----------
+    text : str
+        A time, a percentage of the usable capacity, or an amount of fuel or energy, each
+        with its unit.
+    propulsion : object
+        The propulsion kind (decides whether an amount is fuel or energy).
+    what : str
+        Name of the option or field, for messages.
+
+    Returns
+    -------
+    Reserve
+        Kind ``"time"`` [s], ``"fraction"`` [-] or ``"amount"`` [kg or J], with the text.
+
+    Raises
+    ------
+    UnitError
+        When the text has no unit or is neither a time, a percentage nor an amount.
+    """
+    t = str(text).strip()
+    amounts = examples(propulsion)
+    if not _HAS_UNIT.search(t) and not t.endswith("%"):
+        raise UnitError(f"{what}: {text!r} needs a unit: a time ('30min'), a share ('25%') "
+                        f"or an amount ({amounts})")
+    if t.endswith("%"):
+        share = parse_quantity(t, "", what=what)
+        if not 0.0 < share < 1.0:
+            raise UnitError(f"{what}: {text!r} must be a share between 0 and 100 %")
+        return Reserve("fraction", share, text=t)
+    try:
+        seconds = parse_quantity(t, "s", what=what) if _HAS_UNIT.search(t) else None
+    except UnitError:
+        seconds = None
+    if seconds is not None:
+        if not 0.0 < seconds < float("inf"):
+            raise UnitError(f"{what}: {text!r} must be a positive time")
+        return Reserve("time", seconds, text=t)
+    try:
+        value = parse_amount(t, propulsion, what=what, share=False)
+    except UnitError:
+        raise UnitError(f"{what}: {text!r} is neither a time ('30min'), a share of the "
+                        f"usable capacity ('25%') nor an amount ({amounts})") from None
+    if value <= 0:
+        raise UnitError(f"{what}: {text!r} must be positive")
+    return Reserve("amount", value, text=t)

@@ -9,6 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT
+from cruiseplan.errors import CruiseplanError
 from cruiseplan.physics.winds import WindProfile
 
 
@@ -57,22 +58,63 @@ class Leg:
 class Reserve:
     """Reserve policy: what must remain at landing.
 
+    :func:`cruiseplan.planning.reserve.reserve_required` computes the amount.
+
     Parameters
     ----------
-    kind : {"time", "fraction", "fixed"}
-        Time at best-endurance power, a fraction of the usable capacity, or a quantity.
+    kind : {"time", "fraction", "amount"}
+        Time at best-endurance power, a fraction of the usable capacity (full tanks or a
+        full pack), or a fixed amount.
     amount : float
-        Seconds, a fraction, or kg of fuel / J of usable energy.
+        Seconds, a fraction [-], or kg of fuel / J of usable energy.
     altitude : float or None
-        Altitude for a time reserve [m]; the last leg's altitude when None.
+        Pressure altitude a time reserve is flown at [m]; the plan's last cruise altitude
+        (the card's lowest altitude) when None.
     alternate : Leg or None
         A diversion leg flown at best range, added to the reserve.
+    text : str
+        As the crew wrote it; empty for a default.
     """
 
     kind: str
     amount: float
     altitude: float | None = None
     alternate: Leg | None = None
+    text: str = ""
+
+    def __post_init__(self):
+        if self.kind not in RESERVE_KINDS:
+            raise CruiseplanError(f"reserve kind {self.kind!r} is not one of "
+                                  f"{', '.join(RESERVE_KINDS)}")
+
+    @property
+    def is_default(self) -> bool:
+        """True for a default reserve (no text as written)."""
+        return self.text == ""
+
+
+#: The kinds of reserve policy.
+RESERVE_KINDS = ("time", "fraction", "amount")
+
+
+def default_reserve(propulsion) -> Reserve:
+    """The default reserve: 45 min at best-endurance power for fuel, 25 % for batteries.
+
+    Planning values only (common practice, no source); local rules decide the minimum.
+
+    Parameters
+    ----------
+    propulsion : object
+        The propulsion kind (its store decides).
+
+    Returns
+    -------
+    Reserve
+        The default policy.
+    """
+    if propulsion.store.burns_mass:
+        return Reserve("time", 45 * 60.0)
+    return Reserve("fraction", 0.25)
 
 
 @dataclass(frozen=True)

@@ -41,12 +41,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from cruiseplan.constants import FT, G0
+from cruiseplan.amounts import format_amount
+from cruiseplan.constants import G0
 from cruiseplan.model.mission import Mission
 from cruiseplan.physics.airspeed import wind_components
 from cruiseplan.physics.atmosphere import air_state
-from cruiseplan.planning.optimise import objective_speed, speed_schedule
+from cruiseplan.planning.optimise import objective_speed
 from cruiseplan.planning.performance import shaft_power_required
+from cruiseplan.planning.reserve import ReserveAmount, reserve_required
 
 #: Integration steps per segment (altitude steps in climb and descent, RK4 steps in cruise).
 CLIMB_STEPS = 8
@@ -89,10 +91,8 @@ class Plan:
         In flight order; the first is the start-up/taxi/take-off allowance.
     initial : float
         Store at engine start [kg or J].
-    reserve_required : float
-        Store that must remain at landing [kg or J].
-    reserve_text : str
-        How the reserve was set.
+    reserve : ReserveAmount
+        Store that must remain at landing [kg or J], and how it was computed.
     reasons : tuple of str
         NO-GO reasons; empty for GO.
     leg_altitudes : tuple of float
@@ -109,13 +109,17 @@ class Plan:
     mission: Mission
     segments: tuple
     initial: float
-    reserve_required: float
-    reserve_text: str
+    reserve: ReserveAmount
     reasons: tuple
     leg_altitudes: tuple
     takeoff_mass: float = 0.0
     leg_speeds: tuple = ()
     climb_speed: float = 0.0
+
+    @property
+    def reserve_required(self) -> float:
+        """Store that must remain at landing [kg or J]."""
+        return self.reserve.amount
 
     @property
     def go(self) -> bool:
@@ -441,9 +445,7 @@ def _pick(d, i):
 
 
 def _store_text(fl, amount):
-    if fl.prop.store_name == "fuel":
-        return f"{amount / fl.prop.fuel_density * 1000:.1f} L"
-    return f"{amount / 3600:.0f} Wh"
+    return format_amount(amount, fl.prop, fl.prop.store.default_units, with_mass=False)
 
 
 def plan_mission(mission: Mission) -> Plan:
@@ -528,7 +530,9 @@ def plan_mission(mission: Mission) -> Plan:
                                     float(seg["time"]), float(seg["distance"]), used, store, m,
                                     float(seg["power"]), note))
         h = H if not last else prof.arrival_elevation
-    required, reserve_text = _reserve(fl, mission, m, leg_altitudes)
+    reserve = mission_reserve(fl, mission, m, leg_altitudes)
+    required = reserve.amount
+    reserve_text = reserve.describe(fl.prop, fl.prop.store.default_units)
     lowest = min(s.remaining for s in segments)
     if lowest < 0:
         first = next(s for s in segments if s.remaining < 0)
@@ -536,7 +540,7 @@ def plan_mission(mission: Mission) -> Plan:
     elif store < required * (1 - 1e-12):
         reasons.append(f"{fl.prop.store_name} below the reserve: {_store_text(fl, store)} at "
                        f"landing, {_store_text(fl, required)} required ({reserve_text})")
-    return Plan(mission, tuple(segments), initial, required, reserve_text, tuple(reasons),
+    return Plan(mission, tuple(segments), initial, reserve, tuple(reasons),
                 tuple(leg_altitudes), load.mass, tuple(leg_speeds), v_climb)
 
 
@@ -586,37 +590,37 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
     return out
 
 
-def _reserve(fl: Flight, mission: Mission, mass, leg_altitudes) -> tuple:
-    """Store required at landing [kg or J] and a description of the policy.
+def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes) -> ReserveAmount:
+    """The mission's reserve at landing mass ``mass`` (arrays over samples allowed).
 
-    ``mass`` may be an array over samples; the reserve then is too.
+    A time reserve is flown at the last cruise altitude unless the policy names one; an
+    alternate leg is flown at best range with this flight model and added.
+
+    Parameters
+    ----------
+    fl : Flight
+        The flight model of the day.
+    mission : Mission
+        The mission (its reserve policy).
+    mass : float or numpy.ndarray
+        Mass at landing [kg].
+    leg_altitudes : sequence of float
+        Cruise altitudes flown [m].
+
+    Returns
+    -------
+    ReserveAmount
+        See :func:`cruiseplan.planning.reserve.reserve_required`.
     """
     res = mission.reserve
-    prop = fl.prop
+    last = leg_altitudes[-1] if leg_altitudes else mission.profile.arrival_elevation
     m = np.atleast_1d(np.asarray(mass, dtype=float))
-    if res.kind == "fraction":
-        required = res.amount * prop.store_capacity + 0.0 * m
-        text = f"{res.amount * 100:.0f} % of usable {prop.store_name}"
-    elif res.kind == "fixed":
-        required = res.amount + 0.0 * m
-        text = f"fixed {_store_text(fl, res.amount)}"
-    else:
-        h = res.altitude if res.altitude is not None else (
-            leg_altitudes[-1] if leg_altitudes else mission.profile.arrival_elevation)
-        air = fl.air(np.array([h]))
-        s = speed_schedule(fl.af, m, air, prop.store_capacity, stall_margin=fl.margin)
-        v = np.where(s.feasible, s.tas["endurance"], s.tas_unconstrained["endurance"])
-        required = fl.rate(fl.shaft(m, air, v)) * res.amount
-        text = (f"{res.amount / 60:.0f} min at best-endurance speed at {h:.0f} m "
-                f"({h / FT:.0f} ft)")
+    alternate_used = 0.0
     if res.alternate is not None:
         alt = res.alternate
-        h = alt.altitude if alt.altitude is not None else (leg_altitudes[-1] if leg_altitudes
-                                                           else 0.0)
-        v0, _ = _cruise_speed(fl, alt, [h], m, prop.store_capacity)
+        h = alt.altitude if alt.altitude is not None else last
+        v0, _ = _cruise_speed(fl, alt, [h], m, fl.prop.store_capacity)
         cr = _cruise(fl, alt, np.array([h]), m, np.array([alt.distance]), v0, m)
-        required = required + cr["used"]
-        text += (f" + alternate {alt.name!r} {alt.distance / 1000:.1f} km "
-                 f"({alt.distance / 1852:.1f} nm)")
-    required = np.broadcast_to(required, m.shape)
-    return (float(required[0]) if np.ndim(mass) == 0 else required), text
+        alternate_used = cr["used"] if np.ndim(mass) else float(np.ravel(cr["used"])[0])
+    return reserve_required(fl.af, res, mass=mass, isa_dev=mission.isa_dev, altitude=last,
+                            stall_margin=fl.margin, alternate_used=alternate_used)

@@ -31,6 +31,8 @@ import numpy as np
 
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.model.tolerance import normal_ppf
+from cruiseplan.planning.mission import Flight, leg_options, mission_reserve
+from cruiseplan.planning.performance import cruise_points
 
 #: Quantiles reported (P10, P50, P90).
 QUANTILES = (0.10, 0.50, 0.90)
@@ -152,8 +154,6 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     ----------
     .. [1] JCGM 101:2008, secs. 7-8 (Monte Carlo propagation, coverage intervals).
     """
-    from cruiseplan.planning.mission import Flight, _reserve, leg_options
-
     if n < 1:
         raise CruiseplanError(f"Monte Carlo needs at least one sample, got {n}")
     mission = plan.mission
@@ -195,7 +195,7 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
             time = time + seg["time"]
             m = np.where(seg["time"] > 0, seg["mass_end"], m)
         h = H if not last else prof.arrival_elevation
-    required, _ = _reserve(fl, mission, m, plan.leg_altitudes)
+    required = mission_reserve(fl, mission, m, plan.leg_altitudes).amount
     required = np.broadcast_to(np.asarray(required, dtype=float), (n,))
     return PlanUncertainty(store, np.broadcast_to(used, (n,)), time, required, seed)
 
@@ -243,8 +243,6 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     CruiseUncertainty
         Per-sample range and endurance.
     """
-    from cruiseplan.planning.performance import cruise_points
-
     tol = dict(airframe.tolerances)
     factors = draw_factors(tol, unit_samples(n, len(tol), seed))
     af_s = sample_airframe(airframe, factors)

@@ -17,9 +17,8 @@ from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import Limit
 from cruiseplan.physics.atmosphere import air_state, check_altitude
 from cruiseplan.planning.performance import power_setting_table, resolve_loading
-from cruiseplan.report.output import display
 from cruiseplan.report.tables import store_text
-from cruiseplan.units import temperature_difference, to_si
+from cruiseplan.units import display, temperature_difference, to_si
 
 #: Okabe-Ito palette [1]_ (yellow left out: it does not show on white paper).
 OKABE_ITO = {

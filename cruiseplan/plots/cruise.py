@@ -39,8 +39,7 @@ from cruiseplan.plots._style import (
     _sr_display,
     speed_span,
 )
-from cruiseplan.report.output import display
-from cruiseplan.units import temperature_difference, to_si
+from cruiseplan.units import display, temperature_difference, to_si
 
 # --- (a) specific-range map ---------------------------------------------------------------
 

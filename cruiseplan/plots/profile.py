@@ -14,7 +14,7 @@ from cruiseplan.plots._style import (
     _context,
     _footer,
 )
-from cruiseplan.report.output import display
+from cruiseplan.units import display
 
 # --- mission profile ------------------------------------------------------------------------
 
@@ -80,7 +80,7 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
               label=what)
     reserve = plan.reserve_required * fq
     ax_q.axhline(reserve, color=OKABE_ITO["vermillion"], linestyle="--", linewidth=1.5,
-                 label=f"reserve required ({plan.reserve_text})")
+                 label=f"reserve required ({plan.reserve.describe(prop, units)})")
     ax_q.fill_between(x, 0, reserve, color=OKABE_ITO["vermillion"], alpha=0.12,
                       hatch="///", edgecolor=OKABE_ITO["vermillion"], linewidth=0.0)
     ax_h.set_ylabel(f"pressure altitude [{la}]", fontsize=9.5)

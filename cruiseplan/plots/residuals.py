@@ -17,7 +17,7 @@ from cruiseplan.plots._style import (
     _footer,
     _power_display,
 )
-from cruiseplan.report.output import display
+from cruiseplan.units import display
 
 # --- drag-polar fit ---------------------------------------------------------------------------
 

@@ -8,15 +8,17 @@ absolute and service ceilings, the reserve it keeps and the cautions in full.
 :func:`card_content` computes the content once (no matplotlib here); the markdown and the
 page (:func:`cruiseplan.plots.card_figure`) are both laid out from it, so they say the same.
 
-Reserves, in the order a crew would write them (``--reserve``):
+Reserves, in the order a crew would write them (``--reserve``, read by
+:func:`cruiseplan.io.text.parse_reserve`), computed by
+:func:`cruiseplan.planning.reserve.reserve_required` as the mission planner does:
 
 * a time, ``"30min"``: flown at best-endurance power at the lowest altitude of the card;
-* a share of the fuel or energy on board, ``"25%"``;
+* a fraction of the usable capacity, ``"25%"``;
 * an amount, ``"10L"``, ``"7kg"`` (fuel) or ``"120Wh"`` (energy).
 
-Defaults, conservative and no more than that (local rules decide): piston, 45 min at
-best-endurance power at the card's lowest altitude; electric, 20 % of the usable energy on
-board.
+Defaults (:func:`cruiseplan.model.mission.default_reserve`), planning values only (local
+rules decide): piston, 45 min at best-endurance power; electric, 25 % of the usable
+capacity.
 
 References
 ----------
@@ -27,22 +29,25 @@ References
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass
 from datetime import date
 
 import numpy as np
 
+from cruiseplan.amounts import format_amount
 from cruiseplan.cautions import CAUTION_LINE, CAUTIONS
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
-from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.io.text import parse_reserve
 from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, describe, explain
+from cruiseplan.model.mission import default_reserve
 from cruiseplan.physics.airspeed import cas_from_tas
 from cruiseplan.planning.optimise import CEILING_SEARCH_TOP, best_cruise, ceilings
 from cruiseplan.planning.performance import power_setting_table, resolve_loading
-from cruiseplan.report.output import display, hours_minutes
+from cruiseplan.planning.reserve import reserve_required
+from cruiseplan.report.output import hours_minutes
 from cruiseplan.report.tables import airframe_lines, store_text
-from cruiseplan.units import parse_quantity, temperature_difference, to_si
+from cruiseplan.units import display, temperature_difference, to_si
 from cruiseplan.version import __version__
 
 #: Default power settings [fraction of rated power] by store.
@@ -50,105 +55,6 @@ DEFAULT_POWER = {"fuel": (0.55, 0.65, 0.75), "energy": (0.20, 0.30, 0.40)}
 #: Default card altitudes [m] by store: 0-8000 ft by 2000 ft; 0-400 m by 100 m.
 DEFAULT_ALTITUDES = {"fuel": tuple(np.arange(0.0, 8001.0, 2000.0) * 0.3048),
                      "energy": (0.0, 100.0, 200.0, 300.0, 400.0)}
-
-
-# --- reserve ------------------------------------------------------------------------------
-
-@dataclass(frozen=True)
-class Reserve:
-    """A reserve as the crew gave it.
-
-    Attributes
-    ----------
-    kind : {"time", "share", "amount"}
-        Time at best-endurance power, share of the store on board, or an amount.
-    value : float
-        Time [s], share [-], or fuel [kg] / energy [J].
-    text : str
-        As written (``""`` for the default).
-    """
-
-    kind: str
-    value: float
-    text: str = ""
-
-    @property
-    def is_default(self) -> bool:
-        """True for the default reserve."""
-        return self.text == ""
-
-
-def default_reserve(airframe) -> Reserve:
-    """45 min at best-endurance power (piston) or 20 % of usable energy (electric).
-
-    Conservative defaults for planning only (common practice, no source); local rules
-    decide the minimum reserve.
-    """
-    if airframe.propulsion.store_name == "fuel":
-        return Reserve("time", 45 * 60.0)
-    return Reserve("share", 0.20)
-
-
-_BARE_NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$")
-
-
-def parse_reserve(airframe, text: str) -> Reserve:
-    """Read a reserve: ``"30min"``, ``"25%"``, ``"10L"``, ``"7kg"`` or ``"120Wh"``.
-
-    Parameters
-    ----------
-    airframe : Airframe
-        The airframe (decides whether an amount is fuel or energy).
-    text : str
-        The reserve with its unit.
-
-    Returns
-    -------
-    Reserve
-        In SI: seconds, a share in (0, 1), kg of fuel or J.
-
-    Raises
-    ------
-    UnitError
-        When the text has no unit or is neither a time, a share nor an amount.
-    """
-    t = str(text).strip()
-    store = airframe.propulsion.store_name
-    example = "'10L' or '7kg'" if store == "fuel" else "'120Wh'"
-    if not t or _BARE_NUMBER.match(t):
-        raise UnitError(f"--reserve: {text!r} needs a unit: a time ('30min'), a share "
-                        f"('25%') or an amount ({example})")
-    if t.endswith("%"):
-        share = parse_quantity(t, "", what="--reserve")
-        if not 0.0 < share < 1.0:
-            raise UnitError(f"--reserve: {text!r} must be a share between 0 and 100 %")
-        return Reserve("share", share, t)
-    candidates = [("time", "s", 1.0)]
-    if store == "fuel":
-        candidates += [("amount", "m^3", airframe.propulsion.fuel_density),
-                       ("amount", "kg", 1.0)]
-    else:
-        candidates += [("amount", "J", 1.0)]
-    for kind, unit, scale in candidates:
-        try:
-            value = parse_quantity(t, unit, what="--reserve") * scale
-        except UnitError:
-            continue
-        if value <= 0:
-            raise UnitError(f"--reserve: {text!r} must be positive")
-        return Reserve(kind, value, t)
-    raise UnitError(f"--reserve: {text!r} is neither a time ('30min'), a share of the "
-                    f"{store} on board ('25%') nor an amount ({example})")
-
-
-def _amount_text(airframe, amount: float, units: str) -> str:
-    prop = airframe.propulsion
-    if prop.store_name == "fuel":
-        fv, lv = display("volume", units)
-        fm, lm = display("mass", units)
-        return f"{amount / prop.fuel_density * fv:.1f} {lv} ({amount * fm:.1f} {lm})"
-    fe, le = display("energy", units)
-    return f"{amount * fe:.0f} {le}"
 
 
 # --- content ------------------------------------------------------------------------------
@@ -283,8 +189,8 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     frac = np.atleast_1d(np.asarray(DEFAULT_POWER[store_name] if power_settings is None
                                     else power_settings, dtype=float))
     if isinstance(reserve, str):
-        reserve = parse_reserve(airframe, reserve)
-    reserve = reserve or default_reserve(airframe)
+        reserve = parse_reserve(reserve, prop, what="reserve")
+    reserve = reserve or default_reserve(prop)
     dev = temperature_difference(isa_dev)
     loading = resolve_loading(airframe, mass, fuel, payload)
     load = dict(mass=loading.mass, fuel=loading.store)
@@ -305,33 +211,19 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     # Reserve, in kg of fuel or J. Endurance is linear in the store for both propulsion
     # kinds (Peukert's law in Hart's form too), so a time t at power P needs t/E(P) of it.
     sched = best.schedule
-    if reserve.kind == "time":
-        e_ref = best.points.endurance[0]
-        if not (sched.feasible[0] and math.isfinite(e_ref)):
-            raise CruiseplanError(
-                f"no best-endurance speed at {h[0] * fa:.0f} {la} to fly the "
-                f"{reserve.text or 'default'} time reserve ({best.reason(0)}): give the "
-                "reserve as an amount or a share")
-        amount = reserve.value * store / e_ref
-        v_e = sched.tas["endurance"][0]
-        how = (f"{reserve.value / 60:.0f} min at best-endurance power "
-               f"({best.points.power_fraction[0] * 100:.0f} % rated, {v_e * fs:.0f} {ls} TAS) "
-               f"at {h[0] * fa:.0f} {la}")
-    elif reserve.kind == "share":
-        amount = reserve.value * store
-        how = f"{reserve.value * 100:.0f} % of the usable {store_name} on board"
-    else:
-        amount = reserve.value
-        how = "as an amount"
+    kept = reserve_required(airframe, reserve, mass=loading.mass, isa_dev=dev,
+                            altitude=float(h[0]), stall_margin=stall_margin)
+    amount = kept.amount
     if amount >= store:
         raise CruiseplanError(
-            f"reserve {_amount_text(airframe, amount, units)} is not less than the "
-            f"{store_name} on board, {_amount_text(airframe, store, units)}: take more "
+            f"reserve {format_amount(amount, prop, units)} is not less than the "
+            f"{store_name} on board, {format_amount(store, prop, units)}: take more "
             f"{store_name} or keep a smaller reserve")
     keep = 1.0 - amount / store
-    who = ("conservative default; local rules decide" if reserve.is_default
+    who = ("default for planning; local rules decide the minimum" if reserve.is_default
            else f"as set ({reserve.text}); local rules decide the minimum")
-    reserve_line = (f"Reserve kept: {how} = {_amount_text(airframe, amount, units)} "
+    reserve_line = (f"Reserve kept: {kept.describe(prop, units)} = "
+                    f"{format_amount(amount, prop, units)} "
                     f"\u2014 {who}.")
 
     # Table 1: by altitude and power setting.

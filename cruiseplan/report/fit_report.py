@@ -10,8 +10,9 @@ import numpy as np
 from cruiseplan.cautions import CAUTIONS
 from cruiseplan.io.flightlog import FlightLog
 from cruiseplan.planning.fit import POWER_SOURCES
-from cruiseplan.report.output import Column, Report, display
+from cruiseplan.report.output import Column, Report
 from cruiseplan.report.tables import airframe_lines
+from cruiseplan.units import display
 
 
 def fit_report(fit, log: FlightLog, airframe, *, units: str = "aviation"):

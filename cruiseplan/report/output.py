@@ -18,40 +18,6 @@ from pathlib import Path
 
 import numpy as np
 
-from cruiseplan.units import conversion_factor
-
-#: Display units by physical kind: (pint unit, label) per unit system.
-UNIT_SYSTEMS = {
-    "si": {
-        "altitude": ("m", "m"), "speed": ("km/h", "km/h"), "mass": ("kg", "kg"),
-        "volume": ("L", "L"), "distance": ("km", "km"), "power": ("kW", "kW"),
-        "volume_flow": ("L/h", "L/h"), "mass_flow": ("kg/h", "kg/h"),
-        "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
-        "sr_fuel": ("km/L", "km/L"), "sr_energy": ("km/kWh", "km/kWh"),
-        "rate": ("m/s", "m/s"), "pressure": ("hPa", "hPa"),
-    },
-    "aviation": {
-        "altitude": ("ft", "ft"), "speed": ("kt", "kt"), "mass": ("lb", "lb"),
-        "volume": ("gallon", "US gal"), "distance": ("nmi", "nm"), "power": ("hp", "hp"),
-        "volume_flow": ("gallon/h", "US gal/h"), "mass_flow": ("lb/h", "lb/h"),
-        "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
-        "sr_fuel": ("nmi/gallon", "nm/US gal"), "sr_energy": ("nmi/kWh", "nm/kWh"),
-        "rate": ("ft/min", "ft/min"), "pressure": ("hPa", "hPa"),
-    },
-}
-_SI_OF_KIND = {
-    "altitude": "m", "speed": "m/s", "mass": "kg", "volume": "m^3", "distance": "m",
-    "power": "W", "volume_flow": "m^3/s", "mass_flow": "kg/s", "energy": "J",
-    "electric_power": "W", "sr_fuel": "m/m^3", "sr_energy": "m/J", "rate": "m/s",
-    "pressure": "Pa",
-}
-
-
-def display(kind: str, units: str):
-    """Return (factor from SI, label) for a physical kind in a unit system."""
-    pint_unit, label = UNIT_SYSTEMS[units][kind]
-    return conversion_factor(_SI_OF_KIND[kind], pint_unit), label
-
 
 @dataclass
 class Column:

@@ -15,7 +15,8 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.io.bundled import shown_path
 from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, explain
 from cruiseplan.planning.performance import CruisePoints
-from cruiseplan.report.output import Column, Report, display, hours_minutes
+from cruiseplan.report.output import Column, Report, hours_minutes
+from cruiseplan.units import display
 
 
 def airframe_lines(airframe) -> list:
@@ -369,7 +370,8 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
         f"Totals: {n_legs} legs, {hours_minutes(plan.time)} h:mm, "
         f"{plan.distance * fd:.1f} {ld}, used {plan.used * fq:{qfmt[2:-1]}} {lq}, "
         f"remaining at landing {plan.remaining * fq:{qfmt[2:-1]}} {lq}",
-        f"Reserve required {plan.reserve_required * fq:{qfmt[2:-1]}} {lq}: {plan.reserve_text}"
+        f"Reserve required {plan.reserve_required * fq:{qfmt[2:-1]}} {lq}: "
+        f"{plan.reserve.describe(prop, units)}"
         " (local rules decide the minimum reserve)",
         f"Made {date.today().isoformat()} by cruiseplan",
     ]
