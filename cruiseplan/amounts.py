@@ -83,10 +83,12 @@ def parse_amount(text, propulsion, *, what: str, share: bool = True) -> float:
         if not value >= 0.0 or value == float("inf"):
             raise UnitError(f"{what}: {text!r} must be a finite amount, not negative")
         return value
-    kind = "a volume or a mass of fuel" if store.burns_mass else "an energy"
-    raise UnitError(f"{what}: {text!r} is not {kind}"
-                    + (" or a percentage of capacity" if share else "")
-                    + f", e.g. {examples(propulsion)}")
+    kinds = ["a volume", "a mass of fuel"] if store.burns_mass else ["an energy"]
+    if share:
+        kinds.append("a percentage of capacity")
+    listed = kinds[0] if len(kinds) == 1 else "neither " + " nor ".join(kinds)
+    raise UnitError(f"{what}: {text!r} is {'not ' if len(kinds) == 1 else ''}{listed}, "
+                    f"e.g. {examples(propulsion)}")
 
 
 def amount_unit(propulsion, units: str) -> tuple:

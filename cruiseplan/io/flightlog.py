@@ -39,7 +39,10 @@ from __future__ import annotations
 import csv
 import hashlib
 import math
+import os
 import re
+import tempfile
+import warnings
 from dataclasses import dataclass
 from datetime import date
 from pathlib import Path
@@ -292,8 +295,6 @@ def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
     .. [1] Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, ch. 9.
     .. [2] Anderson, *Introduction to Flight*, sec. 4.12.
     """
-    import warnings
-
     path = Path(path)
     try:
         raw = path.read_bytes()
@@ -465,9 +466,6 @@ def check_airframe_text(text: str):
     CruiseplanError
         When the text is not a valid airframe file (e.g. a fitted value out of range).
     """
-    import os
-    import tempfile
-
     fd, tmp = tempfile.mkstemp(suffix=".toml", prefix="cruiseplan-fit-")
     try:
         with os.fdopen(fd, "wb") as fh:

@@ -117,6 +117,62 @@ def wind_components(course_deg, wind_from_deg, wind_speed):
     return w * np.cos(rel), w * np.sin(rel)
 
 
+def ground_speed(tas, headwind, crosswind):
+    r"""Ground speed along a course held against the wind: the one wind-triangle formula.
+
+    .. math:: GS = V\cos\delta - W_h = \sqrt{V^2 - W_x^2} - W_h,
+              \qquad \sin\delta = W_x / V
+
+    Parameters
+    ----------
+    tas : array_like
+        True airspeed (its horizontal part when climbing) [m/s].
+    headwind : array_like
+        Wind component against the course [m/s] (negative: tailwind).
+    crosswind : array_like
+        Wind component across the course [m/s].
+
+    Returns
+    -------
+    numpy.ndarray
+        Ground speed [m/s]; NaN where the crosswind exceeds the airspeed (the course
+        cannot be held). It may be zero or negative where the headwind is as strong.
+
+    References
+    ----------
+    .. [1] FAA, *Pilot's Handbook of Aeronautical Knowledge*, FAA-H-8083-25, ch. 16
+       (wind triangle).
+    """
+    tas = np.asarray(tas, dtype=float)
+    cross = np.asarray(crosswind, dtype=float)
+    with np.errstate(invalid="ignore"):
+        return np.sqrt(tas * tas - cross * cross) - headwind
+
+
+def wind_correction_angle(tas, crosswind):
+    """Wind correction angle [deg], positive to the right; NaN where the course is lost.
+
+    Parameters
+    ----------
+    tas : array_like
+        True airspeed [m/s].
+    crosswind : array_like
+        Crosswind component from the right [m/s].
+
+    Returns
+    -------
+    numpy.ndarray
+        arcsin(W_x / V) [deg].
+
+    References
+    ----------
+    .. [1] FAA-H-8083-25, ch. 16.
+    """
+    with np.errstate(invalid="ignore", divide="ignore"):
+        ratio = np.asarray(crosswind, dtype=float) / np.asarray(tas, dtype=float)
+        return np.degrees(np.arcsin(np.where(np.abs(ratio) <= 1.0, ratio, np.nan)))
+
+
 def wind_triangle(tas, course_deg, wind_from_deg, wind_speed):
     r"""Solve the wind triangle: heading and ground speed that hold a course.
 
@@ -150,11 +206,8 @@ def wind_triangle(tas, course_deg, wind_from_deg, wind_speed):
     .. [1] FAA, *Pilot's Handbook of Aeronautical Knowledge*, FAA-H-8083-25, ch. 16
        (wind triangle).
     """
-    tas = np.asarray(tas, dtype=float)
     head, cross = wind_components(course_deg, wind_from_deg, wind_speed)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        ratio = cross / tas
-        wca = np.arcsin(np.where(np.abs(ratio) <= 1.0, ratio, np.nan))
-    gs = tas * np.cos(wca) - head
-    heading = np.mod(np.asarray(course_deg, dtype=float) + np.degrees(wca), 360.0)
-    return gs, heading, np.degrees(wca)
+    wca = wind_correction_angle(tas, cross)
+    gs = np.where(np.isfinite(wca), ground_speed(tas, head, cross), np.nan)
+    heading = np.mod(np.asarray(course_deg, dtype=float) + wca, 360.0)
+    return gs, heading, wca

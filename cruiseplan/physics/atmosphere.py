@@ -34,6 +34,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from cruiseplan.constants import BETA_S, G0, GAMMA, LAPSE, P0, R_AIR, RHO0, S_SUTH, T0
+from cruiseplan.errors import AtmosphereRangeError, CruiseplanError
 
 #: Valid pressure-altitude range [m] (ambiance: -5004 m to 81 020 m geometric).
 ALTITUDE_MIN = -5000.0
@@ -87,8 +88,6 @@ def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
     AtmosphereRangeError
         Naming the offending value and the valid range.
     """
-    from cruiseplan.errors import AtmosphereRangeError
-
     h = np.asarray(pressure_altitude, dtype=float)
     bad = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
     if np.any(bad):
@@ -240,7 +239,6 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
         dT = np.asarray(isa_dev, dtype=float) + 0.0 * T_isa
         T = T_isa + dT
     if np.any(T <= 0):
-        from cruiseplan.errors import CruiseplanError
 
         raise CruiseplanError(f"temperature {np.min(T):.1f} K is not physical: "
                               "check the ISA deviation or OAT")
@@ -300,8 +298,6 @@ def density_altitude(density):
     .. [1] ICAO Doc 7488/3 (1993), defining equations of the troposphere and
        lower stratosphere.
     """
-    from cruiseplan.errors import AtmosphereRangeError
-
     rho = np.asarray(density, dtype=float)
     rho_lo = float(air_state(_DA_MAX).density)
     rho_hi = float(air_state(ALTITUDE_MIN).density)

@@ -34,6 +34,8 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from cruiseplan.physics.atmosphere import air_state
+
 # --- correlations -------------------------------------------------------------------------
 
 
@@ -359,8 +361,6 @@ class BuildUpPolar:
 
     def reference_cd0(self):
         """CD0 at sea level ISA and 30 m/s, for summaries [-]."""
-        from cruiseplan.physics.atmosphere import air_state
-
         return float(self.cd0(30.0, air_state(0.0)))
 
 

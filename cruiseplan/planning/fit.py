@@ -55,7 +55,7 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -674,6 +674,5 @@ def fit_flight_log(airframe, log, *, reference_mass=None, fit_efficiency=False,
 
 
 def _with_warning(result: FitResult, text: str) -> FitResult:
-    from dataclasses import replace
 
     return replace(result, warnings=result.warnings + (text,))

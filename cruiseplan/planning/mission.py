@@ -44,9 +44,15 @@ import numpy as np
 from cruiseplan.amounts import format_amount
 from cruiseplan.constants import G0
 from cruiseplan.model.mission import Mission
-from cruiseplan.physics.airspeed import wind_components
+from cruiseplan.physics.airspeed import (
+    eas_from_tas,
+    ground_speed,
+    tas_from_eas,
+    wind_components,
+    wind_correction_angle,
+)
 from cruiseplan.physics.atmosphere import air_state
-from cruiseplan.planning.optimise import objective_speed
+from cruiseplan.planning.optimise import max_climb_rate, objective_speed
 from cruiseplan.planning.performance import shaft_power_required
 from cruiseplan.planning.reserve import ReserveAmount, reserve_required
 
@@ -203,11 +209,13 @@ class Flight:
         """
         head, cross = self.wind(leg, h) if wind is None else wind
         vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
-        with np.errstate(invalid="ignore"):
-            wca = np.arcsin(np.clip(cross / vh, -1.0, 1.0))
-        gs = vh * np.cos(wca) - head
-        heading = np.mod(leg.course + np.degrees(wca), 360.0)
-        return gs, heading, np.abs(cross) < vh
+        held = np.abs(cross) < vh
+        # Where the course cannot be held the aircraft points into the crosswind: it
+        # makes no way across it and drifts with the headwind component.
+        gs = np.where(held, ground_speed(vh, head, cross), -head)
+        wca = np.where(held, wind_correction_angle(vh, cross), 90.0 * np.sign(cross))
+        heading = np.mod(leg.course + wca, 360.0)
+        return gs, heading, held
 
 
 def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
@@ -244,7 +252,7 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
     idle = profile.idle_power * fl.prop.rated_power
     for j in range(CLIMB_STEPS):
         air = air_steps.row(j)
-        v = v_eas / np.sqrt(air.sigma)
+        v = tas_from_eas(v_eas, air.density)
         eta = fl.prop.propeller(v)
         p_level = fl.shaft(m, air, v)
         weight = m * G0
@@ -356,7 +364,6 @@ def climb_speed(mission: Mission) -> float:
     """Climb EAS [m/s]: the profile's, or the best-rate speed at departure, mass at start."""
     if mission.profile.climb_speed is not None:
         return mission.profile.climb_speed
-    from cruiseplan.planning.optimise import max_climb_rate
 
     af = mission.airframe
     load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
@@ -365,7 +372,7 @@ def climb_speed(mission: Mission) -> float:
     v_s = af.stall_speed(load.mass, air.density)
     # Never slower than the stall margin; held as EAS through the climb.
     v = np.maximum(v, mission.stall_margin * v_s)
-    return float(v * np.sqrt(air.sigma))
+    return float(eas_from_tas(v, air.density))
 
 
 def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
@@ -384,7 +391,7 @@ def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
         v_cr, speed_ok = _cruise_speed(fl, leg, H, m, store, air_H)
     else:
         v_cr, speed_ok = v_cruise + 0.0 * H, np.ones(H.shape, dtype=bool)
-    v_eas_cruise = v_cr * np.sqrt(air_H.sigma)
+    v_eas_cruise = eas_from_tas(v_cr, air_H.density)
     trans = _vertical(fl, leg, h_now, H, m, v_climb, v_eas_cruise, prof)
     m_cr = trans["mass_end"]
     # The final descent's distance is flown within the last leg: estimate it from the mass

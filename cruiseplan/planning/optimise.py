@@ -44,8 +44,10 @@ import numpy as np
 
 from cruiseplan._numerics import brent_minimise, golden_minimise, illinois_root
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, G0, MACH_LIMIT
+from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import Limit, describe
-from cruiseplan.physics.aerodynamics import ParabolicPolar, speed_for_lift_coefficient
+from cruiseplan.physics.aerodynamics import ParabolicPolar, min_drag_speed, min_power_speed
+from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import AirState, air_state, check_altitude
 from cruiseplan.planning.performance import (
     CruisePoints,
@@ -175,24 +177,22 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
         return shaft_power_required(airframe, mass, air, v)
 
     def ground_range(v):
-        with np.errstate(invalid="ignore"):
-            gs = np.sqrt(v * v - cw * cw) - hw
-        return gs * prop.endurance(store, shaft(v))
+        return ground_speed(v, hw, cw) * prop.endurance(store, shaft(v))
 
     # Brent's method needs fewer evaluations, golden section far fewer array operations
     # per step: for a planner's modest tolerance golden section is the quicker.
     search = golden_minimise if xtol >= 1e-7 else brent_minimise
     if "range" in objectives or "economy" in objectives:
-        peukert = getattr(prop, "peukert_exponent", 1.0) != 1.0
+        peukert = np.any(getattr(prop, "peukert_exponent", 1.0) != 1.0)
         if _closed_form_ok(airframe, hw, cw) and not peukert:
-            out["range"] = speed_for_lift_coefficient(mass, air.density, airframe.wing_area,
-                                                      np.sqrt(polar.cd0 / polar.k))
+            out["range"] = min_drag_speed(mass, air.density, airframe.wing_area, polar.cd0,
+                                          polar.k)
         else:
             out["range"] = search(lambda v: -ground_range(v), lo, hi, xtol_rel=xtol)
     if "endurance" in objectives:
         if _closed_form_ok(airframe, 0.0, 0.0):
-            out["endurance"] = speed_for_lift_coefficient(
-                mass, air.density, airframe.wing_area, np.sqrt(3.0 * polar.cd0 / polar.k))
+            out["endurance"] = min_power_speed(mass, air.density, airframe.wing_area,
+                                               polar.cd0, polar.k)
         else:
             out["endurance"] = search(shaft, lo, hi, xtol_rel=xtol)
     if "economy" in objectives:
@@ -554,8 +554,6 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.7.
     """
-    from cruiseplan.errors import CruiseplanError
-
     if objective not in OBJECTIVES:
         raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
     h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
@@ -576,8 +574,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
                            crosswind=cw, stall_margin=stall_margin,
                            climb_reserve=to_si(climb_reserve, "m/s", what="climb_reserve"))
     v = sched.tas[objective]
-    with np.errstate(invalid="ignore"):
-        gs = np.sqrt(v * v - cw * cw) - hw
+    gs = ground_speed(v, hw, cw)
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin)
     wind_bad = sched.feasible & ~(gs > 0)
@@ -586,8 +583,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
     v_free = sched.tas_unconstrained[objective]
-    with np.errstate(invalid="ignore"):
-        gs_free = np.sqrt(v_free * v_free - cw * cw) - hw
+    gs_free = ground_speed(v_free, hw, cw)
     free = cruise_points(airframe, loading.mass, air, v_free, loading.store,
                          ground_speed=gs_free)
     value_free = free.endurance if objective == "endurance" else free.range_ground

@@ -23,7 +23,7 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -32,6 +32,7 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import Limit, explain
 from cruiseplan.physics import airspeed as _airspeed
+from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import (
     ALTITUDE_MAX,
     ALTITUDE_MIN,
@@ -141,7 +142,7 @@ class CruisePoints:
 
     def mach(self) -> np.ndarray:
         """Mach number [-]."""
-        return self.tas / self.air.speed_of_sound
+        return _airspeed.mach_from_tas(self.tas, self.air.speed_of_sound)
 
     def reasons(self) -> np.ndarray:
         """Reason text per point, an object array of the points' shape."""
@@ -284,7 +285,8 @@ def _column(value, n, what):
 
 
 def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
-                isa_dev=0.0, headwind=0.0, stall_margin=DEFAULT_STALL_MARGIN) -> CruisePoints:
+                isa_dev=0.0, headwind=0.0, wind=None, course=None,
+                stall_margin=DEFAULT_STALL_MARGIN) -> CruisePoints:
     """Cruise table over an altitude x TAS grid (public API; Quantities or SI floats).
 
     Parameters
@@ -305,6 +307,11 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
         ISA temperature deviation [K].
     headwind : float or array_like or pint.Quantity, optional
         Headwind component [m/s], scalar or one per altitude (negative: tailwind).
+    wind : WindProfile, optional
+        Winds aloft, instead of ``headwind``: the ground speed then comes from the full
+        wind triangle at each altitude. Needs ``course``.
+    course : float, optional
+        True course [deg] for ``wind``.
     stall_margin : float, optional
         Minimum TAS over stall speed [-] (1.3 by default, common practice).
 
@@ -313,6 +320,12 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     CruisePoints
         Arrays of shape (len(altitudes), len(tas)).
 
+    Raises
+    ------
+    CruiseplanError
+        For speeds that are not positive, a wind profile without a course, or both a
+        profile and a headwind.
+
     References
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, ch. 5.
@@ -320,10 +333,19 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     v = np.atleast_1d(to_si(tas, "m/s", what="tas"))
     if v.ndim != 1 or np.any(v <= 0):
         raise CruiseplanError("tas must be a one-dimensional array of positive speeds")
-    loading, air, valid, wind = _grid_inputs(airframe, altitudes, mass, fuel, payload,
+    if wind is not None and np.any(np.asarray(headwind) != 0):
+        raise CruiseplanError("give either a wind profile (with a course) or a headwind")
+    if (wind is None) != (course is None):
+        raise CruiseplanError("a wind profile and a course go together")
+    loading, air, valid, head = _grid_inputs(airframe, altitudes, mass, fuel, payload,
                                              isa_dev, headwind)
+    gs = None
+    if wind is not None:
+        hw, cw = wind.components(float(course), air.pressure_altitude[:, 0])
+        gs = ground_speed(v[None, :], hw[:, None], cw[:, None])
     return cruise_points(airframe, loading.mass, air, v[None, :], loading.store,
-                         headwind=wind, stall_margin=stall_margin, valid_air=valid)
+                         headwind=head, ground_speed=gs, stall_margin=stall_margin,
+                         valid_air=valid)
 
 
 def resolve_loading(airframe, mass=None, fuel=None, payload=None):
@@ -474,7 +496,6 @@ def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *
 
 
 def _replace(points: CruisePoints, **changes) -> CruisePoints:
-    from dataclasses import replace
 
     return replace(points, **changes)
 

@@ -21,7 +21,11 @@ References
    (power required and available), 5.7 (range and endurance).
 """
 
-from cruiseplan.plots._style import (
+from cruiseplan.plots.cardpage import CARD_FONTS, card_figure, cruise_card
+from cruiseplan.plots.cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
+from cruiseplan.plots.profile import mission_profile
+from cruiseplan.plots.residuals import fit_residuals
+from cruiseplan.plots.style import (
     CARD_PAGES,
     FORMATS,
     LIMIT_HATCHES,
@@ -33,14 +37,10 @@ from cruiseplan.plots._style import (
     figure_bytes,
     speed_span,
 )
-from cruiseplan.plots.cardpage import CARD_FONTS, card_figure
-from cruiseplan.plots.cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
-from cruiseplan.plots.profile import mission_profile
-from cruiseplan.plots.residuals import fit_residuals
 
 __all__ = [
     "CARD_FONTS", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES", "MIN_FONT",
     "OBJECTIVE_STYLES", "OKABE_ITO", "PLOT_SIZE", "SERIES_STYLES", "altitude_profile",
-    "card_figure", "figure_bytes", "fit_residuals", "mission_profile", "power_curves",
-    "specific_range_map", "speed_span",
+    "card_figure", "cruise_card", "figure_bytes", "fit_residuals", "mission_profile",
+    "power_curves", "specific_range_map", "speed_span",
 ]

@@ -11,10 +11,12 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Rectangle
 from matplotlib.textpath import TextPath
 
+from cruiseplan.constants import DEFAULT_STALL_MARGIN
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.plots._style import (
+from cruiseplan.plots.style import (
     CARD_PAGES,
 )
+from cruiseplan.report.card import card_content
 
 # --- cruise-card page ---------------------------------------------------------------------
 
@@ -191,3 +193,37 @@ def card_figure(content) -> Figure:
                           f"legible size: give fewer altitudes or power settings")
 
 
+def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
+                payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
+                stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
+                seed: int = 0):
+    """The cruise card as markdown and as a one-page figure.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    altitudes, power_settings, mass, fuel, payload, isa_dev, reserve, units, stall_margin
+        As in :func:`cruiseplan.report.card.card_content`.
+    monte_carlo : int, optional
+        Samples of the airframe's tolerances: adds the spread of range and endurance.
+    seed : int
+        Seed of the Monte Carlo.
+
+    Returns
+    -------
+    markdown : str
+        The card in markdown.
+    figure : matplotlib.figure.Figure
+        The same card on one portrait page (A5, or A4 when A5 is too small); save it with
+        :func:`cruiseplan.plots.figure_bytes`.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.5, 5.7, 5.11.
+    """
+    content = card_content(airframe, altitudes=altitudes, power_settings=power_settings,
+                           mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,
+                           reserve=reserve, units=units, stall_margin=stall_margin,
+                           monte_carlo=monte_carlo, seed=seed)
+    return content.markdown(), card_figure(content)

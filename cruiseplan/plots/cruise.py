@@ -23,21 +23,21 @@ from cruiseplan.planning.performance import (
     speed_for_min_drag,
     speed_for_min_power,
 )
-from cruiseplan.plots._style import (
-    _HALO,
+from cruiseplan.plots.style import (
+    HALO,
     LIMIT_HATCHES,
     MIN_FONT,
     OBJECTIVE_STYLES,
     OKABE_ITO,
     PLOT_SIZE,
     SERIES_STYLES,
-    _context,
-    _every,
-    _footer,
-    _isa_dev,
-    _power_display,
-    _sr_display,
+    figure_context,
+    footer,
+    isa_dev_of,
+    marker_every,
+    power_display,
     speed_span,
+    sr_display,
 )
 from cruiseplan.units import display, temperature_difference, to_si
 
@@ -131,13 +131,13 @@ def _best_lines(ax, best, units: str) -> None:
     fa, la = display("altitude", units)
     fs, _ = display("speed", units)
     h = best.altitudes * fa
-    every = _every(h.size)
+    every = marker_every(h.size)
     styles = (("range", OKABE_ITO["black"], "-", "o", (0, every)),
               ("endurance", OKABE_ITO["vermillion"], "--", "s", (every // 2, every)))
     for objective, colour, style, marker, marks in styles:
         ax.plot(best.schedule.tas[objective] * fs, h, color=colour, linestyle=style,
                 marker=marker, markevery=marks, markersize=5, linewidth=1.8,
-                path_effects=_HALO, zorder=7,
+                path_effects=HALO, zorder=7,
                 label=f"best-{objective} TAS{_held_by(best, objective)}")
     i = best.best_index
     if i >= 0:
@@ -195,7 +195,7 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = 
     v = np.broadcast_to(grid.tas, shape)[0, :]
     if np.any(np.diff(h) <= 0) or np.any(np.diff(v) <= 0):
         raise CruiseplanError("a specific-range map needs increasing altitudes and speeds")
-    factor, sr_label = _sr_display(airframe, units)
+    factor, sr_label = sr_display(airframe, units)
     sr = np.broadcast_to((grid.specific_range_ground if ground else grid.specific_range_air)
                          * factor, shape)
     limits = np.broadcast_to(grid.limits, shape).astype(int)
@@ -247,7 +247,7 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = 
         ax.legend(handles=line_handles + handles, loc="upper center",
                   bbox_to_anchor=(0.5, -0.1), ncol=2, fontsize=MIN_FONT + 0.5,
                   frameon=False)
-    _footer(fig, _context(airframe, grid.mass, grid.store, _isa_dev(grid.air), units,
+    footer(fig, figure_context(airframe, grid.mass, grid.store, isa_dev_of(grid.air), units,
                           f"wind {wind_text}"))
     return fig
 
@@ -303,7 +303,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
                        isa_dev=dev, stall_margin=stall_margin)
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
-    fp, lp = _power_display(airframe, units)
+    fp, lp = power_display(airframe, units)
     v = np.broadcast_to(grid.tas, grid.shape)[0] * fs
     air = air_state(h, dev)
     v_stall = airframe.stall_speed(grid.mass, air.density)
@@ -333,21 +333,21 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     one_available = np.allclose(available, available[0])
     for i, (colour, style, marker) in enumerate(SERIES_STYLES[:h.size]):
         ax.plot(v, required[i], color=colour, linestyle=style, marker=marker, markersize=4.5,
-                markevery=_every(v.size), linewidth=1.8,
+                markevery=marker_every(v.size), linewidth=1.8,
                 label=f"required at {h[i] * fa:.0f} {la}")
         if not one_available:
             ax.plot(v, np.full(v.shape, available[i]), color=colour, linestyle=style,
                     linewidth=1.0)
             ax.text(v[-1], available[i], f"full throttle {h[i] * fa:.0f} {la}",
                     fontsize=MIN_FONT, ha="right", va="bottom", color=colour,
-                    path_effects=_HALO)
+                    path_effects=HALO)
         for key, style_kw in marks.items():
             ax.plot(special[key][i] * fs, special_power[key][i] * fp, linestyle="none",
                     markerfacecolor=colour, zorder=5, **style_kw)
     if one_available:
         ax.axhline(available[0], color="black", linewidth=1.2)
         ax.text(v[-1], available[0], "maximum continuous shaft power (all altitudes)",
-                fontsize=MIN_FONT + 0.5, ha="right", va="bottom", path_effects=_HALO)
+                fontsize=MIN_FONT + 0.5, ha="right", va="bottom", path_effects=HALO)
     top = max(np.nanmax(available), np.nanmax(required[np.isfinite(required)], initial=0.0))
     ax.set_ylim(0.0, 1.12 * min(top, 1.6 * np.nanmax(available)))
     ax.set_xlim(v[0], v[-1])
@@ -383,7 +383,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
                  "sits at the stall speed.")
     fig.text(0.71, 0.2, textwrap.fill(note, 40), fontsize=MIN_FONT + 0.5, va="bottom",
              ha="left")
-    _footer(fig, _context(airframe, grid.mass, grid.store, dev, units))
+    footer(fig, figure_context(airframe, grid.mass, grid.store, dev, units))
     return fig
 
 
@@ -422,7 +422,7 @@ def altitude_profile(airframe, calm, wind=None, *, units: str = "aviation",
     """
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
-    factor, sr_label = _sr_display(airframe, units)
+    factor, sr_label = sr_display(airframe, units)
     fig = Figure(figsize=PLOT_SIZE)
     ax_v = fig.add_axes((0.085, 0.34, 0.42, 0.54))
     ax_sr = fig.add_axes((0.56, 0.34, 0.42, 0.54), sharey=ax_v)
@@ -432,7 +432,7 @@ def altitude_profile(airframe, calm, wind=None, *, units: str = "aviation",
     best_lines = []
     for case, best, style, filled in cases:
         h = best.altitudes * fa
-        every = _every(h.size, 10)
+        every = marker_every(h.size, 10)
         for k, objective in enumerate(OBJECTIVES):
             colour, marker = OBJECTIVE_STYLES[objective]
             ax_v.plot(best.schedule.tas[objective] * fs, h, color=colour, linestyle=style,
@@ -484,8 +484,8 @@ def altitude_profile(airframe, calm, wind=None, *, units: str = "aviation",
     fig.text(0.5, 0.905, ("wind: " + wind_text if wind is not None else "calm air only")
              + "; speeds within the stall margin and the power available",
              fontsize=MIN_FONT + 1, ha="center")
-    _footer(fig, _context(airframe, calm.points.mass, calm.points.store,
-                          _isa_dev(calm.schedule.air), units))
+    footer(fig, figure_context(airframe, calm.points.mass, calm.points.store,
+                          isa_dev_of(calm.schedule.air), units))
     return fig
 
 

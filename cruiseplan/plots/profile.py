@@ -7,12 +7,13 @@ import textwrap
 import numpy as np
 from matplotlib.figure import Figure
 
-from cruiseplan.plots._style import (
+from cruiseplan.planning.mission import ground_elevation
+from cruiseplan.plots.style import (
     MIN_FONT,
     OKABE_ITO,
     PLOT_SIZE,
-    _context,
-    _footer,
+    figure_context,
+    footer,
 )
 from cruiseplan.units import display
 
@@ -59,7 +60,6 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     ax_q = fig.add_axes((0.09, 0.17, 0.86, 0.33), sharex=ax_h)
     ax_h.plot(x, h, color=OKABE_ITO["blue"], linewidth=2.0, marker="o", markersize=3.5,
               label="pressure altitude flown")
-    from cruiseplan.planning.mission import ground_elevation
 
     start = 0.0
     for k, leg in enumerate(mission.legs):
@@ -99,7 +99,7 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     fig.text(0.5, 0.925, textwrap.shorten(f"VERDICT {verdict}", 150), ha="center",
              fontsize=MIN_FONT + 1.5, weight="bold",
              color="black" if plan.go else OKABE_ITO["vermillion"])
-    _footer(fig, _context(af, plan.takeoff_mass, plan.initial, mission.isa_dev, units))
+    footer(fig, figure_context(af, plan.takeoff_mass, plan.initial, mission.isa_dev, units))
     return fig
 
 

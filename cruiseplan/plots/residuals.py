@@ -8,14 +8,16 @@ from datetime import date
 import numpy as np
 from matplotlib.figure import Figure
 
-from cruiseplan.plots._style import (
-    _HALO,
+from cruiseplan.constants import RHO0
+from cruiseplan.planning.fit import piw_coefficients
+from cruiseplan.plots.style import (
+    HALO,
     MIN_FONT,
     OKABE_ITO,
     PLOT_SIZE,
     SERIES_STYLES,
-    _footer,
-    _power_display,
+    footer,
+    power_display,
 )
 from cruiseplan.units import display
 
@@ -68,13 +70,10 @@ def fit_residuals(fit_result, airframe, *, units: str | None = None,
     ----------
     .. [1] R. D. Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, AIAA, 2003, ch. 9.
     """
-    from cruiseplan.constants import RHO0
-    from cruiseplan.planning.fit import piw_coefficients
-
     fit = fit_result
     units = units or ("aviation" if airframe.propulsion.store_name == "fuel" else "si")
     fs, ls = display("speed", units)
-    fp, lp = _power_display(airframe, units)
+    fp, lp = power_display(airframe, units)
     fm, lm = display("mass", units)
     fig = Figure(figsize=PLOT_SIZE)
     ax_p = fig.add_axes((0.085, 0.47, 0.58, 0.41))
@@ -114,7 +113,7 @@ def fit_residuals(fit_result, airframe, *, units: str | None = None,
         for x, yy, n in zip(fit.viw[out] * fs, y[out], fit.lines[out]):
             ax.annotate(f"line {n}", (x, yy), xytext=(7, 4), textcoords="offset points",
                         fontsize=MIN_FONT + 0.5, color=OKABE_ITO["vermillion"],
-                        path_effects=_HALO, zorder=6)
+                        path_effects=HALO, zorder=6)
     band = 2.0 * fit.rms_relative * 100.0
     ax_r.axhline(0.0, color="black", linewidth=1.0)
     ax_r.axhspan(-band, band, color="0.88", zorder=0,
@@ -164,5 +163,5 @@ def fit_residuals(fit_result, airframe, *, units: str | None = None,
     if log_name:
         parts.append(f"log {log_name}")
     parts.append(f"made {date.today().isoformat()} by cruiseplan")
-    _footer(fig, " \u00b7 ".join(parts))
+    footer(fig, " \u00b7 ".join(parts))
     return fig

@@ -6,7 +6,8 @@ without the reserve), the best-range and best-endurance speeds at each altitude,
 absolute and service ceilings, the reserve it keeps and the cautions in full.
 
 :func:`card_content` computes the content once (no matplotlib here); the markdown and the
-page (:func:`cruiseplan.plots.card_figure`) are both laid out from it, so they say the same.
+page (:func:`cruiseplan.plots.card_figure`, and :func:`cruiseplan.plots.cruise_card` for
+both at once) are laid out from it, so they say the same.
 
 Reserves, in the order a crew would write them (``--reserve``, read by
 :func:`cruiseplan.io.text.parse_reserve`), computed by
@@ -45,6 +46,7 @@ from cruiseplan.physics.airspeed import cas_from_tas
 from cruiseplan.planning.optimise import CEILING_SEARCH_TOP, best_cruise, ceilings
 from cruiseplan.planning.performance import power_setting_table, resolve_loading
 from cruiseplan.planning.reserve import reserve_required
+from cruiseplan.planning.uncertainty import cruise_uncertainty, quantiles
 from cruiseplan.report.output import hours_minutes
 from cruiseplan.report.tables import airframe_lines, store_text
 from cruiseplan.units import display, temperature_difference, to_si
@@ -330,9 +332,6 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
 
 def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n, seed):
     """Monte Carlo spread of range and endurance to the reserve at the best-range point."""
-    from cruiseplan.planning.optimise import best_cruise
-    from cruiseplan.planning.uncertainty import cruise_uncertainty, quantiles
-
     best = best_cruise(airframe, h, objective="range", mass=table.mass, fuel=store,
                        isa_dev=dev, stall_margin=stall_margin)
     i = best.best_index
@@ -350,41 +349,3 @@ def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n
     return (f"Spread (Monte Carlo, {n} samples, seed {seed}; tolerances: {keys}): at "
             f"best range, {h[i] * fa:.0f} {la} and {p.tas[i] * fs:.0f} {ls} TAS, range to "
             f"reserve P10 / P50 / P90 = {r} {ld}, endurance to reserve {e} h:mm.")
-
-
-def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
-                payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
-                stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
-                seed: int = 0):
-    """The cruise card as markdown and as a one-page figure.
-
-    Parameters
-    ----------
-    airframe : Airframe
-        The airframe.
-    altitudes, power_settings, mass, fuel, payload, isa_dev, reserve, units, stall_margin
-        As in :func:`card_content`.
-    monte_carlo : int, optional
-        Samples of the airframe's tolerances: adds the spread of range and endurance.
-    seed : int
-        Seed of the Monte Carlo.
-
-    Returns
-    -------
-    markdown : str
-        The card in markdown.
-    figure : matplotlib.figure.Figure
-        The same card on one portrait page (A5, or A4 when A5 is too small); save it with
-        :func:`cruiseplan.plots.figure_bytes`.
-
-    References
-    ----------
-    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.5, 5.7, 5.11.
-    """
-    from cruiseplan.plots import card_figure
-
-    content = card_content(airframe, altitudes=altitudes, power_settings=power_settings,
-                           mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,
-                           reserve=reserve, units=units, stall_margin=stall_margin,
-                           monte_carlo=monte_carlo, seed=seed)
-    return content.markdown(), card_figure(content)

@@ -18,6 +18,8 @@ from pathlib import Path
 
 import numpy as np
 
+from cruiseplan.errors import CruiseplanError
+
 
 @dataclass
 class Column:
@@ -179,7 +181,6 @@ def write_bytes_atomic(path, data: bytes) -> None:
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
     if not folder.is_dir():
-        from cruiseplan.errors import CruiseplanError
 
         raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
     fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")

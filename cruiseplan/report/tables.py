@@ -15,6 +15,7 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.io.bundled import shown_path
 from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, explain
 from cruiseplan.planning.performance import CruisePoints
+from cruiseplan.planning.uncertainty import quantiles
 from cruiseplan.report.output import Column, Report, hours_minutes
 from cruiseplan.units import display
 
@@ -183,7 +184,6 @@ def atmosphere_report(air, units: str = "aviation") -> Report:
 
 
 def _spread_text(name, values, factor, unit, fmt="{:.0f}") -> str:
-    from cruiseplan.planning.uncertainty import quantiles
 
     p10, p50, p90 = (fmt.format(q * factor) for q in quantiles(values))
     return f"{name} P10 / P50 / P90 = {p10} / {p50} / {p90} {unit}"

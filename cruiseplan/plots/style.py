@@ -57,7 +57,7 @@ MIN_FONT = 7.0
 #: Card pages tried in turn, portrait [in].
 CARD_PAGES = {"A5": (5.83, 8.27), "A4": (8.27, 11.69)}
 
-_HALO = [patheffects.withStroke(linewidth=3.5, foreground="white")]
+HALO = [patheffects.withStroke(linewidth=3.5, foreground="white")]
 
 
 # --- output -------------------------------------------------------------------------------
@@ -100,7 +100,7 @@ def figure_bytes(fig: Figure, fmt: str, *, dpi: float = 150.0) -> bytes:
 
 # --- shared pieces ------------------------------------------------------------------------
 
-def _footer(fig: Figure, context: str) -> None:
+def footer(fig: Figure, context: str) -> None:
     """Caution line, and the context above it, at the bottom of a plot."""
     fig.text(0.012, 0.012, CAUTION_LINE, fontsize=MIN_FONT + 0.5, ha="left", va="bottom",
              style="italic")
@@ -110,8 +110,30 @@ def _footer(fig: Figure, context: str) -> None:
              color="0.25", linespacing=1.25)
 
 
-def _context(airframe, mass: float, store: float, isa_dev: float, units: str,
-             extra: str = "") -> str:
+def figure_context(airframe, mass: float, store: float, isa_dev: float, units: str,
+                   extra: str = "") -> str:
+    """The line a figure's footer says it holds for: airframe, loading, day, date.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float
+        Mass [kg].
+    store : float
+        Fuel [kg] or usable energy [J] on board.
+    isa_dev : float
+        ISA deviation [K].
+    units : {"aviation", "si"}
+        Display units.
+    extra : str, optional
+        More context, e.g. the wind.
+
+    Returns
+    -------
+    str
+        One line, parts joined by middle dots.
+    """
     fm, lm = display("mass", units)
     parts = [f"{airframe.name} (file sha256 {airframe.checksum[:16]})",
              f"mass {mass * fm:.1f} {lm}", store_text(airframe, store, units),
@@ -122,26 +144,31 @@ def _context(airframe, mass: float, store: float, isa_dev: float, units: str,
     return " \u00b7 ".join(parts)
 
 
-def _sr_display(airframe, units: str):
+def sr_display(airframe, units: str):
     """Factor from SI specific range (m/kg or m/J) to display units, and the label."""
     prop = airframe.propulsion
-    if prop.store_name == "fuel":
+    if prop.store.burns_mass:
         f, label = display("sr_fuel", units)
         return f * prop.fuel_density, label
     return display("sr_energy", units)
 
 
-def _power_display(airframe, units: str):
-    kind = "power" if airframe.propulsion.store_name == "fuel" else "electric_power"
+def power_display(airframe, units: str):
+    """Factor from W to the display unit of shaft power, and its label.
+
+    Engines read in hp or kW, electric motors in W.
+    """
+    kind = "power" if airframe.propulsion.store.burns_mass else "electric_power"
     return display(kind, units)
 
 
-def _every(n: int, marks: int = 8):
+def marker_every(n: int, marks: int = 8):
     """Marker spacing that puts about ``marks`` markers on a line of ``n`` points."""
     return max(1, int(round(n / marks)))
 
 
-def _isa_dev(air) -> float:
+def isa_dev_of(air) -> float:
+    """The ISA deviation [K] of an air state (the same at every altitude)."""
     return float(np.ravel(air.isa_dev)[0])
 
 

@@ -1,0 +1,88 @@
+"""The ``fit`` command: the drag polar from a level-flight log, by PIW-VIW reduction."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from cruiseplan.cli import options
+from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.io.airframe_file import find_airframe, read_airframe
+from cruiseplan.io.flightlog import check_airframe_text, fitted_airframe_text, read_flight_log
+from cruiseplan.planning.fit import fit_flight_log
+from cruiseplan.report.fit_report import fit_report
+from cruiseplan.report.output import write_atomic, write_bytes_atomic
+from cruiseplan.units import parse_quantity
+
+
+def register(sub):
+    """Add ``fit`` (drag polar from a level-flight log) to the subcommand parsers."""
+    p = sub.add_parser("fit", help="fit the drag polar (CD0, Oswald e) to a level-flight log "
+                                   "by PIW-VIW reduction")
+    p.add_argument("log", help="flight log CSV whose header names each column with its unit, "
+                               "e.g. 'cas [kt]' (see DEVELOPERS.md, Flight logs)")
+    p.add_argument("--airframe", required=True,
+                   help="bundled airframe name or path to an airframe TOML file")
+    p.add_argument("--output", "-o", metavar="NEW.toml",
+                   help="write a copy of the airframe file with the fitted cd0 and oswald_e "
+                        "(or k); everything else is kept")
+    p.add_argument("--plot", metavar="RESIDUALS.png",
+                   help="draw the reduced points, the fitted curve and the residuals "
+                        "(.png or .pdf)")
+    p.add_argument("--format", choices=("text", "json"), default="text", help="output format")
+    p.add_argument("--reference-mass", help="mass the points are reduced to, e.g. '1600 lb' "
+                                            "(default the maximum take-off mass)")
+    options.add_units(p)
+    p.set_defaults(run=cmd_fit)
+
+
+def cmd_fit(args):
+    """Fit the drag polar to a flight log; print it, optionally write the airframe and plot."""
+    if args.plot:
+        options.figure_path(args.plot, (".png", ".pdf"), "--plot")
+    path = find_airframe(args.airframe)
+    if args.output:
+        if Path(args.output).suffix.lower() != ".toml":
+            raise CruiseplanError(f"--output {args.output}: the airframe file must end in .toml")
+        if Path(args.output).resolve() == path.resolve():
+            raise CruiseplanError(f"--output {args.output} is the airframe file itself: write "
+                                  "the fitted polar to a new file and compare")
+        if args.plot and Path(args.plot).resolve() == Path(args.output).resolve():
+            raise CruiseplanError("--output and --plot name the same file")
+    af = read_airframe(path)
+    mass = (parse_quantity(args.reference_mass, "kg", default_unit="kg",
+                           what="--reference-mass") if args.reference_mass else None)
+    if mass is not None and mass <= 0:
+        raise UnitError(f"--reference-mass {args.reference_mass!r} must be positive")
+    log = read_flight_log(args.log)
+    fit = fit_flight_log(af, log, reference_mass=mass)
+    if args.output and getattr(af.polar, "kind", None) != "parabolic":
+        raise CruiseplanError(f"--output: {af.name} has a {getattr(af.polar, 'kind', 'no')} "
+                              "polar; the fit writes cd0 and oswald_e of a parabolic one")
+    units = args.units or options.default_units(af)
+    text = fit_report(fit, log, af, units=units).render(args.format)
+    toml = None
+    if args.output:
+        toml = fitted_airframe_text(path.read_bytes().decode("utf-8"), fit,
+                                    log_name=Path(args.log).name)
+        check_airframe_text(toml)
+    figure = None
+    if args.plot:
+        from cruiseplan import plots  # matplotlib, only for the figure
+
+        figure = plots.figure_bytes(plots.fit_residuals(fit, af, units=units,
+                                                        log_name=Path(args.log).name),
+                                    args.plot)
+    written = []
+    try:
+        if toml is not None:
+            write_atomic(args.output, toml)
+            written.append(Path(args.output))
+        if figure is not None:
+            write_bytes_atomic(args.plot, figure)
+            written.append(Path(args.plot))
+    except BaseException:
+        for done in written:  # the outputs are written whole or not at all
+            done.unlink(missing_ok=True)
+        raise
+    sys.stdout.write(text)

@@ -1,0 +1,163 @@
+"""Commands that print tables: ``airframes``, ``atmosphere``, ``table`` and ``best``."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+import numpy as np
+
+from cruiseplan.cli import options
+from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.io.airframe_file import bundled_airframes, load_airframe, read_airframe
+from cruiseplan.physics.atmosphere import air_state, check_altitude
+from cruiseplan.planning.optimise import best_cruise
+from cruiseplan.planning.performance import cruise_grid, power_setting_table
+from cruiseplan.planning.uncertainty import cruise_uncertainty
+from cruiseplan.report.tables import atmosphere_report, best_report, cruise_report
+from cruiseplan.units import parse_quantity, parse_range
+
+
+def register(sub):
+    """Add the table commands to the subcommand parsers ``sub``."""
+    p = sub.add_parser("airframes", help="list the bundled airframes")
+    p.add_argument("--format", choices=("text", "json"), default="text")
+    p.set_defaults(run=cmd_airframes)
+
+    p = sub.add_parser("atmosphere", help="ISA or non-standard day at pressure altitudes")
+    p.add_argument("--altitudes", default="0:10000ft:1000ft",
+                   help="pressure altitudes: 'start:stop:step' or 'a,b,c' with units "
+                        "(default 0:10000ft:1000ft)")
+    day = p.add_mutually_exclusive_group()
+    day.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+10 K'")
+    day.add_argument("--oat", help="outside air temperature at every altitude, e.g. '25 degC'")
+    options.add_output(p)
+    p.set_defaults(run=cmd_atmosphere)
+
+    p = sub.add_parser("table", help="cruise table over altitude x speed or power setting")
+    p.add_argument("airframe", help=options.AIRFRAME_HELP)
+    p.add_argument("--altitudes", help="pressure altitudes, e.g. '0:8000ft:2000ft' "
+                                       "(default 0:10000ft:2000ft; drones 0:400m:100m)")
+    how = p.add_mutually_exclusive_group()
+    how.add_argument("--speeds", help="true airspeeds, e.g. '90:130kt:10kt' or '20,25 m/s'")
+    how.add_argument("--power", help="power settings in %% of rated power, e.g. '55,65,75'")
+    options.add_loading(p)
+    p.add_argument("--headwind", default="0",
+                   help="headwind component, e.g. '20 kt' (negative: tailwind)")
+    options.add_output(p)
+    p.set_defaults(run=cmd_table)
+
+    p = sub.add_parser("best", help="best speed at each altitude and the best altitude")
+    p.add_argument("airframe", help=options.AIRFRAME_HELP)
+    p.add_argument("--altitudes", help="candidate pressure altitudes (default "
+                                       "0:12000ft:1000ft; drones 0:500m:25m)")
+    p.add_argument("--objective", choices=("range", "endurance", "economy"), default="range")
+    options.add_wind(p)
+    p.add_argument("--floor", help="lowest altitude allowed, e.g. '3000ft'")
+    p.add_argument("--ceiling", help="highest altitude allowed, e.g. '9500ft'")
+    p.add_argument("--max-agl", help="maximum height above ground, e.g. '120m' (drones)")
+    p.add_argument("--elevation", default="0", help="highest ground elevation under the "
+                                                    "route, e.g. '450m' (with --max-agl)")
+    p.add_argument("--climb-reserve", default="0",
+                   help="climb rate that must remain at cruise, e.g. '300ft/min'")
+    options.add_loading(p)
+    options.add_monte_carlo(p)
+    options.add_output(p, formats=("text", "json", "csv", "markdown"))
+    p.set_defaults(run=cmd_best)
+
+
+def cmd_airframes(args):
+    """List the bundled airframes, one line each."""
+    rows = []
+    for name, path in bundled_airframes().items():
+        af = read_airframe(path)
+        power = "piston" if af.propulsion.store.burns_mass else "electric"
+        rows.append({"name": name, "kind": f"{af.kind} {power}", "description": af.description,
+                     "max_takeoff_kg": af.max_takeoff_mass, "file": str(path)})
+    if args.format == "json":
+        sys.stdout.write(json.dumps(rows, indent=1) + "\n")
+        return
+    width = max((len(r["name"]) for r in rows), default=4)
+    for r in rows:
+        sys.stdout.write(f"{r['name']:<{width}}  {r['kind']:<19}  "
+                         f"MTOM {r['max_takeoff_kg']:7.1f} kg  {r['description']}\n")
+
+
+def cmd_atmosphere(args):
+    """Print the atmosphere at pressure altitudes."""
+    h = check_altitude(options.altitudes(args.altitudes), "--altitudes")
+    if args.oat is not None:
+        oat = parse_quantity(args.oat, "K", default_unit="degC", what="--oat")
+        air = air_state(h, oat=oat)
+    else:
+        air = air_state(h, options.isa_dev(args))
+    rep = atmosphere_report(air, args.units or "aviation")
+    options.emit(rep.render(args.format), args.output)
+
+
+def cmd_table(args):
+    """Print a cruise table by speed or by power setting."""
+    af = load_airframe(args.airframe)
+    units = args.units or options.default_units(af)
+    batteries = not af.propulsion.store.burns_mass
+    alt_text = args.altitudes or ("0:400m:100m" if batteries else "0:10000ft:2000ft")
+    h = check_altitude(options.altitudes(alt_text), "--altitudes")
+    dev = options.isa_dev(args)
+    wind = parse_quantity(args.headwind, "m/s", default_unit="kt", what="--headwind")
+    common = dict(isa_dev=dev, headwind=wind, stall_margin=args.stall_margin,
+                  **options.loading(af, args))
+    if args.speeds or (batteries and not args.power):
+        if args.speeds:
+            v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
+                            else "km/h", what="--speeds")
+        elif af.hovers:
+            v = np.arange(2.0, 22.01, 2.0)
+        else:
+            v = np.arange(14.0, 30.01, 2.0)
+        if np.any(v <= 0):
+            raise UnitError("--speeds: speeds must be positive")
+        pts = cruise_grid(af, h, v, **common)
+        title = "Cruise table by true airspeed"
+    else:
+        pts = power_setting_table(af, h, options.power_settings(args.power or "55,65,75"),
+                                  **common)
+        title = "Cruise table by power setting"
+    rep = cruise_report(af, pts, isa_dev=dev, units=units, title=title,
+                        stall_margin=args.stall_margin, show_ground=wind != 0.0)
+    options.emit(rep.render(args.format), args.output)
+
+
+def cmd_best(args):
+    """Print the best speeds by altitude and the best altitude."""
+    af = load_airframe(args.airframe)
+    units = args.units or options.default_units(af)
+    batteries = not af.propulsion.store.burns_mass
+    h = options.altitudes(args.altitudes or ("0:500m:25m" if batteries
+                                             else "0:12000ft:1000ft"))
+    dev = options.isa_dev(args)
+    profile, headwind, wind_text = options.wind(args)
+
+    def opt(text, what):
+        return None if text is None else parse_quantity(text, "m", default_unit="ft",
+                                                        what=what)
+
+    if args.max_agl is None and args.elevation not in (None, "0"):
+        raise CruiseplanError("--elevation goes with --max-agl")
+    best = best_cruise(
+        af, h, objective=args.objective, isa_dev=dev, wind=profile, course=args.course,
+        headwind=headwind, floor=opt(args.floor, "--floor"),
+        ceiling=opt(args.ceiling, "--ceiling"), max_agl=opt(args.max_agl, "--max-agl"),
+        elevation=opt(args.elevation, "--elevation"),
+        climb_reserve=parse_quantity(args.climb_reserve, "m/s", default_unit="ft/min",
+                                     what="--climb-reserve"),
+        stall_margin=args.stall_margin, **options.loading(af, args))
+    spread = None
+    n = options.monte_carlo_n(args)
+    if n and best.best_index >= 0:
+        i = best.best_index
+        p = best.points
+        spread = cruise_uncertainty(af, p.mass, p.store, best.schedule.air.row(i),
+                                    float(p.tas[i]), float(p.ground_speed[i]), n, args.seed)
+    rep = best_report(af, best, isa_dev=dev, units=units, wind_text=wind_text,
+                      uncertainty=spread)
+    options.emit(rep.render(args.format), args.output)
