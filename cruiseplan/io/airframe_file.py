@@ -1,24 +1,34 @@
 """Airframe files: TOML with units, validated on load; the bundled airframes.
 
-Every dimensional value is a string with its unit, parsed by pint (``area = "12.5 m^2"``);
-dimensionless coefficients are plain numbers. Unknown sections or fields are errors (a
-misspelt ``cdo`` must not silently fall back to a default). Every error names the file,
-the field, the value and what was expected. See DEVELOPERS.md for the full layout.
+Read with the one schema reader (:mod:`cruiseplan.io.schema`). Each model choice is a
+registry entry with its fields and its builder: the airframe kinds (:data:`KIND_READERS`,
+named as :data:`cruiseplan.kinds.KINDS`), the drag polars (:data:`POLAR_READERS`, named as
+:data:`cruiseplan.physics.aerodynamics.POLAR_KINDS`) and the propulsion kinds
+(:data:`PROPULSION_READERS`, named as :data:`cruiseplan.physics.propulsion.PROPULSION_KINDS`);
+the reader asks the registry, never an ``if/elif`` over names. See DEVELOPERS.md for the
+layout of a file.
 """
 
 from __future__ import annotations
 
 import hashlib
 import math
-import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
 from cruiseplan.errors import AirframeFileError, UnitError
 from cruiseplan.io.bundled import bundled_files, find_file
+from cruiseplan.io.schema import SchemaReader, parse_toml, read_toml
+from cruiseplan.io.schema import number as _num
+from cruiseplan.io.schema import quantity as _dim
 from cruiseplan.kinds import KINDS, Airframe, FixedWing, Multirotor
 from cruiseplan.model.tolerance import Tolerance
-from cruiseplan.physics.aerodynamics import ParabolicPolar, TabulatedPolar, induced_drag_factor
+from cruiseplan.physics.aerodynamics import (
+    POLAR_KINDS,
+    ParabolicPolar,
+    TabulatedPolar,
+    induced_drag_factor,
+)
 from cruiseplan.physics.dragbuildup import (
     CORRELATIONS,
     AttachedBody,
@@ -31,33 +41,13 @@ from cruiseplan.physics.dragbuildup import (
 from cruiseplan.physics.propulsion import (
     FUELS,
     POWER_LAPSE_LAWS,
+    PROPULSION_KINDS,
     ElectricPropeller,
     PistonPropeller,
     PropellerEfficiency,
 )
 from cruiseplan.physics.rotor import Rotors
 from cruiseplan.units import parse_quantity
-
-
-@dataclass(frozen=True)
-class Field:
-    """Schema of one field: SI unit (None: dimensionless number), bounds, requirement."""
-
-    unit: str | None
-    lo: float = -math.inf
-    hi: float = math.inf
-    required: bool = True
-    example: str = ""
-    lo_open: bool = False
-
-
-def _num(lo=-math.inf, hi=math.inf, required=True, example="", lo_open=False):
-    return Field(None, lo, hi, required, example, lo_open)
-
-
-def _dim(unit, lo=0.0, hi=math.inf, required=True, example="", lo_open=True):
-    return Field(unit, lo, hi, required, example, lo_open)
-
 
 _SCHEMA = {
     "airframe": {"name": None, "description": None, "kind": None},
@@ -71,24 +61,6 @@ _SCHEMA = {
         "span": _dim("m", required=False, example="'9.6 m'"),
         "aspect_ratio": _num(2.0, 40.0, required=False, example="8.2"),
         "cl_max": _num(0.3, 4.0, example="1.45"),
-    },
-}
-
-_POLAR_SCHEMA = {
-    "parabolic": {
-        "kind": None,
-        "cd0": _num(0.005, 0.3, example="0.031"),
-        "k": _num(0.005, 0.5, required=False, example="0.05"),
-        "oswald_e": _num(0.3, 1.0, required=False, example="0.78"),
-        "cl_min_drag": _num(-0.5, 1.0, required=False, example="0.0"),
-    },
-    "tabulated": {"kind": None, "cl": None, "cd": None},
-    "build-up": {
-        "kind": None, "components": None, "bodies": None,
-        "k": _num(0.005, 0.5, required=False, example="0.05"),
-        "oswald_e": _num(0.3, 1.0, required=False, example="0.78"),
-        "cl_min_drag": _num(-0.5, 1.0, required=False, example="0.0"),
-        "excrescence": _num(0.0, 0.5, required=False, example="0.05"),
     },
 }
 
@@ -123,170 +95,28 @@ _BODY_DRAG_SCHEMA = {
     "bodies": None,
 }
 
-_PROPULSION_SCHEMA = {
-    "piston-propeller": {
-        "kind": None,
-        "rated_power": _dim("W", example="'80 kW' or '108 hp'"),
-        "power_lapse": None,
-        "bsfc": _dim("kg/J", 3e-8, 2e-7, lo_open=False, example="'0.45 lb/(hp*h)'"),
-        "propeller_efficiency": None,
-        "fuel": None,
-        "fuel_capacity": _dim("m^3", example="'100 L'"),
-        "fuel_density": _dim("kg/m^3", 500.0, 1000.0, required=False, example="'0.72 kg/L'"),
-    },
-    "electric-rotor": {
-        "kind": None,
-        "battery_energy": _dim("J", example="'90 Wh'"),
-        "pack_voltage": _dim("V", example="'22.2 V'"),
-        "capacity": _dim("A*s", example="'5 Ah'"),
-        "peukert_exponent": _num(1.0, 1.6, required=False, example="1.05"),
-        "rating_time": _dim("s", required=False, example="'1 h'"),
-        "motor_efficiency": _EFFICIENCY,
-        "controller_efficiency": _EFFICIENCY,
-        "max_power": _dim("W", example="'900 W'"),
-    },
-    "electric-propeller": {
-        "kind": None,
-        "battery_energy": _dim("J", example="'640 Wh'"),
-        "pack_voltage": _dim("V", example="'44.4 V'"),
-        "capacity": _dim("A*s", example="'16 Ah'"),
-        "peukert_exponent": _num(1.0, 1.6, required=False, example="1.05"),
-        "rating_time": _dim("s", required=False, example="'1 h'"),
-        "motor_efficiency": _EFFICIENCY,
-        "controller_efficiency": _EFFICIENCY,
-        "propeller_efficiency": None,
-        "max_power": _dim("W", example="'1.2 kW'"),
-    },
-}
-
-
-class _Reader:
-    """Reads typed, range-checked values from one file's sections."""
-
-    def __init__(self, path: Path, data: dict):
-        self.path = path
-        self.data = data
-
-    def fail(self, where: str, message: str):
-        raise AirframeFileError(f"{self.path}: {where}: {message}")
-
-    def section(self, name: str, schema: dict) -> dict:
-        sec = self.data.get(name)
-        if sec is None:
-            self.fail(f"[{name}]", "section missing")
-        if not isinstance(sec, dict):
-            self.fail(f"[{name}]", "expected a table of fields")
-        unknown = sorted(set(sec) - set(schema))
+def _propeller(r: SchemaReader, sec: dict) -> PropellerEfficiency:
+    """A constant propeller efficiency, or a table against TAS."""
+    raw = sec.get("propeller_efficiency")
+    where = "[propulsion] propeller_efficiency"
+    if isinstance(raw, dict):
+        unknown = sorted(set(raw) - {"tas", "efficiency"})
         if unknown:
-            self.fail(f"[{name}] {unknown[0]}",
-                      f"unknown field; expected one of {', '.join(sorted(schema))}")
-        return sec
-
-    def value(self, section: str, sec: dict, key: str, spec: Field):
-        where = f"[{section}] {key}"
-        if key not in sec:
-            if spec.required:
-                self.fail(where, f"missing; expected e.g. {key} = {spec.example}")
-            return None
-        raw = sec[key]
-        if spec.unit is None:
-            if isinstance(raw, bool) or not isinstance(raw, (int, float)):
-                self.fail(where, f"{raw!r} should be a plain number, e.g. {spec.example}")
-            value = float(raw)
-        else:
-            if not isinstance(raw, str):
-                self.fail(where, f"{raw!r} needs a unit, written as a string, "
-                                 f"e.g. {key} = {spec.example}")
-            try:
-                value = parse_quantity(raw, spec.unit, what=key)
-            except UnitError:
-                self.fail(where, f"{raw!r} is not a quantity in units compatible with "
-                                 f"{spec.unit}, e.g. {spec.example}")
-        low_bad = value <= spec.lo if spec.lo_open else value < spec.lo
-        if low_bad or value > spec.hi or not math.isfinite(value):
-            unit = f" {spec.unit}" if spec.unit else ""
-            bound = ">" if spec.lo_open else ">="
-            hi = f" and <= {spec.hi:g}{unit}" if math.isfinite(spec.hi) else ""
-            self.fail(where, f"{raw!r} is out of range; expected {bound} {spec.lo:g}{unit}{hi}")
-        return value
-
-    def values(self, section: str, schema: dict) -> dict:
-        sec = self.section(section, schema)
-        return {k: self.value(section, sec, k, spec) for k, spec in schema.items()
-                if spec is not None}
-
-    def choice(self, section: str, sec: dict, key: str, options, default=None):
-        raw = sec.get(key, default)
-        if raw is None or raw not in options:
-            self.fail(f"[{section}] {key}",
-                      f"{raw!r} is not one of {', '.join(sorted(options))}")
-        return raw
-
-    def number_list(self, section, sec, key, lo=-math.inf, hi=math.inf, unit=None):
-        where = f"[{section}] {key}"
-        raw = sec.get(key)
-        if not isinstance(raw, list) or len(raw) < 1:
-            self.fail(where, f"expected a list of values, got {raw!r}")
-        out = []
-        for item in raw:
-            if unit is None:
-                if isinstance(item, bool) or not isinstance(item, (int, float)):
-                    self.fail(where, f"{item!r} should be a plain number")
-                v = float(item)
-            else:
-                try:
-                    v = parse_quantity(item, unit, what=key) if isinstance(item, str) else None
-                except UnitError:
-                    v = None
-                if v is None:
-                    self.fail(where, f"{item!r} is not a quantity compatible with {unit}")
-            if not (lo < v <= hi):
-                self.fail(where, f"{item!r} is out of range ({lo:g}, {hi:g}]")
-            out.append(v)
-        return tuple(out)
-
-    def propeller(self, sec: dict) -> PropellerEfficiency:
-        raw = sec.get("propeller_efficiency")
-        where = "[propulsion] propeller_efficiency"
-        if isinstance(raw, dict):
-            unknown = sorted(set(raw) - {"tas", "efficiency"})
-            if unknown:
-                self.fail(f"{where}.{unknown[0]}", "unknown field; expected tas, efficiency")
-            tas = self.number_list("propulsion.propeller_efficiency", raw, "tas", 0.0,
-                                   unit="m/s")
-            eff = self.number_list("propulsion.propeller_efficiency", raw, "efficiency",
-                                   0.0, 1.0)
-            if len(tas) != len(eff) or len(tas) < 2:
-                self.fail(where, "tas and efficiency need the same length, at least 2")
-            if any(b <= a for a, b in zip(tas, tas[1:])):
-                self.fail(where + ".tas", "speeds must increase")
-            return PropellerEfficiency(tas, eff)
-        value = self.value("propulsion", sec, "propeller_efficiency", _EFFICIENCY)
-        return PropellerEfficiency((0.0,), (value,))
+            r.fail(f"{where}.{unknown[0]}", "unknown field; expected tas, efficiency")
+        tas = r.number_list("propulsion.propeller_efficiency", raw, "tas", 0.0, unit="m/s")
+        eff = r.number_list("propulsion.propeller_efficiency", raw, "efficiency", 0.0, 1.0)
+        if len(tas) != len(eff) or len(tas) < 2:
+            r.fail(where, "tas and efficiency need the same length, at least 2")
+        if any(b <= a for a, b in zip(tas, tas[1:])):
+            r.fail(where + ".tas", "speeds must increase")
+        return PropellerEfficiency(tas, eff)
+    value = r.value("propulsion", sec, "propeller_efficiency", _EFFICIENCY)
+    return PropellerEfficiency((0.0,), (value,))
 
 
-def _table_list(r: _Reader, sec: dict, key: str, where: str, schema: dict) -> list:
-    """Values of each table in a TOML array of tables, e.g. [[polar.components]]."""
-    raw = sec.get(key, [])
-    if not isinstance(raw, list) or not all(isinstance(t, dict) for t in raw):
-        r.fail(f"[{where}.{key}]", "expected a list of tables ([[...]] entries)")
+def _components(r: SchemaReader, sec: dict):
     out = []
-    for i, tbl in enumerate(raw, 1):
-        name = f"{where}.{key}[{i}]"
-        unknown = sorted(set(tbl) - set(schema))
-        if unknown:
-            r.fail(f"[{name}] {unknown[0]}",
-                   f"unknown field; expected one of {', '.join(sorted(schema))}")
-        vals = {k: r.value(name, tbl, k, spec) for k, spec in schema.items() if spec is not None}
-        vals.update({k: tbl[k] for k, spec in schema.items() if spec is None and k in tbl})
-        vals["_where"] = name
-        out.append(vals)
-    return out
-
-
-def _components(r: _Reader, sec: dict):
-    out = []
-    for c in _table_list(r, sec, "components", "polar", _COMPONENT_SCHEMA):
+    for c in r.table_list(sec, "components", "polar", _COMPONENT_SCHEMA):
         given = [k for k in ("form_factor", "thickness_ratio", "fineness") if c[k] is not None]
         if len(given) > 1:
             r.fail(f"[{c['_where']}] {given[1]}", "give one of form_factor, thickness_ratio "
@@ -304,9 +134,9 @@ def _components(r: _Reader, sec: dict):
     return tuple(out)
 
 
-def _bodies(r: _Reader, sec: dict, where: str):
+def _bodies(r: SchemaReader, sec: dict, where: str):
     out = []
-    for b in _table_list(r, sec, "bodies", where, _BODY_SCHEMA):
+    for b in r.table_list(sec, "bodies", where, _BODY_SCHEMA):
         shape = b.get("shape")
         if shape not in ("sphere", "cylinder"):
             r.fail(f"[{b['_where']}] shape", f"{shape!r} is not one of cylinder, sphere")
@@ -320,67 +150,51 @@ def _bodies(r: _Reader, sec: dict, where: str):
     return tuple(out)
 
 
-def _read_toml(path: Path) -> dict:
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        raise AirframeFileError(f"{path}: cannot read the file ({exc.strerror})") from None
-    try:
-        return tomllib.loads(raw.decode("utf-8")), hashlib.sha256(raw).hexdigest()
-    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-        raise AirframeFileError(f"{path}: not valid TOML ({exc})") from None
+def _tabulated(r: SchemaReader, sec: dict, wing: dict):
+    cl = r.number_list("polar", sec, "cl", -1.0, 4.0)
+    cd = r.number_list("polar", sec, "cd", 0.0, 1.0)
+    if len(cl) != len(cd) or len(cl) < 3:
+        r.fail("[polar] cd", "cl and cd need the same length, at least 3")
+    if any(b <= a for a, b in zip(cl, cl[1:])):
+        r.fail("[polar] cl", "lift coefficients must increase")
+    return TabulatedPolar(cl, cd)
 
 
-def _polar(r: _Reader):
-    sec = r.data.get("polar")
-    if not isinstance(sec, dict):
-        r.fail("[polar]", "section missing")
-    kind = r.choice("polar", sec, "kind", _POLAR_SCHEMA, default="parabolic")
-    schema = _POLAR_SCHEMA[kind]
-    r.section("polar", schema)
-    if kind == "tabulated":
-        cl = r.number_list("polar", sec, "cl", -1.0, 4.0)
-        cd = r.number_list("polar", sec, "cd", 0.0, 1.0)
-        if len(cl) != len(cd) or len(cl) < 3:
-            r.fail("[polar] cd", "cl and cd need the same length, at least 3")
-        if any(b <= a for a, b in zip(cl, cl[1:])):
-            r.fail("[polar] cl", "lift coefficients must increase")
-        return TabulatedPolar(cl, cd), None
-    vals = r.values("polar", schema)
-    has_k, has_e = vals["k"] is not None, vals["oswald_e"] is not None
-    if has_k == has_e:
+def _induced_factor(r: SchemaReader, vals: dict, wing: dict) -> float:
+    """k, given or from Oswald's e and the aspect ratio (exactly one of them)."""
+    if (vals["k"] is None) == (vals["oswald_e"] is None):
         r.fail("[polar] k", "give exactly one of k or oswald_e")
-    if kind == "build-up":
-        vals["components"] = _components(r, sec)
-        vals["bodies"] = _bodies(r, sec, "polar")
-        if not vals["components"] and not vals["bodies"]:
-            r.fail("[polar] components", "a build-up needs [[polar.components]] or "
-                                         "[[polar.bodies]] entries")
-    return vals, kind
+    return vals["k"] or induced_drag_factor(vals["oswald_e"], wing["aspect_ratio"])
 
 
-def _propulsion(r: _Reader, airframe_kind: str):
-    sec = r.data.get("propulsion")
-    if not isinstance(sec, dict):
-        r.fail("[propulsion]", "section missing")
-    kind = r.choice("propulsion", sec, "kind", _PROPULSION_SCHEMA)
-    allowed = KIND_READERS[airframe_kind].propulsion
-    if kind not in allowed:
-        r.fail("[propulsion] kind", f"{kind!r}: a {airframe_kind} airframe takes "
-                                    f"{' or '.join(allowed)}")
-    schema = _PROPULSION_SCHEMA[kind]
-    vals = r.values("propulsion", schema)
-    # A rotor's efficiency is in the momentum-theory power model itself.
-    prop = (PropellerEfficiency((0.0,), (1.0,)) if kind == "electric-rotor"
-            else r.propeller(sec))
-    if kind == "piston-propeller":
-        fuel = r.choice("propulsion", sec, "fuel", FUELS)
-        lapse = r.choice("propulsion", sec, "power_lapse", POWER_LAPSE_LAWS,
-                         default="gagg-ferrar")
-        density = vals["fuel_density"] or FUELS[fuel].density
-        return PistonPropeller(rated_power=vals["rated_power"], bsfc=vals["bsfc"],
-                               propeller=prop, fuel=fuel, fuel_density=density,
-                               fuel_capacity=vals["fuel_capacity"], power_lapse=lapse)
+def _parabolic(r: SchemaReader, sec: dict, wing: dict):
+    vals = r.values("polar", POLAR_READERS["parabolic"].fields)
+    return ParabolicPolar(vals["cd0"], _induced_factor(r, vals, wing),
+                          vals["cl_min_drag"] or 0.0)
+
+
+def _build_up(r: SchemaReader, sec: dict, wing: dict):
+    vals = r.values("polar", POLAR_READERS["build-up"].fields)
+    k = _induced_factor(r, vals, wing)
+    components, bodies = _components(r, sec), _bodies(r, sec, "polar")
+    if not components and not bodies:
+        r.fail("[polar] components", "a build-up needs [[polar.components]] or "
+                                     "[[polar.bodies]] entries")
+    return BuildUpPolar(components, bodies, k, wing["area"], vals["cl_min_drag"] or 0.0,
+                        vals["excrescence"] or 0.0)
+
+
+def _piston(r: SchemaReader, sec: dict, vals: dict):
+    fuel = r.choice("propulsion", sec, "fuel", FUELS)
+    lapse = r.choice("propulsion", sec, "power_lapse", POWER_LAPSE_LAWS,
+                     default="gagg-ferrar")
+    density = vals["fuel_density"] or FUELS[fuel].density
+    return PistonPropeller(rated_power=vals["rated_power"], bsfc=vals["bsfc"],
+                           propeller=_propeller(r, sec), fuel=fuel, fuel_density=density,
+                           fuel_capacity=vals["fuel_capacity"], power_lapse=lapse)
+
+
+def _battery(r: SchemaReader, sec: dict, vals: dict, propeller: PropellerEfficiency):
     nominal = vals["pack_voltage"] * vals["capacity"]
     if vals["battery_energy"] > 1.02 * nominal:
         r.fail("[propulsion] battery_energy",
@@ -389,9 +203,106 @@ def _propulsion(r: _Reader, airframe_kind: str):
     return ElectricPropeller(
         battery_energy=vals["battery_energy"], pack_voltage=vals["pack_voltage"],
         capacity=vals["capacity"], motor_efficiency=vals["motor_efficiency"],
-        controller_efficiency=vals["controller_efficiency"], propeller=prop,
+        controller_efficiency=vals["controller_efficiency"], propeller=propeller,
         max_power=vals["max_power"], peukert_exponent=vals["peukert_exponent"] or 1.0,
         rating_time=vals["rating_time"] or 3600.0)
+
+
+def _electric_propeller(r: SchemaReader, sec: dict, vals: dict):
+    return _battery(r, sec, vals, _propeller(r, sec))
+
+
+def _electric_rotor(r: SchemaReader, sec: dict, vals: dict):
+    # A rotor's efficiency is in the momentum-theory power model itself.
+    return _battery(r, sec, vals, PropellerEfficiency((0.0,), (1.0,)))
+
+
+@dataclass(frozen=True)
+class Reader:
+    """Registry entry: the fields of one model choice in a file, and its builder.
+
+    Attributes
+    ----------
+    fields : dict
+        Field name to :class:`~cruiseplan.io.schema.Field` (None: read by ``build``).
+    build : callable
+        Makes the model object from the reader and its table.
+    """
+
+    fields: dict
+    build: object
+
+
+_BATTERY_FIELDS = {
+    "kind": None,
+    "battery_energy": _dim("J", example="'640 Wh'"),
+    "pack_voltage": _dim("V", example="'44.4 V'"),
+    "capacity": _dim("A*s", example="'16 Ah'"),
+    "peukert_exponent": _num(1.0, 1.6, required=False, example="1.05"),
+    "rating_time": _dim("s", required=False, example="'1 h'"),
+    "motor_efficiency": _EFFICIENCY,
+    "controller_efficiency": _EFFICIENCY,
+    "max_power": _dim("W", example="'1.2 kW'"),
+}
+
+#: Drag-polar readers by the names of :data:`cruiseplan.physics.aerodynamics.POLAR_KINDS`.
+POLAR_READERS = {
+    "parabolic": Reader({
+        "kind": None,
+        "cd0": _num(0.005, 0.3, example="0.031"),
+        "k": _num(0.005, 0.5, required=False, example="0.05"),
+        "oswald_e": _num(0.3, 1.0, required=False, example="0.78"),
+        "cl_min_drag": _num(-0.5, 1.0, required=False, example="0.0"),
+    }, _parabolic),
+    "tabulated": Reader({"kind": None, "cl": None, "cd": None}, _tabulated),
+    "build-up": Reader({
+        "kind": None, "components": None, "bodies": None,
+        "k": _num(0.005, 0.5, required=False, example="0.05"),
+        "oswald_e": _num(0.3, 1.0, required=False, example="0.78"),
+        "cl_min_drag": _num(-0.5, 1.0, required=False, example="0.0"),
+        "excrescence": _num(0.0, 0.5, required=False, example="0.05"),
+    }, _build_up),
+}
+
+#: Propulsion readers by the names of
+#: :data:`cruiseplan.physics.propulsion.PROPULSION_KINDS`.
+PROPULSION_READERS = {
+    "piston-propeller": Reader({
+        "kind": None,
+        "rated_power": _dim("W", example="'80 kW' or '108 hp'"),
+        "power_lapse": None,
+        "bsfc": _dim("kg/J", 3e-8, 2e-7, lo_open=False, example="'0.45 lb/(hp*h)'"),
+        "propeller_efficiency": None,
+        "fuel": None,
+        "fuel_capacity": _dim("m^3", example="'100 L'"),
+        "fuel_density": _dim("kg/m^3", 500.0, 1000.0, required=False, example="'0.72 kg/L'"),
+    }, _piston),
+    "electric-propeller": Reader({**_BATTERY_FIELDS, "propeller_efficiency": None},
+                                 _electric_propeller),
+    "electric-rotor": Reader(_BATTERY_FIELDS, _electric_rotor),
+}
+
+if set(POLAR_READERS) != set(POLAR_KINDS) or set(PROPULSION_READERS) != set(PROPULSION_KINDS):
+    raise ImportError("the file readers and the model registries name different kinds")
+
+
+def _polar(r: SchemaReader, wing: dict):
+    sec = r.section("polar", None)
+    kind = r.choice("polar", sec, "kind", POLAR_READERS, default="parabolic")
+    r.check_fields(sec, POLAR_READERS[kind].fields, "[polar]")
+    return POLAR_READERS[kind].build(r, sec, wing)
+
+
+def _propulsion(r: SchemaReader, airframe_kind: str):
+    sec = r.section("propulsion", None)
+    kind = r.choice("propulsion", sec, "kind", PROPULSION_READERS)
+    allowed = KIND_READERS[airframe_kind].propulsion
+    if kind not in allowed:
+        r.fail("[propulsion] kind", f"{kind!r}: a {airframe_kind} airframe takes "
+                                    f"{' or '.join(allowed)}")
+    reader = PROPULSION_READERS[kind]
+    r.check_fields(sec, reader.fields, "[propulsion]")
+    return reader.build(r, sec, r.values("propulsion", reader.fields))
 
 
 def read_airframe(path) -> Airframe:
@@ -413,12 +324,41 @@ def read_airframe(path) -> Airframe:
         Naming the file, the field, the value and what was expected.
     """
     path = Path(path)
-    data, checksum = _read_toml(path)
-    r = _Reader(path, data)
-    head = r.section("airframe", _SCHEMA["airframe"]) if "airframe" in data else {}
+    data, checksum = read_toml(path, AirframeFileError)
+    return _airframe(SchemaReader(path, data, AirframeFileError), path, checksum)
+
+
+def read_airframe_text(text: str, source: str = "airframe text") -> Airframe:
+    """Read and validate an airframe file's text (e.g. one about to be written).
+
+    Parameters
+    ----------
+    text : str
+        The TOML text.
+    source : str
+        How errors name it.
+
+    Returns
+    -------
+    Airframe
+        The airframe it describes.
+
+    Raises
+    ------
+    AirframeFileError
+        Naming the field, the value and what was expected.
+    """
+    raw = text.encode("utf-8")
+    data = parse_toml(raw, source, AirframeFileError)
+    return _airframe(SchemaReader(source, data, AirframeFileError), Path(source),
+                     hashlib.sha256(raw).hexdigest())
+
+
+def _airframe(r: SchemaReader, path: Path, checksum: str) -> Airframe:
+    head = r.section("airframe", _SCHEMA["airframe"], required=False)
     kind = r.choice("airframe", head, "kind", KIND_READERS, default="fixed-wing")
     sections = KIND_READERS[kind].sections
-    unknown = sorted(set(data) - set(sections))
+    unknown = sorted(set(r.data) - set(sections))
     if unknown:
         r.fail(f"[{unknown[0]}]", f"unknown section for a {kind} airframe; expected "
                                   f"{', '.join(sections)}")
@@ -463,7 +403,7 @@ def read_tolerance(raw, where: str, fail):
                 "['-5 %', '+10 %']")
 
 
-def _tolerances(r: _Reader, kind: str) -> tuple:
+def _tolerances(r: SchemaReader, kind: str) -> tuple:
     if "uncertainty" not in r.data:
         return ()
     keys = KINDS[kind].tolerance_keys
@@ -476,7 +416,7 @@ def _tolerances(r: _Reader, kind: str) -> tuple:
                  for k in keys if k in sec)
 
 
-def _fixed_wing(r: _Reader, common: dict, masses: dict) -> FixedWing:
+def _fixed_wing(r: SchemaReader, common: dict, masses: dict) -> FixedWing:
     wing = r.values("wing", _SCHEMA["wing"])
     if (wing["span"] is None) == (wing["aspect_ratio"] is None):
         r.fail("[wing] span", "give exactly one of span or aspect_ratio")
@@ -484,22 +424,12 @@ def _fixed_wing(r: _Reader, common: dict, masses: dict) -> FixedWing:
     aspect = span**2 / wing["area"]
     if not 2.0 <= aspect <= 40.0:
         r.fail("[wing] span", f"gives aspect ratio {aspect:.1f}; expected 2 to 40")
-    polar_vals, kind = _polar(r)
-    if kind in ("parabolic", "build-up"):
-        k = polar_vals["k"] or induced_drag_factor(polar_vals["oswald_e"], aspect)
-        if kind == "parabolic":
-            polar = ParabolicPolar(polar_vals["cd0"], k, polar_vals["cl_min_drag"] or 0.0)
-        else:
-            polar = BuildUpPolar(polar_vals["components"], polar_vals["bodies"], k,
-                                 wing["area"], polar_vals["cl_min_drag"] or 0.0,
-                                 polar_vals["excrescence"] or 0.0)
-    else:
-        polar = polar_vals
+    polar = _polar(r, dict(wing, aspect_ratio=aspect))
     return FixedWing(wing_area=wing["area"], span=span, cl_max=wing["cl_max"], polar=polar,
                      **common)
 
 
-def _multirotor(r: _Reader, common: dict, masses: dict):
+def _multirotor(r: SchemaReader, common: dict, masses: dict):
     rot = r.values("rotors", _ROTOR_SCHEMA)
     for key in ("count", "blades"):
         if rot[key] != int(rot[key]):

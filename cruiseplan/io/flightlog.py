@@ -39,9 +39,7 @@ from __future__ import annotations
 import csv
 import hashlib
 import math
-import os
 import re
-import tempfile
 import warnings
 from dataclasses import dataclass
 from datetime import date
@@ -51,7 +49,7 @@ import numpy as np
 
 from cruiseplan.constants import G0
 from cruiseplan.errors import AirframeFileError, CruiseplanError, CruiseplanWarning, LogFileError
-from cruiseplan.io.airframe_file import read_airframe
+from cruiseplan.io.airframe_file import read_airframe_text
 from cruiseplan.physics.airspeed import tas_from_cas
 from cruiseplan.physics.atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, air_state
 from cruiseplan.units import normalise_unit, registry
@@ -466,15 +464,10 @@ def check_airframe_text(text: str):
     CruiseplanError
         When the text is not a valid airframe file (e.g. a fitted value out of range).
     """
-    fd, tmp = tempfile.mkstemp(suffix=".toml", prefix="cruiseplan-fit-")
     try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(text.encode("utf-8"))
-        return read_airframe(tmp)
+        return read_airframe_text(text, "fitted airframe")
     except AirframeFileError as exc:
         reason = str(exc).split(": ", 1)[-1]
         raise CruiseplanError(f"the fitted polar does not make a valid airframe file: "
                               f"{reason}; check the log's power source and masses and the "
                               "propeller efficiency assumed") from None
-    finally:
-        os.unlink(tmp)

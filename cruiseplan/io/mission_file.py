@@ -19,7 +19,6 @@ field. Defaults are conservative and stated in the plan; local rules decide the 
 from __future__ import annotations
 
 import math
-import tomllib
 from pathlib import Path
 
 from cruiseplan.amounts import parse_amount
@@ -27,13 +26,14 @@ from cruiseplan.constants import FT
 from cruiseplan.errors import AirframeFileError, CruiseplanError, MissionFileError, UnitError
 from cruiseplan.io.airframe_file import find_airframe, read_airframe
 from cruiseplan.io.bundled import bundled_files, find_file
+from cruiseplan.io.schema import Field, SchemaReader, read_toml
 from cruiseplan.io.text import parse_wind_profile
 from cruiseplan.model.mission import Leg, Mission, Profile, Reserve, default_reserve
 from cruiseplan.model.tolerance import WindTolerance
 from cruiseplan.physics.atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
 from cruiseplan.physics.geo import great_circle
 from cruiseplan.physics.winds import WindProfile
-from cruiseplan.units import parse_quantity, temperature_difference
+from cruiseplan.units import temperature_difference
 
 _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty"}
 _MISSION_FIELDS = {"name", "description", "airframe", "takeoff_mass", "fuel", "battery",
@@ -54,46 +54,19 @@ DEFAULTS = {
 }
 
 
-class _Reader:
-    def __init__(self, path: Path):
-        self.path = path
-
-    def fail(self, where: str, message: str):
-        raise MissionFileError(f"{self.path}: {where}: {message}")
+class _Reader(SchemaReader):
+    """The schema reader with the mission file's shorthand: optional tables and fields."""
 
     def table(self, data, name, allowed, where=None):
-        where = where or f"[{name}]"
-        sec = data.get(name, {})
-        if not isinstance(sec, dict):
-            self.fail(where, "expected a table of fields")
-        unknown = sorted(set(sec) - allowed)
-        if unknown:
-            self.fail(f"{where} {unknown[0]}",
-                      f"unknown field; expected one of {', '.join(sorted(allowed))}")
-        return sec
+        """An optional table whose fields must be among ``allowed`` ({} when absent)."""
+        return self.section(name, allowed, required=False, where=where, data=data)
 
     def quantity(self, sec, key, unit, where, *, lo=None, hi=None, default_unit=None,
                  required=False, example=""):
-        if key not in sec:
-            if required:
-                self.fail(f"{where} {key}", f"missing; expected e.g. {key} = {example}")
-            return None
-        raw = sec[key]
-        if isinstance(raw, bool) or not isinstance(raw, (str, int, float)):
-            self.fail(f"{where} {key}", f"{raw!r} is not a quantity, e.g. {example}")
-        if not isinstance(raw, str) and unit and default_unit is None:
-            self.fail(f"{where} {key}", f"{raw!r} needs a unit, written as a string, "
-                                        f"e.g. {key} = {example}")
-        try:
-            value = parse_quantity(raw, unit, default_unit=default_unit, what=key)
-        except UnitError:
-            self.fail(f"{where} {key}", f"{raw!r} is not a quantity in units compatible "
-                                        f"with {unit or 'a plain number'}, e.g. {example}")
-        if not math.isfinite(value) or (lo is not None and value < lo) or (
-                hi is not None and value > hi):
-            rng = f"{lo:g} to {hi:g}" if hi is not None else f">= {lo:g}"
-            self.fail(f"{where} {key}", f"{raw!r} is out of range ({rng} {unit})")
-        return value
+        """A field in ``unit`` [SI] within [lo, hi]; None when absent and not required."""
+        spec = Field(unit, -math.inf if lo is None else lo, math.inf if hi is None else hi,
+                     required, example, lo_open=False, default_unit=default_unit)
+        return self.value(where, sec, key, spec)
 
 
 def _store_amount(r, raw, key, where, prop):
@@ -218,13 +191,8 @@ def read_mission(path) -> Mission:
         Naming the file, the leg and the field.
     """
     path = Path(path)
-    r = _Reader(path)
-    try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except OSError as exc:
-        raise MissionFileError(f"{path}: cannot read the file ({exc.strerror})") from None
-    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-        raise MissionFileError(f"{path}: not valid TOML ({exc})") from None
+    data, _ = read_toml(path, MissionFileError)
+    r = _Reader(path, data, MissionFileError)
     unknown = sorted(set(data) - _SECTIONS)
     if unknown:
         r.fail(f"[{unknown[0]}]", f"unknown section; expected {', '.join(sorted(_SECTIONS))}")

@@ -22,6 +22,7 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from cruiseplan.constants import G0
+from cruiseplan.physics.dragbuildup import BuildUpPolar
 
 
 def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
@@ -101,12 +102,42 @@ class ParabolicPolar:
     kind: str = field(default="parabolic", init=False)
 
     def drag_coefficient(self, cl, tas=None, air=None):
-        """Drag coefficient [-] at lift coefficient ``cl`` [-]."""
+        """Drag coefficient [-] at lift coefficient ``cl`` [-].
+
+        Parameters
+        ----------
+        cl : array_like
+            Lift coefficient [-].
+        tas : array_like, optional
+            True airspeed [m/s]; unused (kept for the polar interface).
+        air : AirState, optional
+            Air state; unused (kept for the polar interface).
+
+        Returns
+        -------
+        numpy.ndarray
+            Drag coefficient [-].
+
+        References
+        ----------
+        .. [1] Anderson, *Aircraft Performance and Design*, sec. 2.9.
+        """
         d = np.asarray(cl, dtype=float) - self.cl_min_drag
         return self.cd0 + self.k * d * d
 
     def outside(self, cl):
-        """Mask of points outside the polar's validity (none for a parabola)."""
+        """Mask of points outside the polar's validity (none for a parabola).
+
+        Parameters
+        ----------
+        cl : array_like
+            Lift coefficient [-].
+
+        Returns
+        -------
+        numpy.ndarray of bool
+            All False, shape of ``cl`` [-].
+        """
         return np.zeros(np.shape(cl), dtype=bool)
 
     def reference_cd0(self):
@@ -158,13 +189,41 @@ class TabulatedPolar:
         object.__setattr__(self, "_fit", coeffs)
 
     def drag_coefficient(self, cl, tas=None, air=None):
-        """Drag coefficient [-] at lift coefficient ``cl`` [-]."""
+        """Drag coefficient [-] at lift coefficient ``cl`` [-].
+
+        Linear interpolation in the table; beyond it, the fitted parabola.
+
+        Parameters
+        ----------
+        cl : array_like
+            Lift coefficient [-].
+        tas : array_like, optional
+            True airspeed [m/s]; unused (kept for the polar interface).
+        air : AirState, optional
+            Air state; unused (kept for the polar interface).
+
+        Returns
+        -------
+        numpy.ndarray
+            Drag coefficient [-].
+        """
         cl = np.asarray(cl, dtype=float)
         inside = np.interp(cl, self._cl, self._cd)
         return np.where(self.outside(cl), np.polyval(self._fit, cl), inside)
 
     def outside(self, cl):
-        """Mask of lift coefficients beyond the table."""
+        """Mask of lift coefficients beyond the table.
+
+        Parameters
+        ----------
+        cl : array_like
+            Lift coefficient [-].
+
+        Returns
+        -------
+        numpy.ndarray of bool
+            True below the first or above the last tabulated C_L [-].
+        """
         cl = np.asarray(cl, dtype=float)
         return (cl < self._cl[0]) | (cl > self._cl[-1])
 
@@ -190,6 +249,10 @@ POLAR_KINDS = {
     "tabulated": PolarKind(
         TabulatedPolar, ("cl", "cd"),
         "the tabulated CL range; extrapolated by a fitted parabola and flagged beyond it"),
+    "build-up": PolarKind(
+        BuildUpPolar, ("components", "bodies", "k | oswald_e", "cl_min_drag", "excrescence"),
+        "each part's drag correlation within its Reynolds range (flagged beyond it); "
+        "attached flow, incompressible"),
 }
 
 

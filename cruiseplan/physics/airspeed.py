@@ -26,7 +26,20 @@ from cruiseplan.constants import A0, P0, RHO0
 
 
 def mach_from_tas(tas, speed_of_sound):
-    """Mach number [-] from TAS [m/s] and the local speed of sound [m/s]."""
+    """Mach number [-] from TAS [m/s] and the local speed of sound [m/s].
+
+    Parameters
+    ----------
+    tas : array_like
+        True airspeed [m/s].
+    speed_of_sound : array_like
+        Local speed of sound [m/s].
+
+    Returns
+    -------
+    numpy.ndarray
+        Mach number [-].
+    """
     return np.asarray(tas, dtype=float) / speed_of_sound
 
 
@@ -84,12 +97,46 @@ def cas_from_tas(tas, pressure, speed_of_sound):
 
 
 def eas_from_tas(tas, density):
-    """Equivalent airspeed [m/s] from TAS [m/s] and density [kg/m^3]: EAS = TAS sqrt(sigma)."""
+    """Equivalent airspeed [m/s] from TAS [m/s] and density [kg/m^3]: EAS = TAS sqrt(sigma).
+
+    Parameters
+    ----------
+    tas : array_like
+        True airspeed [m/s].
+    density : array_like
+        Air density [kg/m^3].
+
+    Returns
+    -------
+    numpy.ndarray
+        Equivalent airspeed [m/s].
+
+    References
+    ----------
+    .. [1] Anderson, *Introduction to Flight*, sec. 4.12 (measurement of airspeed).
+    """
     return np.asarray(tas, dtype=float) * np.sqrt(np.asarray(density) / RHO0)
 
 
 def tas_from_eas(eas, density):
-    """True airspeed [m/s] from EAS [m/s] and density [kg/m^3]: TAS = EAS / sqrt(sigma)."""
+    """True airspeed [m/s] from EAS [m/s] and density [kg/m^3]: TAS = EAS / sqrt(sigma).
+
+    Parameters
+    ----------
+    eas : array_like
+        Equivalent airspeed [m/s].
+    density : array_like
+        Air density [kg/m^3].
+
+    Returns
+    -------
+    numpy.ndarray
+        True airspeed [m/s].
+
+    References
+    ----------
+    .. [1] Anderson, *Introduction to Flight*, sec. 4.12 (measurement of airspeed).
+    """
     return np.asarray(eas, dtype=float) / np.sqrt(np.asarray(density) / RHO0)
 
 

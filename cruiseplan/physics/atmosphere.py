@@ -195,7 +195,18 @@ class AirState:
         return density_altitude(self.density)
 
     def row(self, i):
-        """The state at index ``i`` of the first axis."""
+        """The state at index ``i`` of the first axis.
+
+        Parameters
+        ----------
+        i : int or slice
+            Index along the first (altitude) axis [-].
+
+        Returns
+        -------
+        AirState
+            The selected state, fields in SI as in this one.
+        """
         return AirState(*(np.asarray(getattr(self, f))[i] for f in _FIELDS))
 
     def column(self):
@@ -225,6 +236,13 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
     AirState
         Temperature, pressure, density (:math:`p / (R T)`), speed of sound
         (:math:`\sqrt{\gamma R T}`) and viscosity (Sutherland) as broadcast arrays.
+
+    Raises
+    ------
+    AtmosphereRangeError
+        If a pressure altitude lies outside -5000 to 80 000 m.
+    CruiseplanError
+        If the resulting temperature is not above 0 K.
 
     References
     ----------
@@ -292,6 +310,11 @@ def density_altitude(density):
     -------
     numpy.ndarray
         Density altitude [m].
+
+    Raises
+    ------
+    AtmosphereRangeError
+        If a density lies outside the ISA densities at 20 km and -5 km.
 
     References
     ----------

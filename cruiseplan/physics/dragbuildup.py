@@ -40,12 +40,43 @@ from cruiseplan.physics.atmosphere import air_state
 
 
 def cf_laminar(re):
-    """Blasius mean skin friction of a laminar flat plate, 1.328 / sqrt(Re) [-]."""
+    """Blasius mean skin friction of a laminar flat plate, 1.328 / sqrt(Re) [-].
+
+    Parameters
+    ----------
+    re : array_like
+        Reynolds number on the plate length [-].
+
+    Returns
+    -------
+    numpy.ndarray or float
+        Mean skin-friction coefficient [-].
+
+    References
+    ----------
+    .. [1] Schlichting, *Boundary-Layer Theory*, ch. 7 (Blasius laminar flat plate).
+    """
     return 1.328 / np.sqrt(re)
 
 
 def cf_turbulent(re):
-    """Prandtl-Schlichting mean skin friction, fully turbulent, 0.455 / (log10 Re)^2.58."""
+    """Prandtl-Schlichting mean skin friction, fully turbulent, 0.455 / (log10 Re)^2.58.
+
+    Parameters
+    ----------
+    re : array_like
+        Reynolds number on the plate length [-].
+
+    Returns
+    -------
+    numpy.ndarray or float
+        Mean skin-friction coefficient [-].
+
+    References
+    ----------
+    .. [1] Schlichting, *Boundary-Layer Theory*, ch. 21 (Prandtl-Schlichting turbulent
+       flat plate).
+    """
     return 0.455 / np.log10(re) ** 2.58
 
 
@@ -55,6 +86,23 @@ def cf_mixed(re, re_transition=5e5):
     Prandtl's correction :math:`C_f = 0.455/(\log_{10} Re)^{2.58} - A/Re` with
     :math:`A = Re_{tr}(C_{f,turb}(Re_{tr}) - C_{f,lam}(Re_{tr}))` (1700 for 5e5); fully
     laminar below transition.
+
+    Parameters
+    ----------
+    re : array_like
+        Reynolds number on the plate length [-].
+    re_transition : float, optional
+        Transition Reynolds number [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Mean skin-friction coefficient [-].
+
+    References
+    ----------
+    .. [1] Schlichting, *Boundary-Layer Theory*, ch. 7 and 21 (laminar and turbulent flat
+       plate; mixed flow).
     """
     re = np.asarray(re, dtype=float)
     a = re_transition * (cf_turbulent(re_transition) - cf_laminar(re_transition))
@@ -71,6 +119,20 @@ def cd_sphere_morrison(re):
             + \frac{Re^{0.8}}{461000}
 
     It tends to Stokes' law (24/Re) at small Re and includes the drag crisis near 3e5.
+
+    Parameters
+    ----------
+    re : array_like
+        Reynolds number on the sphere diameter [-], up to 1e6.
+
+    Returns
+    -------
+    numpy.ndarray or float
+        Drag coefficient on the frontal area [-]; a float for a scalar ``re``.
+
+    References
+    ----------
+    .. [1] Morrison, *An Introduction to Fluid Mechanics*, eq. 8.13.
     """
     scalar = np.ndim(re) == 0
     re = np.atleast_1d(np.asarray(re, dtype=float))
@@ -109,6 +171,20 @@ def cd_cylinder(re):
     low-Reynolds solution :math:`8\pi / (Re\,(2.002 - \ln Re))`; above 2e5 a drag crisis
     falling log-linearly to 0.35 at 5e5 and held there (an approximation of the measured
     crisis, from memory).
+
+    Parameters
+    ----------
+    re : array_like
+        Reynolds number on the cylinder diameter [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Drag coefficient on the frontal area (diameter x length) [-].
+
+    References
+    ----------
+    .. [1] White, *Viscous Fluid Flow*, eq. 3-225 (1 < Re < 2e5).
     """
     re = np.asarray(re, dtype=float)
     lr = np.log(re)
@@ -229,13 +305,44 @@ def reynolds(tas, air, length):
 
     Floored at 1e-9: at zero speed (a hovering multirotor) the coefficients stay finite
     and the drag, which goes with V^2, is zero.
+
+    Parameters
+    ----------
+    tas : array_like
+        True airspeed [m/s].
+    air : AirState
+        Air state; its density [kg/m^3] and dynamic viscosity [Pa s] are used.
+    length : array_like
+        Reference lengths [m], one per part along the leading axis of the result.
+
+    Returns
+    -------
+    numpy.ndarray
+        Reynolds numbers [-], shape ``(len(length),) + shape(tas * air.density)``.
     """
     length = np.asarray(length, dtype=float).reshape((-1,) + (1,) * np.ndim(tas * air.density))
     return np.maximum(air.density * tas * length / air.viscosity, 1e-9)
 
 
 def outside_correlations(components, bodies, tas, air):
-    """True where any part's Reynolds number lies outside its correlation's valid range."""
+    """True where any part's Reynolds number lies outside its correlation's valid range.
+
+    Parameters
+    ----------
+    components : sequence of Component
+        Streamlined parts (Reynolds number on their ``length``).
+    bodies : sequence of AttachedBody
+        Bluff parts (Reynolds number on their ``diameter``).
+    tas : array_like
+        True airspeed [m/s].
+    air : AirState
+        Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+
+    Returns
+    -------
+    numpy.ndarray of bool
+        Mask [-], broadcast shape of ``tas`` and the air.
+    """
     out = np.zeros(np.shape(np.asarray(tas, dtype=float) * air.density), dtype=bool)
     for part, law, length in ([(c, c.friction, c.length) for c in components]
                               + [(b, b.shape, b.diameter) for b in bodies]):
@@ -246,7 +353,30 @@ def outside_correlations(components, bodies, tas, air):
 
 
 def components_cd0(components, tas, air, reference_area):
-    """Zero-lift drag coefficient of streamlined components [-] (vectorised)."""
+    r"""Zero-lift drag coefficient of streamlined components [-] (vectorised).
+
+    .. math:: C_{D0} = \sum_i C_{f,i}(Re_i)\, FF_i\, S_{wet,i} / S_{ref}
+
+    Parameters
+    ----------
+    components : sequence of Component
+        Streamlined parts, each with its friction law from :data:`CORRELATIONS`.
+    tas : array_like
+        True airspeed [m/s].
+    air : AirState
+        Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+    reference_area : float
+        Area the coefficient refers to (wing area) [m^2].
+
+    Returns
+    -------
+    numpy.ndarray
+        Zero-lift drag coefficient [-], without the excrescence fraction.
+
+    References
+    ----------
+    .. [1] Raymer, *Aircraft Design*, sec. 12.5 (component build-up).
+    """
     if not components:
         return 0.0 * (tas * air.density)
     total = 0.0
@@ -264,6 +394,29 @@ def bodies_drag_area(bodies, tas, air, with_range=False):
 
     With ``with_range``, also a mask of points where a body's Reynolds number leaves its
     correlation's valid range (found from the same Reynolds numbers).
+
+    Parameters
+    ----------
+    bodies : sequence of AttachedBody
+        Bluff parts, each with its shape's correlation from :data:`CORRELATIONS`.
+    tas : array_like
+        True airspeed [m/s].
+    air : AirState
+        Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+    with_range : bool, optional
+        Also return the out-of-range mask [-].
+
+    Returns
+    -------
+    drag_area : numpy.ndarray
+        Sum of C_D x frontal area x count [m^2].
+    outside : numpy.ndarray of bool
+        Only with ``with_range``: where a body's Reynolds number is out of range [-].
+
+    References
+    ----------
+    .. [1] Morrison, *An Introduction to Fluid Mechanics*, eq. 8.13 (sphere).
+    .. [2] White, *Viscous Fluid Flow*, eq. 3-225 (cylinder in cross-flow).
     """
     zero = 0.0 * (tas * air.density)
     if not bodies:
@@ -325,6 +478,22 @@ class BuildUpPolar:
         """Zero-lift drag coefficient [-] at TAS [m/s] in the given air.
 
         ``scale`` multiplies it (1 as built; arrays of factors for uncertainty samples).
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        air : AirState
+            Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+
+        Returns
+        -------
+        numpy.ndarray
+            Zero-lift drag coefficient on the reference area [-].
+
+        References
+        ----------
+        .. [1] Raymer, *Aircraft Design*, sec. 12.5 (component build-up, excrescence).
         """
         tas = np.asarray(tas, dtype=float)
         return self.scale * ((1.0 + self.excrescence) * components_cd0(
@@ -332,16 +501,55 @@ class BuildUpPolar:
             + bodies_drag_area(self.bodies, tas, air) / self.reference_area)
 
     def drag_coefficient(self, cl, tas=None, air=None):
-        """Drag coefficient [-] at lift coefficient ``cl``, TAS [m/s] and air."""
+        """Drag coefficient [-] at lift coefficient ``cl``, TAS [m/s] and air.
+
+        Parameters
+        ----------
+        cl : array_like
+            Lift coefficient [-].
+        tas : array_like
+            True airspeed [m/s]; needed, the parasite drag depends on it.
+        air : AirState
+            Air state; density [kg/m^3] and dynamic viscosity [Pa s]; needed.
+
+        Returns
+        -------
+        numpy.ndarray
+            Drag coefficient [-].
+        """
         d = np.asarray(cl, dtype=float) - self.cl_min_drag
         return self.cd0(tas, air) + self.k * d * d
 
     def outside(self, cl):
-        """No lift-coefficient limit of its own (stall is checked separately)."""
+        """No lift-coefficient limit of its own (stall is checked separately).
+
+        Parameters
+        ----------
+        cl : array_like
+            Lift coefficient [-].
+
+        Returns
+        -------
+        numpy.ndarray of bool
+            All False, shape of ``cl`` [-].
+        """
         return np.zeros(np.shape(cl), dtype=bool)
 
     def reynolds_outside(self, tas, air):
-        """True where a part's Reynolds number is outside its correlation's range."""
+        """True where a part's Reynolds number is outside its correlation's range.
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        air : AirState
+            Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+
+        Returns
+        -------
+        numpy.ndarray of bool
+            Out-of-range mask [-].
+        """
         return outside_correlations(self.components, self.bodies, tas, air)
 
     def scaled(self, cd0_factor, oswald_factor):
@@ -381,17 +589,58 @@ class BodyDrag:
     scale: object = 1.0
 
     def area(self, tas, air):
-        """Total drag area [m^2] at TAS [m/s] in the given air (times ``scale``)."""
+        """Total drag area [m^2] at TAS [m/s] in the given air (times ``scale``).
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        air : AirState
+            Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+
+        Returns
+        -------
+        numpy.ndarray
+            Drag area C_D x A of frame and bodies [m^2].
+        """
         tas = np.asarray(tas, dtype=float)
         return self.scale * (self.drag_area + bodies_drag_area(self.bodies, tas, air))
 
     def area_and_range(self, tas, air):
-        """Drag area [m^2] and where a body's Reynolds number leaves its correlation."""
+        """Drag area [m^2] and where a body's Reynolds number leaves its correlation.
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        air : AirState
+            Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+
+        Returns
+        -------
+        area : numpy.ndarray
+            Drag area C_D x A of frame and bodies [m^2] (times ``scale``).
+        outside : numpy.ndarray of bool
+            Where a body's Reynolds number is out of its correlation's range [-].
+        """
         tas = np.asarray(tas, dtype=float)
         area, outside = bodies_drag_area(self.bodies, tas, air, with_range=True)
         return self.scale * (self.drag_area + area), outside
 
     def drag(self, tas, air):
-        """Drag [N]."""
+        """Drag of the body, 1/2 rho V^2 (C_D A) [N].
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        air : AirState
+            Air state; density [kg/m^3] and dynamic viscosity [Pa s].
+
+        Returns
+        -------
+        numpy.ndarray
+            Drag [N].
+        """
         tas = np.asarray(tas, dtype=float)
         return 0.5 * air.density * tas * tas * self.area(tas, air)

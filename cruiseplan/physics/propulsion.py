@@ -254,29 +254,107 @@ class PistonPropeller:
         return self.fuel_capacity * self.fuel_density
 
     def lapse(self, sigma):
-        """Full-throttle power over rated power [-] at density ratio ``sigma``."""
+        """Full-throttle power over rated power [-] at density ratio ``sigma``.
+
+        Parameters
+        ----------
+        sigma : array_like
+            Density ratio rho / rho0 [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            Power lapse phi(sigma) [-] of the law ``power_lapse``.
+
+        References
+        ----------
+        .. [1] The law's entry in :data:`POWER_LAPSE_LAWS` names its source (Gagg-Ferrar as
+           quoted by Gudmundsson, *General Aviation Aircraft Design*, ch. 7; from memory).
+        """
         return POWER_LAPSE_LAWS[self.power_lapse](sigma)
 
     def lapse_outside(self, sigma):
-        """Mask of density ratios outside the lapse law's validity."""
+        """Mask of density ratios outside the lapse law's validity.
+
+        Parameters
+        ----------
+        sigma : array_like
+            Density ratio rho / rho0 [-].
+
+        Returns
+        -------
+        numpy.ndarray of bool
+            True outside the law's ``sigma_range`` [-].
+        """
         lo, hi = POWER_LAPSE_LAWS[self.power_lapse].sigma_range
         sigma = np.asarray(sigma)
         return (sigma < lo) | (sigma > hi)
 
     def shaft_power_available(self, sigma):
-        """Full-throttle shaft power [W] at density ratio ``sigma``."""
+        """Full-throttle shaft power [W] at density ratio ``sigma``.
+
+        Parameters
+        ----------
+        sigma : array_like
+            Density ratio rho / rho0 [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            Shaft power available, rated power x lapse [W].
+        """
         return self.rated_power * self.lapse(sigma)
 
     def store_rate(self, shaft_power):
-        """Rate the store is used [kg/s] at shaft power [W]: the fuel flow, BSFC x P."""
+        """Rate the store is used [kg/s] at shaft power [W]: the fuel flow, BSFC x P.
+
+        Parameters
+        ----------
+        shaft_power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray or float
+            Fuel mass flow [kg/s].
+
+        References
+        ----------
+        .. [1] Yechout et al., *Introduction to Aircraft Flight Mechanics*, ch. 2 (BSFC of
+           piston engines).
+        """
         return self.bsfc * shaft_power
 
     def source_power(self, shaft_power):
-        """Fuel heat release rate [W] (lower heating value) at shaft power [W]."""
+        """Fuel heat release rate [W] (lower heating value) at shaft power [W].
+
+        Parameters
+        ----------
+        shaft_power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray or float
+            Fuel flow x lower heating value [W].
+        """
         return self.store_rate(shaft_power) * FUELS[self.fuel].lower_heating_value
 
     def endurance(self, store, shaft_power):
-        """Time [s] to burn ``store`` kg of fuel at constant shaft power [W]."""
+        """Time [s] to burn ``store`` kg of fuel at constant shaft power [W].
+
+        Parameters
+        ----------
+        store : array_like
+            Fuel mass [kg].
+        shaft_power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray or float
+            Endurance [s].
+        """
         return store / self.store_rate(shaft_power)
 
     def sampled(self, name: str, factors: dict):
@@ -293,6 +371,11 @@ class PistonPropeller:
         -------
         PistonPropeller
             Same engine, parameters multiplied by the factors.
+
+        Raises
+        ------
+        CruiseplanError
+            If ``factors`` holds a battery-energy tolerance.
         """
         if "battery_energy" in factors:
             raise CruiseplanError(f"{name}: a battery-energy tolerance needs a battery")
@@ -357,19 +440,63 @@ class ElectricPropeller:
         return self.battery_energy
 
     def lapse(self, sigma):
-        """Electric motors keep their power with altitude: 1 [-]."""
+        """Electric motors keep their power with altitude: 1 [-].
+
+        Parameters
+        ----------
+        sigma : array_like
+            Density ratio rho / rho0 [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            Ones, shape of ``sigma`` [-].
+        """
         return np.ones_like(np.asarray(sigma, dtype=float))
 
     def lapse_outside(self, sigma):
-        """Electric motors have no lapse-law validity limit."""
+        """Electric motors have no lapse-law validity limit.
+
+        Parameters
+        ----------
+        sigma : array_like
+            Density ratio rho / rho0 [-].
+
+        Returns
+        -------
+        numpy.ndarray of bool
+            All False, shape of ``sigma`` [-].
+        """
         return np.zeros(np.shape(sigma), dtype=bool)
 
     def shaft_power_available(self, sigma):
-        """Maximum shaft power [W], the same at every altitude."""
+        """Maximum shaft power [W], the same at every altitude.
+
+        Parameters
+        ----------
+        sigma : array_like
+            Density ratio rho / rho0 [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            Maximum continuous shaft power [W], shape of ``sigma``.
+        """
         return self.max_power * self.lapse(sigma)
 
     def source_power(self, shaft_power):
-        """Battery power drawn [W] at shaft power [W]."""
+        """Battery power drawn [W] at shaft power [W].
+
+        Parameters
+        ----------
+        shaft_power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray or float
+            Battery power, shaft power / (motor x controller efficiency) [W].
+        """
         return shaft_power / (self.motor_efficiency * self.controller_efficiency)
 
     def store_rate(self, shaft_power):
@@ -447,6 +574,11 @@ class ElectricPropeller:
         -------
         ElectricPropeller
             Same chain, parameters multiplied by the factors.
+
+        Raises
+        ------
+        CruiseplanError
+            If ``factors`` holds a BSFC tolerance.
         """
         if "bsfc" in factors:
             raise CruiseplanError(f"{name}: a BSFC tolerance needs a piston engine")
@@ -465,4 +597,6 @@ class ElectricPropeller:
 PROPULSION_KINDS = {
     "piston-propeller": PistonPropeller,
     "electric-propeller": ElectricPropeller,
+    # The same battery chain driving lifting rotors; their efficiency is in the rotor model.
+    "electric-rotor": ElectricPropeller,
 }

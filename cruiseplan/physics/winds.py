@@ -55,7 +55,22 @@ class WindProfile:
         return cls((0.0,), (0.0,), (0.0,))
 
     def vector(self, altitude):
-        """North and east components of the velocity the air moves with [m/s]."""
+        """North and east components of the velocity the air moves with [m/s].
+
+        Interpolated linearly in altitude; beyond the profile's ends the end wind holds.
+
+        Parameters
+        ----------
+        altitude : array_like
+            Pressure altitude [m].
+
+        Returns
+        -------
+        north : numpy.ndarray
+            Northward component of the air's velocity [m/s].
+        east : numpy.ndarray
+            Eastward component of the air's velocity [m/s].
+        """
         d = np.radians(np.asarray(self.directions, dtype=float))
         s = np.asarray(self.speeds, dtype=float)
         # Wind *from* d moves the air towards d + 180 deg.
@@ -64,13 +79,46 @@ class WindProfile:
         return (np.interp(h, self.altitudes, north), np.interp(h, self.altitudes, east))
 
     def at(self, altitude):
-        """Direction from [deg] and speed [m/s] at pressure altitudes [m]."""
+        """Direction from [deg] and speed [m/s] at pressure altitudes [m].
+
+        Parameters
+        ----------
+        altitude : array_like
+            Pressure altitude [m].
+
+        Returns
+        -------
+        direction : numpy.ndarray
+            Direction the wind blows from [deg true], in [0, 360).
+        speed : numpy.ndarray
+            Wind speed [m/s].
+        """
         north, east = self.vector(altitude)
         speed = np.hypot(north, east)
         direction = np.mod(np.degrees(np.arctan2(-east, -north)), 360.0)
         return direction, speed
 
     def components(self, course_deg, altitude):
-        """Headwind and crosswind from the right [m/s] on a true course at altitudes [m]."""
+        """Headwind and crosswind from the right [m/s] on a true course at altitudes [m].
+
+        Parameters
+        ----------
+        course_deg : array_like
+            True course over the ground [deg].
+        altitude : array_like
+            Pressure altitude [m].
+
+        Returns
+        -------
+        headwind : numpy.ndarray
+            Component against the course [m/s] (negative: tailwind).
+        crosswind : numpy.ndarray
+            Component from the right of the course [m/s].
+
+        References
+        ----------
+        .. [1] FAA, *Pilot's Handbook of Aeronautical Knowledge*, ch. 16 (the wind
+           triangle).
+        """
         direction, speed = self.at(altitude)
         return wind_components(course_deg, direction, speed)
