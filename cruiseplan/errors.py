@@ -32,3 +32,32 @@ class LogFileError(CruiseplanError):
 
 class CruiseplanWarning(UserWarning):
     """Odd but possible input, e.g. a mass above the maximum take-off mass."""
+
+
+def lookup(table, key, what: str):
+    """``table[key]``, or a :class:`CruiseplanError` that lists the valid keys.
+
+    Parameters
+    ----------
+    table : mapping
+        A registry or choice table.
+    key : object
+        The name asked for.
+    what : str
+        What the name is of, for the message (``"output format"``).
+
+    Returns
+    -------
+    object
+        The entry.
+
+    Raises
+    ------
+    CruiseplanError
+        ``"output format 'xml' is not one of csv, json, markdown, text"``.
+    """
+    try:
+        return table[key]
+    except (KeyError, TypeError):
+        raise CruiseplanError(f"{what} {key!r} is not one of "
+                              f"{', '.join(sorted(str(k) for k in table))}") from None

@@ -86,7 +86,7 @@ def explain(code: int, short: bool = False) -> str:
     Parameters
     ----------
     code : int
-        :class:`Limit` bit set.
+        :class:`Limit` bit set [-].
     short : bool
         Short codes joined by ``+`` (``"STALL+POWER"``) instead of the reasons.
 
@@ -109,7 +109,7 @@ def describe(code: int) -> str:
     Parameters
     ----------
     code : int
-        :class:`Limit` bit set.
+        :class:`Limit` bit set [-].
 
     Returns
     -------
@@ -128,7 +128,7 @@ def flag_if(condition, flag: Limit):
     Parameters
     ----------
     condition : array_like of bool
-        Where the limit applies.
+        Where the limit applies [-].
     flag : Limit
         The bit.
 

@@ -18,7 +18,7 @@ import re
 
 import numpy as np
 
-from cruiseplan.errors import UnitError
+from cruiseplan.errors import UnitError, lookup
 
 #: SI unit of each physical kind used by cruiseplan (the core's units).
 SI_UNITS = {
@@ -97,7 +97,18 @@ def normalise_unit(unit: str) -> str:
 
 
 def is_quantity(value) -> bool:
-    """Tell whether ``value`` is a pint Quantity, without importing pint."""
+    """Tell whether ``value`` is a pint Quantity, without importing pint.
+
+    Parameters
+    ----------
+    value : object
+        Anything.
+
+    Returns
+    -------
+    bool
+        True for a pint Quantity (of any unit).
+    """
     return type(value).__module__.startswith("pint") and hasattr(value, "magnitude")
 
 
@@ -130,8 +141,8 @@ def parse_quantity(text, si_unit: str, *, default_unit: str | None = None,
     Parameters
     ----------
     text : str or float or int
-        The text to parse. A bare number is taken in ``default_unit`` (or in ``si_unit``
-        when no default is given).
+        The text to parse [any unit of the dimension of ``si_unit``]. A bare number is
+        taken in ``default_unit`` (or in ``si_unit`` when no default is given).
     si_unit : str
         The SI unit to convert to, e.g. ``"m"``; it also fixes the expected dimension.
     default_unit : str, optional
@@ -186,9 +197,11 @@ def to_si(value, si_unit: str, *, what: str = "value"):
 
     Parameters
     ----------
-    value : pint.Quantity or float or array_like
-        A Quantity is converted to ``si_unit``; a plain number or array is taken to be
-        in SI already and returned as a float array (or float).
+    value : pint.Quantity or float or array_like or str
+        A Quantity [any unit of the dimension of ``si_unit``] is converted to
+        ``si_unit``; a plain number or array is taken to be in SI already [``si_unit``]
+        and returned as a float array (or float); text is read by
+        :func:`parse_quantity`.
     si_unit : str
         Target SI unit.
     what : str
@@ -198,6 +211,12 @@ def to_si(value, si_unit: str, *, what: str = "value"):
     -------
     float or numpy.ndarray
         The value in ``si_unit``.
+
+    Raises
+    ------
+    UnitError
+        When a Quantity or text has a dimension other than that of ``si_unit``, or text
+        cannot be read as a number with a unit.
     """
     if is_quantity(value):
         try:
@@ -234,7 +253,14 @@ def parse_range(text: str, si_unit: str, *, default_unit: str | None = None,
     Returns
     -------
     numpy.ndarray
-        One-dimensional array of SI values.
+        One-dimensional array of SI values [``si_unit``].
+
+    Raises
+    ------
+    UnitError
+        For an empty list or element, a range that is not ``start:stop:step`` with
+        stop >= start and a positive step, more than 100000 points, or an element that
+        is not a quantity of the expected dimension.
     """
     text = text.strip()
     if not text:
@@ -269,14 +295,21 @@ def temperature_difference(value, *, what: str = "isa_dev") -> float:
     Parameters
     ----------
     value : float or str or pint.Quantity
-        Kelvin as a plain number; text such as ``"+10 degC"``; or a Quantity in K,
+        Kelvin as a plain number [K]; text such as ``"+10 degC"``; or a Quantity in K,
         delta_degC, delta_degF, or degC/degF (whose magnitude is then read as a
         difference, as a pilot writing "ISA +10 degC" means).
+    what : str, optional
+        Name used in error messages.
 
     Returns
     -------
     float or numpy.ndarray
         The difference [K].
+
+    Raises
+    ------
+    UnitError
+        When the value is not a temperature difference.
     """
     if isinstance(value, str):
         return parse_quantity(value, "K", what=what, delta_temperature=True)
@@ -340,7 +373,6 @@ def display(kind: str, units: str):
     CruiseplanError
         For an unknown unit system, listing the known ones.
     """
-    if units not in UNIT_SYSTEMS:
-        raise UnitError(f"units {units!r} is not one of {', '.join(UNIT_SYSTEMS)}")
-    pint_unit, label = UNIT_SYSTEMS[units][kind]
+    pint_unit, label = lookup(lookup(UNIT_SYSTEMS, units, "unit system"), kind,
+                              "kind of quantity")
     return conversion_factor(_SI_OF_KIND[kind], pint_unit), label

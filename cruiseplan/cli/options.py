@@ -15,6 +15,7 @@ from pathlib import Path
 import numpy as np
 
 from cruiseplan.amounts import parse_amount
+from cruiseplan.constants import DEFAULT_STALL_MARGIN
 from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.text import parse_wind_profile
 from cruiseplan.report.output import write_atomic
@@ -27,13 +28,32 @@ class Parser(argparse.ArgumentParser):
     """argparse with one-line errors (a :class:`CruiseplanError`, exit status 2)."""
 
     def error(self, message):
-        """Raise the message as a :class:`CruiseplanError` naming the subcommand once."""
+        """Raise the message as a :class:`CruiseplanError` naming the subcommand once.
+
+        Parameters
+        ----------
+        message : str
+            argparse's message.
+
+        Raises
+        ------
+        CruiseplanError
+            Always: ``"SUBCOMMAND: message"`` (the CLI prints it and exits 2).
+        """
         sub = self.prog.removeprefix("cruiseplan").strip()
         raise CruiseplanError(f"{sub}: {message}" if sub else message)
 
 
 def add_output(p, formats=("text", "csv", "json", "markdown")):
-    """Add ``--format``, ``--output`` and ``--units`` to a command."""
+    """Add ``--format``, ``--output`` and ``--units`` to a command.
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    formats : tuple of str, optional
+        Choices of ``--format``.
+    """
     p.add_argument("--format", choices=formats, default="text", help="output format")
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
     add_units(p, "display units: aviation (ft, kt, lb, US gal, nm, hp) or si (m, km/h, kg, "
@@ -42,24 +62,44 @@ def add_output(p, formats=("text", "csv", "json", "markdown")):
 
 def add_units(p, text="display units (default aviation for piston airframes, si for "
                       "electric ones)"):
-    """Add ``--units`` to a command."""
+    """Add ``--units`` to a command.
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    text : str, optional
+        Help text of the option.
+    """
     p.add_argument("--units", choices=("aviation", "si"), default=None, help=text)
 
 
 def add_loading(p):
-    """Add ``--weight | --fuel``, ``--payload``, ``--isa-dev`` and ``--stall-margin``."""
+    """Add ``--weight | --fuel``, ``--payload``, ``--isa-dev`` and ``--stall-margin``.
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    """
     load = p.add_mutually_exclusive_group()
     load.add_argument("--weight", help="aircraft mass, e.g. '1600 lb'")
     load.add_argument("--fuel", help="fuel or energy on board: '80 L', '20 gal', '55 kg', "
                                      "'450 Wh' or '80%%' of capacity (default full)")
     p.add_argument("--payload", help="crew and payload, e.g. '170 kg' (default from file)")
     p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
-    p.add_argument("--stall-margin", type=float, default=1.3,
-                   help="minimum TAS over stall speed (default 1.3)")
+    p.add_argument("--stall-margin", type=float, default=DEFAULT_STALL_MARGIN,
+                   help=f"minimum TAS over stall speed (default {DEFAULT_STALL_MARGIN:g})")
 
 
 def add_monte_carlo(p):
-    """Add ``--monte-carlo N`` and ``--seed`` to a command."""
+    """Add ``--monte-carlo N`` and ``--seed`` to a command.
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    """
     p.add_argument("--monte-carlo", type=int, metavar="N",
                    help="also report P10/P50/P90 over N samples of the tolerances in the "
                         "airframe (and mission) files, e.g. 10000")
@@ -67,7 +107,13 @@ def add_monte_carlo(p):
 
 
 def add_wind(p):
-    """Add ``--wind | --headwind`` and ``--course`` to a command."""
+    """Add ``--wind | --headwind`` and ``--course`` to a command.
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    """
     wind = p.add_mutually_exclusive_group()
     wind.add_argument("--wind", help="winds aloft DIR/SPEED@ALT, e.g. "
                                      "'270/25@3000ft,250/40@8000ft' (needs --course)")
@@ -77,7 +123,23 @@ def add_wind(p):
 
 
 def monte_carlo_n(args):
-    """The ``--monte-carlo`` sample count, checked (None when not asked)."""
+    """The ``--monte-carlo`` sample count, checked (None when not asked).
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed options; ``monte_carlo`` may be missing.
+
+    Returns
+    -------
+    int or None
+        Number of samples [-], 1 to 1 000 000.
+
+    Raises
+    ------
+    CruiseplanError
+        For a count outside 1 to 1 000 000.
+    """
     n = getattr(args, "monte_carlo", None)
     if n is not None and not 1 <= n <= 1_000_000:
         raise CruiseplanError(f"--monte-carlo {n}: give 1 to 1000000 samples")
@@ -85,22 +147,86 @@ def monte_carlo_n(args):
 
 
 def default_units(airframe) -> str:
-    """The display units the airframe's crews use: aviation for fuel, SI for batteries."""
+    """The display units the airframe's crews use: aviation for fuel, SI for batteries.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe; its propulsion's store decides.
+
+    Returns
+    -------
+    str
+        ``"aviation"`` or ``"si"``.
+    """
     return airframe.propulsion.store.default_units
 
 
 def isa_dev(args) -> float:
-    """``--isa-dev`` [K]."""
+    """``--isa-dev`` [K].
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed options; ``isa_dev`` is text such as ``"+15 K"`` or ``"-5 degC"`` (a
+        difference), kelvin when bare.
+
+    Returns
+    -------
+    float
+        Temperature deviation from ISA [K].
+
+    Raises
+    ------
+    UnitError
+        When the text is not a temperature difference.
+    """
     return parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
 
 
 def altitudes(text: str) -> np.ndarray:
-    """Pressure altitudes [m] from a range or list, feet by default."""
+    """Pressure altitudes [m] from a range or list, feet by default.
+
+    Parameters
+    ----------
+    text : str
+        ``"start:stop:step"`` or ``"a,b,c"`` with optional units [ft when bare].
+
+    Returns
+    -------
+    numpy.ndarray
+        Pressure altitudes [m].
+
+    Raises
+    ------
+    UnitError
+        When the text is not a valid range or list of lengths.
+    """
     return parse_range(text, "m", default_unit="ft", what="--altitudes")
 
 
 def loading(af, args) -> dict:
-    """``mass``, ``fuel`` and ``payload`` [kg, kg or J, kg] from the loading options."""
+    """``mass``, ``fuel`` and ``payload`` [kg, kg or J, kg] from the loading options.
+
+    Parameters
+    ----------
+    af : Airframe
+        The airframe; its propulsion reads ``--fuel`` (volume, mass, energy or percent).
+    args : argparse.Namespace
+        Parsed options: ``weight`` [lb when bare], ``fuel``, ``payload`` [kg when bare]
+        and ``stall_margin`` [-].
+
+    Returns
+    -------
+    dict
+        ``mass`` [kg], ``fuel`` [kg or J] and ``payload`` [kg]; None for those not given.
+
+    Raises
+    ------
+    CruiseplanError
+        For a stall margin below 1, or a value that cannot be read (a
+        :class:`~cruiseplan.errors.UnitError`).
+    """
     if args.stall_margin < 1.0:
         raise CruiseplanError(f"--stall-margin {args.stall_margin:g} must be at least 1")
     return dict(
@@ -112,7 +238,23 @@ def loading(af, args) -> dict:
 
 
 def power_settings(text: str) -> np.ndarray:
-    """``--power 55,65,75`` as fractions of rated power."""
+    """``--power 55,65,75`` as fractions of rated power.
+
+    Parameters
+    ----------
+    text : str
+        Range or list of power settings [percent when bare].
+
+    Returns
+    -------
+    numpy.ndarray
+        Fractions of rated power [-], in (0, 1].
+
+    Raises
+    ------
+    UnitError
+        When a setting cannot be read or lies outside (0, 100] %.
+    """
     frac = parse_range(text, "", default_unit="percent", what="--power")
     if np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
         raise UnitError(f"--power: {text!r} must be percentages of rated power in (0, 100]")
@@ -123,6 +265,27 @@ def wind(args):
     """Wind profile, headwind [m/s] and a description from the wind options.
 
     From ``--wind``/``--course`` or ``--headwind``; None for what is not given.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed options: ``wind`` (text ``DIR/SPEED@ALT,...``), ``course`` [deg true] and
+        ``headwind`` [kt when bare].
+
+    Returns
+    -------
+    profile : WindProfile or None
+        Winds aloft, from ``--wind``.
+    headwind : float or None
+        Headwind component [m/s], from ``--headwind``.
+    text : str
+        The wind in words, for headers.
+
+    Raises
+    ------
+    CruiseplanError
+        For ``--wind`` without ``--course``, ``--course`` without ``--wind``, or a wind
+        that cannot be read.
     """
     if args.wind:
         if args.course is None:
@@ -138,14 +301,47 @@ def wind(args):
 
 
 def figure_path(text: str, suffixes, option: str = "--output") -> str:
-    """A figure file name, checked to end in one of ``suffixes``."""
+    """A figure file name, checked to end in one of ``suffixes``.
+
+    Parameters
+    ----------
+    text : str
+        The file name given.
+    suffixes : collection of str
+        Allowed lower-case suffixes, e.g. ``(".png", ".pdf")``.
+    option : str, optional
+        The option's name, for the message.
+
+    Returns
+    -------
+    str
+        ``text`` unchanged.
+
+    Raises
+    ------
+    CruiseplanError
+        When the suffix is not one of ``suffixes``.
+    """
     if Path(text).suffix.lower() not in suffixes:
         raise CruiseplanError(f"{option} {text}: the file must end in {' or '.join(suffixes)}")
     return text
 
 
 def emit(text: str, output: str | None):
-    """Write a report to ``output`` (whole or not at all), or to standard output."""
+    """Write a report to ``output`` (whole or not at all), or to standard output.
+
+    Parameters
+    ----------
+    text : str
+        The rendered report.
+    output : str or None
+        File to write; standard output when None or empty.
+
+    Raises
+    ------
+    CruiseplanError
+        If the output's folder does not exist.
+    """
     if output:
         write_atomic(output, text)
     else:

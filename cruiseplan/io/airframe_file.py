@@ -30,7 +30,8 @@ from cruiseplan.physics.aerodynamics import (
     induced_drag_factor,
 )
 from cruiseplan.physics.dragbuildup import (
-    CORRELATIONS,
+    BODY_SHAPES,
+    FRICTION_LAWS,
     AttachedBody,
     BodyDrag,
     BuildUpPolar,
@@ -125,10 +126,9 @@ def _components(r: SchemaReader, sec: dict):
               else wing_form_factor(c["thickness_ratio"]) if c["thickness_ratio"] is not None
               else body_form_factor(c["fineness"]) if c["fineness"] is not None else 1.0)
         friction = c.get("friction", "turbulent")
-        if friction not in ("laminar", "turbulent", "mixed"):
+        if friction not in FRICTION_LAWS:
             r.fail(f"[{c['_where']}] friction",
-                   f"{friction!r} is not one of laminar, mixed, turbulent")
-        assert friction in CORRELATIONS
+                   f"{friction!r} is not one of {', '.join(FRICTION_LAWS)}")
         out.append(Component(str(c.get("name", c["_where"])), c["wetted_area"], c["length"],
                              ff, friction))
     return tuple(out)
@@ -138,8 +138,8 @@ def _bodies(r: SchemaReader, sec: dict, where: str):
     out = []
     for b in r.table_list(sec, "bodies", where, _BODY_SCHEMA):
         shape = b.get("shape")
-        if shape not in ("sphere", "cylinder"):
-            r.fail(f"[{b['_where']}] shape", f"{shape!r} is not one of cylinder, sphere")
+        if shape not in BODY_SHAPES:
+            r.fail(f"[{b['_where']}] shape", f"{shape!r} is not one of {', '.join(BODY_SHAPES)}")
         if shape == "cylinder" and b["length"] is None:
             r.fail(f"[{b['_where']}] length", "a cylinder needs its length across the flow")
         count = b["count"] or 1.0

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from cruiseplan.errors import AirframeFileError, MissionFileError
+from cruiseplan.errors import AirframeFileError, MissionFileError, lookup
 
 _PACKAGE_DIR = Path(__file__).resolve().parent.parent
 
@@ -35,7 +35,7 @@ def bundled_files(kind: str) -> dict:
     dict
         Name to :class:`pathlib.Path`; empty when none are installed.
     """
-    for folder in BUNDLED_DIRS[kind]:
+    for folder in lookup(BUNDLED_DIRS, kind, "kind of bundled file"):
         if folder.is_dir():
             return {p.stem: p for p in sorted(folder.glob("*.toml"))}
     return {}

@@ -47,7 +47,7 @@ from pathlib import Path
 
 import numpy as np
 
-from cruiseplan.constants import G0
+from cruiseplan.constants import FT_PER_MIN, G0
 from cruiseplan.errors import AirframeFileError, CruiseplanError, CruiseplanWarning, LogFileError
 from cruiseplan.io.airframe_file import read_airframe_text
 from cruiseplan.physics.airspeed import tas_from_cas
@@ -56,7 +56,7 @@ from cruiseplan.units import normalise_unit, registry
 
 #: Largest vertical speed of a level-flight point [m/s]: 100 ft/min (common practice for
 #: stabilised level points, no source).
-LEVEL_LIMIT = 100.0 * 0.3048 / 60.0
+LEVEL_LIMIT = 100.0 * FT_PER_MIN
 #: Fewest level-flight points a log must hold for the fit.
 MIN_POINTS = 5
 

@@ -253,7 +253,7 @@ def read_mission(path) -> Mission:
 
     mass = r.quantity(head, "takeoff_mass", "kg", "[mission]", lo=0.0, example="'735 kg'")
     payload = r.quantity(head, "payload", "kg", "[mission]", lo=0.0, example="'170 kg'")
-    store_key = "fuel" if prop.store_name == "fuel" else "battery"
+    store_key = "fuel" if prop.store.burns_mass else "battery"
     wrong = "battery" if store_key == "fuel" else "fuel"
     if wrong in head:
         r.fail(f"[mission] {wrong}", f"{af.name} is {prop.kind}: give {store_key} instead")

@@ -118,22 +118,104 @@ class Airframe(Protocol):
     propulsion: object
 
     def stall_speed(self, mass, density):
-        """Stall TAS [m/s] (zero for a kind that hovers)."""
+        """Stall TAS [m/s] (zero for a kind that hovers).
+
+        Parameters
+        ----------
+        mass : array_like
+            Mass [kg].
+        density : array_like
+            Air density [kg/m^3].
+
+        Returns
+        -------
+        numpy.ndarray
+            Stall speed [m/s].
+        """
 
     def level_flight(self, mass, air, tas) -> LevelFlight:
-        """Drag and shaft power in level flight at TAS ``tas`` [m/s]."""
+        """Drag and shaft power in level flight at TAS ``tas`` [m/s].
+
+        Parameters
+        ----------
+        mass : array_like
+            Mass [kg].
+        air : AirState
+            Air, broadcastable against ``tas``.
+        tas : array_like
+            True airspeed [m/s].
+
+        Returns
+        -------
+        LevelFlight
+            ``drag`` [N], ``shaft`` [W] and the kind's own terms.
+        """
 
     def model_limits(self, flight: LevelFlight, tas, stall_margin, air):
-        """:class:`~cruiseplan.limits.Limit` bits of the kind's own model."""
+        """:class:`~cruiseplan.limits.Limit` bits of the kind's own model.
+
+        Parameters
+        ----------
+        flight : LevelFlight
+            Level flight at the points.
+        tas : array_like
+            True airspeed [m/s].
+        stall_margin : float
+            Minimum TAS over stall speed [-].
+        air : AirState
+            Air at the points.
+
+        Returns
+        -------
+        numpy.ndarray
+            uint16 :class:`~cruiseplan.limits.Limit` bits.
+        """
 
     def stall_speed_ratio(self, flight: LevelFlight):
-        """TAS over stall speed [-] (NaN for a kind without a wing)."""
+        """TAS over stall speed [-] (NaN for a kind without a wing).
+
+        Parameters
+        ----------
+        flight : LevelFlight
+            Level flight at the points.
+
+        Returns
+        -------
+        numpy.ndarray
+            TAS over stall speed [-].
+        """
 
     def sampled(self, factors: dict):
-        """The same airframe with toleranced parameters as arrays over samples."""
+        """The same airframe with toleranced parameters as arrays over samples.
+
+        Parameters
+        ----------
+        factors : dict
+            Parameter name (of ``tolerance_keys``) to an array of factors [-].
+
+        Returns
+        -------
+        Airframe
+            The same kind; its model functions broadcast over the sample axis.
+        """
 
     def loading(self, mass=None, store=None, payload=None) -> Loading:
-        """Mass and store on board."""
+        """Mass and store on board.
+
+        Parameters
+        ----------
+        mass : float, optional
+            Aircraft mass [kg].
+        store : float, optional
+            Fuel on board [kg] or usable energy [J].
+        payload : float, optional
+            Crew and payload [kg].
+
+        Returns
+        -------
+        Loading
+            Mass [kg] and store [kg or J].
+        """
 
 
 @dataclass(frozen=True, kw_only=True)

@@ -159,6 +159,12 @@ class FixedWing(AirframeBase):
         -------
         FixedWing
             Every model function then broadcasts over the sample axis.
+
+        Raises
+        ------
+        CruiseplanError
+            If cd0 or oswald_e is toleranced on a polar that cannot be scaled (tabulated),
+            or a tolerance does not fit the propulsion kind.
         """
         changes = {}
         if "cd0" in factors or "oswald_e" in factors:

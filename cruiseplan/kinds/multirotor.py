@@ -199,6 +199,11 @@ class Multirotor(AirframeBase):
         -------
         Multirotor
             Every model function then broadcasts over the sample axis.
+
+        Raises
+        ------
+        CruiseplanError
+            If a tolerance does not fit the propulsion kind (a BSFC tolerance on a battery).
         """
         changes = {"propulsion": self.propulsion.sampled(self.name, factors)}
         if "cd0" in factors:

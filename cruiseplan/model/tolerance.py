@@ -28,6 +28,16 @@ class Tolerance:
         """Multiplying factors 1 + delta from uniform [0, 1) numbers ``u``.
 
         Never below 5 % of nominal.
+
+        Parameters
+        ----------
+        u : array_like
+            Uniform random numbers in [0, 1) [-], one per sample.
+
+        Returns
+        -------
+        numpy.ndarray
+            Factors on the nominal value [-], at least 0.05, shape of ``u``.
         """
         if self.kind == "normal":
             delta = self.sd * normal_ppf(u) if self.sd else np.zeros(np.shape(u))
@@ -45,7 +55,18 @@ class WindTolerance:
 
 
 def normal_ppf(u):
-    """Inverse of the standard normal distribution function at ``u`` in (0, 1)."""
+    """Inverse of the standard normal distribution function at ``u`` in (0, 1).
+
+    Parameters
+    ----------
+    u : array_like
+        Probabilities in (0, 1) [-].
+
+    Returns
+    -------
+    numpy.ndarray or float
+        Standard normal quantiles [-] (-inf at 0, +inf at 1).
+    """
     from scipy.special import ndtri
 
     return ndtri(u)

@@ -33,7 +33,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from cruiseplan.constants import BETA_S, G0, GAMMA, LAPSE, P0, R_AIR, RHO0, S_SUTH, T0
+from cruiseplan.constants import BETA_S, FT, G0, GAMMA, LAPSE, P0, R_AIR, RHO0, S_SUTH, T0
 from cruiseplan.errors import AtmosphereRangeError, CruiseplanError
 
 #: Valid pressure-altitude range [m] (ambiance: -5004 m to 81 020 m geometric).
@@ -93,7 +93,7 @@ def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
     if np.any(bad):
         v = h[bad].flat[0]
         raise AtmosphereRangeError(
-            f"{what} {v:.0f} m ({v / 0.3048:.0f} ft) is outside the atmosphere model's range "
+            f"{what} {v:.0f} m ({v / FT:.0f} ft) is outside the atmosphere model's range "
             f"{ALTITUDE_MIN:.0f} to {ALTITUDE_MAX:.0f} m pressure altitude")
     return h
 

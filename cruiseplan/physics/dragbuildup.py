@@ -34,7 +34,13 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from cruiseplan.errors import lookup
 from cruiseplan.physics.atmosphere import air_state
+
+#: Friction laws of streamlined components and shapes of bluff bodies (keys of
+#: :data:`CORRELATIONS`).
+FRICTION_LAWS = ("laminar", "mixed", "turbulent")
+BODY_SHAPES = ("cylinder", "sphere")
 
 # --- correlations -------------------------------------------------------------------------
 
@@ -281,6 +287,9 @@ class Component:
     form_factor: float = 1.0
     friction: str = "turbulent"
 
+    def __post_init__(self):
+        lookup({k: None for k in FRICTION_LAWS}, self.friction, "friction law")
+
 
 @dataclass(frozen=True)
 class AttachedBody:
@@ -291,6 +300,9 @@ class AttachedBody:
     diameter: float
     length: float = 0.0
     count: int = 1
+
+    def __post_init__(self):
+        lookup({k: None for k in BODY_SHAPES}, self.shape, "body shape")
 
     @property
     def frontal_area(self) -> float:

@@ -35,7 +35,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from cruiseplan.errors import CruiseplanError
+from cruiseplan.errors import CruiseplanError, lookup
 
 
 @dataclass(frozen=True)
@@ -54,6 +54,9 @@ class Store:
         The aircraft gets lighter as the store is used.
     default_units : str
         Display unit system its crews use: ``"aviation"`` or ``"si"``.
+    power_kind : str
+        Display kind of shaft power: ``"power"`` (hp or kW, engines) or
+        ``"electric_power"`` (W, motors).
     """
 
     name: str
@@ -61,12 +64,13 @@ class Store:
     unit_text: str
     burns_mass: bool
     default_units: str
+    power_kind: str
 
 
 #: Fuel, counted by mass [kg].
-FUEL = Store("fuel", "kg", "kg of fuel", True, "aviation")
+FUEL = Store("fuel", "kg", "kg of fuel", True, "aviation", "power")
 #: Usable battery energy [J].
-ENERGY = Store("energy", "J", "J of usable energy", False, "si")
+ENERGY = Store("energy", "J", "J of usable energy", False, "si", "electric_power")
 
 # --- Power-lapse laws --------------------------------------------------------------
 
@@ -242,6 +246,11 @@ class PistonPropeller:
     power_lapse: str = "gagg-ferrar"
     kind: str = field(default="piston-propeller", init=False)
     store: Store = field(default=FUEL, init=False)
+
+    def __post_init__(self):
+        # Unknown names fail here, listing the valid ones, not later as a KeyError.
+        lookup(POWER_LAPSE_LAWS, self.power_lapse, "power-lapse law")
+        lookup(FUELS, self.fuel, "fuel")
 
     @property
     def store_name(self) -> str:

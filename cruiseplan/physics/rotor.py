@@ -122,7 +122,7 @@ def glauert_induced_velocity(v_hover, v_parallel, v_normal, iterations=30):
     v_parallel, v_normal : array_like
         Free-stream components along and through the disk [m/s].
     iterations : int
-        Newton steps (the function is monotone; a few suffice).
+        Newton steps [-] (the function is monotone; a few suffice).
 
     Returns
     -------

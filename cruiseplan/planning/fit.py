@@ -60,7 +60,7 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from cruiseplan.constants import G0, RHO0
-from cruiseplan.errors import CruiseplanError
+from cruiseplan.errors import CruiseplanError, lookup
 
 #: Largest |externally studentised residual| of a point kept in the fit (common practice,
 #: no source).
@@ -102,12 +102,35 @@ class PowerSource:
     chain: object
 
     def describe(self, propulsion) -> str:
-        """The whole chain to thrust power, in words with the airframe's values."""
+        """The whole chain to thrust power, in words with the airframe's values.
+
+        Parameters
+        ----------
+        propulsion : PistonPropeller or ElectricPropeller
+            The airframe's propulsion, whose efficiencies [-] and BSFC are quoted.
+
+        Returns
+        -------
+        str
+            E.g. ``"battery power x motor efficiency 0.85 x ... x propeller efficiency
+            0.7"``.
+        """
         return f"{self.label}{self.chain(propulsion)} x {efficiency_text(propulsion)}"
 
 
 def efficiency_text(propulsion) -> str:
-    """The propeller efficiency of a propulsion, in words."""
+    """The propeller efficiency of a propulsion, in words.
+
+    Parameters
+    ----------
+    propulsion : PistonPropeller or ElectricPropeller
+        A propulsion with a ``propeller`` efficiency (constant or tabulated) [-].
+
+    Returns
+    -------
+    str
+        The constant efficiency, or the range of the tabulated one.
+    """
     eta = propulsion.propeller
     if eta.is_constant:
         return f"propeller efficiency {eta.efficiency[0]:g}"
@@ -161,7 +184,7 @@ def thrust_power(propulsion, source: str, values, tas):
     CruiseplanError
         When the source does not apply to the propulsion (fuel flow of an electric one).
     """
-    entry = POWER_SOURCES[source]
+    entry = lookup(POWER_SOURCES, source, "power source")
     if propulsion.kind not in entry.kinds:
         fits = [k for k, e in POWER_SOURCES.items() if propulsion.kind in e.kinds]
         raise CruiseplanError(f"the log gives {entry.label} but the airframe is "
@@ -264,16 +287,16 @@ def sensitivity_rank(jacobian, values, rtol: float = 1e-8) -> int:
     Parameters
     ----------
     jacobian : array_like
-        Derivatives of the residuals, shape (n, p).
+        Derivatives of the residuals, shape (n, p) [residual unit per parameter unit].
     values : array_like
-        Parameter values, shape (p,).
+        Parameter values, shape (p,) [each parameter's unit].
     rtol : float, optional
-        Singular values below ``rtol`` times the largest count as zero.
+        Singular values below ``rtol`` times the largest count as zero [-].
 
     Returns
     -------
     int
-        The rank.
+        The rank [-].
     """
     s = np.linalg.svd(np.asarray(jacobian) * np.asarray(values), compute_uv=False)
     return int(np.count_nonzero(s > rtol * s[0]))
@@ -381,7 +404,23 @@ class FitResult:
         return int(np.count_nonzero(self.used))
 
     def curve(self, viw):
-        """Fitted PIW [W] at VIW [m/s] (as the log's power, at the airframe's efficiency)."""
+        """Fitted PIW [W] at VIW [m/s] (as the log's power, at the airframe's efficiency).
+
+        Parameters
+        ----------
+        viw : array_like
+            Velocity independent of weight [m/s].
+
+        Returns
+        -------
+        numpy.ndarray
+            PIW on the fitted curve, A VIW^3 + B / VIW over the efficiency scale [W].
+
+        References
+        ----------
+        .. [1] Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, ch. 9 (PIW-VIW
+           reduction of level-flight performance).
+        """
         a, b = piw_coefficients(self.cd0, self.k, self.wing_area, self.reference_mass)
         viw = np.asarray(viw, dtype=float)
         return (a * viw**3 + b / viw) / self.efficiency_scale
@@ -474,15 +513,15 @@ def fit_polar(thrust_power, tas, density, mass, *, wing_area, aspect_ratio, refe
     reference_mass : float
         Mass the points are reduced to [kg].
     lines : array_like of int, optional
-        Labels of the points (the log's line numbers); 1, 2, ... by default.
+        Labels of the points (the log's line numbers) [-]; 1, 2, ... by default.
     fit_efficiency : bool, optional
         Also fit a scale on the propeller efficiency, when the data can tell it apart
         (it can only with ``known_cd0`` or ``known_oswald_e``).
     known_cd0, known_oswald_e : float, optional
-        A polar coefficient known independently (e.g. from glide tests), held fixed.
+        A polar coefficient known independently (e.g. from glide tests), held fixed [-].
     outlier_limit : float, optional
         Points whose |externally studentised residual| exceeds this are dropped and the
-        fit redone (3 by default, common practice).
+        fit redone [-] (3 by default, common practice).
     efficiency_label : str, optional
         How to name the efficiency held, in the note.
 
@@ -640,14 +679,20 @@ def fit_flight_log(airframe, log, *, reference_mass=None, fit_efficiency=False,
     fit_efficiency : bool, optional
         Also fit a scale on the propeller efficiency (only with a known CD0 or e).
     known_cd0, known_oswald_e : float, optional
-        A polar coefficient known independently, held fixed.
+        A polar coefficient known independently, held fixed [-].
     outlier_limit : float, optional
-        |Externally studentised residual| above which a point is dropped.
+        |Externally studentised residual| above which a point is dropped [-].
 
     Returns
     -------
     FitResult
         The fit.
+
+    Raises
+    ------
+    CruiseplanError
+        If the airframe is not fixed-wing, the log's power source does not fit its
+        propulsion, or the data cannot be fitted (see :func:`fit_polar`).
 
     References
     ----------

@@ -42,7 +42,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from cruiseplan.amounts import format_amount
-from cruiseplan.constants import G0
+from cruiseplan.constants import FT_PER_MIN, G0
 from cruiseplan.model.mission import Mission
 from cruiseplan.physics.airspeed import (
     eas_from_tas,
@@ -173,7 +173,7 @@ class Flight:
         self.prop = self.af.propulsion
         self.dev = mission.isa_dev
         self.margin = mission.stall_margin
-        self.burns_mass = self.prop.store_name == "fuel"
+        self.burns_mass = self.prop.store.burns_mass
         self.wind_error = wind_error
         self.sample_shape = sample_shape
         load = mission.airframe.loading(mass=mission.mass, store=mission.store,
@@ -183,19 +183,74 @@ class Flight:
         self.zero_fuel_mass = load.mass - load.store if self.burns_mass else load.mass
 
     def air(self, h):
-        """Air at pressure altitudes ``h`` [m] on the day."""
+        """Air at pressure altitudes ``h`` [m] on the day.
+
+        Parameters
+        ----------
+        h : array_like
+            Pressure altitude [m].
+
+        Returns
+        -------
+        AirState
+            Air at ``h`` with the mission's ISA deviation [K].
+        """
         return air_state(np.asarray(h, dtype=float), self.dev)
 
     def shaft(self, m, air, v):
-        """Shaft power [W] in level flight at mass ``m``, TAS ``v``."""
+        """Shaft power [W] in level flight at mass ``m``, TAS ``v``.
+
+        Parameters
+        ----------
+        m : array_like
+            Mass [kg].
+        air : AirState
+            Air at the points.
+        v : array_like
+            True airspeed [m/s].
+
+        Returns
+        -------
+        numpy.ndarray
+            Shaft power required [W].
+        """
         return shaft_power_required(self.af, m, air, v)
 
     def rate(self, shaft):
-        """Rate the store is used [kg/s or W] at shaft power ``shaft`` [W]."""
+        """Rate the store is used [kg/s or W] at shaft power ``shaft`` [W].
+
+        Parameters
+        ----------
+        shaft : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray
+            Fuel flow [kg/s] or rate of use of usable energy [W].
+        """
         return self.prop.store_rate(shaft)
 
     def wind(self, leg, h):
-        """Headwind and crosswind [m/s] on the leg's course at altitudes ``h``."""
+        """Headwind and crosswind [m/s] on the leg's course at altitudes ``h``.
+
+        With ``wind_error`` set, the speed [m/s] and direction [deg] offsets are added to
+        the leg's winds first (speed floored at zero).
+
+        Parameters
+        ----------
+        leg : Leg
+            The leg; its ``course`` [deg true] and ``wind`` profile are used.
+        h : array_like
+            Pressure altitude [m].
+
+        Returns
+        -------
+        headwind : numpy.ndarray
+            Component against the course [m/s] (negative: tailwind).
+        crosswind : numpy.ndarray
+            Component from the right of the course [m/s].
+        """
         if self.wind_error is None:
             return leg.wind.components(leg.course, h)
         direction, speed = leg.wind.at(h)
@@ -206,6 +261,33 @@ class Flight:
         """Ground speed and heading for TAS ``v`` (horizontal part when climbing).
 
         ``wind`` may carry the (headwind, crosswind) already found at ``h``.
+
+        Parameters
+        ----------
+        v : array_like
+            True airspeed along the path [m/s].
+        leg : Leg
+            The leg; its ``course`` [deg true] and winds are used.
+        h : array_like
+            Pressure altitude [m].
+        gamma_rate : array_like, optional
+            Vertical speed [m/s]; the horizontal TAS is sqrt(v^2 - gamma_rate^2).
+        wind : tuple of array_like, optional
+            Headwind and crosswind at ``h`` [m/s], when already known.
+
+        Returns
+        -------
+        gs : numpy.ndarray
+            Ground speed along the course [m/s]; where the course cannot be held, minus
+            the headwind.
+        heading : numpy.ndarray
+            True heading [deg], in [0, 360).
+        held : numpy.ndarray of bool
+            Where the crosswind is weaker than the horizontal TAS [-].
+
+        See Also
+        --------
+        cruiseplan.physics.airspeed.ground_speed : The wind-triangle formula used.
         """
         head, cross = self.wind(leg, h) if wind is None else wind
         vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
@@ -361,7 +443,24 @@ def _cruise_speed(fl: Flight, leg, h, m, store, air=None):
 
 
 def climb_speed(mission: Mission) -> float:
-    """Climb EAS [m/s]: the profile's, or the best-rate speed at departure, mass at start."""
+    """Climb EAS [m/s]: the profile's, or the best-rate speed at departure, mass at start.
+
+    The best-rate speed is raised to the stall margin times the stall speed where needed.
+
+    Parameters
+    ----------
+    mission : Mission
+        The mission; its profile, day, loading and stall margin are used.
+
+    Returns
+    -------
+    float
+        Equivalent airspeed held in the climb [m/s].
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10 (climb).
+    """
     if mission.profile.climb_speed is not None:
         return mission.profile.climb_speed
 
@@ -381,6 +480,43 @@ def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
 
     ``v_cruise`` fixes the cruise TAS at the leg's start (a plan being re-flown); by
     default it is the leg's set speed or the objective's best at each candidate.
+
+    Parameters
+    ----------
+    fl : Flight
+        The flight model on the day.
+    mission : Mission
+        The mission; its profile is used.
+    leg : Leg
+        The leg flown.
+    h_now : float or array_like
+        Pressure altitude at the leg's start [m].
+    m : float or array_like
+        Mass at the leg's start [kg] (arrays over samples in a Monte Carlo).
+    store : float or array_like
+        Fuel [kg] or usable energy [J] on board at the leg's start, for best speeds.
+    v_climb : float
+        Equivalent airspeed held in climbs [m/s].
+    last : bool
+        The last leg: a final descent to the arrival elevation follows the cruise.
+    candidates : array_like
+        Candidate cruise pressure altitudes [m].
+    v_cruise : float or array_like, optional
+        Cruise TAS at the leg's start [m/s], held instead of a best or set speed.
+
+    Returns
+    -------
+    dict
+        ``H`` the candidates [m]; ``trans``, ``cruise`` and ``final`` the segments'
+        dicts of arrays (time [s], distance [m], used [kg or J], mass_end [kg], ...);
+        ``fits`` where the climb and descent leave a cruise [-]; ``speed_ok`` where a
+        speed was found [-]; ``total`` the store used [kg or J]; ``time`` [s];
+        ``v_cruise`` the cruise TAS at the start [m/s].
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.10 (climb) and 5.13
+       (range: the Breguet equation).
     """
     prof = mission.profile
     H = np.asarray(candidates, dtype=float)
@@ -414,7 +550,20 @@ def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
 
 
 def ground_elevation(mission, leg) -> float:
-    """Highest ground under a leg [m]: given, or the higher of the two fields."""
+    """Highest ground under a leg [m]: given, or the higher of the two fields.
+
+    Parameters
+    ----------
+    mission : Mission
+        The mission; its departure and arrival elevations [m] are the fallback.
+    leg : Leg
+        The leg; its ``elevation`` [m] when given.
+
+    Returns
+    -------
+    float
+        Elevation of the highest ground under the leg [m].
+    """
     if leg.elevation is not None:
         return leg.elevation
     return max(mission.profile.departure_elevation, mission.profile.arrival_elevation)
@@ -530,7 +679,7 @@ def plan_mission(mission: Mission) -> Plan:
             h_end = prof.arrival_elevation if kind == "descent to arrival" else H
             note = ""
             if kind == "climb" and not seg["ok"]:
-                note = f"climb rate below {MIN_CLIMB_RATE * 196.85:.0f} ft/min " \
+                note = f"climb rate below {MIN_CLIMB_RATE / FT_PER_MIN:.0f} ft/min " \
                        f"from {seg['fail_at']:.0f} m"
             segments.append(Segment(leg.name, kind, h_start, h_end, float(seg["tas"]),
                                     float(seg["gs"]), float(seg["heading"]),

@@ -43,7 +43,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from cruiseplan._numerics import brent_minimise, golden_minimise, illinois_root
-from cruiseplan.constants import DEFAULT_STALL_MARGIN, G0, MACH_LIMIT
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import Limit, describe
 from cruiseplan.physics.aerodynamics import ParabolicPolar, min_drag_speed, min_power_speed
@@ -60,7 +60,7 @@ from cruiseplan.units import temperature_difference, to_si
 #: Fraction of the best specific range kept by the economy speed (common practice).
 ECONOMY_FRACTION = 0.99
 #: Climb rate that defines the service ceiling: 100 ft/min [m/s] (common definition).
-SERVICE_CEILING_RATE = 100 * 0.3048 / 60.0
+SERVICE_CEILING_RATE = 100 * FT_PER_MIN
 #: Objectives of the altitude and speed choice.
 OBJECTIVES = ("range", "endurance", "economy")
 #: Relative difference below which two altitudes' objectives count as equal.
@@ -227,7 +227,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     stall_margin : float, optional
         Minimum TAS over stall speed [-].
     xtol : float, optional
-        Relative tolerance of the speed searches.
+        Relative tolerance of the speed searches [-].
 
     Returns
     -------
@@ -407,7 +407,18 @@ class BestCruise:
         return self.schedule.feasible & (self.out_of_band == 0)
 
     def reason(self, i: int) -> str:
-        """Why altitude ``i`` is not flyable, or what binds its speed."""
+        """Why altitude ``i`` is not flyable, or what binds its speed.
+
+        Parameters
+        ----------
+        i : int
+            Index into :attr:`altitudes` [-].
+
+        Returns
+        -------
+        str
+            ``"not flyable: ..."``, ``"ok"`` or ``"speed limited by ..."``.
+        """
         code = int(self.schedule.infeasible[i]) | int(self.out_of_band[i])
         if code:
             return "not flyable: " + describe(code)
@@ -473,12 +484,12 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
     objective : str
         Objective name (key of ``schedule.binding``).
     value : numpy.ndarray
-        Objective per altitude at the constrained speed (larger is better; NaN where not
-        flyable).
+        Objective per altitude at the constrained speed: ground range [m] for range and
+        economy, endurance [s] for endurance (larger is better; NaN where not flyable).
     value_free : numpy.ndarray
-        Objective per altitude at the unconstrained speed, flyable or not.
+        Objective per altitude at the unconstrained speed, flyable or not [as ``value``].
     out_of_band : numpy.ndarray
-        Band constraint bits per altitude.
+        Band constraint bits per altitude [-].
 
     Returns
     -------
@@ -524,7 +535,8 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     objective : {"range", "endurance", "economy"}
         What to maximise.
     mass, fuel, payload : float or pint.Quantity, optional
-        Loading, as in :func:`cruiseplan.cruise_grid`.
+        Loading, as in :func:`cruiseplan.cruise_grid`: mass [kg], fuel [kg] or usable
+        energy [J], payload [kg].
     isa_dev : float or pint.Quantity, optional
         ISA deviation [K].
     wind : WindProfile, optional
@@ -549,6 +561,13 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     -------
     BestCruise
         Speeds, values and constraints per altitude, and the best altitude.
+
+    Raises
+    ------
+    CruiseplanError
+        For an unknown objective, altitudes that are not one-dimensional and increasing
+        or lie outside the atmosphere model, both a wind profile and a headwind, or a
+        wind profile without a course.
 
     References
     ----------
@@ -648,7 +667,8 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
     airframe : Airframe
         The airframe.
     mass, fuel, payload : float or pint.Quantity, optional
-        Loading, as in :func:`cruiseplan.cruise_grid`.
+        Loading, as in :func:`cruiseplan.cruise_grid`: mass [kg], fuel [kg] or usable
+        energy [J], payload [kg].
     isa_dev : float or pint.Quantity, optional
         ISA deviation [K].
     service_rate : float, optional

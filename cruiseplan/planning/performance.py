@@ -199,7 +199,8 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     stall_margin : float, optional
         Minimum ratio of TAS to stall speed [-]; CL may reach CLmax / margin^2.
     valid_air : array_like of bool, optional
-        False where the altitude lay outside the atmosphere model (values become NaN).
+        False where the altitude lay outside the atmosphere model (values become NaN)
+        [-].
 
     Returns
     -------
@@ -513,13 +514,29 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
         Pressure altitudes [m], one-dimensional.
     power_settings : array_like
         Fractions of rated power [-] (0.75 for 75 %), one-dimensional.
-    mass, fuel, payload, isa_dev, headwind, stall_margin
-        As in :func:`cruise_grid`.
+    mass : float or pint.Quantity, optional
+        Aircraft mass [kg]; from the loading when not given.
+    fuel : float or pint.Quantity, optional
+        Fuel on board [kg] or usable energy [J]; full when neither is given.
+    payload : float or pint.Quantity, optional
+        Crew and payload [kg].
+    isa_dev : float or pint.Quantity, optional
+        ISA temperature deviation [K].
+    headwind : float or array_like or pint.Quantity, optional
+        Headwind component [m/s], scalar or one per altitude (negative: tailwind).
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-] (1.3 by default, common practice).
 
     Returns
     -------
     CruisePoints
         Arrays of shape (len(altitudes), len(power_settings)).
+
+    Raises
+    ------
+    CruiseplanError
+        For power settings outside (0, 1] or not one-dimensional, or altitudes outside
+        the atmosphere model.
 
     References
     ----------

@@ -42,6 +42,20 @@ def unit_samples(n: int, dims: int, seed: int):
     Each margin is stratified, so quantiles settle with far fewer samples than plain
     random draws.
 
+    Parameters
+    ----------
+    n : int
+        Number of samples [-].
+    dims : int
+        Number of toleranced parameters [-]; 0 gives an (n, 0) array.
+    seed : int
+        Seed of the random generator [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Points in [0, 1), shape (n, dims) [-].
+
     References
     ----------
     .. [1] M. D. McKay, R. J. Beckman and W. J. Conover, "A Comparison of Three Methods for
@@ -59,6 +73,18 @@ def draw_factors(tolerances: dict, u) -> dict:
     """Factors for each toleranced parameter from unit samples ``u`` (n, >= len).
 
     Parameters take the columns in the sorted order of their names (reproducible).
+
+    Parameters
+    ----------
+    tolerances : dict
+        Parameter name to its :class:`~cruiseplan.model.tolerance.Tolerance`.
+    u : numpy.ndarray
+        Unit samples in [0, 1), shape (n, >= len(tolerances)) [-].
+
+    Returns
+    -------
+    dict
+        Parameter name to an array of n multiplying factors [-].
     """
     return {key: tolerances[key].factors(u[:, j]) for j, key in enumerate(sorted(tolerances))}
 
@@ -83,7 +109,22 @@ def sample_airframe(airframe, factors: dict):
 
 
 def quantiles(values) -> tuple:
-    """P10, P50 and P90 of samples."""
+    """P10, P50 and P90 of samples.
+
+    Parameters
+    ----------
+    values : array_like
+        Samples, in any unit [unit of the samples].
+
+    Returns
+    -------
+    tuple of float
+        The quantiles :data:`QUANTILES`, in the samples' unit.
+
+    References
+    ----------
+    .. [1] JCGM 101:2008 (coverage intervals from sample quantiles).
+    """
     return tuple(float(q) for q in np.quantile(np.asarray(values, dtype=float), QUANTILES))
 
 
@@ -141,14 +182,19 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     plan : Plan
         A plan from :func:`cruiseplan.mission.plan_mission`.
     n : int
-        Number of samples.
+        Number of samples [-].
     seed : int
-        Seed of numpy's default generator.
+        Seed of numpy's default generator [-].
 
     Returns
     -------
     PlanUncertainty
         Per-sample fuel or energy at landing, used, time and reserve.
+
+    Raises
+    ------
+    CruiseplanError
+        If ``n`` is below 1.
 
     References
     ----------
@@ -232,9 +278,9 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     tas, ground_speed : float
         TAS and ground speed [m/s].
     n : int
-        Samples.
+        Samples [-].
     seed : int
-        Seed of numpy's default generator.
+        Seed of numpy's default generator [-].
     reserve : float
         Fuel or energy kept back [kg or J]; range and endurance use the rest.
 

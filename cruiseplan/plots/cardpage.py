@@ -203,12 +203,25 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
     ----------
     airframe : Airframe
         The airframe.
-    altitudes, power_settings, mass, fuel, payload, isa_dev, reserve, units, stall_margin
-        As in :func:`cruiseplan.report.card.card_content`.
+    altitudes : array_like or pint.Quantity, optional
+        Pressure altitudes [m], increasing; defaults by propulsion kind as in
+        :func:`cruiseplan.report.card.card_content`.
+    power_settings : array_like, optional
+        Fractions of rated power [-]; defaults by propulsion kind.
+    mass, fuel, payload : float or pint.Quantity, optional
+        Loading, as in :func:`cruiseplan.cruise_grid` [kg, kg or J, kg].
+    isa_dev : float or pint.Quantity, optional
+        ISA deviation [K].
+    reserve : Reserve or str, optional
+        Reserve to keep; the default reserve of the propulsion kind when not given.
+    units : {"aviation", "si"}, optional
+        Display units; aviation for piston airframes, SI for electric ones by default.
+    stall_margin : float, optional
+        Minimum TAS over stall speed [-] (1.3, common practice).
     monte_carlo : int, optional
-        Samples of the airframe's tolerances: adds the spread of range and endurance.
+        Samples of the airframe's tolerances [-]: adds the spread of range and endurance.
     seed : int
-        Seed of the Monte Carlo.
+        Seed of the Monte Carlo [-].
 
     Returns
     -------
@@ -217,6 +230,12 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
     figure : matplotlib.figure.Figure
         The same card on one portrait page (A5, or A4 when A5 is too small); save it with
         :func:`cruiseplan.plots.figure_bytes`.
+
+    Raises
+    ------
+    CruiseplanError
+        As :func:`cruiseplan.report.card.card_content`, or when the card's tables do not
+        fit one A4 page at a legible size.
 
     References
     ----------

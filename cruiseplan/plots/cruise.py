@@ -181,6 +181,12 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = 
         Altitude [ft or m] up, TAS [kt or km/h] across, specific range [nm/US gal, km/L,
         nm/kWh or km/kWh] in colour.
 
+    Raises
+    ------
+    CruiseplanError
+        If the grid is not at least 2 altitudes x 2 speeds, or its altitudes or speeds do
+        not increase.
+
     References
     ----------
     .. [3] Anderson, *Aircraft Performance and Design*, sec. 5.7 (specific range).
@@ -275,7 +281,8 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     tas : array_like or pint.Quantity, optional
         True airspeeds [m/s]; by default :func:`speed_span`.
     mass, fuel, payload : float or pint.Quantity, optional
-        Loading, as in :func:`cruiseplan.cruise_grid`.
+        Loading, as in :func:`cruiseplan.cruise_grid`: mass [kg], fuel [kg] or usable
+        energy [J], payload [kg].
     isa_dev : float or pint.Quantity, optional
         ISA deviation [K].
     units : {"aviation", "si"}, optional
@@ -287,6 +294,12 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     -------
     matplotlib.figure.Figure
         Shaft power [hp, kW or W] against TAS [kt or km/h].
+
+    Raises
+    ------
+    CruiseplanError
+        For no altitude or more than the 7 styled series, or altitudes outside the
+        atmosphere model.
 
     References
     ----------

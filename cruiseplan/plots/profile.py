@@ -7,6 +7,7 @@ import textwrap
 import numpy as np
 from matplotlib.figure import Figure
 
+from cruiseplan.amounts import amount_unit
 from cruiseplan.planning.mission import ground_elevation
 from cruiseplan.plots.style import (
     MIN_FONT,
@@ -38,16 +39,11 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     mission = plan.mission
     af = mission.airframe
     prop = af.propulsion
-    units = units or ("aviation" if prop.store_name == "fuel" else "si")
+    units = units or prop.store.default_units
     fa, la = display("altitude", units)
     fd, ld = display("distance", units)
-    if prop.store_name == "fuel":
-        fq, lq = display("volume", units)
-        fq /= prop.fuel_density
-        what = "fuel remaining"
-    else:
-        fq, lq = display("energy", units)
-        what = "usable energy remaining"
+    fq, lq, _ = amount_unit(prop, units)
+    what = "fuel remaining" if prop.store.burns_mass else "usable energy remaining"
     # Points at every segment boundary: altitude and remaining vary linearly within one.
     x, h, q = [0.0], [plan.segments[0].altitude_start], [plan.initial]
     for seg in plan.segments:

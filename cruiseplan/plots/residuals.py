@@ -71,7 +71,7 @@ def fit_residuals(fit_result, airframe, *, units: str | None = None,
     .. [1] R. D. Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, AIAA, 2003, ch. 9.
     """
     fit = fit_result
-    units = units or ("aviation" if airframe.propulsion.store_name == "fuel" else "si")
+    units = units or airframe.propulsion.store.default_units
     fs, ls = display("speed", units)
     fp, lp = power_display(airframe, units)
     fm, lm = display("mass", units)

@@ -101,7 +101,15 @@ def figure_bytes(fig: Figure, fmt: str, *, dpi: float = 150.0) -> bytes:
 # --- shared pieces ------------------------------------------------------------------------
 
 def footer(fig: Figure, context: str) -> None:
-    """Caution line, and the context above it, at the bottom of a plot."""
+    """Caution line, and the context above it, at the bottom of a plot.
+
+    Parameters
+    ----------
+    fig : matplotlib.figure.Figure
+        The figure drawn on.
+    context : str
+        What the figure holds for (see :func:`figure_context`), wrapped to the width.
+    """
     fig.text(0.012, 0.012, CAUTION_LINE, fontsize=MIN_FONT + 0.5, ha="left", va="bottom",
              style="italic")
     width = fig.get_size_inches()[0]
@@ -145,7 +153,24 @@ def figure_context(airframe, mass: float, store: float, isa_dev: float, units: s
 
 
 def sr_display(airframe, units: str):
-    """Factor from SI specific range (m/kg or m/J) to display units, and the label."""
+    """Factor from SI specific range (m/kg or m/J) to display units, and the label.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe; its propulsion picks fuel (per volume) or energy.
+    units : {"aviation", "si"}
+        Display unit system.
+
+    Returns
+    -------
+    factor : float
+        Multiplies a specific range in m/kg (fuel) or m/J (energy) [display unit per SI
+        unit]; for fuel it includes the fuel density [kg/m^3], so the display is per
+        volume.
+    label : str
+        The display unit.
+    """
     prop = airframe.propulsion
     if prop.store.burns_mass:
         f, label = display("sr_fuel", units)
@@ -157,18 +182,55 @@ def power_display(airframe, units: str):
     """Factor from W to the display unit of shaft power, and its label.
 
     Engines read in hp or kW, electric motors in W.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe; its propulsion's store picks the kind of power.
+    units : {"aviation", "si"}
+        Display unit system.
+
+    Returns
+    -------
+    factor : float
+        Multiplies a power in W [display unit per W].
+    label : str
+        The display unit.
     """
-    kind = "power" if airframe.propulsion.store.burns_mass else "electric_power"
-    return display(kind, units)
+    return display(airframe.propulsion.store.power_kind, units)
 
 
 def marker_every(n: int, marks: int = 8):
-    """Marker spacing that puts about ``marks`` markers on a line of ``n`` points."""
+    """Marker spacing that puts about ``marks`` markers on a line of ``n`` points.
+
+    Parameters
+    ----------
+    n : int
+        Number of points on the line [-].
+    marks : int, optional
+        Markers wanted [-].
+
+    Returns
+    -------
+    int
+        Every how many points a marker goes [-], at least 1.
+    """
     return max(1, int(round(n / marks)))
 
 
 def isa_dev_of(air) -> float:
-    """The ISA deviation [K] of an air state (the same at every altitude)."""
+    """The ISA deviation [K] of an air state (the same at every altitude).
+
+    Parameters
+    ----------
+    air : AirState
+        Air state; its first ``isa_dev`` value is taken.
+
+    Returns
+    -------
+    float
+        Temperature deviation from ISA [K].
+    """
     return float(np.ravel(air.isa_dev)[0])
 
 
@@ -187,7 +249,7 @@ def speed_span(airframe, altitudes, *, mass=None, fuel=None, payload=None, isa_d
     isa_dev : float or pint.Quantity, optional
         ISA deviation [K].
     n : int, optional
-        Number of speeds.
+        Number of speeds [-].
 
     Returns
     -------

@@ -37,7 +37,7 @@ import numpy as np
 
 from cruiseplan.amounts import format_amount
 from cruiseplan.cautions import CAUTION_LINE, CAUTIONS
-from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT, T_ZERO_C
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.io.text import parse_reserve
 from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, describe, explain
@@ -55,7 +55,7 @@ from cruiseplan.version import __version__
 #: Default power settings [fraction of rated power] by store.
 DEFAULT_POWER = {"fuel": (0.55, 0.65, 0.75), "energy": (0.20, 0.30, 0.40)}
 #: Default card altitudes [m] by store: 0-8000 ft by 2000 ft; 0-400 m by 100 m.
-DEFAULT_ALTITUDES = {"fuel": tuple(np.arange(0.0, 8001.0, 2000.0) * 0.3048),
+DEFAULT_ALTITUDES = {"fuel": tuple(np.arange(0.0, 8001.0, 2000.0) * FT),
                      "energy": (0.0, 100.0, 200.0, 300.0, 400.0)}
 
 
@@ -162,10 +162,10 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     stall_margin : float, optional
         Minimum TAS over stall speed [-] (1.3, common practice).
     monte_carlo : int, optional
-        Samples of the airframe's tolerances: adds the spread of range and endurance to
-        the reserve at the best-range altitude and speed.
+        Samples of the airframe's tolerances [-]: adds the spread of range and endurance
+        to the reserve at the best-range altitude and speed.
     seed : int
-        Seed of the Monte Carlo.
+        Seed of the Monte Carlo [-].
 
     Returns
     -------
@@ -184,7 +184,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     """
     prop = airframe.propulsion
     store_name = prop.store_name
-    fuel_kind = store_name == "fuel"
+    fuel_kind = prop.store.burns_mass
     units = units or ("aviation" if fuel_kind else "si")
     h = np.atleast_1d(to_si(DEFAULT_ALTITUDES[store_name] if altitudes is None
                             else altitudes, "m", what="altitudes"))

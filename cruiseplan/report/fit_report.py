@@ -43,8 +43,7 @@ def fit_report(fit, log: FlightLog, airframe, *, units: str = "aviation"):
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
     fm, lm = display("mass", units)
-    fp, lp = display("power" if airframe.propulsion.store_name == "fuel"
-                     else "electric_power", units)
+    fp, lp = display(airframe.propulsion.store.power_kind, units)
     pol = airframe.polar
     file_e = 1.0 / (math.pi * airframe.aspect_ratio * pol.k) if hasattr(pol, "k") else None
     file_cd0 = getattr(pol, "cd0", None)

@@ -18,7 +18,7 @@ from pathlib import Path
 
 import numpy as np
 
-from cruiseplan.errors import CruiseplanError
+from cruiseplan.errors import CruiseplanError, lookup
 
 
 @dataclass
@@ -36,7 +36,19 @@ class Column:
         return f"{self.name} [{self.unit}]" if self.unit else self.name
 
     def cell(self, i: int) -> str:
-        """Formatted cell ``i``; '-' for a missing value."""
+        """Formatted cell ``i``; '-' for a missing value.
+
+        Parameters
+        ----------
+        i : int
+            Row index [-].
+
+        Returns
+        -------
+        str
+            The value formatted with ``fmt`` (in the column's ``unit``), a string value
+            as given, or ``"-"`` for None or a non-finite float.
+        """
         v = self.values[i]
         if v is None or (isinstance(v, float) and not math.isfinite(v)):
             return "-"
@@ -64,12 +76,39 @@ class Report:
         return len(self.columns[0].values) if self.columns else 0
 
     def render(self, fmt: str) -> str:
-        """Render as ``text``, ``markdown``, ``csv`` or ``json``."""
-        return RENDERERS[fmt](self)
+        """Render as ``text``, ``markdown``, ``csv`` or ``json``.
+
+        Parameters
+        ----------
+        fmt : str
+            Output format, a key of :data:`RENDERERS`.
+
+        Returns
+        -------
+        str
+            The rendered table.
+
+        Raises
+        ------
+        CruiseplanError
+            For an unknown output format.
+        """
+        return lookup(RENDERERS, fmt, "output format")(self)
 
 
 def hours_minutes(seconds) -> str:
-    """Format a duration in seconds as h:mm."""
+    """Format a duration in seconds as h:mm.
+
+    Parameters
+    ----------
+    seconds : float or None
+        Duration [s], rounded to the minute.
+
+    Returns
+    -------
+    str
+        ``"h:mm"``, or ``"-"`` for None or a non-finite value.
+    """
     if seconds is None or not math.isfinite(seconds):
         return "-"
     minutes = int(round(seconds / 60.0))
@@ -164,6 +203,11 @@ def write_atomic(path, text: str) -> None:
         Destination.
     text : str
         Content.
+
+    Raises
+    ------
+    CruiseplanError
+        If the destination folder does not exist.
     """
     write_bytes_atomic(path, text.encode("utf-8"))
 
@@ -177,6 +221,11 @@ def write_bytes_atomic(path, data: bytes) -> None:
         Destination.
     data : bytes
         Content.
+
+    Raises
+    ------
+    CruiseplanError
+        If the destination folder does not exist.
     """
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")

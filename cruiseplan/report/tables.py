@@ -10,6 +10,7 @@ from datetime import date
 
 import numpy as np
 
+from cruiseplan.amounts import amount_unit, format_amount
 from cruiseplan.cautions import CAUTIONS
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.io.bundled import shown_path
@@ -21,27 +22,99 @@ from cruiseplan.units import display
 
 
 def airframe_lines(airframe) -> list:
-    """Header lines naming the airframe and its file with a checksum."""
+    """Header lines naming the airframe and its file with a checksum.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe; its name, description, source file and checksum are shown.
+
+    Returns
+    -------
+    list of str
+        Two lines: name and description, then file and the first 16 hex digits of its
+        SHA-256.
+    """
     return [f"Airframe: {airframe.name} - {airframe.description}",
             f"File: {shown_path(airframe.source)} (sha256 {airframe.checksum[:16]})"]
 
 
 def store_text(airframe, store: float, units: str) -> str:
-    """Fuel or energy on board, in display units."""
+    """Fuel or energy on board, in display units.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe; its propulsion sets the kind of store and its capacity.
+    store : float
+        Fuel on board [kg] or usable energy [J].
+    units : {"aviation", "si"}
+        Display unit system.
+
+    Returns
+    -------
+    str
+        E.g. ``"fuel on board ... avgas)"`` or ``"usable energy on board ... (80 % of
+        usable)"``.
+    """
     prop = airframe.propulsion
-    if prop.store_name == "fuel":
-        fv, lv = display("volume", units)
-        fm, lm = display("mass", units)
-        return f"fuel on board {store / prop.fuel_density * fv:.1f} {lv} " \
-               f"({store * fm:.1f} {lm} {prop.fuel})"
-    fe, le = display("energy", units)
-    share = store / prop.battery_energy * 100.0
-    return f"usable energy on board {store * fe:.0f} {le} ({share:.0f} % of usable)"
+    amount = format_amount(store, prop, units)
+    if prop.store.burns_mass:
+        return f"fuel on board {amount[:-1]} {prop.fuel})"
+    share = store / prop.store_capacity * 100.0
+    return f"usable energy on board {amount} ({share:.0f} % of usable)"
+
+
+def store_columns(prop, pts: CruisePoints, units: str, flat, *, ground: bool = False) -> list:
+    """The flow and specific-range columns of a store: fuel flow or battery power.
+
+    Parameters
+    ----------
+    prop : object
+        The propulsion kind.
+    pts : CruisePoints
+        The points.
+    units : {"aviation", "si"}
+        Display units.
+    flat : callable
+        Lays an array out as the table's rows.
+    ground : bool
+        Specific range over the ground (with the wind) instead of through the air.
+
+    Returns
+    -------
+    list of Column
+        Flow, then specific range (distance per volume of fuel or per kWh).
+    """
+    sr = pts.specific_range_ground if ground else pts.specific_range_air
+    name = "gnd SR" if ground else "SR"
+    if prop.store.burns_mass:
+        fv, lv = display("volume_flow", units)
+        fsr, lsr = display("sr_fuel", units)
+        return [Column("fuel flow", lv, flat(pts.fuel_volume_flow * fv), "{:.1f}"),
+                Column(name, lsr, flat(sr * prop.fuel_density * fsr), "{:.2f}")]
+    fw, lw = display("electric_power", units)
+    fsr, lsr = display("sr_energy", units)
+    return [Column("battery", lw, flat(pts.source_power * fw), "{:.0f}"),
+            Column(name, lsr, flat(sr * fsr), "{:.1f}")]
 
 
 def endurance_column(prop, seconds) -> Column:
-    """Endurance in h:mm for fuel, in minutes for batteries (drone crews count minutes)."""
-    if prop.store_name == "fuel":
+    """Endurance in h:mm for fuel, in minutes for batteries (drone crews count minutes).
+
+    Parameters
+    ----------
+    prop : object
+        The propulsion kind; whether its store burns mass picks the format.
+    seconds : sequence of float or None
+        Endurance per row [s]; None for a missing value.
+
+    Returns
+    -------
+    Column
+        ``"endurance"`` in ``h:mm`` or ``min``.
+    """
+    if prop.store.burns_mass:
         return Column("endurance", "h:mm",
                       [hours_minutes(t) if t is not None else "-" for t in seconds], "{}")
     return Column("endurance", "min", [None if t is None else t / 60.0 for t in seconds],
@@ -66,7 +139,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
     title : str
         Report title.
     stall_margin : float
-        Stall margin used, for the notes.
+        Stall margin used, minimum TAS over stall speed [-], for the notes.
     show_ground : bool
         Add ground speed and ground range columns.
 
@@ -85,7 +158,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
     fd, ld = display("distance", units)
     prop = airframe.propulsion
     # Drones' shaft power reads better in watts than in kW or hp.
-    fp, lp = display("power" if prop.store_name == "fuel" else "electric_power", units)
+    fp, lp = display(prop.store.power_kind, units)
     cols = [
         Column("PA", la, flat(pts.air.pressure_altitude * fa), "{:.0f}"),
         Column("OAT", "degC", flat(pts.air.temperature - T_ZERO_C), "{:.0f}"),
@@ -100,19 +173,9 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
         Column("max", "% rated", flat(pts.power_available / pts.rated_power * 100.0),
                "{:.0f}"),
         Column("shaft", lp, flat(pts.shaft_power * fp),
-               "{:.1f}" if prop.store_name == "fuel" else "{:.0f}"),
+               "{:.1f}" if prop.store.burns_mass else "{:.0f}"),
     ]
-    if prop.store_name == "fuel":
-        fv, lv = display("volume_flow", units)
-        fsr, lsr = display("sr_fuel", units)
-        cols += [Column("fuel flow", lv, flat(pts.fuel_volume_flow * fv), "{:.1f}"),
-                 Column("SR", lsr, flat(pts.specific_range_air * prop.fuel_density * fsr),
-                        "{:.2f}")]
-    else:
-        fw, lw = display("electric_power", units)
-        fsr, lsr = display("sr_energy", units)
-        cols += [Column("battery", lw, flat(pts.source_power * fw), "{:.0f}"),
-                 Column("SR", lsr, flat(pts.specific_range_air * fsr), "{:.1f}")]
+    cols += store_columns(prop, pts, units, flat)
     cols += [
         endurance_column(prop, flat(pts.endurance)),
         Column("range", ld, flat(pts.range_air * fd), "{:.0f}"),
@@ -223,6 +286,9 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
         Display unit system.
     wind_text : str
         How the wind was given, for the header.
+    uncertainty : CruiseUncertainty, optional
+        Monte Carlo range [m] and endurance [s] at the best altitude and speed; adds
+        their spread to the header and the summary.
 
     Returns
     -------
@@ -252,17 +318,7 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
         Column("GS", ls, flat(pts.ground_speed * fs), "{:.1f}"),
         Column("power", "% rated", flat(pts.power_fraction * 100.0), "{:.0f}"),
     ]
-    if prop.store_name == "fuel":
-        fv, lv = display("volume_flow", units)
-        fsr, lsr = display("sr_fuel", units)
-        cols += [Column("fuel flow", lv, flat(pts.fuel_volume_flow * fv), "{:.1f}"),
-                 Column("gnd SR", lsr,
-                        flat(pts.specific_range_ground * prop.fuel_density * fsr), "{:.2f}")]
-    else:
-        fw, lw = display("electric_power", units)
-        fsr, lsr = display("sr_energy", units)
-        cols += [Column("battery", lw, flat(pts.source_power * fw), "{:.0f}"),
-                 Column("gnd SR", lsr, flat(pts.specific_range_ground * fsr), "{:.1f}")]
+    cols += store_columns(prop, pts, units, flat, ground=True)
     feasible = best.feasible
     cols += [
         endurance_column(prop, [t if ok else None for t, ok in
@@ -300,7 +356,7 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
         meta.insert(4, "At the best altitude and speed: "
                     + _spread_text("ground range", u.range_ground, fd, ld) + "; "
                     + (_spread_text("endurance", u.endurance, 1 / 3600.0, "h", "{:.1f}")
-                       if airframe.propulsion.store_name == "fuel"
+                       if airframe.propulsion.store.burns_mass
                        else _spread_text("endurance", u.endurance, 1 / 60.0, "min")))
         summary.update(_spread_summary(u))
     return Report(f"Best cruise ({obj})", meta, cols, notes, CAUTIONS, summary)
@@ -315,6 +371,9 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
         The planned mission.
     units : {"aviation", "si"}, optional
         Display units; aviation for piston airframes, SI for electric ones by default.
+    uncertainty : PlanUncertainty, optional
+        Monte Carlo re-flight of the plan: store at landing [kg or J], reserve required,
+        flight time [s]; adds their spread and the reserve probability to the header.
 
     Returns
     -------
@@ -325,17 +384,11 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
     mission = plan.mission
     af = mission.airframe
     prop = af.propulsion
-    units = units or ("aviation" if prop.store_name == "fuel" else "si")
+    units = units or prop.store.default_units
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
     fd, ld = display("distance", units)
-    if prop.store_name == "fuel":
-        fq, lq = display("volume", units)
-        fq = fq / prop.fuel_density
-        qfmt = "{:.1f}"
-    else:
-        fq, lq = display("energy", units)
-        qfmt = "{:.0f}"
+    fq, lq, qfmt = amount_unit(prop, units)
     segs = plan.segments
     margin = [s.remaining - plan.reserve_required for s in segs]
     cols = [
@@ -350,7 +403,7 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
                "{:.0f}"),
         # Drones' segments last minutes: h:mm would print most of them as 0:00.
         Column("time", "h:mm", [hours_minutes(s.time) for s in segs], "{}")
-        if prop.store_name == "fuel" else
+        if prop.store.burns_mass else
         Column("time", "min", [s.time / 60.0 for s in segs], "{:.1f}"),
         Column("dist", ld, [s.distance * fd for s in segs], "{:.1f}"),
         Column("used", lq, [s.used * fq for s in segs], qfmt),
@@ -380,9 +433,9 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
              "indicated; descents at the set rate and the cruise indicated speed"]
     summary = {"verdict": plan.verdict, "reasons": "; ".join(plan.reasons),
                "time_s": plan.time, "distance_m": plan.distance,
-               f"used_{'kg' if prop.store_name == 'fuel' else 'J'}": plan.used,
-               f"remaining_{'kg' if prop.store_name == 'fuel' else 'J'}": plan.remaining,
-               f"reserve_required_{'kg' if prop.store_name == 'fuel' else 'J'}":
+               f"used_{prop.store.unit}": plan.used,
+               f"remaining_{prop.store.unit}": plan.remaining,
+               f"reserve_required_{prop.store.unit}":
                    plan.reserve_required}
     if uncertainty is not None:
         u = uncertainty
