@@ -175,6 +175,8 @@ def parse_quantity(text, si_unit: str, *, default_unit: str | None = None,
         raise UnitError(f"{what}: cannot read {text!r} as a number with a unit "
                         f"(expected e.g. '12 {si_unit or 'units'}')")
     number = float(match.group(1))
+    if not np.isfinite(number):
+        raise UnitError(f"{what}: {text!r} is not a finite number")
     unit = normalise_unit(match.group(2))
     if not unit:
         unit = default_unit or si_unit

@@ -19,7 +19,13 @@ from cruiseplan.units import parse_range
 
 
 def register(sub):
-    """Add ``plot`` and ``card`` to the subcommand parsers ``sub``."""
+    """Add ``plot`` and ``card`` to the subcommand parsers ``sub``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The main parser's subcommand parsers.
+    """
     def common(p, what):
         p.add_argument("airframe", help=options.AIRFRAME_HELP)
         p.add_argument("--output", "-o", metavar="FILE", required=True, help=what)
@@ -57,7 +63,22 @@ def register(sub):
 
 
 def cmd_plot(args):
-    """Draw a specific-range map, power curves or altitude profile to .png or .pdf."""
+    """Draw a specific-range map, power curves or altitude profile to .png or .pdf.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``plot`` options: airframe, output, kind, altitudes [ft when bare], speeds
+        [kt or km/h when bare], loading, wind and units.
+
+    Raises
+    ------
+    CruiseplanError
+        For options that do not go together (``--speeds`` with the altitude profile,
+        wind with power curves), speeds that are not at least two increasing positive
+        values (a :class:`~cruiseplan.errors.UnitError`), or any error of the airframe,
+        the loading or the figure.
+    """
     out = options.figure_path(args.output, (".png", ".pdf"))
     af = load_airframe(args.airframe)
     batteries = not af.propulsion.store.burns_mass
@@ -109,7 +130,20 @@ def cmd_plot(args):
 
 
 def cmd_card(args):
-    """Write the one-page cruise card FILE.pdf and its markdown twin FILE.md."""
+    """Write the one-page cruise card FILE.pdf and its markdown twin FILE.md.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``card`` options: airframe, output, altitudes [ft when bare], power
+        [percent when bare], reserve, loading, units and Monte Carlo.
+
+    Raises
+    ------
+    CruiseplanError
+        For an output not ending in .pdf, or any error of the airframe, the options or
+        the card; neither file is left behind then.
+    """
     out = Path(options.figure_path(args.output, (".pdf",)))
     af = load_airframe(args.airframe)
     h = options.altitudes(args.altitudes) if args.altitudes else None

@@ -16,7 +16,13 @@ from cruiseplan.units import parse_quantity
 
 
 def register(sub):
-    """Add ``fit`` (drag polar from a level-flight log) to the subcommand parsers."""
+    """Add ``fit`` (drag polar from a level-flight log) to the subcommand parsers.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The main parser's subcommand parsers.
+    """
     p = sub.add_parser("fit", help="fit the drag polar (CD0, Oswald e) to a level-flight log "
                                    "by PIW-VIW reduction")
     p.add_argument("log", help="flight log CSV whose header names each column with its unit, "
@@ -37,7 +43,27 @@ def register(sub):
 
 
 def cmd_fit(args):
-    """Fit the drag polar to a flight log; print it, optionally write the airframe and plot."""
+    """Fit the drag polar to a flight log; print it, optionally write the airframe and plot.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``fit`` options: log, airframe, output, plot, format, reference mass
+        [kg when bare] and units.
+
+    Raises
+    ------
+    CruiseplanError
+        For an output that is not a new .toml file or is the plot's file, a reference
+        mass that is not positive (a :class:`~cruiseplan.errors.UnitError`), an
+        ``--output`` for a polar that is not parabolic, or any error of the log or the
+        fit; no partial output is left behind.
+
+    References
+    ----------
+    .. [1] Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, ch. 9 (PIW-VIW
+       reduction), as implemented in :mod:`cruiseplan.planning.fit`.
+    """
     if args.plot:
         options.figure_path(args.plot, (".png", ".pdf"), "--plot")
     path = find_airframe(args.airframe)

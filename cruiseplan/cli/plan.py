@@ -11,7 +11,13 @@ from cruiseplan.report.tables import plan_report
 
 
 def register(sub):
-    """Add ``plan`` to the subcommand parsers ``sub``."""
+    """Add ``plan`` to the subcommand parsers ``sub``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The main parser's subcommand parsers.
+    """
     p = sub.add_parser("plan", help="plan a mission file: segments, reserve, GO / NO-GO")
     p.add_argument("mission", help="mission TOML file, or a bundled mission name")
     p.add_argument("--plot", metavar="FILE", help="also draw the profile (.png or .pdf)")
@@ -21,7 +27,19 @@ def register(sub):
 
 
 def cmd_plan(args):
-    """Plan a mission; a NO-GO is a result (exit 0), not an error."""
+    """Plan a mission; a NO-GO is a result (exit 0), not an error.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``plan`` options: mission, plot, Monte Carlo, format, output and units.
+
+    Raises
+    ------
+    CruiseplanError
+        For a plot file not ending in .png or .pdf, a Monte Carlo count out of range, or
+        any error of the mission file.
+    """
     if args.plot:
         options.figure_path(args.plot, (".png", ".pdf"), "--plot")
     n = options.monte_carlo_n(args)

@@ -19,7 +19,13 @@ from cruiseplan.units import parse_quantity, parse_range
 
 
 def register(sub):
-    """Add the table commands to the subcommand parsers ``sub``."""
+    """Add the table commands to the subcommand parsers ``sub``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The main parser's subcommand parsers.
+    """
     p = sub.add_parser("airframes", help="list the bundled airframes")
     p.add_argument("--format", choices=("text", "json"), default="text")
     p.set_defaults(run=cmd_airframes)
@@ -67,7 +73,13 @@ def register(sub):
 
 
 def cmd_airframes(args):
-    """List the bundled airframes, one line each."""
+    """List the bundled airframes, one line each.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``airframes`` options: format (text or json; masses in kg).
+    """
     rows = []
     for name, path in bundled_airframes().items():
         af = read_airframe(path)
@@ -84,7 +96,20 @@ def cmd_airframes(args):
 
 
 def cmd_atmosphere(args):
-    """Print the atmosphere at pressure altitudes."""
+    """Print the atmosphere at pressure altitudes.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``atmosphere`` options: altitudes [ft when bare], ISA deviation [K] or OAT
+        [degC when bare], and the output options.
+
+    Raises
+    ------
+    CruiseplanError
+        For altitudes outside the atmosphere model, a value that cannot be read, or a
+        temperature that is not physical.
+    """
     h = check_altitude(options.altitudes(args.altitudes), "--altitudes")
     if args.oat is not None:
         oat = parse_quantity(args.oat, "K", default_unit="degC", what="--oat")
@@ -96,7 +121,21 @@ def cmd_atmosphere(args):
 
 
 def cmd_table(args):
-    """Print a cruise table by speed or by power setting."""
+    """Print a cruise table by speed or by power setting.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``table`` options: airframe, altitudes [ft when bare], speeds [kt or km/h
+        when bare] or power [percent when bare], loading, headwind [kt when bare] and
+        the output options.
+
+    Raises
+    ------
+    CruiseplanError
+        For speeds that are not positive (a :class:`~cruiseplan.errors.UnitError`), or
+        any error of the airframe, the options or the table.
+    """
     af = load_airframe(args.airframe)
     units = args.units or options.default_units(af)
     batteries = not af.propulsion.store.burns_mass
@@ -128,7 +167,21 @@ def cmd_table(args):
 
 
 def cmd_best(args):
-    """Print the best speeds by altitude and the best altitude."""
+    """Print the best speeds by altitude and the best altitude.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed ``best`` options: airframe, altitudes, floor, ceiling, max AGL and
+        elevation [ft when bare], objective, wind, climb reserve [ft/min when bare],
+        loading, Monte Carlo and the output options.
+
+    Raises
+    ------
+    CruiseplanError
+        For ``--elevation`` without ``--max-agl``, or any error of the airframe, the
+        options or the optimiser.
+    """
     af = load_airframe(args.airframe)
     units = args.units or options.default_units(af)
     batteries = not af.propulsion.store.burns_mass

@@ -75,6 +75,11 @@ class FixedWing(AirframeBase):
         -------
         numpy.ndarray
             Stall speed [m/s].
+
+        References
+        ----------
+        .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.3 (level flight, lift
+           equals weight).
         """
         return speed_for_lift_coefficient(mass, density, self.wing_area, self.cl_max)
 

@@ -163,6 +163,11 @@ class Multirotor(AirframeBase):
         -------
         numpy.ndarray
             Shaft power [W].
+
+        References
+        ----------
+        .. [1] Leishman, *Principles of Helicopter Aerodynamics*, ch. 2 (momentum theory
+           in hover).
         """
         return self.level_flight(mass, air, 0.0).shaft
 
@@ -182,6 +187,12 @@ class Multirotor(AirframeBase):
         -------
         numpy.ndarray
             Endurance [s].
+
+        References
+        ----------
+        .. [1] Leishman, *Principles of Helicopter Aerodynamics*, ch. 2 (hover power);
+           the battery's endurance law is the propulsion's (see
+           :meth:`cruiseplan.physics.propulsion.ElectricPropeller.endurance`).
         """
         prop = self.propulsion
         store = prop.store_capacity if store is None else store

@@ -170,6 +170,11 @@ def shaft_power_required(airframe, mass, air, tas):
     -------
     numpy.ndarray
         Shaft power required [W].
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, ch. 5 (power required in steady
+       level flight).
     """
     return airframe.level_flight(mass, air, tas).shaft
 

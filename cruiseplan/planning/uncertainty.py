@@ -288,6 +288,11 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     -------
     CruiseUncertainty
         Per-sample range and endurance.
+
+    References
+    ----------
+    .. [1] JCGM 101:2008, secs. 7-8 (Monte Carlo propagation, coverage intervals).
+    .. [2] McKay, Beckman and Conover (1979): Latin hypercube sampling.
     """
     tol = dict(airframe.tolerances)
     factors = draw_factors(tol, unit_samples(n, len(tol), seed))
