@@ -3,7 +3,7 @@ PYTHON ?= python3
 VENV := .venv
 BIN := $(VENV)/bin
 
-.PHONY: demo test lint bench notebooks clean
+.PHONY: demo test lint bench coverage notebooks clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -30,6 +30,11 @@ lint: $(VENV)/.installed-test
 test: lint
 	$(BIN)/python -m pytest
 
+# Line coverage of the package over the suite (the packaging test left out: it runs an
+# installed copy, which coverage does not follow).
+coverage: $(VENV)/.installed-test
+	$(BIN)/python -m pytest -q -m "not packaging" --cov=cruiseplan --cov-report=term
+
 bench: $(VENV)/.installed-test
 	$(BIN)/python benchmarks/run.py
 
@@ -42,4 +47,4 @@ notebooks: $(VENV)/.installed-notebooks
 	$(BIN)/jupyter lab notebooks/
 
 clean:
-	rm -rf $(VENV) build *.egg-info .pytest_cache .ruff_cache
+	rm -rf $(VENV) build *.egg-info .pytest_cache .ruff_cache .coverage

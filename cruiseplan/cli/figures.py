@@ -84,11 +84,11 @@ def cmd_plot(args):
     batteries = not af.propulsion.store.burns_mass
     units = args.units or options.default_units(af)
     defaults = {"power": "0,200,400m" if batteries else "0,4000,8000,12000ft"}
-    h = options.altitudes(args.altitudes or defaults.get(
+    h = options.read_altitudes(args.altitudes or defaults.get(
         args.kind, "0:500m:25m" if batteries else "0:12000ft:500ft"))
-    dev = options.isa_dev(args)
-    loading = options.loading(af, args)
-    profile, headwind, wind_text = options.wind(args)
+    dev = options.read_isa_dev(args)
+    loading = options.read_loading(af, args)
+    profile, headwind, wind_text = options.read_wind(args)
     windy = profile is not None or headwind is not None
     if args.speeds and args.kind == "altitude":
         raise CruiseplanError("--speeds goes with --kind map or power; the altitude profile "
@@ -146,17 +146,17 @@ def cmd_card(args):
     """
     out = Path(options.figure_path(args.output, (".pdf",)))
     af = load_airframe(args.airframe)
-    h = options.altitudes(args.altitudes) if args.altitudes else None
+    h = options.read_altitudes(args.altitudes) if args.altitudes else None
     frac = options.power_settings(args.power) if args.power else None
     reserve = parse_reserve(args.reserve, af.propulsion) if args.reserve else None
 
     from cruiseplan import plots  # matplotlib, only for the figure
 
     markdown, fig = plots.cruise_card(af, altitudes=h, power_settings=frac,
-                                      isa_dev=options.isa_dev(args), reserve=reserve,
+                                      isa_dev=options.read_isa_dev(args), reserve=reserve,
                                       units=args.units, stall_margin=args.stall_margin,
                                       monte_carlo=options.monte_carlo_n(args), seed=args.seed,
-                                      **options.loading(af, args))
+                                      **options.read_loading(af, args))
     pdf = plots.figure_bytes(fig, "pdf")
     twin = out.with_suffix(".md")
     write_bytes_atomic(out, pdf)

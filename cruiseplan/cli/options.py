@@ -162,7 +162,7 @@ def default_units(airframe) -> str:
     return airframe.propulsion.store.default_units
 
 
-def isa_dev(args) -> float:
+def read_isa_dev(args) -> float:
     """``--isa-dev`` [K].
 
     Parameters
@@ -184,7 +184,7 @@ def isa_dev(args) -> float:
     return parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
 
 
-def altitudes(text: str) -> np.ndarray:
+def read_altitudes(text: str) -> np.ndarray:
     """Pressure altitudes [m] from a range or list, feet by default.
 
     Parameters
@@ -205,7 +205,7 @@ def altitudes(text: str) -> np.ndarray:
     return parse_range(text, "m", default_unit="ft", what="--altitudes")
 
 
-def loading(af, args) -> dict:
+def read_loading(af, args) -> dict:
     """``mass``, ``fuel`` and ``payload`` [kg, kg or J, kg] from the loading options.
 
     Parameters
@@ -261,7 +261,7 @@ def power_settings(text: str) -> np.ndarray:
     return frac
 
 
-def wind(args):
+def read_wind(args):
     """Wind profile, headwind [m/s] and a description from the wind options.
 
     From ``--wind``/``--course`` or ``--headwind``; None for what is not given.

@@ -110,12 +110,12 @@ def cmd_atmosphere(args):
         For altitudes outside the atmosphere model, a value that cannot be read, or a
         temperature that is not physical.
     """
-    h = check_altitude(options.altitudes(args.altitudes), "--altitudes")
+    h = check_altitude(options.read_altitudes(args.altitudes), "--altitudes")
     if args.oat is not None:
         oat = parse_quantity(args.oat, "K", default_unit="degC", what="--oat")
         air = air_state(h, oat=oat)
     else:
-        air = air_state(h, options.isa_dev(args))
+        air = air_state(h, options.read_isa_dev(args))
     rep = atmosphere_report(air, args.units or "aviation")
     options.emit(rep.render(args.format), args.output)
 
@@ -140,11 +140,11 @@ def cmd_table(args):
     units = args.units or options.default_units(af)
     batteries = not af.propulsion.store.burns_mass
     alt_text = args.altitudes or ("0:400m:100m" if batteries else "0:10000ft:2000ft")
-    h = check_altitude(options.altitudes(alt_text), "--altitudes")
-    dev = options.isa_dev(args)
+    h = check_altitude(options.read_altitudes(alt_text), "--altitudes")
+    dev = options.read_isa_dev(args)
     wind = parse_quantity(args.headwind, "m/s", default_unit="kt", what="--headwind")
     common = dict(isa_dev=dev, headwind=wind, stall_margin=args.stall_margin,
-                  **options.loading(af, args))
+                  **options.read_loading(af, args))
     if args.speeds or (batteries and not args.power):
         if args.speeds:
             v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
@@ -185,10 +185,10 @@ def cmd_best(args):
     af = load_airframe(args.airframe)
     units = args.units or options.default_units(af)
     batteries = not af.propulsion.store.burns_mass
-    h = options.altitudes(args.altitudes or ("0:500m:25m" if batteries
+    h = options.read_altitudes(args.altitudes or ("0:500m:25m" if batteries
                                              else "0:12000ft:1000ft"))
-    dev = options.isa_dev(args)
-    profile, headwind, wind_text = options.wind(args)
+    dev = options.read_isa_dev(args)
+    profile, headwind, wind_text = options.read_wind(args)
 
     def opt(text, what):
         return None if text is None else parse_quantity(text, "m", default_unit="ft",
@@ -203,7 +203,7 @@ def cmd_best(args):
         elevation=opt(args.elevation, "--elevation"),
         climb_reserve=parse_quantity(args.climb_reserve, "m/s", default_unit="ft/min",
                                      what="--climb-reserve"),
-        stall_margin=args.stall_margin, **options.loading(af, args))
+        stall_margin=args.stall_margin, **options.read_loading(af, args))
     spread = None
     n = options.monte_carlo_n(args)
     if n and best.best_index >= 0:

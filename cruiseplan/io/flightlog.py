@@ -1,6 +1,7 @@
-r"""Flight logs for the drag-polar fit: CSV in, fitted airframe files and fit reports out.
+r"""Flight logs for the drag-polar fit: CSV in, and the fitted airframe file's text.
 
-This is the file edge of :mod:`cruiseplan.fit` (pint is used here, never in the fit). A log
+This is the file edge of :mod:`cruiseplan.planning.fit` (pint is used here, never in the
+fit). A log
 is a CSV file whose header names each column from a fixed set, with its unit in brackets
 (``cas [kt]``, ``oat [degC]``, ``fuel_flow [L/h]``); any unit pint reads for the column's
 dimension is accepted. Lines starting with ``#`` are comments. One row is one stabilised
@@ -22,9 +23,9 @@ column                    dimension                   notes
 ``time``                  time                        optional, kept for reference
 ========================  ==========================  =====================================
 
-:func:`read_flight_log` returns a :class:`FlightLog` of SI arrays. :func:`fitted_airframe_text`
-rewrites an airframe file's ``[polar]`` values, keeping every other byte, and
-:func:`fit_report` lays a fit out as a :class:`~cruiseplan.reports.Report`.
+:func:`read_flight_log` returns a :class:`FlightLog` of SI arrays; :func:`fitted_airframe_text`
+rewrites an airframe file's ``[polar]`` values, keeping every other byte. The report of a
+fit is :func:`cruiseplan.report.fit_report.fit_report`.
 
 References
 ----------
@@ -132,7 +133,7 @@ class FlightLog:
     mass : numpy.ndarray
         Aircraft mass [kg].
     power_source : str
-        A key of :data:`cruiseplan.fit.POWER_SOURCES`: ``electric_power``, ``shaft_power``,
+        A key of :data:`cruiseplan.planning.fit.POWER_SOURCES`: ``electric_power``, ``shaft_power``,
         ``fuel_mass_flow`` or ``fuel_volume_flow``.
     power : numpy.ndarray
         That quantity [W, W, kg/s or m^3/s].
@@ -390,7 +391,7 @@ def fitted_airframe_text(text: str, fit, *, log_name: str, when: date | None = N
     ----------
     text : str
         The original airframe file.
-    fit : cruiseplan.fit.FitResult
+    fit : cruiseplan.planning.fit.FitResult
         The fit.
     log_name : str
         The flight log's file name, for the comment.

@@ -1,4 +1,4 @@
-"""Mission files: TOML with units, validated on load, into a :class:`~cruiseplan.mission.Mission`.
+"""Mission files: TOML with units, validated on load, into a :class:`~cruiseplan.Mission`.
 
 Layout (our own; every dimensional value is a string with its unit)::
 

@@ -257,7 +257,6 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
         dT = np.asarray(isa_dev, dtype=float) + 0.0 * T_isa
         T = T_isa + dT
     if np.any(T <= 0):
-
         raise CruiseplanError(f"temperature {np.min(T):.1f} K is not physical: "
                               "check the ISA deviation or OAT")
     p = np.broadcast_to(p, T.shape)

@@ -138,7 +138,7 @@ def efficiency_text(propulsion) -> str:
             f"{max(eta.efficiency):g})")
 
 
-#: Power sources of a flight log by name (see :mod:`cruiseplan.flightlog`).
+#: Power sources of a flight log by name (see :mod:`cruiseplan.io.flightlog`).
 POWER_SOURCES = {
     "electric_power": PowerSource(
         "battery power", ("electric-propeller",),
@@ -671,7 +671,7 @@ def fit_flight_log(airframe, log, *, reference_mass=None, fit_efficiency=False,
     airframe : Airframe
         Wing area, span and the propulsion chain that turns the logged power into thrust
         power.
-    log : cruiseplan.flightlog.FlightLog
+    log : cruiseplan.io.flightlog.FlightLog
         Level-flight points in SI.
     reference_mass : float, optional
         Mass to reduce to [kg]; the maximum take-off mass by default (the usual standard

@@ -610,7 +610,7 @@ def plan_mission(mission: Mission) -> Plan:
     Parameters
     ----------
     mission : Mission
-        The mission (see :func:`cruiseplan.mission_files.load_mission`).
+        The mission (see :func:`cruiseplan.io.mission_file.load_mission`).
 
     Returns
     -------

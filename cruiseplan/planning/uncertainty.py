@@ -36,6 +36,8 @@ from cruiseplan.planning.performance import cruise_points
 
 #: Quantiles reported (P10, P50, P90).
 QUANTILES = (0.10, 0.50, 0.90)
+
+
 def unit_samples(n: int, dims: int, seed: int):
     """``n`` Latin-hypercube points in [0, 1)^dims, seeded.
 
@@ -180,7 +182,7 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     Parameters
     ----------
     plan : Plan
-        A plan from :func:`cruiseplan.mission.plan_mission`.
+        A plan from :func:`cruiseplan.planning.mission.plan_mission`.
     n : int
         Number of samples [-].
     seed : int

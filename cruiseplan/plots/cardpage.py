@@ -171,7 +171,7 @@ def card_figure(content) -> Figure:
 
     Parameters
     ----------
-    content : cruiseplan.card.CardContent
+    content : cruiseplan.report.card.CardContent
         Title, header lines, tables and text blocks, cautions and footer.
 
     Returns

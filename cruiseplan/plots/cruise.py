@@ -146,14 +146,14 @@ def _best_lines(ax, best, units: str) -> None:
                 clip_on=False, label=f"best altitude for {best.objective}: {h[i]:.0f} {la}")
 
 
-def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = "aviation",
+def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str | None = None,
                        ground: bool = False, wind_text: str = "calm",
                        stall_margin: float = DEFAULT_STALL_MARGIN) -> Figure:
     r"""Filled contours of specific range over pressure altitude and TAS.
 
     Specific range is distance per unit of fuel or energy, :math:`V/\dot s` (air) or
     :math:`V_g/\dot s` (ground) [3]_. Regions that breach a limit are greyed out, hatched
-    with one pattern per :class:`~cruiseplan.performance.Limit` reason, outlined, and
+    with one pattern per :class:`~cruiseplan.limits.Limit` reason, outlined, and
     labelled with the reason's text inside the region.
 
     Parameters
@@ -164,7 +164,7 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = 
         Cruise points of shape (n_alt, n_tas) from :func:`cruiseplan.cruise_grid`, with
         increasing altitudes and speeds (at least 2 of each).
     best : BestCruise, optional
-        Optimiser answer (:func:`cruiseplan.optimise.best_cruise`) whose best-range and
+        Optimiser answer (:func:`cruiseplan.planning.optimise.best_cruise`) whose best-range and
         best-endurance TAS lines and best altitude are drawn over the map.
     units : {"aviation", "si"}, optional
         Display units.
@@ -191,6 +191,7 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = 
     ----------
     .. [3] Anderson, *Aircraft Performance and Design*, sec. 5.7 (specific range).
     """
+    units = units or airframe.propulsion.store.default_units
     shape = grid.shape
     if len(shape) != 2 or shape[0] < 2 or shape[1] < 2:
         raise CruiseplanError(f"a specific-range map needs a grid of at least 2 altitudes x "
@@ -261,7 +262,7 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str = 
 # --- (b) power curves ---------------------------------------------------------------------
 
 def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload=None,
-                 isa_dev=0.0, units: str = "aviation",
+                 isa_dev=0.0, units: str | None = None,
                  stall_margin: float = DEFAULT_STALL_MARGIN) -> Figure:
     r"""Shaft power required and available against TAS at several altitudes.
 
@@ -305,6 +306,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     ----------
     .. [3] Anderson, *Aircraft Performance and Design*, secs. 5.4-5.5.
     """
+    units = units or airframe.propulsion.store.default_units
     h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
     if h.ndim != 1 or not 1 <= h.size <= len(SERIES_STYLES):
         raise CruiseplanError(f"a power plot shows 1 to {len(SERIES_STYLES)} altitudes, got "
@@ -402,7 +404,7 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
 
 # --- (c) altitude profile -----------------------------------------------------------------
 
-def altitude_profile(airframe, calm, wind=None, *, units: str = "aviation",
+def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
                      wind_text: str = "wind") -> Figure:
     """Best TAS and ground specific range against altitude, calm (solid) and in wind (dashed).
 
@@ -415,7 +417,7 @@ def altitude_profile(airframe, calm, wind=None, *, units: str = "aviation",
     airframe : Airframe
         The airframe.
     calm : BestCruise
-        Optimiser answer in calm air (:func:`cruiseplan.optimise.best_cruise`).
+        Optimiser answer in calm air (:func:`cruiseplan.planning.optimise.best_cruise`).
     wind : BestCruise, optional
         The same question with the day's wind.
     units : {"aviation", "si"}, optional
@@ -433,6 +435,7 @@ def altitude_profile(airframe, calm, wind=None, *, units: str = "aviation",
     .. [3] Anderson, *Aircraft Performance and Design*, sec. 5.7 (best range and endurance
        speeds).
     """
+    units = units or airframe.propulsion.store.default_units
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
     factor, sr_label = sr_display(airframe, units)

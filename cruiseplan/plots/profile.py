@@ -26,7 +26,7 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     Parameters
     ----------
     plan : Plan
-        A planned mission (:func:`cruiseplan.mission.plan_mission`).
+        A planned mission (:func:`cruiseplan.planning.mission.plan_mission`).
     units : {"aviation", "si"}, optional
         Display units; aviation for piston airframes, SI for electric ones by default.
 

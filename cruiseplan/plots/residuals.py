@@ -52,7 +52,7 @@ def fit_residuals(fit_result, airframe, *, units: str | None = None,
 
     Parameters
     ----------
-    fit_result : cruiseplan.fit.FitResult
+    fit_result : cruiseplan.planning.fit.FitResult
         The fit.
     airframe : Airframe
         The airframe fitted, for the footer and the default units.

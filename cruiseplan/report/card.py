@@ -185,7 +185,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     prop = airframe.propulsion
     store_name = prop.store_name
     fuel_kind = prop.store.burns_mass
-    units = units or ("aviation" if fuel_kind else "si")
+    units = units or prop.store.default_units
     h = np.atleast_1d(to_si(DEFAULT_ALTITUDES[store_name] if altitudes is None
                             else altitudes, "m", what="altitudes"))
     frac = np.atleast_1d(np.asarray(DEFAULT_POWER[store_name] if power_settings is None

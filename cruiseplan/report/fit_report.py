@@ -15,12 +15,12 @@ from cruiseplan.report.tables import airframe_lines
 from cruiseplan.units import display
 
 
-def fit_report(fit, log: FlightLog, airframe, *, units: str = "aviation"):
+def fit_report(fit, log: FlightLog, airframe, *, units: str | None = None):
     """Lay a polar fit out as a Report: the values, their uncertainty, the reduced points.
 
     Parameters
     ----------
-    fit : cruiseplan.fit.FitResult
+    fit : cruiseplan.planning.fit.FitResult
         The fit of ``log``.
     log : FlightLog
         The log it was made from.
@@ -40,6 +40,7 @@ def fit_report(fit, log: FlightLog, airframe, *, units: str = "aviation"):
     ----------
     .. [1] Kimberlin, *Flight Testing of Fixed-Wing Aircraft*, ch. 9 (PIW-VIW).
     """
+    units = units or airframe.propulsion.store.default_units
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
     fm, lm = display("mass", units)

@@ -230,7 +230,6 @@ def write_bytes_atomic(path, data: bytes) -> None:
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
     if not folder.is_dir():
-
         raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
     fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
     try:

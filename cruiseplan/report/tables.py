@@ -58,9 +58,10 @@ def store_text(airframe, store: float, units: str) -> str:
         usable)"``.
     """
     prop = airframe.propulsion
-    amount = format_amount(store, prop, units)
+    amount = format_amount(store, prop, units, with_mass=False)
     if prop.store.burns_mass:
-        return f"fuel on board {amount[:-1]} {prop.fuel})"
+        fm, lm = display("mass", units)
+        return f"fuel on board {amount} ({store * fm:.1f} {lm} {prop.fuel})"
     share = store / prop.store_capacity * 100.0
     return f"usable energy on board {amount} ({share:.0f} % of usable)"
 
@@ -121,7 +122,7 @@ def endurance_column(prop, seconds) -> Column:
                   "{:.0f}")
 
 
-def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "aviation",
+def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | None = None,
                   title: str = "Cruise table", stall_margin: float = DEFAULT_STALL_MARGIN,
                   show_ground: bool = False) -> Report:
     """Lay out cruise points (any 2-D shape, rows by altitude) as a Report.
@@ -148,6 +149,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str = "
     Report
         The table with header, notes and cautions.
     """
+    units = units or airframe.propulsion.store.default_units
     shape = np.broadcast_shapes(pts.shaft_power.shape, np.shape(pts.tas))
 
     def flat(a):
@@ -270,9 +272,9 @@ def _tolerance_note(airframe, n, seed, extra="") -> str:
             "samples lie below.")
 
 
-def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
+def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
                 wind_text: str = "calm", uncertainty=None) -> Report:
-    """Lay out a :class:`~cruiseplan.optimise.BestCruise` by altitude, best altitude first.
+    """Lay out a :class:`~cruiseplan.planning.optimise.BestCruise` by altitude, best altitude first.
 
     Parameters
     ----------
@@ -295,6 +297,7 @@ def best_report(airframe, best, *, isa_dev: float, units: str = "aviation",
     Report
         One row per altitude; the header states the best altitude and what binds.
     """
+    units = units or airframe.propulsion.store.default_units
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
     fd, ld = display("distance", units)
