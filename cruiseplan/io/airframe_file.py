@@ -380,7 +380,19 @@ def _airframe(r: SchemaReader, path: Path, checksum: str) -> Airframe:
 def read_tolerance(raw, where: str, fail):
     """Read a relative tolerance: ``"5 %"`` (normal) or ``["-5 %", "+10 %"]`` (uniform).
 
-    ``fail(where, message)`` reports errors.
+    Parameters
+    ----------
+    raw : str or list of str
+        As written in the file.
+    where : str
+        The field, for messages.
+    fail : callable
+        ``fail(where, message)`` raises the file's error.
+
+    Returns
+    -------
+    Tolerance
+        Fractions [-].
     """
     def fraction(text):
         try:

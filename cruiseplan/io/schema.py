@@ -49,13 +49,51 @@ class Field:
 
 
 def number(lo=-math.inf, hi=math.inf, required=True, example="", lo_open=False) -> Field:
-    """A plain-number field (a coefficient) from ``lo`` to ``hi``."""
+    """A plain-number field (a coefficient) from ``lo`` to ``hi``.
+
+    Parameters
+    ----------
+    lo, hi : float
+        Range allowed [-].
+    required : bool
+        Whether the field must be given.
+    example : str
+        An example as written in a file.
+    lo_open : bool
+        Exclude ``lo`` itself.
+
+    Returns
+    -------
+    Field
+        The spec.
+    """
     return Field(None, lo, hi, required, example, lo_open)
 
 
 def quantity(unit, lo=0.0, hi=math.inf, required=True, example="", lo_open=True,
              default_unit=None) -> Field:
-    """A dimensional field in ``unit`` [SI], above ``lo`` (excluded by default)."""
+    """A dimensional field in ``unit``, above ``lo`` (excluded by default).
+
+    Parameters
+    ----------
+    unit : str
+        SI unit the value is converted to.
+    lo, hi : float
+        Range allowed [in ``unit``].
+    required : bool
+        Whether the field must be given.
+    example : str
+        An example as written in a file.
+    lo_open : bool
+        Exclude ``lo`` itself.
+    default_unit : str, optional
+        Unit of a bare number; None: the unit must be written.
+
+    Returns
+    -------
+    Field
+        The spec.
+    """
     return Field(unit, lo, hi, required, example, lo_open, default_unit)
 
 
@@ -133,7 +171,20 @@ class SchemaReader:
         self.error = error
 
     def fail(self, where: str, message: str):
-        """Raise the file's error: ``FILE: WHERE: MESSAGE``."""
+        """Raise the file's error: ``FILE: WHERE: MESSAGE``.
+
+        Parameters
+        ----------
+        where : str
+            The table and field, e.g. ``"[wing] area"``.
+        message : str
+            What is wrong and what was expected.
+
+        Raises
+        ------
+        CruiseplanError
+            The file kind's error class.
+        """
         raise self.error(f"{self.source}: {where}: {message}")
 
     def section(self, name: str, allowed, *, required: bool = True, where: str | None = None,
@@ -172,7 +223,22 @@ class SchemaReader:
         return sec
 
     def check_fields(self, table: dict, allowed, where: str):
-        """Fail on the first field of ``table`` not in ``allowed``."""
+        """Fail on the first field of ``table`` not in ``allowed``.
+
+        Parameters
+        ----------
+        table : dict
+            The table read.
+        allowed : iterable of str
+            Field names allowed.
+        where : str
+            How errors name the table.
+
+        Raises
+        ------
+        CruiseplanError
+            Naming the unknown field and listing the allowed ones.
+        """
         unknown = sorted(set(table) - set(allowed))
         if unknown:
             self.fail(f"{where} {unknown[0]}",
@@ -250,7 +316,31 @@ class SchemaReader:
                 if spec is not None}
 
     def choice(self, where: str, table: dict, key: str, options, default=None):
-        """A field that must be one of ``options`` (listed in the error)."""
+        """A field that must be one of ``options`` (listed in the error).
+
+        Parameters
+        ----------
+        where : str
+            The table's name for messages.
+        table : dict
+            The table holding the field.
+        key : str
+            The field.
+        options : iterable of str
+            The names allowed.
+        default : str, optional
+            The value when the field is absent.
+
+        Returns
+        -------
+        str
+            The name given.
+
+        Raises
+        ------
+        CruiseplanError
+            When it is not one of ``options``.
+        """
         raw = table.get(key, default)
         if not isinstance(raw, str) or raw not in options:
             where = where if where.startswith(("[", "leg")) else f"[{where}]"
@@ -258,7 +348,31 @@ class SchemaReader:
         return raw
 
     def number_list(self, where, table, key, lo=-math.inf, hi=math.inf, unit=None) -> tuple:
-        """A list of plain numbers (or of quantities in ``unit``), each in (lo, hi]."""
+        """A list of plain numbers (or of quantities in ``unit``), each in (lo, hi].
+
+        Parameters
+        ----------
+        where : str
+            The table's name for messages.
+        table : dict
+            The table holding the list.
+        key : str
+            The field.
+        lo, hi : float
+            Range of each value [-, or ``unit``].
+        unit : str, optional
+            SI unit of quantities written with their units; None: plain numbers.
+
+        Returns
+        -------
+        tuple of float
+            The values in SI.
+
+        Raises
+        ------
+        CruiseplanError
+            For a missing or empty list or a value out of range.
+        """
         here = f"[{where}] {key}"
         raw = table.get(key)
         if not isinstance(raw, list) or len(raw) < 1:
@@ -284,8 +398,21 @@ class SchemaReader:
     def table_list(self, table: dict, key: str, where: str, schema: dict) -> list:
         """Values of each table in a TOML array of tables, e.g. ``[[polar.components]]``.
 
-        Fields with a :class:`Field` spec are read by it, the others (None in ``schema``)
-        are passed through; each dict gets ``_where`` naming its table.
+        Parameters
+        ----------
+        table : dict
+            The table holding the array.
+        key : str
+            The array's name.
+        where : str
+            The parent table's name for messages.
+        schema : dict
+            Field name to :class:`Field` (read by it) or None (passed through).
+
+        Returns
+        -------
+        list of dict
+            One per table, with ``_where`` naming it.
         """
         raw = table.get(key, [])
         if not isinstance(raw, list) or not all(isinstance(t, dict) for t in raw):
