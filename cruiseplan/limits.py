@@ -32,6 +32,7 @@ class Limit(enum.IntFlag):
     CEILING = 2048
     FLOOR = 4096
     HEIGHT_AGL = 8192
+    BEYOND_CLMAX = 16384
 
 
 @dataclass(frozen=True)
@@ -72,7 +73,15 @@ LIMITS = {
     Limit.FLOOR: LimitText("FLOOR", "below the altitude band", "altitude band floor"),
     Limit.HEIGHT_AGL: LimitText("AGL", "above the maximum height above ground",
                                 "maximum height above ground"),
+    Limit.BEYOND_CLMAX: LimitText("CLMAX", "CL above CLmax: slower than the stall speed, "
+                                  "the wing cannot fly there", "CLmax (stall speed)"),
 }
+
+#: Limits beyond which a point cannot be flown at all (as opposed to a margin or a model
+#: range): its range, endurance, specific range and flows are NaN, the bit says why.
+#: STALL alone (below the stall margin, above the stall speed) is not among them; a point
+#: beyond CLmax carries BEYOND_CLMAX as well as STALL.
+UNFLYABLE = Limit.BEYOND_CLMAX | Limit.POWER | Limit.WIND | Limit.NO_SOLUTION
 
 #: Short codes for the status column of printed tables.
 LIMIT_CODE = {flag: t.code for flag, t in LIMITS.items()}

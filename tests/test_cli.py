@@ -47,7 +47,9 @@ def test_airframes_lists_the_bundled_ones(capsys):
     rows = json.loads(out)
     assert {r["name"] for r in rows} == {"demo-mapping-quad", "demo-sensor-wing",
                                          "demo-survey-drone", "demo-tourer", "demo-trainer"}
-    assert all(r["max_takeoff_kg"] > 0 for r in rows)
+    # The listing's masses are the files' (JSON keeps the float exact).
+    for r in rows:
+        assert r["max_takeoff_kg"] == cp.load_airframe(r["name"]).max_takeoff_mass, r["name"]
 
 
 def test_atmosphere_command(capsys):
@@ -249,8 +251,32 @@ def test_bad_call(capsys, tmp_path, argv, message):
     assert list(tmp_path.iterdir()) == []
 
 
-def test_enough_bad_calls():
-    assert len(BAD_CALLS) >= 15
+# Each command with the arguments it requires (argparse reports those first).
+COMMANDS = {"airframes": [], "atmosphere": [], "table": ["demo-trainer"],
+            "best": ["demo-trainer"], "plan": ["demo-survey-run"],
+            "plot": ["demo-trainer", "-o", "x.png"], "card": ["demo-trainer", "-o", "x.pdf"],
+            "fit": ["log.csv", "--airframe", "demo-trainer"]}
+
+
+@pytest.mark.parametrize("command", sorted(COMMANDS))
+def test_every_command_refuses_an_unknown_option_in_one_line(capsys, tmp_path, monkeypatch,
+                                                             command):
+    # Every command, not only those in BAD_CALLS: status 2, one line naming the option,
+    # and nothing written.
+    monkeypatch.chdir(tmp_path)
+    status, out, err = run(capsys, command, *COMMANDS[command], "--frobnicate")
+    assert status == 2 and out == ""
+    assert "Traceback" not in err and len(err.splitlines()) == 1, err
+    assert re.match(r"cruiseplan: error: unrecognized arguments: --frobnicate$", err), err
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_command_list_is_complete(capsys):
+    # The commands above are all the program has: an unknown one is refused with the list.
+    status, _, err = run(capsys, "fly")
+    assert status == 2
+    listed = re.search(r"choose from (.*)\)", err).group(1)
+    assert sorted(re.findall(r"[a-z]+", listed)) == sorted(COMMANDS)
 
 
 @pytest.mark.parametrize("argv, message", [

@@ -46,26 +46,27 @@ def level_mission(af, h, distance, *, tas=None, reserve=Reserve("fraction", 0.0)
 # --- range equations ---------------------------------------------------------------------
 
 def test_piston_cruise_with_burn_off_matches_breguet(trainer):
-    # Breguet range for propeller aircraft (REFERENCES sec. 4; Anderson, Aircraft
-    # Performance and Design, eq. 5.152): R = (eta_p / c) (L/D) ln(W0/W1), c = BSFC x g,
-    # for constant L/D, eta_p and c. A "best" range speed is flown at constant CL, so
-    # L/D stays at (L/D)max while the fuel burns off.
+    # Breguet range for propeller aircraft (Anderson, Aircraft Performance and Design,
+    # eq. 5.152): R = (eta_p / c) (L/D) ln(W0/W1), c = BSFC x g, for constant L/D, eta_p
+    # and c. A "best" range speed is flown at constant CL, so L/D stays at (L/D)max while
+    # the fuel burns off. The planner integrates the burn-off with RK4 instead.
     h, distance = 1500.0, 500 * NM
     plan = plan_mission(level_mission(trainer, h, distance, mass=745.0))
     cruise = [s for s in plan.segments if s.kind == "cruise"]
-    assert len(cruise) == 1 and cruise[0].distance == pytest.approx(distance)
+    assert len(cruise) == 1 and cruise[0].distance == pytest.approx(distance, rel=1e-15)
     pol, prop = trainer.polar, trainer.propulsion
     ld = cp.physics.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
     m0 = 745.0
     m1 = m0 * np.exp(-distance * prop.bsfc * 9.80665 / (prop.propeller.efficiency[0] * ld))
-    assert plan.used == pytest.approx(m0 - m1, rel=1e-3)
+    # RK4 against the closed form: measured 1.6e-9 in fuel used, 1.4e-10 in end mass.
+    assert plan.used == pytest.approx(m0 - m1, rel=2e-8)
     # The constant-CL schedule: TAS falls as sqrt(mass).
-    assert cruise[0].mass_end == pytest.approx(m1, rel=1e-4)
+    assert cruise[0].mass_end == pytest.approx(m1, rel=2e-9)
 
 
 def test_battery_cruise_matches_the_electric_range_form(drone):
     # Battery aircraft keep their mass: R = E eta (L/D) / (m g) for energy E drawn
-    # (REFERENCES sec. 4; Traub, J. Aircraft 48(2), 2011, eq. 6 with n = 1), eta the
+    # (Traub, J. Aircraft 48(2), 2011, eq. 6 with n = 1), eta the
     # product of propeller, motor and controller efficiencies. Flown at (L/D)max with
     # no stall margin (the drone's (L/D)max CL is above CLmax/1.3^2).
     h, distance = 100.0, 40_000.0
@@ -74,12 +75,14 @@ def test_battery_cruise_matches_the_electric_range_form(drone):
     eta = prop.propeller.efficiency[0] * prop.motor_efficiency * prop.controller_efficiency
     ld = cp.physics.aerodynamics.max_lift_to_drag(pol.cd0, pol.k)
     mass = drone.loading().mass
-    assert plan.used == pytest.approx(distance * mass * 9.80665 / (eta * ld), rel=1e-3)
+    # Constant power at constant mass: exact but for rounding (measured 0).
+    assert plan.used == pytest.approx(distance * mass * 9.80665 / (eta * ld), rel=1e-12)
 
 
 def test_peukert_battery_matches_the_published_example(drone):
-    # Peukert's law t = C / I^k: 100 Ah, k = 1.2, at 5 A -> 14.5 h (REFERENCES sec. 5,
-    # [pub]). In Hart's form t = Rt (C/(I Rt))^n with Rt = 1 h that is C = 100^(1/1.2) Ah.
+    # Peukert's law in Peukert's form t = C / I^k (W. Peukert, Elektrotechnische
+    # Zeitschrift 18, 1897): 100 Ah, k = 1.2, at 5 A -> 100 / 5^1.2 = 14.496 h, quoted as
+    # 14.5 h. In Hart's form t = Rt (C/(I Rt))^n with Rt = 1 h that is C = 100^(1/1.2) Ah.
     # The pack voltage is chosen so that cruising at 16 m/s draws exactly 5 A; a leg of
     # 16 m/s x 14.5 h then uses the whole pack, and half of it half.
     tas, h = 16.0, 100.0
@@ -91,12 +94,13 @@ def test_peukert_battery_matches_the_published_example(drone):
                    battery_energy=volts * capacity, peukert_exponent=1.2, rating_time=3600.0,
                    max_power=1e4)
     af = replace(drone, propulsion=prop)
-    t_full = 100.0 / 5.0**1.2 * 3600.0
-    assert t_full / 3600 == pytest.approx(14.5, abs=0.05)
+    t_full = 100.0 / 5.0**1.2 * 3600.0   # Peukert's form, not the product's Hart form
     whole = plan_mission(level_mission(af, h, tas * t_full, tas=tas, stall_margin=1.0))
-    assert whole.remaining == pytest.approx(0.0, abs=1e-6 * prop.battery_energy)
+    assert whole.time / 3600.0 == pytest.approx(14.5, abs=0.05)   # as quoted, to 0.1 h
+    # Constant current: the two forms agree to rounding (measured 3.6e-16 of the pack).
+    assert whole.remaining == pytest.approx(0.0, abs=1e-13 * prop.battery_energy)
     half = plan_mission(level_mission(af, h, tas * t_full / 2, tas=tas, stall_margin=1.0))
-    assert half.used == pytest.approx(0.5 * prop.battery_energy, rel=1e-9)
+    assert half.used == pytest.approx(0.5 * prop.battery_energy, rel=1e-13)
 
 
 # --- great circles -----------------------------------------------------------------------
@@ -106,8 +110,10 @@ def test_great_circle_worked_example():
     # JFK (40 deg 38' N, 73 deg 47' W): distance 2144 nm, initial true course 66 deg
     # (the Formulary's sphere of 1 nm per minute of arc; ours is the IUGG mean radius,
     # 0.07 % larger).
+    # Printed to the nm and the degree: half a unit each (measured 2145.17 nm on our
+    # sphere, i.e. 2143.73 on the Formulary's, and 65.89 deg).
     d, c = great_circle(33 + 57 / 60, -(118 + 24 / 60), 40 + 38 / 60, -(73 + 47 / 60))
-    assert d / NM == pytest.approx(2144 * 1.000676, rel=2e-4)
+    assert d / NM / 1.000676 == pytest.approx(2144, abs=0.5)
     assert c == pytest.approx(66.0, abs=0.5)
 
 
@@ -116,13 +122,15 @@ def test_great_circle_worked_example():
                                   ((51.5, -0.1), (48.9, 2.35))])
 def test_great_circle_against_geodesy_library(a, b):
     # geographiclib (C. F. F. Karney, "Algorithms for geodesics", J. Geodesy 87, 2013):
-    # WGS84 ellipsoid. The sphere agrees within 0.5 % in distance and 0.3 deg in course.
+    # WGS84 ellipsoid. A model difference, not a numerical one: the sphere's error is of
+    # the order of the flattening (0.34 %) at most; on these three routes it is measured
+    # at 1.1e-3 in distance and 0.12 deg in course, so 2e-3 and 0.2 deg.
     from geographiclib.geodesic import Geodesic
 
     g = Geodesic.WGS84.Inverse(*a, *b)
     d, c = great_circle(*a, *b)
-    assert d == pytest.approx(g["s12"], rel=5e-3)
-    assert ((c - g["azi1"] + 180) % 360) - 180 == pytest.approx(0.0, abs=0.3)
+    assert d == pytest.approx(g["s12"], rel=2e-3)
+    assert ((c - g["azi1"] + 180) % 360) - 180 == pytest.approx(0.0, abs=0.2)
 
 
 # --- NO-GO reasons -----------------------------------------------------------------------
@@ -138,7 +146,8 @@ def test_no_go_fuel_below_reserve(trainer):
     plan = plan_mission(m)
     assert plan.verdict == "NO-GO" and plan.remaining > 0
     assert any(re.match(r"fuel below the reserve: \d+\.\d US gal at landing, \d+\.\d US gal "
-                        r"required \(45 min at best-endurance power", r) for r in plan.reasons)
+                        r"required \(45 min at \d+ % power \(the plan's cruise power\)", r)
+               for r in plan.reasons)
 
 
 def test_no_go_runs_out(trainer):
@@ -235,10 +244,12 @@ def test_bookkeeping_invariants(trainer, legs, dep, arr):
     cumulative = np.cumsum([s.used for s in segs])
     np.testing.assert_allclose(plan.initial - cumulative, [s.remaining for s in segs],
                                rtol=1e-12, atol=1e-9)
-    # remaining never increases; fuel burnt only from the mass
+    # remaining never increases; every segment burns fuel, and every segment but the
+    # ground allowance takes time
     rem = [s.remaining for s in segs]
     assert all(b <= a + 1e-12 for a, b in zip(rem, rem[1:]))
-    assert all(s.used >= 0 and s.time >= 0 for s in segs)
+    assert all(s.used > 0 for s in segs)
+    assert all(s.time > 0 for s in segs[1:]) and segs[0].time == 0.0
     # each leg's segments add up to the leg (unless it is reported too short for its
     # climb and descent); totals add up
     for leg in legs:
@@ -283,10 +294,19 @@ def write(tmp_path, text, name="m.toml"):
     return p
 
 
-def test_bundled_missions_plan():
-    for name in ("demo-cross-country", "demo-survey-run", "demo-quad-inspection"):
-        plan = plan_mission(load_mission(name))
-        assert plan.verdict in ("GO", "NO-GO") and len(plan.segments) > 3
+@pytest.mark.parametrize("name", ["demo-cross-country", "demo-survey-run",
+                                  "demo-quad-inspection"])
+def test_bundled_missions_plan(name):
+    # The bundled demo missions are planned to be flyable with their reserve: GO, no
+    # reason given, and more than the reserve left at landing.
+    plan = plan_mission(load_mission(name))
+    assert plan.verdict == "GO" and plan.go and plan.reasons == ()
+    assert plan.remaining > plan.reserve_required > 0
+    # Every plan starts with the ground allowance, climbs, and ends descending to arrival.
+    kinds = [s.kind for s in plan.segments]
+    assert kinds[0] == "start, taxi, take-off" and kinds[1] == "climb"
+    assert kinds[-1] == "descent to arrival" and "cruise" in kinds
+    assert plan.used + plan.remaining == pytest.approx(plan.initial, rel=1e-12)
 
 
 def test_minimal_mission_file_and_defaults(tmp_path):
@@ -365,13 +385,14 @@ def test_plan_cli_bad_file_one_line_no_output(tmp_path, capsys):
     assert not out.exists()
 
 
-def test_quantities_or_floats_give_the_same_plan(trainer):
+def test_closed_form_and_searched_speeds_give_the_same_plan(trainer):
     base = level_mission(trainer, 1500.0, 100 * NM)
     e = trainer.propulsion.propeller.efficiency[0]
     eff = replace(trainer.propulsion, propeller=PropellerEfficiency((5.0, 150.0), (e, e)))
     searched = replace(base, airframe=replace(trainer, propulsion=eff))
-    # The closed-form and searched best-range speeds give the same fuel to 1e-6.
-    assert plan_mission(searched).used == pytest.approx(plan_mission(base).used, rel=1e-6)
+    # The closed-form and searched best-range speeds give the same fuel: the fuel is flat
+    # at the optimum, so the search's sqrt(eps) in speed costs ~eps (measured 2.2e-13).
+    assert plan_mission(searched).used == pytest.approx(plan_mission(base).used, rel=2e-12)
 
 
 def test_plan_cli_profile_plot(tmp_path, capsys):

@@ -148,7 +148,8 @@ def test_power_curves_mark_min_power_and_best_lift_to_drag(trainer):
     v = np.linspace(20.0, 70.0, 5001)
     drag = cp.cruise_points(trainer, trainer.loading().mass, air.column(), v[None, :],
                             1.0).drag
-    np.testing.assert_allclose(v_ld, v[np.argmin(drag, axis=1)], atol=0.02)
+    # A grid of 0.01 m/s places the minimum to half a step (measured 0.0033).
+    np.testing.assert_allclose(v_ld, v[np.argmin(drag, axis=1)], atol=0.005)
     hexagons = [ln for ln in ax.lines if ln.get_marker() == "h" and ln.get_label()[0] == "_"]
     np.testing.assert_allclose(sorted(ln.get_xdata()[0] for ln in hexagons),
                                v_ld * conversion_factor("m/s", "km/h"))
@@ -214,7 +215,7 @@ def test_card_text_holds_cautions_and_table_values(trainer_card, trainer):
     assert "8000 75 - - - - - - - POWER" in text
     assert "| 8000 | 75 | - | - | - | - | - | - | - | POWER |" in markdown
     for words in (f"sha256 {trainer.checksum[:16]}", "ISA +10 K", "Absolute ceiling",
-                  "Reserve kept: 30 min at best-endurance power", "local rules decide"):
+                  "Reserve kept: 30 min at 65 % power", "local rules decide"):
         assert words in text and words in markdown
 
 
@@ -232,10 +233,13 @@ def test_markdown_twin_says_what_the_page_says(trainer_card):
 
 def test_card_reserves(trainer, drone):
     h = np.array([0.0, 4000.0]) * FT
-    # Piston default: 45 min at best-endurance power at the card's lowest altitude.
+    # Piston default: 45 min at normal cruise power (65 % of rated), as reserve rules state
+    # a time at cruise power (common practice, no source): BSFC x 0.65 x rated x 0.75 h.
     content = card.card_content(trainer, altitudes=h, power_settings=[0.65])
-    end = best_cruise(trainer, h, objective="endurance").points
-    assert content.reserve == pytest.approx(45 * 60 * end.store_rate[0], rel=1e-9)
+    prop = trainer.propulsion
+    assert content.reserve == pytest.approx(2700.0 * prop.bsfc * 0.65 * prop.rated_power,
+                                            rel=1e-15)
+    assert "45 min at 65 % power (normal cruise power)" in content.markdown()
     assert "default for planning; local rules decide the minimum" in content.markdown()
     # Range to reserve keeps that share of the fuel unburnt.
     pts = cp.power_setting_table(trainer, h, [0.65])

@@ -58,7 +58,10 @@ def test_seeded_and_reproducible(mission):
     c = plan_uncertainty(plan, 2000, seed=6)
     assert np.array_equal(a.remaining, b.remaining)
     assert not np.array_equal(a.remaining, c.remaining)
-    assert 0.0 <= a.reserve_probability <= 1.0
+    # The probability is the share of samples that land with at least their reserve,
+    # counted here from the samples themselves.
+    share = np.count_nonzero(a.remaining >= a.reserve_required) / a.remaining.size
+    assert a.reserve_probability == share
     assert a.summary()["n"] == 2000 and a.summary()["seed"] == 5
 
 
@@ -74,8 +77,11 @@ def test_battery_tolerance_moves_only_the_energy_on_board():
     plan = plan_mission(m)
     u = plan_uncertainty(plan, 40_000, seed=3)
     np.testing.assert_allclose(u.used, plan.used, rtol=1e-12)
-    assert np.median(u.remaining) == pytest.approx(plan.remaining, rel=2e-3)
-    assert np.std(u.remaining) == pytest.approx(0.05 * plan.initial, rel=0.02)
+    # Sampling tolerances, four standard errors at n = 4e4 (the seeded run lands far
+    # closer: 1.3e-6 and 1.2e-5): the median's SE is 1.2533 sd / sqrt(n) = 4.3e-4 of the
+    # remaining energy, the standard deviation's 1 / sqrt(2 n) = 3.5e-3 of itself.
+    assert np.median(u.remaining) == pytest.approx(plan.remaining, rel=1.7e-3)
+    assert np.std(u.remaining) == pytest.approx(0.05 * plan.initial, rel=1.4e-2)
 
 
 def test_bigger_reserve_is_less_likely_to_hold():
@@ -137,7 +143,13 @@ def test_cli_monte_carlo(tmp_path, capsys):
     s = doc["summary"]
     assert s["mc_n"] == 2000 and s["mc_seed"] == 3
     assert s["mc_remaining_p10"] <= s["mc_remaining_p50"] <= s["mc_remaining_p90"]
-    assert 0 <= s["mc_reserve_probability"] <= 1
+    # The same seed through the API gives the same samples: the same figures (JSON keeps
+    # floats exact).
+    api = plan_uncertainty(plan_mission(load_mission("demo-survey-run")), 2000,
+                           seed=3).summary()
+    assert s["mc_reserve_probability"] == api["reserve_probability"]
+    for key in ("remaining", "used", "time", "reserve_required"):
+        assert [s[f"mc_{key}_p{p}"] for p in (10, 50, 90)] == list(api[key]), key
     assert any("probability the reserve holds" in line for line in doc["meta"])
     assert main(["best", "demo-trainer", "--monte-carlo", "1000"]) == 0
     out = capsys.readouterr().out

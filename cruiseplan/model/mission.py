@@ -30,9 +30,22 @@ class Leg:
     altitude : float or None
         Cruise pressure altitude [m]; None for the best one.
     tas : float or None
-        Cruise TAS [m/s]; None for the objective's best speed.
+        Cruise TAS [m/s] held; None for a power setting, a CAS or the objective's best.
     objective : str
         ``"range"``, ``"endurance"`` or ``"economy"`` for a best speed.
+    power : float or None
+        Power setting [-], a fraction of rated power, held in the cruise (the speed is
+        what that power gives); None for a speed.
+    cas : float or None
+        Calibrated airspeed held [m/s] (the TAS follows from the altitude).
+    kind : {"cruise", "hover", "loiter"}
+        A route leg; a hover at a point (hovering kinds only); or a loiter (an orbit for
+        a wing at ``bank``), each for ``duration``.
+    duration : float or None
+        Time of a hover or loiter [s].
+    bank : float
+        Bank angle of a fixed-wing loiter orbit [deg]; its load factor 1/cos(bank) raises
+        the induced drag by 1/cos^2(bank).
     elevation : float or None
         Highest ground under the leg [m]; the higher of the departure and arrival
         elevations when None.
@@ -49,9 +62,37 @@ class Leg:
     altitude: float | None = None
     tas: float | None = None
     objective: str = "range"
+    power: float | None = None
+    cas: float | None = None
+    kind: str = "cruise"
+    duration: float | None = None
+    bank: float = 0.0
     elevation: float | None = None
     max_agl: float | None = None
     max_altitude: float | None = None
+
+    def __post_init__(self):
+        if self.kind not in LEG_KINDS:
+            raise CruiseplanError(f"leg {self.name!r}: kind {self.kind!r} is not one of "
+                                  f"{', '.join(LEG_KINDS)}")
+        if (self.kind == "cruise") == (self.duration is not None):
+            raise CruiseplanError(f"leg {self.name!r}: a {self.kind} leg "
+                                  + ("has a distance, not a duration" if self.kind == "cruise"
+                                     else "needs a duration"))
+        if self.duration is not None and not 0.0 < self.duration < float("inf"):
+            raise CruiseplanError(f"leg {self.name!r}: duration {self.duration:g} s must be "
+                                  "positive")
+        if self.power is not None and not 0.0 < self.power <= 1.0:
+            raise CruiseplanError(f"leg {self.name!r}: power {self.power:g} is not a "
+                                  "fraction of rated power in (0, 1]")
+        if not 0.0 <= self.bank <= 60.0:
+            raise CruiseplanError(f"leg {self.name!r}: bank {self.bank:g} deg is outside 0 "
+                                  "to 60 deg")
+        given = [k for k, v in (("speed", self.tas), ("cas", self.cas), ("power", self.power))
+                 if v is not None]
+        if len(given) > 1:
+            raise CruiseplanError(f"leg {self.name!r}: give one of speed, cas or power, not "
+                                  f"{' and '.join(given)}")
 
 
 @dataclass(frozen=True)
@@ -74,6 +115,9 @@ class Reserve:
         A diversion leg flown at best range, added to the reserve.
     text : str
         As the crew wrote it; empty for a default.
+    power : float or None
+        Power a time reserve is flown at [-], a fraction of rated power; None: the normal
+        cruise power (the plan's cruise power; on a card the airframe's).
     """
 
     kind: str
@@ -81,8 +125,12 @@ class Reserve:
     altitude: float | None = None
     alternate: Leg | None = None
     text: str = ""
+    power: float | None = None
 
     def __post_init__(self):
+        if self.power is not None and not 0.0 < self.power <= 1.0:
+            raise CruiseplanError(f"reserve power {self.power:g} is not a fraction of rated "
+                                  "power in (0, 1]")
         if self.kind not in RESERVE_KINDS:
             raise CruiseplanError(f"reserve kind {self.kind!r} is not one of "
                                   f"{', '.join(RESERVE_KINDS)}")
@@ -95,10 +143,12 @@ class Reserve:
 
 #: The kinds of reserve policy.
 RESERVE_KINDS = ("time", "fraction", "amount")
+#: The kinds of leg.
+LEG_KINDS = ("cruise", "hover", "loiter")
 
 
 def default_reserve(propulsion) -> Reserve:
-    """The default reserve: 45 min at best-endurance power for fuel, 25 % for batteries.
+    """The default reserve: 45 min at normal cruise power for fuel, 25 % for batteries.
 
     Planning values only (common practice, no source); local rules decide the minimum.
 
@@ -157,7 +207,11 @@ class Profile:
 
 @dataclass(frozen=True)
 class Mission:
-    """A mission: airframe, loading, day, legs, allowance, reserve and profile (SI)."""
+    """A mission: airframe, loading, day, legs, allowance, reserve and profile (SI).
+
+    ``cruise_power`` [-] is the power setting (a fraction of rated power) of the legs that
+    give no speed, power or objective of their own; None: their best speed.
+    """
 
     name: str
     airframe: object
@@ -170,6 +224,7 @@ class Mission:
     payload: float | None = None
     allowance: float = 0.0
     stall_margin: float = DEFAULT_STALL_MARGIN
+    cruise_power: float | None = None
     source: str = ""
     description: str = ""
     wind_tolerance: object = None

@@ -57,6 +57,10 @@ class Store:
     power_kind : str
         Display kind of shaft power: ``"power"`` (hp or kW, engines) or
         ``"electric_power"`` (W, motors).
+    normal_cruise_power : float
+        Normal cruise power [-], a fraction of rated power: what a time reserve is flown
+        at when nothing else is said (65 % for engines, 30 % for electric motors; common
+        practice, no source).
     """
 
     name: str
@@ -65,12 +69,13 @@ class Store:
     burns_mass: bool
     default_units: str
     power_kind: str
+    normal_cruise_power: float
 
 
 #: Fuel, counted by mass [kg].
-FUEL = Store("fuel", "kg", "kg of fuel", True, "aviation", "power")
+FUEL = Store("fuel", "kg", "kg of fuel", True, "aviation", "power", 0.65)
 #: Usable battery energy [J].
-ENERGY = Store("energy", "J", "J of usable energy", False, "si", "electric_power")
+ENERGY = Store("energy", "J", "J of usable energy", False, "si", "electric_power", 0.30)
 
 # --- Power-lapse laws --------------------------------------------------------------
 

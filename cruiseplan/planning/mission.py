@@ -686,7 +686,7 @@ def plan_mission(mission: Mission) -> Plan:
                                     float(seg["time"]), float(seg["distance"]), used, store, m,
                                     float(seg["power"]), note))
         h = H if not last else prof.arrival_elevation
-    reserve = mission_reserve(fl, mission, m, leg_altitudes)
+    reserve = mission_reserve(fl, mission, m, leg_altitudes, cruise_power(segments))
     required = reserve.amount
     reserve_text = reserve.describe(fl.prop, fl.prop.store.default_units)
     lowest = min(s.remaining for s in segments)
@@ -746,7 +746,8 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
     return out
 
 
-def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes) -> ReserveAmount:
+def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes,
+                    cruise_power=None) -> ReserveAmount:
     """The mission's reserve at landing mass ``mass`` (arrays over samples allowed).
 
     A time reserve is flown at the last cruise altitude unless the policy names one; an
@@ -762,6 +763,9 @@ def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes) -> Reserv
         Mass at landing [kg].
     leg_altitudes : sequence of float
         Cruise altitudes flown [m].
+    cruise_power : float, optional
+        The plan's cruise power [-], a fraction of rated power: a time reserve is flown at
+        it unless the policy names a power.
 
     Returns
     -------
@@ -778,5 +782,24 @@ def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes) -> Reserv
         v0, _ = _cruise_speed(fl, alt, [h], m, fl.prop.store_capacity)
         cr = _cruise(fl, alt, np.array([h]), m, np.array([alt.distance]), v0, m)
         alternate_used = cr["used"] if np.ndim(mass) else float(np.ravel(cr["used"])[0])
-    return reserve_required(fl.af, res, mass=mass, isa_dev=mission.isa_dev, altitude=last,
-                            stall_margin=fl.margin, alternate_used=alternate_used)
+    return reserve_required(fl.af, res, mass=mass, cruise_power=cruise_power,
+                            power_source="plan", alternate_used=alternate_used)
+
+
+def cruise_power(segments) -> float | None:
+    """The plan's cruise power: time-weighted shaft power of its level segments [-].
+
+    Parameters
+    ----------
+    segments : sequence of Segment
+        The plan's segments.
+
+    Returns
+    -------
+    float or None
+        Fraction of rated power; None when nothing was flown level.
+    """
+    level = [s for s in segments if s.kind in ("cruise", "hover", "loiter") and s.time > 0]
+    if not level:
+        return None
+    return float(sum(s.power_fraction * s.time for s in level) / sum(s.time for s in level))

@@ -11,9 +11,13 @@ with :math:`\dot s` the fuel mass flow [kg/s] or battery power [W]. Specific ran
 distance per unit of store, :math:`V/\dot s` (air) or :math:`V_g/\dot s` (ground), and
 endurance the store on board over its flow (Peukert's law for batteries).
 
-Every point carries a bit set of :class:`Limit` reasons; a point beyond a limit keeps its
-computed values (what it *would* take) unless the model cannot give any (outside the
-atmosphere model: NaN, with the reason).
+Every point carries a bit set of :class:`Limit` reasons. A point beyond a margin or a
+model's range (the stall margin, Mach, polar, lapse, rotor or Reynolds range) keeps its
+computed values. A point that cannot be flown at all (:data:`~cruiseplan.limits.UNFLYABLE`:
+beyond CLmax, short of power, no headway or course, no level-flight solution) keeps what it
+*would* take (drag, power, CL, which say why) but has no range, endurance, specific range
+or flows (NaN, with the reason bit). Outside the atmosphere model every value is NaN, with
+the reason.
 
 References
 ----------
@@ -30,7 +34,7 @@ import numpy as np
 from cruiseplan._numerics import brent_minimise, illinois_root
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.limits import Limit, explain
+from cruiseplan.limits import UNFLYABLE, Limit, explain, flag_if
 from cruiseplan.physics import airspeed as _airspeed
 from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import (
@@ -43,9 +47,39 @@ from cruiseplan.physics.atmosphere import (
 from cruiseplan.units import temperature_difference, to_si
 
 
+#: Fields of :class:`CruisePoints` that are NaN where a point is beyond an
+#: :data:`~cruiseplan.limits.UNFLYABLE` limit: what the store would give there.
+UNFLYABLE_FIELDS = ("store_rate", "fuel_volume_flow", "source_power", "specific_range_air",
+                    "specific_range_ground", "endurance", "range_air", "range_ground")
+
+
 @dataclass(frozen=True)
 class CruisePoints:
     """Cruise performance at broadcast (altitude, TAS) points; SI arrays.
+
+    Which figures a limited point keeps, by :class:`~cruiseplan.limits.Limit` bit:
+
+    * ``BEYOND_CLMAX`` (CL above CLmax, TAS below the stall speed; always with ``STALL``),
+      ``POWER`` (shaft power required above power available), ``WIND`` (ground speed not
+      positive, or a crosswind the TAS cannot hold the course against) and
+      ``NO_SOLUTION`` (no level flight at a power setting): NaN for :attr:`store_rate`,
+      :attr:`fuel_volume_flow`, :attr:`source_power`, :attr:`specific_range_air`,
+      :attr:`specific_range_ground`, :attr:`endurance`, :attr:`range_air` and
+      :attr:`range_ground`. The drag, powers, CL, CD and L/D, ground speed and stall speed
+      ratio stay: they are what the point would take and show why it cannot be flown.
+      (:func:`power_setting_points` has no speed for ``POWER`` or ``NO_SOLUTION`` points,
+      so every value but the limits is NaN there.)
+    * ``STALL`` alone (between the stall speed and the stall margin), ``MACH``,
+      ``POLAR_RANGE``, ``LAPSE_RANGE``, ``ROTOR_RANGE``, ``REYNOLDS_RANGE``: every value
+      is kept (flyable, but outside a margin or a model's trusted range).
+    * ``ATMOSPHERE``: every value is NaN.
+
+    So a NaN figure always comes with its reason bit; :func:`cruise_points` with
+    ``keep_unflyable=True`` keeps the figures for searches that compare them.
+
+    A hovering kind (:attr:`Airframe.hovers`) may have TAS 0: ground speed 0 in calm air
+    is then no ``WIND`` limit, the specific range and range are 0 and the endurance is the
+    hover endurance.
 
     Attributes
     ----------
@@ -181,7 +215,7 @@ def shaft_power_required(airframe, mass, air, tas):
 
 def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
                   ground_speed=None, stall_margin=DEFAULT_STALL_MARGIN,
-                  valid_air=None) -> CruisePoints:
+                  valid_air=None, keep_unflyable=False) -> CruisePoints:
     """Cruise performance at points (SI core; no units, no validation of inputs).
 
     Parameters
@@ -206,6 +240,11 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     valid_air : array_like of bool, optional
         False where the altitude lay outside the atmosphere model (values become NaN)
         [-].
+    keep_unflyable : bool, optional
+        Keep the range, endurance, specific range and flows of points beyond an
+        :data:`~cruiseplan.limits.UNFLYABLE` limit (for searches that compare them, as
+        the optimiser's unconstrained optimum); the limit bits are the same. By default
+        they are NaN (see :class:`CruisePoints`).
 
     Returns
     -------
@@ -228,11 +267,16 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     gs = tas - headwind if ground_speed is None else np.asarray(ground_speed, dtype=float)
     endurance = store / rate
 
+    ratio = airframe.stall_speed_ratio(flight)
     limits = airframe.model_limits(flight, tas, stall_margin, air)
     limits = limits | (shaft > available).astype(np.uint16) << 1
     limits |= (tas > MACH_LIMIT * air.speed_of_sound).astype(np.uint16) << 3
     limits |= prop.lapse_outside(sigma).astype(np.uint16) << 5
-    limits |= (~(gs > 0)).astype(np.uint16) << 7
+    # A hover (TAS 0, ground speed 0: calm air) holds its position, so no WIND limit.
+    hover = (tas == 0) & (gs == 0)
+    limits |= (~((gs > 0) | hover)).astype(np.uint16) << 7
+    # V/Vs < 1 is CL > CLmax: beyond the stall itself, not just the margin (NaN: no wing).
+    limits |= flag_if(ratio < 1, Limit.BEYOND_CLMAX) | flag_if(ratio < 1, Limit.STALL)
     limits = np.broadcast_to(limits, np.shape(shaft)).astype(np.uint16)
 
     shape = np.shape(shaft)
@@ -245,12 +289,17 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
         ground_speed=np.broadcast_to(gs, shape),
         specific_range_air=tas / rate, specific_range_ground=gs / rate,
         endurance=endurance, range_air=tas * endurance, range_ground=gs * endurance,
-        stall_speed_ratio=airframe.stall_speed_ratio(flight),
+        stall_speed_ratio=ratio,
     )
     if valid_air is not None and not np.all(valid_air):
         bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), shape)
         out = {k: (None if v is None else np.where(bad, np.nan, v)) for k, v in out.items()}
         limits = np.where(bad, np.uint16(Limit.ATMOSPHERE), limits).astype(np.uint16)
+    if not keep_unflyable:
+        unflyable = (limits & np.uint16(UNFLYABLE)) != 0
+        if np.any(unflyable):
+            out.update({k: np.where(unflyable, np.nan, out[k]) for k in UNFLYABLE_FIELDS
+                        if out[k] is not None})
     return CruisePoints(air=air, tas=tas, mass=mass if np.ndim(mass) else float(mass),
                         store=store if np.ndim(store) else float(store),
                         store_name=prop.store_name, limits=limits,
@@ -302,7 +351,8 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     altitudes : array_like or pint.Quantity
         Pressure altitudes [m], one-dimensional (rows of the grid).
     tas : array_like or pint.Quantity
-        True airspeeds [m/s], one-dimensional (columns of the grid).
+        True airspeeds [m/s], one-dimensional (columns of the grid); positive, or 0 (the
+        hover) and above for a kind that hovers.
     mass : float or pint.Quantity, optional
         Aircraft mass [kg]; from the loading when not given.
     fuel : float or pint.Quantity, optional
@@ -329,15 +379,19 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     Raises
     ------
     CruiseplanError
-        For speeds that are not positive, a wind profile without a course, or both a
-        profile and a headwind.
+        For speeds that are not positive (negative for a kind that hovers), a wind
+        profile without a course, or both a profile and a headwind.
 
     References
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, ch. 5.
     """
     v = np.atleast_1d(to_si(tas, "m/s", what="tas"))
-    if v.ndim != 1 or np.any(v <= 0):
+    if airframe.hovers:
+        if v.ndim != 1 or np.any(v < 0):
+            raise CruiseplanError(f"tas must be a one-dimensional array of speeds of 0 (the "
+                                  f"hover) or more for the {airframe.kind} {airframe.name}")
+    elif v.ndim != 1 or np.any(v <= 0):
         raise CruiseplanError("tas must be a one-dimensional array of positive speeds")
     if wind is not None and np.any(np.asarray(headwind) != 0):
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")

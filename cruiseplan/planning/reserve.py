@@ -1,18 +1,21 @@
 """The reserve: how much fuel or energy must remain at landing, computed once.
 
 A :class:`~cruiseplan.model.mission.Reserve` states the policy as a crew writes it: a time
-(flown at best-endurance power at a stated altitude), a fraction of the usable capacity, or
-a fixed amount, plus an optional alternate. :func:`reserve_required` turns it into kilograms
-of fuel or joules of usable energy for a mass and a day; the mission planner, the cruise
-card and the Monte Carlo all call it, so they keep the same reserve.
+flown at a stated power, a fraction of the usable capacity, or a fixed amount, plus an
+optional alternate. Reserve rules state a time at normal cruising power, so a time reserve
+is flown at the power the policy names, else at the plan's cruise power (on a card, the
+airframe's normal cruise power), never silently at best-endurance power.
+:func:`reserve_required` turns the policy into kilograms of fuel or joules of usable energy;
+the mission planner, the cruise card and the Monte Carlo all call it, so they keep the same
+reserve.
 
 Local rules decide the minimum reserve; the defaults
 (:func:`~cruiseplan.model.mission.default_reserve`) are planning values only.
 
 References
 ----------
-.. [1] J. D. Anderson, *Aircraft Performance and Design*, McGraw-Hill, 1999, sec. 5.14
-   (endurance: least fuel flow at minimum power).
+.. [1] T. R. Yechout et al., *Introduction to Aircraft Flight Mechanics*, AIAA, 2003, ch. 2
+   (fuel flow of a piston engine at a power setting, BSFC x power).
 """
 
 from __future__ import annotations
@@ -22,12 +25,15 @@ from dataclasses import dataclass
 import numpy as np
 
 from cruiseplan.amounts import format_amount
-from cruiseplan.constants import DEFAULT_STALL_MARGIN
 from cruiseplan.model.mission import Reserve
-from cruiseplan.physics.atmosphere import air_state
-from cruiseplan.planning.optimise import speed_schedule
-from cruiseplan.planning.performance import shaft_power_required
 from cruiseplan.units import display
+
+#: Where the power of a time reserve came from, in words.
+POWER_SOURCES = {
+    "reserve": "as the reserve states",
+    "plan": "the plan's cruise power",
+    "card": "normal cruise power",
+}
 
 
 @dataclass(frozen=True)
@@ -43,24 +49,17 @@ class ReserveAmount:
         a Monte Carlo), the alternate included.
     alternate_used : float or numpy.ndarray
         Of which the alternate leg [kg or J].
-    altitude : float or None
-        Pressure altitude a time reserve is flown at [m].
-    tas : float or None
-        TAS it is flown at [m/s].
     power_fraction : float or None
-        Its shaft power over rated power [-].
-    flyable : bool
-        False when no speed at that altitude is within the limits (the minimum-power speed
-        is then used, and the text says so).
+        Shaft power a time reserve is flown at, over rated power [-].
+    power_source : str
+        Where that power came from, a key of :data:`POWER_SOURCES`.
     """
 
     reserve: Reserve
     amount: object
     alternate_used: object = 0.0
-    altitude: float | None = None
-    tas: float | None = None
     power_fraction: float | None = None
-    flyable: bool = True
+    power_source: str = ""
 
     def describe(self, propulsion, units: str) -> str:
         """How the reserve was computed, in words and display units.
@@ -75,17 +74,12 @@ class ReserveAmount:
         Returns
         -------
         str
-            E.g. ``"45 min at best-endurance power (33 % rated, 61 kt TAS) at 3500 ft"``.
+            E.g. ``"45 min at 65 % power (the plan's cruise power)"``.
         """
         res = self.reserve
         if res.kind == "time":
-            fa, la = display("altitude", units)
-            fs, ls = display("speed", units)
-            text = (f"{res.amount / 60:.0f} min at best-endurance power "
-                    f"({_first(self.power_fraction) * 100:.0f} % rated, "
-                    f"{_first(self.tas) * fs:.0f} {ls} TAS) at {self.altitude * fa:.0f} {la}")
-            if not self.flyable:
-                text += " (no speed within the limits there: minimum-power speed)"
+            text = (f"{res.amount / 60:.0f} min at {self.power_fraction * 100:.0f} % power "
+                    f"({POWER_SOURCES[self.power_source]})")
         elif res.kind == "fraction":
             text = f"{res.amount * 100:.0f} % of the usable {propulsion.store.name} capacity"
         else:
@@ -97,18 +91,15 @@ class ReserveAmount:
         return text
 
 
-def _first(value) -> float:
-    return float(np.ravel(value)[0])
-
-
-def reserve_required(airframe, reserve: Reserve, *, mass, isa_dev=0.0, altitude=0.0,
-                     stall_margin=DEFAULT_STALL_MARGIN, alternate_used=0.0) -> ReserveAmount:
+def reserve_required(airframe, reserve: Reserve, *, mass, cruise_power=None,
+                     power_source: str = "card", alternate_used=0.0) -> ReserveAmount:
     """Fuel or energy that must remain at landing under a reserve policy.
 
-    A time reserve is flown at the best-endurance (minimum-power) speed within the limits
-    at ``altitude``, at mass ``mass``: it needs the store rate there times the time. A
-    fraction is of the usable capacity (full tanks or a full pack). An alternate's use,
-    found by the planner's flight model, is added.
+    A time reserve uses the store at the rate of its power (BSFC x power for an engine; the
+    battery draw, Peukert's law included, for a pack) for its time: the power the policy
+    names, else ``cruise_power``, else the airframe's normal cruise power. A fraction is of
+    the usable capacity (full tanks or a full pack). An alternate's use, found by the
+    planner's flight model, is added.
 
     Parameters
     ----------
@@ -117,13 +108,13 @@ def reserve_required(airframe, reserve: Reserve, *, mass, isa_dev=0.0, altitude=
     reserve : Reserve
         The policy.
     mass : float or array_like
-        Mass at landing [kg] (arrays over samples allowed).
-    isa_dev : float, optional
-        ISA deviation [K].
-    altitude : float, optional
-        Pressure altitude of a time reserve [m], when the policy names none.
-    stall_margin : float, optional
-        Minimum TAS over stall speed [-].
+        Mass at landing [kg] (arrays over samples set the result's shape).
+    cruise_power : float, optional
+        Power a time reserve is flown at when the policy names none [-], a fraction of
+        rated power.
+    power_source : str, optional
+        What ``cruise_power`` is: ``"plan"`` (the plan's cruise power) or ``"card"`` (the
+        airframe's normal cruise power).
     alternate_used : float or array_like, optional
         Store the alternate leg uses [kg or J].
 
@@ -134,23 +125,21 @@ def reserve_required(airframe, reserve: Reserve, *, mass, isa_dev=0.0, altitude=
 
     References
     ----------
-    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.14.
+    .. [1] Yechout et al. (2003), ch. 2.
     """
     prop = airframe.propulsion
     scalar = np.ndim(mass) == 0
     m = np.atleast_1d(np.asarray(mass, dtype=float))
     extra = {}
     if reserve.kind == "time":
-        h = reserve.altitude if reserve.altitude is not None else float(altitude)
-        air = air_state(np.array([h]), isa_dev)
-        s = speed_schedule(airframe, m, air, prop.store_capacity, stall_margin=stall_margin)
-        flyable = bool(np.all(s.feasible))
-        v = np.where(s.feasible, s.tas["endurance"], s.tas_unconstrained["endurance"])
-        shaft = shaft_power_required(airframe, m, air, v)
-        base = prop.store_rate(shaft) * reserve.amount
-        extra = dict(altitude=h, tas=v if v.size > 1 else float(v[0]),
-                     power_fraction=float(np.ravel(shaft)[0] / prop.rated_power),
-                     flyable=flyable)
+        if reserve.power is not None:
+            power, source = reserve.power, "reserve"
+        elif cruise_power is not None:
+            power, source = float(cruise_power), power_source
+        else:
+            power, source = prop.store.normal_cruise_power, "card"
+        base = prop.store_rate(power * prop.rated_power) * reserve.amount + 0.0 * m
+        extra = dict(power_fraction=power, power_source=source)
     elif reserve.kind == "fraction":
         base = reserve.amount * prop.store_capacity + 0.0 * m
     else:

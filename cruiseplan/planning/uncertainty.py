@@ -243,7 +243,9 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
             time = time + seg["time"]
             m = np.where(seg["time"] > 0, seg["mass_end"], m)
         h = H if not last else prof.arrival_elevation
-    required = mission_reserve(fl, mission, m, plan.leg_altitudes).amount
+    # The samples fly the plan's power settings: the reserve's power is the plan's.
+    required = mission_reserve(fl, mission, m, plan.leg_altitudes,
+                               plan.reserve.power_fraction).amount
     required = np.broadcast_to(np.asarray(required, dtype=float), (n,))
     return PlanUncertainty(store, np.broadcast_to(used, (n,)), time, required, seed)
 

@@ -213,8 +213,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     # Reserve, in kg of fuel or J. Endurance is linear in the store for both propulsion
     # kinds (Peukert's law in Hart's form too), so a time t at power P needs t/E(P) of it.
     sched = best.schedule
-    kept = reserve_required(airframe, reserve, mass=loading.mass, isa_dev=dev,
-                            altitude=float(h[0]), stall_margin=stall_margin)
+    kept = reserve_required(airframe, reserve, mass=loading.mass)
     amount = kept.amount
     if amount >= store:
         raise CruiseplanError(
