@@ -1,10 +1,11 @@
-"""The ``plan`` command: a mission file planned to GO or NO-GO."""
+"""The ``plan`` command: a mission file planned to GO or NO-GO, with what-if overrides."""
 
 from __future__ import annotations
 
 from cruiseplan.cli import options
-from cruiseplan.io.mission_file import load_mission
+from cruiseplan.io.mission_file import apply_overrides, load_mission
 from cruiseplan.planning.mission import plan_mission
+from cruiseplan.planning.nogo import what_would_make_it_go
 from cruiseplan.planning.uncertainty import plan_uncertainty
 from cruiseplan.report.output import write_bytes_atomic
 from cruiseplan.report.tables import plan_report
@@ -23,7 +24,30 @@ def register(sub):
     p.add_argument("--plot", metavar="FILE", help="also draw the profile (.png or .pdf)")
     options.add_monte_carlo(p)
     options.add_output(p, formats=("text", "json", "csv", "markdown"))
+    _add_what_if(p)
     p.set_defaults(run=cmd_plan)
+
+
+#: The what-if options, by the keyword of :func:`~cruiseplan.io.mission_file.apply_overrides`.
+WHAT_IF_OPTIONS = {"altimeter": "--altimeter", "isa_dev": "--isa-dev", "oat": "--oat",
+                   "wind": "--wind", "fuel": "--fuel", "payload": "--payload"}
+
+
+def _add_what_if(p):
+    """Add the what-if overrides of the mission file to ``plan``."""
+    g = p.add_argument_group("what-if", "overrides of the mission file, echoed in the plan's "
+                                        "header")
+    day = g.add_mutually_exclusive_group()
+    day.add_argument("--isa-dev", help="ISA temperature deviation, e.g. '+15 K'")
+    day.add_argument("--oat", help="outside air temperature at the departure field, e.g. "
+                                   "'32 degC'")
+    g.add_argument("--wind", help="winds aloft for every leg, DIR/SPEED@ALT, e.g. "
+                                  "'270/25@3000ft,250/40@8000ft' (the legs keep their courses)")
+    g.add_argument("--fuel", help="fuel or energy on board: '40 L', '450 Wh' or '60%%' of "
+                                  "capacity (the take-off mass follows)")
+    g.add_argument("--payload", help="crew and payload, e.g. '80 kg' (the fuel stays)")
+    g.add_argument("--altimeter", help="QNH, e.g. '1009 hPa' or '29.80 inHg': the file's "
+                                       "elevations and altitudes are read on it")
 
 
 def cmd_plan(args):
@@ -32,20 +56,25 @@ def cmd_plan(args):
     Parameters
     ----------
     args : argparse.Namespace
-        Parsed ``plan`` options: mission, plot, Monte Carlo, format, output and units.
+        Parsed ``plan`` options: mission, plot, Monte Carlo, format, output, units and
+        the what-if overrides.
 
     Raises
     ------
     CruiseplanError
-        For a plot file not ending in .png or .pdf, a Monte Carlo count out of range, or
-        any error of the mission file.
+        For a plot file not ending in .png or .pdf, a Monte Carlo count out of range, a
+        what-if value that cannot be read or is out of range, or any error of the mission
+        file.
     """
     if args.plot:
         options.figure_path(args.plot, (".png", ".pdf"), "--plot")
     n = options.monte_carlo_n(args)
-    plan = plan_mission(load_mission(args.mission))
+    what_if = {k: getattr(args, k) for k in WHAT_IF_OPTIONS}
+    mission = apply_overrides(load_mission(args.mission), **what_if, names=WHAT_IF_OPTIONS)
+    plan = plan_mission(mission)
     spread = plan_uncertainty(plan, n, args.seed) if n else None
-    text = plan_report(plan, args.units, spread).render(args.format)
+    remedies = None if plan.go else what_would_make_it_go(plan)
+    text = plan_report(plan, args.units, spread, remedies).render(args.format)
     if args.plot:
         from cruiseplan import plots  # matplotlib, only for the figure
 

@@ -133,8 +133,9 @@ def cmd_table(args):
     Raises
     ------
     CruiseplanError
-        For speeds that are not positive (a :class:`~cruiseplan.errors.UnitError`), or
-        any error of the airframe, the options or the table.
+        For speeds that are not positive, or negative for a kind that hovers (a
+        :class:`~cruiseplan.errors.UnitError`), or any error of the airframe, the options
+        or the table.
     """
     af = load_airframe(args.airframe)
     units = args.units or options.default_units(af)
@@ -150,11 +151,13 @@ def cmd_table(args):
             v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
                             else "km/h", what="--speeds")
         elif af.hovers:
-            v = np.arange(2.0, 22.01, 2.0)
+            v = np.arange(0.0, 22.01, 2.0)  # from the hover
         else:
             v = np.arange(14.0, 30.01, 2.0)
-        if np.any(v <= 0):
-            raise UnitError("--speeds: speeds must be positive")
+        if np.any(v < 0) or (not af.hovers and np.any(v == 0)):
+            raise UnitError("--speeds: speeds must be positive" + (
+                "" if af.hovers else f" (0, the hover, only for a kind that hovers; "
+                                     f"{af.name} is a {af.kind})"))
         pts = cruise_grid(af, h, v, **common)
         title = "Cruise table by true airspeed"
     else:

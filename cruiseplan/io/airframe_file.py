@@ -43,6 +43,7 @@ from cruiseplan.physics.propulsion import (
     FUELS,
     POWER_LAPSE_LAWS,
     PROPULSION_KINDS,
+    ActuatorDiskPropeller,
     ElectricPropeller,
     PistonPropeller,
     PropellerEfficiency,
@@ -66,6 +67,8 @@ _SCHEMA = {
 }
 
 _EFFICIENCY = _num(0.05, 1.0, example="0.8", lo_open=True)
+# Optional: with it the propeller follows actuator-disk momentum theory.
+_PROPELLER_DIAMETER = _dim("m", hi=6.0, required=False, example="'1.8 m'")
 
 _COMPONENT_SCHEMA = {
     "name": None, "friction": None,
@@ -96,8 +99,14 @@ _BODY_DRAG_SCHEMA = {
     "bodies": None,
 }
 
-def _propeller(r: SchemaReader, sec: dict) -> PropellerEfficiency:
-    """A constant propeller efficiency, or a table against TAS."""
+def _propeller(r: SchemaReader, sec: dict, diameter=None):
+    """A constant propeller efficiency, or a table against TAS.
+
+    With a propeller diameter [m] that efficiency is the profile efficiency of an
+    actuator-disk propeller.
+    """
+    if diameter is not None:
+        return ActuatorDiskPropeller(diameter, _propeller(r, sec))
     raw = sec.get("propeller_efficiency")
     where = "[propulsion] propeller_efficiency"
     if isinstance(raw, dict):
@@ -190,11 +199,12 @@ def _piston(r: SchemaReader, sec: dict, vals: dict):
                      default="gagg-ferrar")
     density = vals["fuel_density"] or FUELS[fuel].density
     return PistonPropeller(rated_power=vals["rated_power"], bsfc=vals["bsfc"],
-                           propeller=_propeller(r, sec), fuel=fuel, fuel_density=density,
+                           propeller=_propeller(r, sec, vals["propeller_diameter"]),
+                           fuel=fuel, fuel_density=density,
                            fuel_capacity=vals["fuel_capacity"], power_lapse=lapse)
 
 
-def _battery(r: SchemaReader, sec: dict, vals: dict, propeller: PropellerEfficiency):
+def _battery(r: SchemaReader, sec: dict, vals: dict, propeller):
     nominal = vals["pack_voltage"] * vals["capacity"]
     if vals["battery_energy"] > 1.02 * nominal:
         r.fail("[propulsion] battery_energy",
@@ -209,7 +219,7 @@ def _battery(r: SchemaReader, sec: dict, vals: dict, propeller: PropellerEfficie
 
 
 def _electric_propeller(r: SchemaReader, sec: dict, vals: dict):
-    return _battery(r, sec, vals, _propeller(r, sec))
+    return _battery(r, sec, vals, _propeller(r, sec, vals["propeller_diameter"]))
 
 
 def _electric_rotor(r: SchemaReader, sec: dict, vals: dict):
@@ -273,11 +283,13 @@ PROPULSION_READERS = {
         "power_lapse": None,
         "bsfc": _dim("kg/J", 3e-8, 2e-7, lo_open=False, example="'0.45 lb/(hp*h)'"),
         "propeller_efficiency": None,
+        "propeller_diameter": _PROPELLER_DIAMETER,
         "fuel": None,
         "fuel_capacity": _dim("m^3", example="'100 L'"),
         "fuel_density": _dim("kg/m^3", 500.0, 1000.0, required=False, example="'0.72 kg/L'"),
     }, _piston),
-    "electric-propeller": Reader({**_BATTERY_FIELDS, "propeller_efficiency": None},
+    "electric-propeller": Reader({**_BATTERY_FIELDS, "propeller_efficiency": None,
+                                  "propeller_diameter": _PROPELLER_DIAMETER},
                                  _electric_propeller),
     "electric-rotor": Reader(_BATTERY_FIELDS, _electric_rotor),
 }

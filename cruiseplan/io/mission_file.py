@@ -9,6 +9,10 @@ Layout (our own; every dimensional value is a string with its unit)::
     [reserve]       time, fraction or quantity; altitude; [reserve.alternate] a leg
     [[legs]]        distance or from/to waypoints, course, elevation, altitude, speed,
                     objective, wind, max_agl, max_altitude
+    [levels]        sectors: a cruising-level rule by magnetic course (optional)
+
+``variation`` (magnetic, ``"5 E"``, ``"3 W"`` or ``"-3 deg"``, east positive) may be given
+in ``[mission]`` for every leg and in a leg, which then overrides it.
 
 With an altimeter setting, elevations and altitudes are read as altitudes above mean sea
 level (what the altimeter shows on QNH) and converted to pressure altitude; without one,
@@ -19,31 +23,52 @@ field. Defaults are conservative and stated in the plan; local rules decide the 
 from __future__ import annotations
 
 import math
+import re
+import warnings
+from dataclasses import replace
 from pathlib import Path
 
-from cruiseplan.amounts import parse_amount
-from cruiseplan.constants import FT
-from cruiseplan.errors import AirframeFileError, CruiseplanError, MissionFileError, UnitError
+from cruiseplan.amounts import format_amount, parse_amount
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT, T_ZERO_C
+from cruiseplan.errors import (
+    AirframeFileError,
+    CruiseplanError,
+    CruiseplanWarning,
+    MissionFileError,
+    UnitError,
+)
 from cruiseplan.io.airframe_file import find_airframe, read_airframe
 from cruiseplan.io.bundled import bundled_files, find_file
 from cruiseplan.io.schema import Field, SchemaReader, read_toml
-from cruiseplan.io.text import parse_wind_profile
-from cruiseplan.model.mission import Leg, Mission, Profile, Reserve, default_reserve
+from cruiseplan.io.text import format_altimeter, parse_altimeter, parse_wind_profile
+from cruiseplan.model.levels import LevelSector, check_sectors
+from cruiseplan.model.mission import (
+    LEG_KINDS,
+    Leg,
+    Mission,
+    Profile,
+    Reserve,
+    default_reserve,
+)
 from cruiseplan.model.tolerance import WindTolerance
 from cruiseplan.physics.atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
 from cruiseplan.physics.geo import great_circle
 from cruiseplan.physics.winds import WindProfile
-from cruiseplan.units import temperature_difference
+from cruiseplan.units import parse_quantity, temperature_difference, to_si
 
-_SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty"}
-_MISSION_FIELDS = {"name", "description", "airframe", "takeoff_mass", "fuel", "battery",
-                   "payload", "stall_margin"}
+_SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty",
+             "levels"}
+_MISSION_FIELDS = {"name", "description", "airframe", "takeoff_mass", "fuel", "battery", "power",
+                   "payload", "stall_margin", "variation"}
 _DAY_FIELDS = {"isa_dev", "oat", "altimeter"}
 _PROFILE_FIELDS = {"departure_elevation", "arrival_elevation", "climb_speed", "climb_power",
                    "climb_rate", "descent_rate", "min_clearance", "altitude_step", "top"}
-_LEG_FIELDS = {"name", "distance", "from", "to", "course", "elevation", "altitude", "speed",
-               "objective", "wind", "winds", "max_agl", "max_altitude"}
-_RESERVE_FIELDS = {"time", "fraction", "quantity", "altitude", "alternate"}
+_LEG_FIELDS = {"name", "kind", "duration", "bank", "power", "cas",
+               "distance", "from", "to", "course", "elevation", "altitude", "speed",
+               "objective", "wind", "winds", "max_agl", "max_altitude", "variation"}
+_RESERVE_FIELDS = {"time", "fraction", "quantity", "alternate", "power"}
+#: Bank angle of a loiter orbit when the file gives none [deg] (common practice, no source).
+DEFAULT_LOITER_BANK = 20.0
 
 #: Conservative defaults by propulsion kind (stated in every plan).
 DEFAULTS = {
@@ -56,6 +81,9 @@ DEFAULTS = {
 
 class _Reader(SchemaReader):
     """The schema reader with the mission file's shorthand: optional tables and fields."""
+
+    #: A winds-aloft profile that replaces every leg's (a what-if), or None.
+    wind = None
 
     def table(self, data, name, allowed, where=None):
         """An optional table whose fields must be among ``allowed`` ({} when absent)."""
@@ -117,6 +145,7 @@ def _leg(r, raw, where, to_pa):
         r.fail(where, "expected a table of leg fields")
     leg = r.table({"x": raw}, "x", _LEG_FIELDS, where=where)
     name = str(leg.get("name", where.strip("[]")))
+    kind = r.choice(where, leg, "kind", LEG_KINDS, default="cruise")
     has_points = "from" in leg or "to" in leg
     course = r.quantity(leg, "course", "", where, lo=0.0, hi=360.0, default_unit="",
                         example="45")
@@ -140,12 +169,28 @@ def _leg(r, raw, where, to_pa):
         if distance <= 0:
             r.fail(f"{where} to", "the waypoints are the same point")
         course = float(gc_course) if course is None else course
+    elif kind != "cruise":
+        if "distance" in leg:
+            r.fail(f"{where} distance", f"a {kind} leg holds its point: give its duration, "
+                                        "not a distance")
+        distance = 0.0
     else:
         distance = r.quantity(leg, "distance", "m", where, lo=1.0, required=True,
                               example="'62 nm'")
+    duration = r.quantity(leg, "duration", "s", where, lo=1.0, hi=86400.0,
+                          required=kind != "cruise", example="'10 min'")
+    if kind == "cruise" and duration is not None:
+        r.fail(f"{where} duration", "a cruise leg has a distance; give kind = 'hover' or "
+                                    "'loiter' for a time at a point")
+    bank = r.quantity(leg, "bank", "deg", where, lo=0.0, hi=60.0, default_unit="deg",
+                      example="'30 deg'")
+    if bank is not None and kind != "loiter":
+        r.fail(f"{where} bank", "only a loiter leg is flown at a bank angle")
     wind = _wind(r, leg, where)
+    if r.wind is not None:
+        wind = r.wind
     if course is None:
-        if any(s > 0 for s in wind.speeds):
+        if kind == "cruise" and any(s > 0 for s in wind.speeds):
             r.fail(f"{where} course", "missing; a leg with wind needs its true course (or "
                                       "from/to waypoints)")
         course = 0.0
@@ -160,25 +205,118 @@ def _leg(r, raw, where, to_pa):
     speed = best_or("speed", "m/s", "'105 kt' or 'best'")
     if speed is not None and speed <= 0:
         r.fail(f"{where} speed", "must be positive")
-    objective = leg.get("objective", "range")
-    if objective not in ("range", "endurance", "economy"):
+    objective = leg.get("objective")
+    if objective is not None and objective not in ("range", "endurance", "economy"):
         r.fail(f"{where} objective", f"{objective!r} is not one of range, endurance, economy")
+    if objective is None and leg.get("speed") == "best":
+        objective = "range"
+    power = r.quantity(leg, "power", "", where, lo=0.01, hi=1.0, example="'65 %'")
+    cas = r.quantity(leg, "cas", "m/s", where, lo=0.1, example="'95 kt'")
+    given = [k for k in ("speed", "cas", "power") if k in leg and leg[k] != "best"]
+    if len(given) > 1:
+        r.fail(f"{where} {given[1]}", f"give one of speed, cas or power, not {given[0]} and "
+                                      f"{given[1]}")
     elevation = r.quantity(leg, "elevation", "m", where, lo=-500.0, example="'1500 ft'")
     max_agl = r.quantity(leg, "max_agl", "m", where, lo=0.0, example="'120 m'")
     max_alt = r.quantity(leg, "max_altitude", "m", where, example="'9500 ft'")
-    return Leg(name=name, distance=distance, course=course, wind=wind,
-               altitude=None if altitude is None else to_pa(altitude), tas=speed,
-               objective=objective, elevation=None if elevation is None else to_pa(elevation),
-               max_agl=max_agl, max_altitude=None if max_alt is None else to_pa(max_alt))
+    variation = _variation(r, leg, where)
+    try:
+        return Leg(name=name, distance=distance, course=course, wind=wind,
+                   altitude=None if altitude is None else to_pa(altitude), tas=speed,
+                   objective=objective, power=power, cas=cas, kind=kind, duration=duration,
+                   bank=DEFAULT_LOITER_BANK if bank is None and kind == "loiter" else bank or 0,
+                   elevation=None if elevation is None else to_pa(elevation),
+                   max_agl=max_agl, max_altitude=None if max_alt is None else to_pa(max_alt),
+                   variation=variation)
+    except CruiseplanError as exc:
+        r.fail(where, str(exc))
 
 
-def read_mission(path) -> Mission:
+#: How a variation is written, for messages.
+_VARIATION_EXAMPLE = "'5 E', '3 W' or '-3 deg' (east positive)"
+_EAST_WEST = re.compile(r"^\s*(.*?)\s*([EW])\s*$", re.IGNORECASE)
+
+
+def _variation(r, table, where):
+    """Magnetic variation [deg], east positive: '5 E', '3 W', '-3 deg' or -3; None if absent."""
+    raw = table.get("variation")
+    if raw is None:
+        return None
+    side = _EAST_WEST.match(raw) if isinstance(raw, str) else None
+    if side:
+        size = r.quantity({"variation": side.group(1)}, "variation", "deg", where, lo=0.0,
+                          hi=180.0, default_unit="deg", example=_VARIATION_EXAMPLE)
+        return size if side.group(2) in "Ee" else -size
+    return r.quantity(table, "variation", "deg", where, lo=-180.0, hi=180.0,
+                      default_unit="deg", example=_VARIATION_EXAMPLE)
+
+
+#: How a level sector is written, for messages.
+_SECTOR_EXAMPLE = "{ from = 0, to = 179, levels = '3500 ft + 2000 ft' }"
+_BASE_STEP = re.compile(r"^\s*(.+?)\s*\+\s*(.+?)\s*$")
+_WITH_UNIT = re.compile(r"\d\s*[A-Za-z]")
+
+
+def _levels(r, data) -> tuple:
+    """The cruising-level rule of ``[levels] sectors`` as LevelSectors; () when absent."""
+    if "levels" not in data:
+        return ()
+    sec = r.table(data, "levels", {"sectors"})
+    raw = sec.get("sectors")
+    if not isinstance(raw, list) or not raw or not all(isinstance(t, dict) for t in raw):
+        r.fail("[levels] sectors", f"expected a list of sectors, e.g. sectors = "
+                                   f"[{_SECTOR_EXAMPLE}, ...]")
+    out = []
+    for n, t in enumerate(raw, 1):
+        w = f"[levels] sectors[{n}]"
+        r.check_fields(t, {"from", "to", "levels"}, w)
+        ends = []
+        for key in ("from", "to"):
+            v = t.get(key)
+            whole = (isinstance(v, (int, float)) and not isinstance(v, bool)
+                     and float(v).is_integer() and 0 <= v <= 359)
+            if not whole:
+                r.fail(f"{w} {key}", ("missing; expected" if v is None else f"{v!r} is not")
+                       + " a whole degree of magnetic course from 0 to 359, e.g. "
+                       + _SECTOR_EXAMPLE)
+            ends.append(int(v))
+        text = t.get("levels")
+        parts = _BASE_STEP.match(text) if isinstance(text, str) else None
+        if not parts or not all(_WITH_UNIT.search(g) for g in parts.groups()):
+            r.fail(f"{w} levels", f"{text!r} should read BASE + STEP with their units, e.g. "
+                                  "'3500 ft + 2000 ft' (3500, 5500, 7500 ft ...)")
+        base = r.quantity({"levels": parts.group(1)}, "levels", "m", w, lo=-500.0,
+                          hi=20000.0, example="'3500 ft + 2000 ft'")
+        step = r.quantity({"levels": parts.group(2)}, "levels", "m", w, lo=1.0, hi=10000.0,
+                          example="'3500 ft + 2000 ft'")
+        out.append(LevelSector(ends[0], ends[1], base, step, text.strip()))
+    try:
+        check_sectors(out)
+    except CruiseplanError as exc:
+        r.fail("[levels] sectors", str(exc))
+    return tuple(out)
+
+
+def _wind_words(profile) -> str:
+    """A winds-aloft profile as written: ``"270/25kt@3000ft,250/40kt@8000ft"``."""
+    kt = 1852.0 / 3600.0
+    return ",".join(f"{d:03.0f}/{v / kt:.0f}kt@{h / FT:.0f}ft"
+                    for h, d, v in zip(profile.altitudes, profile.directions, profile.speeds))
+
+
+def read_mission(path, *, altimeter=None, wind=None) -> Mission:
     """Read and validate a mission file.
 
     Parameters
     ----------
     path : str or pathlib.Path
         A TOML mission file.
+    altimeter : str or float, optional
+        QNH that replaces ``[day] altimeter`` (``"1009 hPa"``, ``"29.80 inHg"`` or [Pa]):
+        the file's elevations and altitudes are read on it.
+    wind : WindProfile, optional
+        Winds aloft that replace every leg's (and the alternate's); the legs' courses are
+        still required.
 
     Returns
     -------
@@ -211,6 +349,9 @@ def read_mission(path) -> Mission:
     day = r.table(data, "day", _DAY_FIELDS)
     qnh = r.quantity(day, "altimeter", "Pa", "[day]", lo=85000.0, hi=108000.0,
                      example="'1013 hPa'")
+    if altimeter is not None:
+        qnh = parse_altimeter(altimeter)
+    r.wind = wind
 
     def to_pa(alt):
         return float(pressure_altitude_from_altimeter(alt, qnh)) if qnh else alt
@@ -286,14 +427,17 @@ def read_mission(path) -> Mission:
     else:
         kind, amount = "amount", _store_amount(r, res_raw["quantity"], "quantity", "[reserve]",
                                               prop)
-    res_alt = r.quantity(res_raw, "altitude", "m", "[reserve]", lo=-500.0, example="'3000 ft'")
+    res_power = r.quantity(res_raw, "power", "", "[reserve]", lo=0.01, hi=1.0,
+                           example="'65 %'")
+    if res_power is not None and kind != "time":
+        r.fail("[reserve] power", "goes with a time reserve (the power it is flown at)")
     alternate = None
     if "alternate" in res_raw:
         alternate = _leg(r, res_raw["alternate"], "[reserve.alternate]", to_pa)
     written = {"time": res_raw.get("time"), "fraction": res_raw.get("fraction"),
                "quantity": res_raw.get("quantity")}
-    reserve = Reserve(kind, amount, None if res_alt is None else to_pa(res_alt), alternate,
-                      text=str(written[kinds[0]]) if kinds else "")
+    reserve = Reserve(kind, amount, alternate, text=str(written[kinds[0]]) if kinds else "",
+                      power=res_power)
 
     legs_raw = data.get("legs")
     if not isinstance(legs_raw, list) or not legs_raw:
@@ -301,6 +445,13 @@ def read_mission(path) -> Mission:
     legs = tuple(_leg(r, leg, f"leg {k}" + (f" {leg.get('name')!r}" if isinstance(leg, dict)
                                             and "name" in leg else ""), to_pa)
                  for k, leg in enumerate(legs_raw, 1))
+    variation = _variation(r, head, "[mission]")
+    if variation is not None:
+        legs = tuple(leg if leg.variation is not None else replace(leg, variation=variation)
+                     for leg in legs)
+    levels = _levels(r, data)
+    what_if = tuple(([f"altimeter {format_altimeter(qnh)}"] if altimeter is not None else [])
+                    + ([f"wind {_wind_words(wind)} on every leg"] if wind is not None else []))
     unc = r.table(data, "uncertainty", {"wind_speed", "wind_direction"})
     wind_tolerance = None
     if unc:
@@ -309,11 +460,19 @@ def read_mission(path) -> Mission:
                        example="'4 kt'") or 0.0,
             r.quantity(unc, "wind_direction", "deg", "[uncertainty]", lo=0.0, hi=90.0,
                        example="'15 deg'") or 0.0)
+    for k, leg in enumerate(legs, 1):
+        if leg.kind == "hover" and not af.hovers:
+            r.fail(f"leg {k} {leg.name!r} kind", f"{af.name} is a {af.kind}: it cannot hover; "
+                                                 "give kind = 'loiter' for an orbit")
     mission = Mission(
         name=str(head.get("name", path.stem)), airframe=af, legs=legs, reserve=reserve,
         profile=profile, isa_dev=isa_dev, mass=mass, store=store, payload=payload,
-        allowance=allowance, stall_margin=margin or 1.3, source=str(path),
-        description=str(head.get("description", "")), wind_tolerance=wind_tolerance)
+        allowance=allowance, stall_margin=margin or DEFAULT_STALL_MARGIN,
+        cruise_power=r.quantity(head, "power", "", "[mission]", lo=0.01, hi=1.0,
+                                example="'65 %'"),
+        source=str(path),
+        description=str(head.get("description", "")), wind_tolerance=wind_tolerance,
+        altimeter=qnh, variation=variation or 0.0, levels=levels, overrides=what_if)
     try:
         af.loading(mass=mass, store=store, payload=payload)
     except CruiseplanError as exc:
@@ -332,17 +491,169 @@ def bundled_missions() -> dict:
     return bundled_files("mission")
 
 
-def load_mission(name_or_path) -> Mission:
+def load_mission(name_or_path, *, altimeter=None, wind=None) -> Mission:
     """Load a bundled mission by name, or a mission file by path.
 
     Parameters
     ----------
     name_or_path : str or pathlib.Path
         Bundled name or path to a TOML mission file.
+    altimeter : str or float, optional
+        QNH that replaces the file's (``"1009 hPa"``, ``"29.80 inHg"`` or [Pa]).
+    wind : WindProfile, optional
+        Winds aloft that replace every leg's.
 
     Returns
     -------
     Mission
         The validated mission.
     """
-    return read_mission(find_file(name_or_path, "mission"))
+    return read_mission(find_file(name_or_path, "mission"), altimeter=altimeter, wind=wind)
+
+
+#: The what-if overrides of :func:`apply_overrides`, in the order the plan lists them.
+OVERRIDES = ("altimeter", "isa_dev", "oat", "wind", "fuel", "payload")
+
+
+def _reread(mission, qnh, profile, names):
+    """The mission read again from its file with a new QNH or wind (or the wind replaced)."""
+    source = Path(mission.source) if mission.source else None
+    if source is not None and source.is_file():
+        if mission.overrides:
+            key = "altimeter" if qnh is not None else "wind"
+            raise CruiseplanError(
+                f"{names[key]}: the mission already has what-if overrides "
+                f"({', '.join(mission.overrides)}); an altimeter or wind override reads "
+                "the mission file again, so give every override in one call")
+        return read_mission(source, altimeter=qnh, wind=profile)
+    if qnh is not None:
+        raise CruiseplanError(f"{names['altimeter']}: the mission has no file to read its "
+                              "elevations and altitudes again on a new altimeter setting")
+    alt = mission.reserve.alternate
+    reserve = (mission.reserve if alt is None
+               else replace(mission.reserve, alternate=replace(alt, wind=profile)))
+    return replace(mission, legs=tuple(replace(leg, wind=profile) for leg in mission.legs),
+                   reserve=reserve)
+
+
+def apply_overrides(mission, *, altimeter=None, isa_dev=None, oat=None, wind=None, fuel=None,
+                    payload=None, names=None) -> Mission:
+    """A mission with what-if overrides of its file, recorded for the plan's header.
+
+    Each override is text as on the command line or a value in SI; those left None keep
+    the mission's. An altimeter setting changes how the file's elevations and altitudes
+    are read, and a wind needs every leg's course checked, so both read the mission file
+    again (``mission.source``): give every override in one call. A mission without a file
+    takes a wind on its legs as they are, and no altimeter setting.
+
+    Parameters
+    ----------
+    mission : Mission
+        The mission, as read from its file.
+    altimeter : str or float, optional
+        QNH, ``"1009 hPa"`` or ``"29.80 inHg"`` [Pa].
+    isa_dev : str or float, optional
+        Temperature deviation from ISA, ``"+15 K"`` [K].
+    oat : str or float, optional
+        Outside air temperature at the departure field, ``"32 degC"`` [K]; not with
+        ``isa_dev``.
+    wind : str or WindProfile, optional
+        Winds aloft for every leg (and the alternate), ``"270/25@3000ft,250/40@8000ft"``.
+    fuel : str or float, optional
+        Fuel or energy on board, ``"40 L"``, ``"60 %"``, ``"450 Wh"`` [kg or J]; the
+        take-off mass then follows from it.
+    payload : str or float, optional
+        Crew and payload, ``"80 kg"`` [kg]; the fuel on board stays as it was.
+    names : dict, optional
+        How errors name each override, by keyword (the command line passes its options,
+        ``{"isa_dev": "--isa-dev", ...}``); the keyword by default.
+
+    Returns
+    -------
+    Mission
+        The mission with the overrides, its ``overrides`` listing them in words (e.g.
+        ``("ISA +15 K", "fuel 60 %")``).
+
+    Raises
+    ------
+    CruiseplanError
+        One line naming the override: a value that cannot be read or is out of range,
+        ``isa_dev`` with ``oat``, fuel beyond capacity, or an error of the mission file
+        read again.
+    """
+    names = {**{k: k for k in OVERRIDES}, **(names or {})}
+    if isa_dev is not None and oat is not None:
+        raise CruiseplanError(f"{names['isa_dev']} and {names['oat']}: give one, not both")
+    qnh = None if altimeter is None else parse_altimeter(altimeter, what=names["altimeter"])
+    profile, wind_text = None, ""
+    if isinstance(wind, WindProfile):
+        profile, wind_text = wind, _wind_words(wind)
+    elif wind is not None:
+        try:
+            profile = parse_wind_profile(str(wind))
+        except (UnitError, ValueError) as exc:
+            raise UnitError(f"{names['wind']}: {exc}") from None
+        wind_text = str(wind).strip()
+    words = list(mission.overrides)
+    if qnh is not None or profile is not None:
+        mission = _reread(mission, qnh, profile, names)
+        words = []
+        if qnh is not None:
+            words.append(f"altimeter {altimeter.strip()}" if isinstance(altimeter, str)
+                         else f"altimeter {format_altimeter(qnh)}")
+    changes = {}
+    if isa_dev is not None:
+        dev = temperature_difference(isa_dev, what=names["isa_dev"])
+        if not -60.0 <= dev <= 60.0:
+            raise UnitError(f"{names['isa_dev']}: {isa_dev!r} is out of range (-60 to 60 K)")
+        changes["isa_dev"] = dev
+        words.append(f"ISA {dev:+g} K")
+    if oat is not None:
+        t = parse_quantity(oat, "K", default_unit="degC", what=names["oat"])
+        if not 180.0 <= t <= 340.0:
+            raise UnitError(f"{names['oat']}: {oat!r} is out of range (-93 to 67 degC)")
+        dev = t - float(isa_temperature_pressure(mission.profile.departure_elevation)[0])
+        changes["isa_dev"] = dev
+        words.append(f"OAT {t - T_ZERO_C:g} degC at departure (ISA {dev:+.1f} K)")
+    if profile is not None:
+        words.append(f"wind {wind_text} on every leg")
+    if fuel is not None or payload is not None:
+        changes.update(_loading_overrides(mission, fuel, payload, names, words))
+    return replace(mission, **changes, overrides=tuple(words))
+
+
+def _loading_overrides(mission, fuel, payload, names, words) -> dict:
+    """Store, payload and mass (None: it follows) for fuel and payload overrides."""
+    af = mission.airframe
+    prop = af.propulsion
+    with warnings.catch_warnings():
+        # Over the maximum take-off mass is the planner's NO-GO reason, said once there.
+        warnings.simplefilter("ignore", CruiseplanWarning)
+        store = af.loading(mass=mission.mass, store=mission.store,
+                           payload=mission.payload).store
+    pl = mission.payload
+    if fuel is not None:
+        if isinstance(fuel, str):
+            store = parse_amount(fuel, prop, what=names["fuel"])
+        else:
+            store = to_si(fuel, prop.store.unit, what=names["fuel"])
+            if not 0.0 <= store < math.inf:
+                raise UnitError(f"{names['fuel']}: {fuel!r} must be a finite amount, not "
+                                "negative")
+        text = (fuel.strip() if isinstance(fuel, str)
+                else format_amount(store, prop, prop.store.default_units))
+        words.append(f"{'fuel' if prop.store.burns_mass else 'battery'} {text}")
+    if payload is not None:
+        pl = parse_quantity(payload, "kg", default_unit="kg", what=names["payload"])
+        if not 0.0 <= pl < math.inf:
+            raise UnitError(f"{names['payload']}: {payload!r} must be a finite mass, not "
+                            "negative")
+        words.append(f"payload {payload.strip() if isinstance(payload, str) else f'{pl:g} kg'}")
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", CruiseplanWarning)
+            af.loading(mass=None, store=store, payload=pl)
+    except CruiseplanError as exc:
+        raise CruiseplanError(f"{names['fuel' if fuel is not None else 'payload']}: "
+                              f"{exc}") from None
+    return dict(mass=None, store=store, payload=pl)

@@ -1,7 +1,8 @@
-"""Text forms shared by files and the command line: winds aloft and reserves.
+"""Text forms shared by files and the command line: winds aloft, reserves, altimeter settings.
 
-``"270/25@3000ft,250/40@8000ft"`` (direction from, speed, altitude) and ``"45min"``,
-``"25%"``, ``"10L"`` (a reserve) are read here, once, for files and options alike.
+``"270/25@3000ft,250/40@8000ft"`` (direction from, speed, altitude), ``"45min"``,
+``"25%"``, ``"10L"`` (a reserve) and ``"1009 hPa"`` or ``"29.80 inHg"`` (an altimeter
+setting) are read here, once, for files and options alike.
 """
 
 from __future__ import annotations
@@ -109,3 +110,56 @@ def parse_reserve(text: str, propulsion, *, what: str = "--reserve") -> Reserve:
     if value <= 0:
         raise UnitError(f"{what}: {text!r} must be positive")
     return Reserve("amount", value, text=t)
+
+
+#: Altimeter settings accepted [Pa]: 850 to 1080 hPa.
+ALTIMETER_RANGE = (85000.0, 108000.0)
+
+
+def parse_altimeter(value, *, what: str = "altimeter") -> float:
+    """Read an altimeter setting (QNH): ``"1009 hPa"``, ``"29.80 inHg"``, or Pa.
+
+    Parameters
+    ----------
+    value : str or float or pint.Quantity
+        Text with its unit (a bare number is refused: hPa and inHg differ by 30 times), a
+        float [Pa] or a pressure Quantity.
+    what : str
+        Name of the option or field, for messages.
+
+    Returns
+    -------
+    float
+        The setting [Pa], within :data:`ALTIMETER_RANGE`.
+
+    Raises
+    ------
+    UnitError
+        For text without a unit, a value that is not a pressure, or one outside 850 to
+        1080 hPa.
+    """
+    if isinstance(value, str) and not _HAS_UNIT.search(value):
+        raise UnitError(f"{what}: {value!r} needs a unit, e.g. '1009 hPa' or '29.80 inHg'")
+    qnh = parse_quantity(value, "Pa", what=what)
+    lo, hi = ALTIMETER_RANGE
+    if not lo <= qnh <= hi:
+        raise UnitError(f"{what}: {value!r} is out of range; expected {lo / 100:.0f} to "
+                        f"{hi / 100:.0f} hPa (25.10 to 31.89 inHg)")
+    return qnh
+
+
+def format_altimeter(qnh: float) -> str:
+    """An altimeter setting for people: ``"1009 hPa"``, ``"1009.1 hPa"`` off the whole hPa.
+
+    Parameters
+    ----------
+    qnh : float
+        The setting [Pa].
+
+    Returns
+    -------
+    str
+        In hPa, to 0.1 hPa when it is not a whole number of them.
+    """
+    hpa = qnh / 100.0
+    return f"{hpa:.0f} hPa" if abs(hpa - round(hpa)) < 0.05 else f"{hpa:.1f} hPa"

@@ -98,7 +98,8 @@ class FixedWing(AirframeBase):
         Returns
         -------
         LevelFlight
-            ``cl``, ``cd`` [-], ``drag`` [N], ``shaft`` [W].
+            ``cl``, ``cd`` [-], ``drag`` [N], ``shaft`` [W]: the propulsion's shaft power
+            for a thrust equal to the drag (``shaft_for_thrust``).
 
         References
         ----------
@@ -108,8 +109,9 @@ class FixedWing(AirframeBase):
         cl = lift_coefficient(mass, air.density, tas, self.wing_area)
         cd = self.polar.drag_coefficient(cl, tas, air)
         drag = mass * G0 * cd / cl  # lift = weight, drag = lift / (L/D)
-        return LevelFlight(drag=drag, shaft=drag * tas / self.propulsion.propeller(tas),
-                           cl=cl, cd=cd)
+        # Thrust = drag: D V / eta_p(V), or with a propeller diameter momentum theory.
+        shaft = self.propulsion.shaft_for_thrust(drag, tas, air.density)
+        return LevelFlight(drag=drag, shaft=shaft, cl=cl, cd=cd)
 
     def model_limits(self, flight: LevelFlight, tas, stall_margin, air):
         """Limit bits of the wing's own model: stall margin, polar and Reynolds range.

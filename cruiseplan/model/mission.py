@@ -53,6 +53,9 @@ class Leg:
         Maximum height above that ground [m] (e.g. a drone's legal cap).
     max_altitude : float or None
         Highest altitude allowed (airspace) [m].
+    variation : float or None
+        Magnetic variation on the leg [deg], east positive (magnetic = true - variation);
+        the mission's when None.
     """
 
     name: str
@@ -61,7 +64,7 @@ class Leg:
     wind: WindProfile = field(default_factory=WindProfile.calm)
     altitude: float | None = None
     tas: float | None = None
-    objective: str = "range"
+    objective: str | None = None
     power: float | None = None
     cas: float | None = None
     kind: str = "cruise"
@@ -70,6 +73,7 @@ class Leg:
     elevation: float | None = None
     max_agl: float | None = None
     max_altitude: float | None = None
+    variation: float | None = None
 
     def __post_init__(self):
         if self.kind not in LEG_KINDS:
@@ -108,9 +112,6 @@ class Reserve:
         full pack), or a fixed amount.
     amount : float
         Seconds, a fraction [-], or kg of fuel / J of usable energy.
-    altitude : float or None
-        Pressure altitude a time reserve is flown at [m]; the plan's last cruise altitude
-        (the card's lowest altitude) when None.
     alternate : Leg or None
         A diversion leg flown at best range, added to the reserve.
     text : str
@@ -122,7 +123,6 @@ class Reserve:
 
     kind: str
     amount: float
-    altitude: float | None = None
     alternate: Leg | None = None
     text: str = ""
     power: float | None = None
@@ -228,3 +228,13 @@ class Mission:
     source: str = ""
     description: str = ""
     wind_tolerance: object = None
+    #: QNH the file's elevations and altitudes were read with [Pa]; None: read as
+    #: pressure altitudes.
+    altimeter: float | None = None
+    #: Magnetic variation of the legs that give none [deg], east positive.
+    variation: float = 0.0
+    #: Cruising-level rule: :class:`~cruiseplan.model.levels.LevelSector` s covering every
+    #: magnetic course; empty for none.
+    levels: tuple = ()
+    #: What-if overrides applied to the file, in words, for the plan's header.
+    overrides: tuple = ()

@@ -369,3 +369,38 @@ def pressure_altitude_from_altimeter(altitude, altimeter_setting):
     A = np.asarray(altitude, dtype=float)
     p = np.asarray(altimeter_setting, dtype=float) * (1.0 - LAPSE * A / T0) ** n
     return (T0 / LAPSE) * (1.0 - (p / P0) ** (1.0 / n))
+
+
+def indicated_altitude(pressure_altitude, altimeter_setting):
+    r"""Altitude an altimeter set to QNH reads at a pressure altitude.
+
+    The inverse of :func:`pressure_altitude_from_altimeter`, on the same ISA troposphere
+    pressure–height relation: the ambient pressure at the pressure altitude is
+    :math:`p = p_0 (1 - L H_p / T_0)^{g_0/(R L)}`, and the altimeter, calibrated to that
+    relation with its sub-scale pressure :math:`Q` in place of :math:`p_0`, reads
+    :math:`A = (T_0/L)[1 - (p/Q)^{R L/g_0}]`. With :math:`Q = p_0` it reads the pressure
+    altitude. No temperature correction: on a day colder than ISA the aircraft is lower
+    than the altimeter reads.
+
+    Parameters
+    ----------
+    pressure_altitude : array_like
+        Pressure altitude [m] (troposphere).
+    altimeter_setting : array_like
+        QNH, the altimeter's sub-scale setting [Pa].
+
+    Returns
+    -------
+    numpy.ndarray
+        Indicated altitude: the altitude above mean sea level the altimeter shows on QNH
+        [m].
+
+    References
+    ----------
+    .. [1] ICAO Doc 7488/3 (1993), troposphere pressure-altitude relation; the altimeter
+       calibration follows it with QNH as the datum pressure.
+    """
+    n = G0 / (R_AIR * LAPSE)
+    H = np.asarray(pressure_altitude, dtype=float)
+    p = P0 * (1.0 - LAPSE * H / T0) ** n
+    return (T0 / LAPSE) * (1.0 - (p / np.asarray(altimeter_setting, dtype=float)) ** (1.0 / n))

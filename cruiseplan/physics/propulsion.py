@@ -12,7 +12,19 @@ Two kinds, registered in :data:`PROPULSION_KINDS` under the names used in airfra
   fraction of the pack; with :math:`n = 1` this is usable energy over power.
 
 Shaft power required is thrust power over propeller efficiency,
-:math:`P_{shaft} = D V / \eta_p(V)`.
+:math:`P_{shaft} = D V / \eta_p(V)`, with :math:`\eta_p` constant or tabulated against TAS
+(:class:`PropellerEfficiency`). When the airframe file gives a propeller diameter
+(:class:`ActuatorDiskPropeller`) the efficiency is the actuator-disk (Froude) ideal
+efficiency, which falls as the disk loading rises, times the file's efficiency taken as the
+profile efficiency :math:`\eta_{pr}`:
+
+.. math:: \eta = \eta_{pr}(V)\,\eta_i, \qquad
+          \eta_i = \frac{2}{1 + \sqrt{1 + T / (\tfrac12 \rho V^2 A)}},
+
+so shaft power is :math:`T (V + v_i) / \eta_{pr}` and static thrust is finite,
+:math:`T_0 = (2 \rho A (\eta_{pr} P)^2)^{1/3}`. The propulsion kinds answer both ways
+round: :meth:`PistonPropeller.shaft_for_thrust` (level flight, T = D) and
+:meth:`PistonPropeller.thrust_available` (climb, full power).
 
 Each kind's "store" is what it uses up: fuel mass [kg] or usable battery energy [J]
 (:class:`Store`). One store rate serves every output: :meth:`store_rate` [kg/s or W] is the
@@ -27,6 +39,8 @@ References
    (BSFC of piston engines).
 .. [3] L. W. Traub, "Range and Endurance Estimates for Battery-Powered Aircraft",
    *J. Aircraft* 48(2), 2011, pp. 703-707 (Peukert's law for aircraft).
+.. [4] B. W. McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, Wiley, ch. 6
+   (momentum theory of the propeller: ideal efficiency, static thrust).
 """
 
 from __future__ import annotations
@@ -193,6 +207,75 @@ class PropellerEfficiency:
         t = (v - row[..., 0]) * row[..., 1]
         return ((row[..., 2] * t + row[..., 3]) * t + row[..., 4]) * t + row[..., 5]
 
+    def scaled(self, factor):
+        """The same efficiency multiplied by ``factor`` [-] (uncertainty samples)."""
+        return replace(self, factor=factor)
+
+    def shaft_for_thrust(self, thrust, tas, density):
+        r"""Shaft power [W] giving ``thrust`` at TAS: :math:`T V / \eta_p(V)`.
+
+        Parameters
+        ----------
+        thrust : array_like
+            Thrust [N].
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3] (not used: the efficiency depends on TAS only).
+
+        Returns
+        -------
+        numpy.ndarray
+            Shaft power [W].
+        """
+        return thrust * tas / self(tas)
+
+    def thrust_available(self, tas, density, power):
+        r"""Thrust [N] at shaft power ``power``: :math:`\eta_p(V) P / V` (unbounded as V -> 0).
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s], positive.
+        density : array_like
+            Air density [kg/m^3] (not used).
+        power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray
+            Thrust [N].
+        """
+        return self(tas) * power / tas
+
+    def excess_thrust_power(self, tas, density, power, shaft, drag):
+        r"""Thrust power beyond drag power [W]: :math:`\eta_p(V) (P - P_{req})`.
+
+        Equal to :math:`(T_{av} - D) V` when ``shaft`` is the shaft power for thrust
+        ``drag``; written on shaft powers so that kinds whose shaft power is not
+        :math:`D V / \eta_p` (lifting rotors, efficiency 1) get their excess power.
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3] (not used).
+        power : array_like
+            Shaft power available [W].
+        shaft : array_like
+            Shaft power required in level flight [W].
+        drag : array_like
+            Drag [N] (not used).
+
+        Returns
+        -------
+        numpy.ndarray
+            Excess thrust power [W] (negative: cannot hold the speed level).
+        """
+        return self(tas) * (power - shaft)
+
 
 def _monotone_slopes(x, y):
     """Fritsch-Carlson end and interior slopes for a monotone cubic through (x, y)."""
@@ -218,10 +301,336 @@ def _monotone_slopes(x, y):
     return d
 
 
+# --- Actuator disk (momentum theory) ---------------------------------------------------
+
+def ideal_efficiency(thrust, tas, density, disk_area):
+    r"""Actuator-disk (Froude) ideal propulsive efficiency.
+
+    .. math:: \eta_i = \frac{2}{1 + \sqrt{1 + T / (\tfrac12 \rho V^2 A)}}
+                     = \frac{2 V}{V + \sqrt{V^2 + 2 T / (\rho A)}} = \frac{V}{V + v_i},
+
+    evaluated in the second form, which holds at V = 0 (efficiency 0) as well.
+
+    Parameters
+    ----------
+    thrust : array_like
+        Thrust [N], >= 0.
+    tas : array_like
+        True airspeed [m/s], >= 0.
+    density : array_like
+        Air density [kg/m^3].
+    disk_area : array_like
+        Propeller disk area [m^2].
+
+    Returns
+    -------
+    numpy.ndarray
+        Ideal efficiency [-] in [0, 1]; 1 at zero thrust in motion.
+
+    References
+    ----------
+    .. [1] McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, ch. 6 (momentum
+       theory of the propeller, ideal efficiency).
+    """
+    tas = np.asarray(tas, dtype=float)
+    return 2 * tas / (tas + np.sqrt(tas**2 + 2 * thrust / (density * disk_area)))
+
+
+def momentum_power(thrust, tas, density, disk_area):
+    r"""Ideal (momentum-theory) power [W] to produce ``thrust`` at TAS.
+
+    .. math:: P_i = T (V + v_i) = \frac{T}{2}\left(V + \sqrt{V^2 + \frac{2T}{\rho A}}\right),
+
+    thrust power :math:`T V` over the ideal efficiency; at V = 0 the hover power
+    :math:`T^{3/2} / \sqrt{2 \rho A}`.
+
+    Parameters
+    ----------
+    thrust : array_like
+        Thrust [N], >= 0.
+    tas : array_like
+        True airspeed [m/s], >= 0.
+    density : array_like
+        Air density [kg/m^3].
+    disk_area : array_like
+        Propeller disk area [m^2].
+
+    Returns
+    -------
+    numpy.ndarray
+        Ideal power [W].
+
+    References
+    ----------
+    .. [1] McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, ch. 6 (momentum
+       theory of the propeller).
+    """
+    tas = np.asarray(tas, dtype=float)
+    return 0.5 * thrust * (tas + np.sqrt(tas**2 + 2 * thrust / (density * disk_area)))
+
+
+def momentum_thrust(power, tas, density, disk_area):
+    r"""Thrust [N] that an ideal power ``power`` gives at TAS (inverse of :func:`momentum_power`).
+
+    With :math:`w = V + v_i` the speed through the disk, :math:`T = 2 \rho A w v_i` and
+    :math:`P = T w`, so :math:`w^3 - V w^2 = c`, :math:`c = P / (2 \rho A)`. This cubic has
+    one real root above V; by Cardano's formula, written without cancellation,
+
+    .. math:: s = \sqrt[3]{\frac{V^3}{27} + \frac{c}{2}
+                  + \sqrt{\frac{c V^3}{27} + \frac{c^2}{4}}}, \qquad
+              w = \frac{V}{3} + s + \frac{V^2}{9 s}, \qquad T = P / w.
+
+    At V = 0 this is the static thrust :math:`(2 \rho A P^2)^{1/3}`; thrust falls
+    continuously as V rises and tends to P / V.
+
+    Parameters
+    ----------
+    power : array_like
+        Ideal (thrust plus induced) power [W], >= 0: shaft power x profile efficiency.
+    tas : array_like
+        True airspeed [m/s], >= 0.
+    density : array_like
+        Air density [kg/m^3].
+    disk_area : array_like
+        Propeller disk area [m^2].
+
+    Returns
+    -------
+    numpy.ndarray
+        Thrust [N]; 0 at zero power.
+
+    References
+    ----------
+    .. [1] McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, ch. 6 (momentum
+       theory of the propeller, static thrust).
+    """
+    tas = np.asarray(tas, dtype=float)
+    power = np.asarray(power, dtype=float)
+    c = power / (2 * density * disk_area)
+    v3 = tas**3 / 27
+    s = np.cbrt(v3 + 0.5 * c + np.sqrt(c * v3 + 0.25 * c**2))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        w = tas / 3 + s + tas**2 / (9 * s)
+        return np.where(power > 0, power / w, 0.0)
+
+
+@dataclass(frozen=True)
+class ActuatorDiskPropeller:
+    r"""A propeller of given diameter: actuator-disk ideal efficiency x profile efficiency.
+
+    The efficiency depends on thrust as well as speed,
+    :math:`\eta = \eta_{pr}(V)\,\eta_i(T, V, \rho)` (:func:`ideal_efficiency`), so static
+    thrust is finite and thrust falls with speed at full power. The disk area is the full
+    circle :math:`\pi D^2 / 4` (no deduction for the spinner).
+
+    Parameters
+    ----------
+    diameter : float
+        Propeller diameter [m].
+    profile : PropellerEfficiency
+        Profile efficiency [-], constant or tabulated against TAS: the losses momentum
+        theory leaves out (blade drag, swirl, non-uniform loading). An airframe file's
+        ``propeller_efficiency`` is read as this when it gives ``propeller_diameter``.
+
+    References
+    ----------
+    .. [1] McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, ch. 6.
+    """
+
+    diameter: float
+    profile: PropellerEfficiency
+
+    #: The efficiency depends on thrust: no closed-form best speeds.
+    is_constant = False
+
+    @property
+    def disk_area(self) -> float:
+        """Disk area pi D^2 / 4 [m^2]."""
+        return np.pi * self.diameter**2 / 4
+
+    @property
+    def tas(self) -> tuple:
+        """TAS points of the profile efficiency [m/s]."""
+        return self.profile.tas
+
+    @property
+    def efficiency(self) -> tuple:
+        """Profile efficiencies [-] at :attr:`tas`."""
+        return self.profile.efficiency
+
+    @property
+    def factor(self):
+        """Factor on the profile efficiency [-]."""
+        return self.profile.factor
+
+    def __call__(self, tas):
+        """Profile efficiency [-] at TAS [m/s]; the ideal efficiency needs the thrust."""
+        return self.profile(tas)
+
+    def scaled(self, factor):
+        """The same propeller with its profile efficiency multiplied by ``factor`` [-]."""
+        return replace(self, profile=self.profile.scaled(factor))
+
+    def total_efficiency(self, thrust, tas, density):
+        """Propulsive efficiency T V / P_shaft [-] at a thrust.
+
+        Parameters
+        ----------
+        thrust : array_like
+            Thrust [N].
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3].
+
+        Returns
+        -------
+        numpy.ndarray
+            Ideal x profile efficiency [-].
+        """
+        return ideal_efficiency(thrust, tas, density, self.disk_area) * self.profile(tas)
+
+    def shaft_for_thrust(self, thrust, tas, density):
+        r"""Shaft power [W] giving ``thrust`` at TAS: :math:`T (V + v_i) / \eta_{pr}(V)`.
+
+        Parameters
+        ----------
+        thrust : array_like
+            Thrust [N].
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3].
+
+        Returns
+        -------
+        numpy.ndarray
+            Shaft power [W].
+
+        References
+        ----------
+        .. [1] McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, ch. 6.
+        """
+        return momentum_power(thrust, tas, density, self.disk_area) / self.profile(tas)
+
+    def thrust_available(self, tas, density, power):
+        r"""Thrust [N] at shaft power ``power``: the root of :math:`\eta_{pr} P = T (V + v_i)`.
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s], >= 0.
+        density : array_like
+            Air density [kg/m^3].
+        power : array_like
+            Shaft power [W].
+
+        Returns
+        -------
+        numpy.ndarray
+            Thrust [N]; :math:`(2 \rho A (\eta_{pr} P)^2)^{1/3}` at V = 0.
+
+        References
+        ----------
+        .. [1] McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, ch. 6.
+        """
+        return momentum_thrust(self.profile(tas) * power, tas, density, self.disk_area)
+
+    def excess_thrust_power(self, tas, density, power, shaft, drag):
+        r"""Thrust power beyond drag power [W]: :math:`(T_{av}(V) - D) V`.
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3].
+        power : array_like
+            Shaft power available [W].
+        shaft : array_like
+            Shaft power required in level flight [W] (not used).
+        drag : array_like
+            Drag [N].
+
+        Returns
+        -------
+        numpy.ndarray
+            Excess thrust power [W] (negative: cannot hold the speed level).
+        """
+        return (self.thrust_available(tas, density, power) - drag) * tas
+
+
+class _Propeller:
+    """What a propulsion kind with a ``propeller`` answers about thrust and shaft power."""
+
+    def shaft_for_thrust(self, thrust, tas, density):
+        r"""Shaft power [W] that gives ``thrust`` [N] at TAS [m/s] in air of ``density``.
+
+        Parameters
+        ----------
+        thrust : array_like
+            Thrust [N] (drag, in level flight).
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3].
+
+        Returns
+        -------
+        numpy.ndarray
+            Shaft power [W]: :math:`T V / \eta_p(V)`, or with a propeller diameter
+            :math:`T (V + v_i) / \eta_{pr}(V)` (momentum theory).
+        """
+        return self.propeller.shaft_for_thrust(thrust, tas, density)
+
+    def thrust_available(self, tas, density, power):
+        r"""Thrust [N] at shaft power ``power`` [W] and TAS [m/s].
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3].
+        power : array_like
+            Shaft power [W], e.g. :meth:`shaft_power_available`.
+
+        Returns
+        -------
+        numpy.ndarray
+            Thrust [N]: :math:`\eta_p P / V` (unbounded as V -> 0), or with a propeller
+            diameter the momentum-theory thrust, finite at V = 0.
+        """
+        return self.propeller.thrust_available(tas, density, power)
+
+    def excess_thrust_power(self, tas, density, power, shaft, drag):
+        """Thrust power beyond drag power [W], (T_av - D) V, for the climb rate.
+
+        Parameters
+        ----------
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3].
+        power : array_like
+            Shaft power available [W].
+        shaft : array_like
+            Shaft power required in level flight [W].
+        drag : array_like
+            Drag in level flight [N].
+
+        Returns
+        -------
+        numpy.ndarray
+            Excess thrust power [W].
+        """
+        return self.propeller.excess_thrust_power(tas, density, power, shaft, drag)
+
+
 # --- Propulsion kinds ------------------------------------------------------------------
 
 @dataclass(frozen=True)
-class PistonPropeller:
+class PistonPropeller(_Propeller):
     """Piston engine driving a propeller.
 
     Parameters
@@ -230,8 +639,8 @@ class PistonPropeller:
         Maximum continuous shaft power at sea level, ISA [W].
     bsfc : float
         Brake-specific fuel consumption [kg/J].
-    propeller : PropellerEfficiency
-        Propeller efficiency.
+    propeller : PropellerEfficiency or ActuatorDiskPropeller
+        Propeller efficiency (with a diameter: momentum theory x profile efficiency).
     fuel : str
         Fuel name, a key of :data:`FUELS`.
     fuel_density : float
@@ -244,7 +653,7 @@ class PistonPropeller:
 
     rated_power: float
     bsfc: float
-    propeller: PropellerEfficiency
+    propeller: PropellerEfficiency | ActuatorDiskPropeller
     fuel: str
     fuel_density: float
     fuel_capacity: float
@@ -397,13 +806,12 @@ class PistonPropeller:
         if "bsfc" in factors:
             changes["bsfc"] = self.bsfc * factors["bsfc"]
         if "propeller_efficiency" in factors:
-            changes["propeller"] = replace(self.propeller,
-                                           factor=factors["propeller_efficiency"])
+            changes["propeller"] = self.propeller.scaled(factors["propeller_efficiency"])
         return replace(self, **changes) if changes else self
 
 
 @dataclass(frozen=True)
-class ElectricPropeller:
+class ElectricPropeller(_Propeller):
     """Battery, controller and motor driving a propeller.
 
     Parameters
@@ -416,8 +824,8 @@ class ElectricPropeller:
         Rated pack capacity [A s].
     motor_efficiency, controller_efficiency : float
         Efficiencies [-].
-    propeller : PropellerEfficiency
-        Propeller efficiency.
+    propeller : PropellerEfficiency or ActuatorDiskPropeller
+        Propeller efficiency (with a diameter: momentum theory x profile efficiency).
     max_power : float
         Maximum continuous motor shaft power [W].
     peukert_exponent : float
@@ -431,7 +839,7 @@ class ElectricPropeller:
     capacity: float
     motor_efficiency: float
     controller_efficiency: float
-    propeller: PropellerEfficiency
+    propeller: PropellerEfficiency | ActuatorDiskPropeller
     max_power: float
     peukert_exponent: float = 1.0
     rating_time: float = 3600.0
@@ -602,8 +1010,7 @@ class ElectricPropeller:
         if "motor_efficiency" in factors:
             changes["motor_efficiency"] = self.motor_efficiency * factors["motor_efficiency"]
         if "propeller_efficiency" in factors:
-            changes["propeller"] = replace(self.propeller,
-                                           factor=factors["propeller_efficiency"])
+            changes["propeller"] = self.propeller.scaled(factors["propeller_efficiency"])
         return replace(self, **changes) if changes else self
 
 

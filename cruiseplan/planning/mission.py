@@ -37,23 +37,26 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
+from cruiseplan._numerics import illinois_root
 from cruiseplan.amounts import format_amount
-from cruiseplan.constants import FT_PER_MIN, G0
+from cruiseplan.constants import FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.model.mission import Mission
 from cruiseplan.physics.airspeed import (
     eas_from_tas,
     ground_speed,
+    tas_from_cas,
     tas_from_eas,
     wind_components,
     wind_correction_angle,
 )
 from cruiseplan.physics.atmosphere import air_state
+from cruiseplan.planning.levels import leg_candidates
 from cruiseplan.planning.optimise import max_climb_rate, objective_speed
-from cruiseplan.planning.performance import shaft_power_required
+from cruiseplan.planning.performance import shaft_power_required, speed_for_min_power
 from cruiseplan.planning.reserve import ReserveAmount, reserve_required
 
 #: Integration steps per segment (altitude steps in climb and descent, RK4 steps in cruise).
@@ -67,7 +70,12 @@ GS_FLOOR = 0.5
 
 @dataclass(frozen=True)
 class Segment:
-    """One flown segment (SI): start and end altitude, speeds, time, distance, store."""
+    """One segment of the plan (SI): start and end altitude, speeds, time, distance, store.
+
+    ``flown`` is False from the segment where a NO-GO plan fails on: such a segment's
+    figures are what it would take, not what happens; reports print "not flown" and no
+    figures for it.
+    """
 
     leg: str
     kind: str
@@ -83,6 +91,7 @@ class Segment:
     mass_end: float
     power_fraction: float
     note: str = ""
+    flown: bool = True
 
 
 @dataclass(frozen=True)
@@ -168,13 +177,15 @@ class Flight:
     wind; ``sample_shape`` is then the shape of those arrays, () otherwise.
     """
 
-    def __init__(self, mission: Mission, airframe=None, wind_error=None, sample_shape=()):
+    def __init__(self, mission: Mission, airframe=None, wind_error=None, sample_shape=(),
+                 headwind_offset=0.0):
         self.af = mission.airframe if airframe is None else airframe
         self.prop = self.af.propulsion
         self.dev = mission.isa_dev
         self.margin = mission.stall_margin
         self.burns_mass = self.prop.store.burns_mass
         self.wind_error = wind_error
+        self.headwind_offset = headwind_offset
         self.sample_shape = sample_shape
         load = mission.airframe.loading(mass=mission.mass, store=mission.store,
                                         payload=mission.payload)
@@ -252,10 +263,20 @@ class Flight:
             Component from the right of the course [m/s].
         """
         if self.wind_error is None:
-            return leg.wind.components(leg.course, h)
+            head, cross = leg.wind.components(leg.course, h)
+        else:
+            direction, speed = leg.wind.at(h)
+            d_speed, d_dir = self.wind_error
+            head, cross = wind_components(leg.course, direction + d_dir,
+                                          np.maximum(speed + d_speed, 0))
+        return head + self.headwind_offset, cross
+
+    def wind_speed(self, leg, h):
+        """Wind speed [m/s] on the leg at altitudes ``h`` (with the samples' errors)."""
         direction, speed = leg.wind.at(h)
-        d_speed, d_dir = self.wind_error
-        return wind_components(leg.course, direction + d_dir, np.maximum(speed + d_speed, 0))
+        if self.wind_error is not None:
+            speed = np.maximum(speed + self.wind_error[0], 0)
+        return speed
 
     def ground(self, v, leg, h, gamma_rate=0.0, wind=None):
         """Ground speed and heading for TAS ``v`` (horizontal part when climbing).
@@ -373,21 +394,45 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
                     power=mean(pw_sum))
 
 
-def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
+def _speed_rule(fl: Flight, mode, target, v_ref, m_ref, air, n=1.0):
+    """TAS as a function of mass for a speed mode (see :func:`speed_mode`).
+
+    A best speed holds the lift coefficient of ``v_ref`` at ``m_ref`` (TAS as sqrt(mass));
+    a power setting holds shaft power ``target`` [W] (Newton steps from ``v_ref``, on the
+    fast side of the power curve); a TAS or CAS holds ``v_ref``.
+    """
+    if mode == "best":
+        return lambda m: v_ref * np.sqrt(m / m_ref)
+    if mode != "power" or not fl.burns_mass:
+        return lambda m: v_ref
+
+    def speed(m):
+        v = np.asarray(v_ref, dtype=float)
+        for _ in range(3):
+            p = fl.shaft(m * n, air, v)
+            dv = 1e-4 * v
+            slope = (fl.shaft(m * n, air, v + dv) - p) / dv
+            v = v - (p - target) / slope
+        return v
+
+    return speed
+
+
+def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
+            target=None):
     """Cruise at altitudes ``h`` over ``distance`` (arrays over candidates) by RK4.
 
-    With ``leg.tas`` None the lift coefficient of TAS ``v_ref`` at mass ``m_ref`` is held
-    (TAS goes as sqrt(mass)); else the leg's TAS is held. The cruise starts at mass
-    ``m0``. ``air`` may carry the air at ``h``.
+    The speed follows the leg's speed mode (:func:`speed_mode`): a best speed holds the
+    lift coefficient of TAS ``v_ref`` at mass ``m_ref`` (TAS goes as sqrt(mass)); a power
+    setting holds shaft power ``target`` [W]; a TAS or CAS is held. The cruise starts at
+    mass ``m0``. ``air`` may carry the air at ``h``.
     """
     air = fl.air(h) if air is None else air
     wind = fl.wind(leg, h)
     m0 = np.asarray(m0, dtype=float)
-    hold_cl = leg.tas is None
-
-    def speed(m):
-        return v_ref * np.sqrt(m / m_ref) if hold_cl else v_ref
-
+    if mode is None:
+        mode = "best" if leg.tas is None else "tas"
+    speed = _speed_rule(fl, mode, target, v_ref, m_ref, air)
     v0 = speed(m0)
 
     def deriv(m):
@@ -430,22 +475,145 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None):
                 wind_ok=held & (gs0 > 0), v_end=v_end)
 
 
-def _cruise_speed(fl: Flight, leg, h, m, store, air=None):
-    """TAS to start the cruise at: the leg's, or the objective's best (constrained)."""
-    h = np.atleast_1d(np.asarray(h, dtype=float))
+def speed_mode(mission: Mission, leg) -> tuple:
+    """How a leg's speed is set, as crews set it.
+
+    Parameters
+    ----------
+    mission : Mission
+        The mission (its default cruise power).
+    leg : Leg
+        The leg.
+
+    Returns
+    -------
+    mode : {"tas", "cas", "power", "best", "hover"}
+        A TAS held, a CAS held, a power setting held, an objective's best speed, or a hover
+        (holding position: the airspeed is the wind's).
+    value : float or str
+        The TAS or CAS [m/s], the power [-], or the objective's name.
+    """
+    if leg.kind == "hover":
+        return "hover", 0.0
     if leg.tas is not None:
-        return np.full(h.shape, leg.tas), np.ones(h.shape, dtype=bool)
+        return "tas", leg.tas
+    if leg.cas is not None:
+        return "cas", leg.cas
+    if leg.power is not None:
+        return "power", leg.power
+    if leg.objective is not None:
+        return "best", leg.objective
+    if leg.kind == "loiter":
+        return "best", "endurance"
+    if mission.cruise_power is not None:
+        return "power", mission.cruise_power
+    return "best", "range"
+
+
+def _speed_at_power(fl: Flight, m, air, target):
+    """TAS [m/s] at which shaft power ``target`` [W] holds level flight, fast side.
+
+    Returns the speed (NaN where none) and where full throttle gives that power and the
+    power holds level flight.
+    """
+    af = fl.af
+    v_mp = speed_for_min_power(af, m, air)
+    v_hi = MACH_LIMIT * air.speed_of_sound
+    p_min = fl.shaft(m, air, v_mp)
+    p_hi = fl.shaft(m, air, v_hi)
+    ok = ((target <= fl.prop.shaft_power_available(air.sigma) * (1 + 1e-12))
+          & (target >= p_min) & (target <= p_hi))
+    shape = np.broadcast_shapes(np.shape(v_mp), np.shape(target))
+    v = illinois_root(lambda x: fl.shaft(m, air, x) - target, np.broadcast_to(v_mp, shape),
+                      np.broadcast_to(v_hi, shape), xtol_rel=1e-10)
+    return np.where(ok, v, np.nan), np.broadcast_to(ok, shape)
+
+
+def _start_speed(fl: Flight, mission: Mission, leg, h, m, store, air=None):
+    """TAS to start a cruise or hold at, whether it can be flown, the mode and its target.
+
+    Returns (TAS [m/s], flyable, mode, target shaft power [W] or None), arrays over the
+    altitudes ``h``.
+    """
+    h = np.atleast_1d(np.asarray(h, dtype=float))
     air = fl.air(h) if air is None else air
+    mode, value = speed_mode(mission, leg)
+    n = _load_factor(leg)
+    ones = np.ones(h.shape, dtype=bool)
+    if mode == "hover":
+        # Holding position over the ground, the airspeed is the wind speed.
+        return np.broadcast_to(fl.wind_speed(leg, h), h.shape).copy(), ones, mode, None
+    if mode == "tas":
+        return np.full(h.shape, value), ones, mode, None
+    if mode == "cas":
+        return tas_from_cas(value, air.pressure, air.speed_of_sound) + 0.0 * h, ones, mode, None
+    if mode == "power":
+        target = value * fl.prop.rated_power
+        v, ok = _speed_at_power(fl, m * n, air, target)
+        return v, ok, mode, target
     head, cross = fl.wind(leg, h)
-    # A planner needs the speed to 1e-6, not to the last digit.
-    return objective_speed(fl.af, m, air, store, leg.objective, headwind=head,
-                           crosswind=cross, stall_margin=fl.margin, xtol=1e-6)
+    if leg.kind != "cruise":
+        head, cross = 0.0 * head, 0.0 * cross   # an orbit or hold: no course to make good
+    # A planner needs the speed to 1e-6, not to the last digit. In a turn the best speeds
+    # are those of level flight at the mass times the load factor (the same CL).
+    v, ok = objective_speed(fl.af, m * n, air, store, value, headwind=head,
+                            crosswind=cross, stall_margin=fl.margin, xtol=1e-6)
+    return v, ok, mode, None
+
+
+def _load_factor(leg) -> float:
+    """Load factor of the leg's flight: 1/cos(bank) in a loiter orbit, else 1 [-]."""
+    return 1.0 / np.cos(np.radians(leg.bank)) if leg.kind == "loiter" else 1.0
+
+
+def _hold(fl: Flight, leg, h, m0, duration, v_ref, m_ref, air, mode, target):
+    """A hover or loiter at altitudes ``h`` for ``duration`` [s], by RK4 in time.
+
+    In a loiter orbit at bank angle phi the lift is n = 1/cos(phi) times the weight, so the
+    induced drag is n^2 = 1/cos^2(phi) times that of straight flight at the same speed;
+    the kind's level flight at n times the mass gives exactly that.
+    """
+    n = _load_factor(leg)
+    m0 = np.asarray(m0, dtype=float)
+    speed = _speed_rule(fl, mode, target, v_ref, m_ref, air, n)
+    v0 = speed(m0)
+
+    def rate(m):
+        r = fl.rate(fl.shaft(m * n, air, speed(m)))
+        burning = fl.burns_mass & (m > fl.zero_fuel_mass)
+        return np.where(burning, -r, 0.0), r
+
+    shape = np.broadcast_shapes(m0.shape, np.shape(h), np.shape(v_ref), fl.sample_shape)
+    m = np.broadcast_to(m0, shape).copy()
+    used = np.zeros(shape)
+    dt = float(duration) / CRUISE_STEPS
+    for _ in range(CRUISE_STEPS):
+        k1 = rate(m)
+        k2 = rate(np.maximum(m + 0.5 * dt * k1[0], fl.zero_fuel_mass))
+        k3 = rate(np.maximum(m + 0.5 * dt * k2[0], fl.zero_fuel_mass))
+        k4 = rate(np.maximum(m + dt * k3[0], fl.zero_fuel_mass))
+        used += dt / 6.0 * (k1[1] + 2 * k2[1] + 2 * k3[1] + k4[1])
+        m = np.maximum(m + dt / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]),
+                       fl.zero_fuel_mass)
+    p0 = fl.shaft(m0 * n, air, v0)
+    p1 = fl.shaft(m * n, air, speed(m))
+    v_stall = fl.af.stall_speed(m0 * n, air.density)
+    zero = np.zeros(shape)
+    # An orbit or a hover keeps no course: no ground speed or heading to fly.
+    return dict(time=zero + float(duration), distance=zero, used=used, mass_end=m,
+                tas=v0 + zero, gs=zero + np.nan, heading=zero + np.nan,
+                power=p0 / fl.prop.rated_power + zero,
+                power_ok=np.maximum(p0, p1) <= fl.prop.shaft_power_available(air.sigma)
+                * (1 + 1e-9),
+                stall_ok=v0 >= fl.margin * v_stall * (1 - 1e-9),
+                wind_ok=np.ones(shape, dtype=bool), v_end=speed(m))
 
 
 def climb_speed(mission: Mission) -> float:
     """Climb EAS [m/s]: the profile's, or the best-rate speed at departure, mass at start.
 
-    The best-rate speed is raised to the stall margin times the stall speed where needed.
+    The best-rate speed is searched only at or above the mission's stall margin times the
+    stall speed (:func:`~cruiseplan.planning.optimise.best_rate_climb`).
 
     Parameters
     ----------
@@ -467,10 +635,8 @@ def climb_speed(mission: Mission) -> float:
     af = mission.airframe
     load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
     air = air_state(mission.profile.departure_elevation, mission.isa_dev)
-    _, v = max_climb_rate(af, load.mass, air)
-    v_s = af.stall_speed(load.mass, air.density)
     # Never slower than the stall margin; held as EAS through the climb.
-    v = np.maximum(v, mission.stall_margin * v_s)
+    _, v = max_climb_rate(af, load.mass, air, stall_margin=mission.stall_margin)
     return float(eas_from_tas(v, air.density))
 
 
@@ -522,31 +688,41 @@ def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
     H = np.asarray(candidates, dtype=float)
     air_H = fl.air(H)
     # Best (or set) speed at each candidate, at the leg's starting mass; a best speed is
-    # then flown at that lift coefficient.
+    # then flown at that lift coefficient, a power setting at that power.
     if v_cruise is None:
-        v_cr, speed_ok = _cruise_speed(fl, leg, H, m, store, air_H)
+        v_cr, speed_ok, mode, target = _start_speed(fl, mission, leg, H, m, store, air_H)
     else:
+        # A plan re-flown (Monte Carlo): its start speed, in the leg's own speed mode.
+        mode, value = speed_mode(mission, leg)
+        target = value * fl.prop.rated_power if mode == "power" else None
         v_cr, speed_ok = v_cruise + 0.0 * H, np.ones(H.shape, dtype=bool)
-    v_eas_cruise = eas_from_tas(v_cr, air_H.density)
+    v_eas_cruise = eas_from_tas(np.nan_to_num(v_cr), air_H.density)
     trans = _vertical(fl, leg, h_now, H, m, v_climb, v_eas_cruise, prof)
     m_cr = trans["mass_end"]
     # The final descent's distance is flown within the last leg: estimate it from the mass
     # at the start of the cruise, then integrate it after the cruise.
-    if last:
-        fin0 = _vertical(fl, leg, H, prof.arrival_elevation, m_cr, v_climb, v_eas_cruise,
-                         prof)
-        d_final = fin0["distance"]
+    if leg.kind != "cruise":
+        # A hover or loiter holds its point for its time; no distance of its own.
+        fits = np.ones(H.shape, dtype=bool)
+        cr = _hold(fl, leg, H, m_cr, leg.duration, v_cr, m, air_H, mode, target)
     else:
-        d_final = 0.0
-    d_cruise = leg.distance - trans["distance"] - d_final
-    fits = d_cruise >= 0
-    cr = _cruise(fl, leg, H, m_cr, np.maximum(d_cruise, 0.0), v_cr, m, air_H)
+        if last:
+            fin0 = _vertical(fl, leg, H, prof.arrival_elevation, m_cr, v_climb,
+                             v_eas_cruise, prof)
+            d_final = fin0["distance"]
+        else:
+            d_final = 0.0
+        d_cruise = leg.distance - trans["distance"] - d_final
+        fits = d_cruise >= 0
+        cr = _cruise(fl, leg, H, m_cr, np.maximum(d_cruise, 0.0), v_cr, m, air_H, mode,
+                     target)
     # Same descent speed as the estimate, so that the leg's distances add up exactly.
     fin = _vertical(fl, leg, H, prof.arrival_elevation if last else H, cr["mass_end"],
                     v_climb, v_eas_cruise, prof)
     total = trans["used"] + cr["used"] + fin["used"]
     return dict(H=H, trans=trans, cruise=cr, final=fin, fits=fits, speed_ok=speed_ok,
-                total=total, time=trans["time"] + cr["time"] + fin["time"], v_cruise=v_cr)
+                total=total, time=trans["time"] + cr["time"] + fin["time"], v_cruise=v_cr,
+                mode=np.full(H.shape, mode))
 
 
 def ground_elevation(mission, leg) -> float:
@@ -604,13 +780,16 @@ def _store_text(fl, amount):
     return format_amount(amount, fl.prop, fl.prop.store.default_units, with_mass=False)
 
 
-def plan_mission(mission: Mission) -> Plan:
+def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
     """Plan a mission: segments, totals, reserve and the GO / NO-GO verdict.
 
     Parameters
     ----------
     mission : Mission
         The mission (see :func:`cruiseplan.io.mission_file.load_mission`).
+    headwind_offset : float, optional
+        A headwind component added on every leg [m/s] (negative: tailwind), for what-if
+        searches.
 
     Returns
     -------
@@ -622,7 +801,7 @@ def plan_mission(mission: Mission) -> Plan:
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.10-5.14.
     """
     af = mission.airframe
-    fl = Flight(mission)
+    fl = Flight(mission, headwind_offset=headwind_offset)
     prof = mission.profile
     reasons = []
     load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
@@ -642,10 +821,20 @@ def plan_mission(mission: Mission) -> Plan:
     h = prof.departure_elevation
     v_climb = climb_speed(mission)
     leg_altitudes, leg_speeds = [], []
+    failed_at = None    # index of the first segment of a leg that cannot be flown
     for n, leg in enumerate(mission.legs):
+        n_reasons = len(reasons)
         last = n == len(mission.legs) - 1
         lo, top, why = _caps(mission, leg)
-        if leg.altitude is None:
+        if leg.kind != "cruise" and leg.altitude is None:
+            # A hover or loiter without an altitude is flown where the aircraft is, within
+            # the leg's limits.
+            leg = replace(leg, altitude=float(min(max(h, lo), top)))
+        if mission.levels and leg.kind == "cruise":
+            # A cruising-level rule: its levels for the leg's magnetic course.
+            cands, off_level = leg_candidates(mission, leg, lo, top)
+            reasons.extend(off_level)
+        elif leg.altitude is None:
             cands = np.arange(lo, top + 1e-6, prof.altitude_step)
             if lo <= h <= top:
                 cands = np.unique(np.append(cands, h))
@@ -667,37 +856,71 @@ def plan_mission(mission: Mission) -> Plan:
         o = {k: (_pick(v, i) if isinstance(v, dict) else v[i]) for k, v in opts.items()}
         leg_altitudes.append(H)
         leg_speeds.append(float(o["v_cruise"]))
+        first_of_leg = len(segments)
         for kind, seg in (("climb" if H > h else "descent", o["trans"]),
-                          ("cruise", o["cruise"]),
+                          (leg.kind, o["cruise"]),
                           ("descent to arrival", o["final"])):
             if seg["time"] <= 0:
                 continue
             used = float(seg["used"])
             store -= used
             m = float(seg["mass_end"])
-            h_start = {"cruise": H, "descent to arrival": H}.get(kind, h)
+            h_start = H if kind in ("cruise", "hover", "loiter", "descent to arrival") else h
             h_end = prof.arrival_elevation if kind == "descent to arrival" else H
             note = ""
             if kind == "climb" and not seg["ok"]:
                 note = f"climb rate below {MIN_CLIMB_RATE / FT_PER_MIN:.0f} ft/min " \
                        f"from {seg['fail_at']:.0f} m"
+            elif kind == "loiter" and leg.bank > 0:
+                note = f"orbit at {leg.bank:.0f} deg bank"
+            elif kind == "hover" and seg["tas"] > 0:
+                note = f"holding position in a {float(seg['tas']):.1f} m/s wind"
+            elif kind in ("cruise", "loiter") and o["mode"] == "power":
+                note = f"{float(seg['power']) * 100:.0f} % power set"
             segments.append(Segment(leg.name, kind, h_start, h_end, float(seg["tas"]),
                                     float(seg["gs"]), float(seg["heading"]),
                                     float(seg["time"]), float(seg["distance"]), used, store, m,
                                     float(seg["power"]), note))
+        # A leg that cannot be flown stops the plan there; a broken altitude limit makes
+        # it NO-GO but the flight itself could go on.
+        if failed_at is None and any(not r.startswith(_LIMIT_REASONS)
+                                     for r in reasons[n_reasons:]):
+            failed_at = first_of_leg
         h = H if not last else prof.arrival_elevation
-    reserve = mission_reserve(fl, mission, m, leg_altitudes, cruise_power(segments))
+    reserve = mission_reserve(fl, mission, m, leg_altitudes,
+                              mission.cruise_power or cruise_power(segments),
+                              "mission" if mission.cruise_power else "plan")
     required = reserve.amount
     reserve_text = reserve.describe(fl.prop, fl.prop.store.default_units)
     lowest = min(s.remaining for s in segments)
     if lowest < 0:
-        first = next(s for s in segments if s.remaining < 0)
-        reasons.append(f"{fl.prop.store_name} runs out on leg {first.leg!r} ({first.kind})")
+        k = next(i for i, s in enumerate(segments) if s.remaining < 0)
+        first = segments[k]
+        short = required - store
+        reasons.append(f"{fl.prop.store_name} runs out on leg {first.leg!r} ({first.kind}): "
+                       f"{_store_text(fl, short)} short of landing with the reserve")
+        failed_at = k if failed_at is None else min(failed_at, k)
     elif store < required * (1 - 1e-12):
         reasons.append(f"{fl.prop.store_name} below the reserve: {_store_text(fl, store)} at "
                        f"landing, {_store_text(fl, required)} required ({reserve_text})")
+    if failed_at is not None:
+        segments = _not_flown(segments, failed_at, reasons)
     return Plan(mission, tuple(segments), initial, reserve, tuple(reasons),
                 tuple(leg_altitudes), load.mass, tuple(leg_speeds), v_climb)
+
+
+#: NO-GO reasons that break a limit of the flight, not its physics.
+_LIMIT_REASONS = ("altitude above a limit", "altitude below a limit")
+
+
+def _not_flown(segments, k, reasons):
+    """Mark segment ``k`` (where the plan fails) and every one after it as not flown."""
+    out = list(segments[:k])
+    why = next((r for r in reasons if segments[k].leg in r), reasons[-1] if reasons else "")
+    for i, seg in enumerate(segments[k:]):
+        note = f"not flown: {why}" if i == 0 else "not flown"
+        out.append(replace(seg, flown=False, note=note))
+    return out
 
 
 def _why_not(opts, leg, lo, top) -> str:
@@ -733,7 +956,13 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
         out.append(f"power insufficient: leg {leg.name!r} cannot climb to {H:.0f} m (climb "
                    f"rate gone at {opts['trans']['fail_at'][0]:.0f} m)")
     cr = opts["cruise"]
-    if not cr["power_ok"][0] or not opts["speed_ok"][0]:
+    mode = opts["mode"][0]
+    if mode == "power" and not opts["speed_ok"][0]:
+        pct = speed_mode(mission, leg)[1] * 100
+        out.append(f"power setting: leg {leg.name!r} cannot hold level flight at {pct:.0f} % "
+                   f"power at {H:.0f} m (beyond full throttle there, or below the least "
+                   "power level flight needs)")
+    elif not cr["power_ok"][0] or not opts["speed_ok"][0]:
         out.append(f"power insufficient: leg {leg.name!r} cruise at {cr['tas'][0]:.1f} m/s "
                    f"TAS needs more than full-throttle power at {H:.0f} m")
     if not cr["stall_ok"][0]:
@@ -747,7 +976,7 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
 
 
 def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes,
-                    cruise_power=None) -> ReserveAmount:
+                    cruise_power=None, power_source="plan") -> ReserveAmount:
     """The mission's reserve at landing mass ``mass`` (arrays over samples allowed).
 
     A time reserve is flown at the last cruise altitude unless the policy names one; an
@@ -766,6 +995,8 @@ def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes,
     cruise_power : float, optional
         The plan's cruise power [-], a fraction of rated power: a time reserve is flown at
         it unless the policy names a power.
+    power_source : {"plan", "mission"}
+        Whether that power is the plan's own or the mission file's setting.
 
     Returns
     -------
@@ -779,15 +1010,16 @@ def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes,
     if res.alternate is not None:
         alt = res.alternate
         h = alt.altitude if alt.altitude is not None else last
-        v0, _ = _cruise_speed(fl, alt, [h], m, fl.prop.store_capacity)
-        cr = _cruise(fl, alt, np.array([h]), m, np.array([alt.distance]), v0, m)
+        v0, _, mode, target = _start_speed(fl, mission, alt, [h], m, fl.prop.store_capacity)
+        cr = _cruise(fl, alt, np.array([h]), m, np.array([alt.distance]), v0, m, None, mode,
+                     target)
         alternate_used = cr["used"] if np.ndim(mass) else float(np.ravel(cr["used"])[0])
     return reserve_required(fl.af, res, mass=mass, cruise_power=cruise_power,
-                            power_source="plan", alternate_used=alternate_used)
+                            power_source=power_source, alternate_used=alternate_used)
 
 
 def cruise_power(segments) -> float | None:
-    """The plan's cruise power: time-weighted shaft power of its level segments [-].
+    """The plan's cruise power: time-weighted shaft power of its cruise segments [-].
 
     Parameters
     ----------
@@ -799,7 +1031,7 @@ def cruise_power(segments) -> float | None:
     float or None
         Fraction of rated power; None when nothing was flown level.
     """
-    level = [s for s in segments if s.kind in ("cruise", "hover", "loiter") and s.time > 0]
+    level = [s for s in segments if s.kind == "cruise" and s.time > 0 and s.flown]
     if not level:
         return None
     return float(sum(s.power_fraction * s.time for s in level) / sum(s.time for s in level))

@@ -120,9 +120,15 @@ def _closed_form_ok(airframe, headwind, crosswind) -> bool:
 
 
 def climb_rate(airframe, mass, air: AirState, tas):
-    r"""Steady climb rate at full throttle, :math:`\eta_p(V) (P_{av} - P_{req}(V)) / W`.
+    r"""Steady climb rate at full throttle from the excess power, :math:`(T_{av} - D) V / W`.
 
-    Small climb angle: power required is that of level flight at the same speed.
+    With a constant or tabulated propeller efficiency this is
+    :math:`\eta_p(V) (P_{av} - P_{req}(V)) / W`; with a propeller diameter the thrust
+    available is the momentum-theory thrust at full power, which falls with speed and is
+    finite at low speed (:meth:`~cruiseplan.physics.propulsion.PistonPropeller.thrust_available`).
+    Small climb angle: lift is taken equal to weight, so drag and power required are those
+    of level flight at the same speed, and the rate is :math:`V \sin\gamma` with
+    :math:`\sin\gamma = (T - D) / W`.
 
     Parameters
     ----------
@@ -143,10 +149,14 @@ def climb_rate(airframe, mass, air: AirState, tas):
     References
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10, eq. 5.77.
+    .. [2] McCormick, *Aerodynamics, Aeronautics and Flight Mechanics*, ch. 6 (propeller
+       momentum theory: thrust at a given power).
     """
     prop = airframe.propulsion
-    excess = prop.shaft_power_available(air.sigma) - shaft_power_required(airframe, mass, air, tas)
-    return prop.propeller(tas) * excess / (mass * G0)
+    flight = airframe.level_flight(mass, air, tas)
+    excess = prop.excess_thrust_power(tas, air.density, prop.shaft_power_available(air.sigma),
+                                      flight.shaft, flight.drag)
+    return excess / (mass * G0)
 
 
 def _window(airframe, mass, air, lo, hi, reserve_rate):
@@ -594,8 +604,10 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
                            climb_reserve=to_si(climb_reserve, "m/s", what="climb_reserve"))
     v = sched.tas[objective]
     gs = ground_speed(v, hw, cw)
+    # The schedule decides feasibility (a speed at the edge of its window may carry a
+    # roundoff POWER bit); the value is masked by it below, so keep the figures here.
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
-                        stall_margin=stall_margin)
+                        stall_margin=stall_margin, keep_unflyable=True)
     wind_bad = sched.feasible & ~(gs > 0)
     infeasible = sched.infeasible | np.where(wind_bad, Limit.WIND, 0).astype(np.uint16)
     sched = replace(sched, infeasible=infeasible)
@@ -604,7 +616,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     v_free = sched.tas_unconstrained[objective]
     gs_free = ground_speed(v_free, hw, cw)
     free = cruise_points(airframe, loading.mass, air, v_free, loading.store,
-                         ground_speed=gs_free)
+                         ground_speed=gs_free, keep_unflyable=True)  # flyable or not
     value_free = free.endurance if objective == "endurance" else free.range_ground
     band = _band(h, *(None if x is None else to_si(x, "m", what=name) for x, name in
                       ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),
@@ -616,10 +628,126 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
 
 # --- Climb and ceilings ----------------------------------------------------------------
 
-def max_climb_rate(airframe, mass, air: AirState):
-    r"""Maximum steady climb rate and its speed at each air state.
+@dataclass(frozen=True)
+class Climb:
+    """Best climb at each air state, at full power (SI arrays of the air states' shape).
 
-    .. math:: \dot h_{max} = \max_V \frac{\eta_p(V)\,[P_{av} - P_{req}(V)]}{W}
+    Attributes
+    ----------
+    rate : numpy.ndarray
+        Climb rate at :attr:`tas` [m/s] (negative: cannot hold altitude).
+    tas : numpy.ndarray
+        TAS of the best climb [m/s], never below the stall margin x stall speed.
+    gradient : numpy.ndarray
+        Climb gradient (T - D) / W = rate / TAS at :attr:`tas` [-] (NaN at TAS 0).
+    stall_bound : numpy.ndarray
+        True where the best speed is the stall-margin speed: the unconstrained optimum
+        lies slower.
+    """
+
+    rate: np.ndarray
+    tas: np.ndarray
+    gradient: np.ndarray
+    stall_bound: np.ndarray
+
+
+def _best_climb(airframe, mass, air, stall_margin, score) -> Climb:
+    """Maximise ``score(v, rate)`` over TAS from the stall margin to the Mach limit."""
+    v_s = airframe.stall_speed(mass, air.density)
+    lo = stall_margin * v_s
+    hi = MACH_LIMIT * air.speed_of_sound
+
+    def value(v):
+        return score(v, climb_rate(airframe, mass, air, v))
+
+    v = brent_minimise(lambda x: -value(x), lo, hi)
+    # Optimum at (or below) the bound: the bound scores at least as well as the search's
+    # answer, which then lies within its tolerance of the bound.
+    at_lo = (value(lo) >= value(v)) & (lo > 0)
+    v = np.where(at_lo, lo, v)
+    rate = climb_rate(airframe, mass, air, v)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        gradient = np.where(v > 0, rate / v, np.nan)
+    return Climb(rate=rate, tas=v, gradient=gradient, stall_bound=at_lo)
+
+
+def best_rate_climb(airframe, mass, air: AirState, *,
+                    stall_margin=DEFAULT_STALL_MARGIN) -> Climb:
+    r"""Best rate of climb (Vy) at each air state, not slower than the stall margin.
+
+    .. math:: \dot h_{max} = \max_{V \ge m V_s} \frac{[T_{av}(V) - D(V)]\,V}{W}
+
+    (small climb angle: drag of level flight at the same speed; :func:`climb_rate`).
+
+    Parameters
+    ----------
+    airframe : Airframe
+        The airframe.
+    mass : float or array_like
+        Mass [kg].
+    air : AirState
+        Air states (any shape).
+    stall_margin : float, optional
+        Slowest TAS searched over stall speed [-] (1.3, common practice).
+
+    Returns
+    -------
+    Climb
+        Rate [m/s], TAS [m/s], gradient [-] and whether the stall margin bound the speed.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10 (rate of climb).
+    """
+    return _best_climb(airframe, mass, air, stall_margin, lambda v, rate: rate)
+
+
+def best_angle_climb(airframe, mass, air: AirState, *,
+                     stall_margin=DEFAULT_STALL_MARGIN) -> Climb:
+    r"""Best angle of climb (Vx) at each air state, not slower than the stall margin.
+
+    .. math:: \sin\gamma_{max} = \max_{V \ge m V_s} \frac{T_{av}(V) - D(V)}{W}
+
+    (small climb angle: drag of level flight at the same speed). With a constant
+    propeller efficiency the thrust :math:`\eta_p P / V` grows without bound as the speed
+    falls, so the answer is the stall-margin speed; with a propeller diameter the
+    momentum-theory thrust is finite and Vx lies between it and Vy.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        A winged airframe.
+    mass : float or array_like
+        Mass [kg].
+    air : AirState
+        Air states (any shape).
+    stall_margin : float, optional
+        Slowest TAS searched over stall speed [-] (1.3, common practice).
+
+    Returns
+    -------
+    Climb
+        Rate [m/s], TAS [m/s], gradient [-] and whether the stall margin bound the speed.
+
+    Raises
+    ------
+    CruiseplanError
+        For an airframe that hovers: it climbs vertically, there is no best angle.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10 (maximum climb angle).
+    """
+    if airframe.hovers:
+        raise CruiseplanError(f"{airframe.name} hovers and can climb vertically: a best "
+                              "climb angle is for winged airframes")
+    return _best_climb(airframe, mass, air, stall_margin, lambda v, rate: rate / v)
+
+
+def max_climb_rate(airframe, mass, air: AirState, stall_margin=DEFAULT_STALL_MARGIN):
+    r"""Maximum steady climb rate and its speed at each air state (:func:`best_rate_climb`).
+
+    .. math:: \dot h_{max} = \max_{V \ge m V_s} \frac{[T_{av}(V) - D(V)]\,V}{W}
 
     (small climb angle: the power-required curve of level flight).
 
@@ -631,6 +759,8 @@ def max_climb_rate(airframe, mass, air: AirState):
         Mass [kg].
     air : AirState
         Air states (any shape).
+    stall_margin : float, optional
+        Slowest TAS searched over stall speed [-] (1.3, common practice).
 
     Returns
     -------
@@ -643,10 +773,8 @@ def max_climb_rate(airframe, mass, air: AirState):
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10, eq. 5.77.
     """
-    v_s = airframe.stall_speed(mass, air.density)
-    v = brent_minimise(lambda x: -climb_rate(airframe, mass, air, x), v_s,
-                       MACH_LIMIT * air.speed_of_sound)
-    return climb_rate(airframe, mass, air, v), v
+    best = best_rate_climb(airframe, mass, air, stall_margin=stall_margin)
+    return best.rate, best.tas
 
 
 @dataclass(frozen=True)
@@ -659,8 +787,12 @@ class Ceilings:
 
 
 def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
-             service_rate=SERVICE_CEILING_RATE) -> Ceilings:
+             service_rate=SERVICE_CEILING_RATE,
+             stall_margin=DEFAULT_STALL_MARGIN) -> Ceilings:
     """Absolute (zero climb rate) and service (100 ft/min) ceilings (public API).
+
+    The climb rate is the best rate at speeds not slower than the stall margin
+    (:func:`best_rate_climb`).
 
     Parameters
     ----------
@@ -673,6 +805,8 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
         ISA deviation [K].
     service_rate : float, optional
         Climb rate defining the service ceiling [m/s]; 100 ft/min by default.
+    stall_margin : float, optional
+        Slowest TAS of the climb over stall speed [-] (1.3, common practice).
 
     Returns
     -------
@@ -689,7 +823,8 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
     targets = np.array([0.0, float(service_rate)])
 
     def deficit(h):
-        return targets - max_climb_rate(airframe, loading.mass, air_state(h, dev))[0]
+        return targets - best_rate_climb(airframe, loading.mass, air_state(h, dev),
+                                         stall_margin=stall_margin).rate
 
     ends = np.array([0.0, CEILING_SEARCH_TOP])
     at_ends = deficit(ends[:, None])  # rows: sea level, top; columns: targets

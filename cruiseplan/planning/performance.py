@@ -46,7 +46,6 @@ from cruiseplan.physics.atmosphere import (
 )
 from cruiseplan.units import temperature_difference, to_si
 
-
 #: Fields of :class:`CruisePoints` that are NaN where a point is beyond an
 #: :data:`~cruiseplan.limits.UNFLYABLE` limit: what the store would give there.
 UNFLYABLE_FIELDS = ("store_rate", "fuel_volume_flow", "source_power", "specific_range_air",
@@ -295,15 +294,20 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
         bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), shape)
         out = {k: (None if v is None else np.where(bad, np.nan, v)) for k, v in out.items()}
         limits = np.where(bad, np.uint16(Limit.ATMOSPHERE), limits).astype(np.uint16)
-    if not keep_unflyable:
-        unflyable = (limits & np.uint16(UNFLYABLE)) != 0
-        if np.any(unflyable):
-            out.update({k: np.where(unflyable, np.nan, out[k]) for k in UNFLYABLE_FIELDS
-                        if out[k] is not None})
-    return CruisePoints(air=air, tas=tas, mass=mass if np.ndim(mass) else float(mass),
-                        store=store if np.ndim(store) else float(store),
-                        store_name=prop.store_name, limits=limits,
-                        rated_power=float(prop.rated_power), **out)
+    pts = CruisePoints(air=air, tas=tas, mass=mass if np.ndim(mass) else float(mass),
+                       store=store if np.ndim(store) else float(store),
+                       store_name=prop.store_name, limits=limits,
+                       rated_power=float(prop.rated_power), **out)
+    return pts if keep_unflyable else _hide_unflyable(pts)
+
+
+def _hide_unflyable(points: CruisePoints) -> CruisePoints:
+    """The points with NaN in :data:`UNFLYABLE_FIELDS` where an UNFLYABLE bit is set."""
+    unflyable = (points.limits & np.uint16(UNFLYABLE)) != 0
+    if not np.any(unflyable):
+        return points
+    return replace(points, **{k: np.where(unflyable, np.nan, getattr(points, k))
+                              for k in UNFLYABLE_FIELDS if getattr(points, k) is not None})
 
 
 def _air_column(altitudes, isa_dev):
@@ -501,7 +505,9 @@ def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *
     At each air state, finds the TAS above the minimum-power speed at which shaft power
     required equals ``power_fraction`` x rated power. Where full throttle cannot give that
     power at the altitude, the point is flagged ``POWER``; where the setting is below the
-    minimum power to hold level flight, ``NO_SOLUTION``; such points have NaN speeds.
+    minimum power to hold level flight, ``NO_SOLUTION``; such points have NaN speeds and
+    figures. A setting within 1e-12 of full throttle counts as available (a 100 % setting
+    is not flagged ``POWER`` by the root's last digits).
 
     Parameters
     ----------
@@ -546,13 +552,16 @@ def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *
     beyond = target > p_hi
     unsolved = too_much | too_little | beyond
     pts = cruise_points(airframe, mass, air, np.where(unsolved, np.nan, v), store,
-                        headwind=headwind, stall_margin=stall_margin)
+                        headwind=headwind, stall_margin=stall_margin, keep_unflyable=True)
     extra = (np.broadcast_to(too_much, shape).astype(np.uint16) * np.uint16(Limit.POWER)
              | np.broadcast_to(too_little | beyond, shape).astype(np.uint16)
              * np.uint16(Limit.NO_SOLUTION))
     # NaN comparisons set no flags, so unsolved points carry only the reasons found here.
-    limits = np.where(np.broadcast_to(unsolved, shape), extra, pts.limits | extra)
-    return _replace(pts, limits=limits.astype(np.uint16))
+    # Whether a setting has the power is decided above (within 1e-12 of full throttle):
+    # the root's last digits must not flag a 100 % setting POWER.
+    solved = pts.limits & np.uint16(0xFFFF ^ int(Limit.POWER))
+    limits = np.where(np.broadcast_to(unsolved, shape), extra, solved | extra)
+    return _hide_unflyable(_replace(pts, limits=limits.astype(np.uint16)))
 
 
 def _replace(points: CruisePoints, **changes) -> CruisePoints:

@@ -32,6 +32,7 @@ from cruiseplan.units import display
 POWER_SOURCES = {
     "reserve": "as the reserve states",
     "plan": "the plan's cruise power",
+    "mission": "the mission's cruise power setting",
     "card": "normal cruise power",
 }
 
@@ -113,8 +114,8 @@ def reserve_required(airframe, reserve: Reserve, *, mass, cruise_power=None,
         Power a time reserve is flown at when the policy names none [-], a fraction of
         rated power.
     power_source : str, optional
-        What ``cruise_power`` is: ``"plan"`` (the plan's cruise power) or ``"card"`` (the
-        airframe's normal cruise power).
+        What ``cruise_power`` is: ``"plan"`` (the plan's cruise power), ``"mission"`` (the
+        mission file's power setting) or ``"card"`` (the airframe's normal cruise power).
     alternate_used : float or array_like, optional
         Store the alternate leg uses [kg or J].
 

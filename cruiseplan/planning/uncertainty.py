@@ -245,7 +245,8 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
         h = H if not last else prof.arrival_elevation
     # The samples fly the plan's power settings: the reserve's power is the plan's.
     required = mission_reserve(fl, mission, m, plan.leg_altitudes,
-                               plan.reserve.power_fraction).amount
+                               plan.reserve.power_fraction,
+                               plan.reserve.power_source or "plan").amount
     required = np.broadcast_to(np.asarray(required, dtype=float), (n,))
     return PlanUncertainty(store, np.broadcast_to(used, (n,)), time, required, seed)
 
@@ -302,6 +303,8 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     factors = draw_factors(tol, unit_samples(n, len(tol), seed))
     af_s = sample_airframe(airframe, factors)
     usable = np.maximum(store * factors.get("battery_energy", 1.0) - reserve, 0.0)
+    # Every sample re-flies the nominal speed and counts, as before the unflyable
+    # figures became NaN (a NaN sample would make every quantile NaN).
     pts = cruise_points(af_s, mass, air, tas + np.zeros(n), usable,
-                        ground_speed=ground_speed + np.zeros(n))
+                        ground_speed=ground_speed + np.zeros(n), keep_unflyable=True)
     return CruiseUncertainty(pts.range_ground, pts.endurance, seed)

@@ -13,7 +13,7 @@ from matplotlib.ticker import MaxNLocator
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, Limit, describe
+from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, UNFLYABLE, Limit, describe
 from cruiseplan.physics.atmosphere import air_state, check_altitude
 from cruiseplan.planning.optimise import OBJECTIVES
 from cruiseplan.planning.performance import (
@@ -120,6 +120,26 @@ def _shade_limits(ax, x, y, regions: list) -> list:
     return handles
 
 
+def _colour_field(airframe, grid, ground: bool) -> np.ndarray:
+    """Specific range to colour the map with [m/kg or m/J]: the grid's, continued beneath.
+
+    Points beyond an :data:`~cruiseplan.limits.UNFLYABLE` limit have no specific range
+    (NaN, with the bit), and the map covers them with their limit's opaque fill, whose
+    smooth edge lies between grid points. So that the colour meets that edge instead of
+    stopping a grid cell short of it, the colour underneath such points is continued with
+    what their power required would give (speed over the store rate of that shaft power).
+    It stays beneath the fill: never labelled, never in the colour bar's range.
+    """
+    sr = grid.specific_range_ground if ground else grid.specific_range_air
+    hidden = (grid.limits & np.uint16(UNFLYABLE)) != 0
+    if not np.any(hidden):
+        return sr
+    speed = grid.ground_speed if ground else np.broadcast_to(grid.tas, grid.shape)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        beneath = speed / airframe.propulsion.store_rate(grid.shaft_power)
+    return np.where(hidden, beneath, sr)
+
+
 def _held_by(best, objective: str) -> str:
     """Constraint text when one constraint holds the objective's speed at every altitude."""
     codes = best.schedule.binding[objective][best.schedule.feasible]
@@ -203,11 +223,10 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str | 
     if np.any(np.diff(h) <= 0) or np.any(np.diff(v) <= 0):
         raise CruiseplanError("a specific-range map needs increasing altitudes and speeds")
     factor, sr_label = sr_display(airframe, units)
-    sr = np.broadcast_to((grid.specific_range_ground if ground else grid.specific_range_air)
-                         * factor, shape)
+    sr = np.broadcast_to(_colour_field(airframe, grid, ground) * factor, shape)
     limits = np.broadcast_to(grid.limits, shape).astype(int)
     x, y = np.meshgrid(v * fs, h * fa)
-    ok = (limits == 0) & np.isfinite(sr)
+    ok = (limits == 0) & np.isfinite(sr)  # levels and labels from flyable points only
 
     fig = Figure(figsize=PLOT_SIZE)
     ax = fig.add_axes((0.085, 0.33, 0.70, 0.59))

@@ -324,9 +324,82 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     if monte_carlo:
         lines += (_spread_line(airframe, table, store, amount, dev, h, units, stall_margin,
                                monte_carlo, seed),)
-    blocks = (cruise, speeds, CardText("Ceilings and reserve", lines))
+    blocks = (cruise, speeds)
+    if airframe.hovers:
+        blocks += (_hover_block(airframe, best, store, amount, units, stall_margin),)
+    blocks += (CardText("Ceilings and reserve", lines),)
     return CardContent(f"Cruise card \u2014 {airframe.name}", meta, blocks, tuple(CAUTIONS),
                        CAUTION_LINE, float(amount))
+
+
+def _minutes(seconds) -> str:
+    """Whole minutes, or ``"-"`` for a missing value (drone crews count minutes)."""
+    return _cell(None if seconds is None else seconds / 60.0, "{:.0f}")
+
+
+def _hover_block(airframe, best, store, reserve, units, stall_margin) -> CardTable:
+    """Hover, best-endurance and best-range figures in minutes, for a kind that hovers.
+
+    Parameters
+    ----------
+    airframe : Airframe
+        A kind that hovers (:attr:`hovers`; :meth:`hover_endurance`).
+    best : BestCruise
+        :func:`~cruiseplan.planning.optimise.best_cruise` for endurance at the card's
+        altitudes, mass and day.
+    store : float
+        Usable energy on board [J].
+    reserve : float
+        Energy kept [J].
+    units : {"aviation", "si"}
+        Display units.
+    stall_margin : float
+        Minimum TAS over stall speed [-], for the best-range search.
+
+    Returns
+    -------
+    CardTable
+        One row per altitude: hover endurance, best-endurance TAS and endurance, best-range
+        TAS and range, each in total and to the reserve.
+
+    References
+    ----------
+    .. [1] J. G. Leishman, *Principles of Helicopter Aerodynamics*, 2nd ed., Cambridge
+       University Press, 2006, ch. 2 (hover power); Anderson, *Aircraft Performance and
+       Design*, sec. 5.7 (best range and endurance speeds).
+    """
+    sched, pts = best.schedule, best.points
+    air, h, mass = sched.air, best.altitudes, pts.mass
+    rng = best_cruise(airframe, h, objective="range", mass=mass, fuel=store,
+                      isa_dev=float(air.isa_dev[0]), stall_margin=stall_margin)
+    hover = airframe.hover_endurance(mass, air, store)
+    hover_res = airframe.hover_endurance(mass, air, store - reserve)
+    keep = 1.0 - reserve / store
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fd, ld = display("distance", units)
+    ok_e, ok_r = best.feasible, rng.feasible
+    e = np.where(ok_e, pts.endurance, np.nan)
+    r = np.where(ok_r, rng.points.range_ground, np.nan)
+    rows = tuple((
+        f"{h[i] * fa:.0f}", _minutes(hover[i]), _minutes(hover_res[i]),
+        _cell(sched.tas["endurance"][i] * fs, "{:.0f}"), _minutes(e[i]),
+        _minutes(e[i] * keep),
+        _cell(rng.schedule.tas["range"][i] * fs, "{:.0f}"),
+        _cell(r[i] * fd, "{:.1f}"), _cell(r[i] * keep * fd, "{:.1f}"))
+        for i in range(h.size))
+    columns = (("PA", la, "right"), ("hover\nendur.\ntotal", "min", "right"),
+               ("hover\nendur.\nto res.", "min", "right"),
+               ("best\nendur.\nTAS", ls, "right"), ("best\nendur.\ntotal", "min", "right"),
+               ("best\nendur.\nto res.", "min", "right"),
+               ("best\nrange\nTAS", ls, "right"), ("best\nrange\ntotal", ld, "right"),
+               ("best\nrange\nto res.", ld, "right"))
+    notes = ("hover: holding position in calm air (TAS 0). best endur. / best range: the "
+             "speeds of the table above and the endurance or range flown there. total: all "
+             "usable energy, NO reserve; to res.: until only the reserve is left. Level "
+             "flight, calm air; no allowance for take-off, climb, descent or landing.",)
+    return CardTable("Hover and best endurance, in minutes (calm air)", columns, rows,
+                     tuple(range(h.size)), notes)
 
 
 def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n, seed):

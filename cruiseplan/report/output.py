@@ -116,7 +116,7 @@ def hours_minutes(seconds) -> str:
 
 
 #: Columns of words rather than numbers (left-aligned in text tables).
-_TEXT_COLUMNS = {"status", "segment", "leg", "verdict", "reason", "setting"}
+_TEXT_COLUMNS = {"status", "segment", "leg", "verdict", "reason", "setting", "note"}
 
 
 def _text(rep: Report) -> str:

@@ -6,6 +6,8 @@ limit each point breaches, and the notes spell out each code used.
 
 from __future__ import annotations
 
+import math
+from dataclasses import replace
 from datetime import date
 
 import numpy as np
@@ -14,8 +16,12 @@ from cruiseplan.amounts import amount_unit, format_amount
 from cruiseplan.cautions import CAUTIONS
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.io.bundled import shown_path
-from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, explain
-from cruiseplan.planning.performance import CruisePoints
+from cruiseplan.io.text import format_altimeter
+from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, UNFLYABLE, Limit, explain
+from cruiseplan.physics.atmosphere import indicated_altitude, isa_temperature_pressure
+from cruiseplan.planning.levels import leg_variation, magnetic
+from cruiseplan.planning.mission import ground_elevation
+from cruiseplan.planning.performance import UNFLYABLE_FIELDS, CruisePoints
 from cruiseplan.planning.uncertainty import quantiles
 from cruiseplan.report.output import Column, Report, hours_minutes
 from cruiseplan.units import display
@@ -108,16 +114,18 @@ def endurance_column(prop, seconds) -> Column:
     prop : object
         The propulsion kind; whether its store burns mass picks the format.
     seconds : sequence of float or None
-        Endurance per row [s]; None for a missing value.
+        Endurance per row [s]; None or NaN for a missing value.
 
     Returns
     -------
     Column
-        ``"endurance"`` in ``h:mm`` or ``min``.
+        ``"endurance"`` in ``h:mm`` or ``min``; a missing value is None (``"-"`` in text,
+        empty in CSV, null in JSON).
     """
     if prop.store.burns_mass:
         return Column("endurance", "h:mm",
-                      [hours_minutes(t) if t is not None else "-" for t in seconds], "{}")
+                      [None if t is None or not math.isfinite(t) else hours_minutes(t)
+                       for t in seconds], "{}")
     return Column("endurance", "min", [None if t is None else t / 60.0 for t in seconds],
                   "{:.0f}")
 
@@ -204,8 +212,15 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
     used = int(np.bitwise_or.reduce(codes)) if codes.size else 0
     notes = ["max: full-throttle (maximum continuous) shaft power at the altitude"]
     notes += [f"{code}: {LIMIT_TEXT[flag]}" + (
-        f" (V < {stall_margin:g} x stall speed)" if code == "STALL" else "")
+        f" (V < {stall_margin:g} x stall speed)" if flag == Limit.STALL else
+        " (V < stall speed)" if flag == Limit.BEYOND_CLMAX else "")
         for flag, code in LIMIT_CODE.items() if used & flag]
+    if used & UNFLYABLE:
+        codes_out = "/".join(code for flag, code in LIMIT_CODE.items() if flag & UNFLYABLE)
+        notes.append(f"-: not flyable ({codes_out}): no {prop.store_name} flow, specific "
+                     "range, endurance or range")
+    if airframe.hovers and np.any(np.asarray(pts.tas) == 0):
+        notes.append("TAS 0: the hover (ground speed 0, range 0; endurance in the hover)")
     return Report(title, meta, cols, notes, CAUTIONS)
 
 
@@ -305,6 +320,11 @@ def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
     sched, pts = best.schedule, best.points
     obj = best.objective
     n = np.size(best.altitudes)
+    feasible = best.feasible
+    # No flow, specific range, endurance or range where no speed is flyable (the status
+    # says why): the optimiser keeps them in its points for its own search.
+    pts = replace(pts, **{k: np.where(feasible, getattr(pts, k), np.nan)
+                          for k in UNFLYABLE_FIELDS if getattr(pts, k) is not None})
 
     def flat(a):
         return np.broadcast_to(a, (n,)).tolist()
@@ -322,7 +342,6 @@ def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
         Column("power", "% rated", flat(pts.power_fraction * 100.0), "{:.0f}"),
     ]
     cols += store_columns(prop, pts, units, flat, ground=True)
-    feasible = best.feasible
     cols += [
         endurance_column(prop, [t if ok else None for t, ok in
                                 zip(flat(pts.endurance), feasible)]),
@@ -365,7 +384,29 @@ def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
     return Report(f"Best cruise ({obj})", meta, cols, notes, CAUTIONS, summary)
 
 
-def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
+def _totals_line(plan, n_legs, fd, ld, fq, lq, qfmt) -> str:
+    """The plan's totals; for a plan that fails, those of what is flown before it does."""
+    flown = [s for s in plan.segments if s.flown]
+    time, dist = sum(s.time for s in flown), sum(s.distance for s in flown)
+    used = sum(s.used for s in flown)
+    q = qfmt[2:-1]
+    if len(flown) == len(plan.segments):
+        return (f"Totals: {n_legs} legs, {hours_minutes(time)} h:mm, {dist * fd:.1f} {ld}, "
+                f"used {used * fq:{q}} {lq}, remaining at landing "
+                f"{plan.remaining * fq:{q}} {lq}")
+    stop = plan.segments[len(flown)]
+    return (f"Flown before the plan fails (leg {stop.leg!r}, {stop.kind}): "
+            f"{hours_minutes(time)} h:mm, {dist * fd:.1f} {ld}, used {used * fq:{q}} {lq}, "
+            f"left {(plan.initial - used) * fq:{q}} {lq}; the rest is not flown")
+
+
+def _only_flown(column: Column, segments) -> Column:
+    """The column with no values on segments that are not flown."""
+    column.values = [v if s.flown else None for v, s in zip(column.values, segments)]
+    return column
+
+
+def plan_report(plan, units: str | None = None, uncertainty=None, remedies=None) -> Report:
     """Lay out a mission plan: one row per segment, totals and the verdict.
 
     Parameters
@@ -377,6 +418,9 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
     uncertainty : PlanUncertainty, optional
         Monte Carlo re-flight of the plan: store at landing [kg or J], reserve required,
         flight time [s]; adds their spread and the reserve probability to the header.
+    remedies : Remedies, optional
+        What would make a NO-GO plan GO (:func:`cruiseplan.planning.nogo.what_would_make_it_go`);
+        listed under the reserve.
 
     Returns
     -------
@@ -394,24 +438,33 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
     fq, lq, qfmt = amount_unit(prop, units)
     segs = plan.segments
     margin = [s.remaining - plan.reserve_required for s in segs]
+
+    def flown(value):
+        # Segments a NO-GO plan does not fly show no figures: what they would take is not
+        # a plan.
+        return [value(s) if s.flown else None for s in segs]
+
     cols = [
         Column("leg", "", [s.leg for s in segs], "{}"),
         Column("segment", "", [s.kind for s in segs], "{}"),
         Column("PA from", la, [s.altitude_start * fa for s in segs], "{:.0f}"),
         Column("PA to", la, [s.altitude_end * fa for s in segs], "{:.0f}"),
-        Column("TAS", ls, [s.tas * fs if s.time else None for s in segs], "{:.0f}"),
-        Column("GS", ls, [s.ground_speed * fs if s.time else None for s in segs], "{:.0f}"),
-        Column("HDG", "deg T", [s.heading if s.time else None for s in segs], "{:03.0f}"),
-        Column("power", "% rated", [s.power_fraction * 100 if s.time else None for s in segs],
+        *_as_flown_columns(plan, fa, la),
+        Column("TAS", ls, flown(lambda s: s.tas * fs if s.time else None), "{:.0f}"),
+        Column("GS", ls, flown(lambda s: s.ground_speed * fs if s.time else None), "{:.0f}"),
+        _only_flown(_heading_column(plan), segs),
+        Column("power", "% rated", flown(lambda s: s.power_fraction * 100 if s.time else None),
                "{:.0f}"),
         # Drones' segments last minutes: h:mm would print most of them as 0:00.
-        Column("time", "h:mm", [hours_minutes(s.time) for s in segs], "{}")
+        Column("time", "h:mm", [hours_minutes(s.time) if s.flown else "-" for s in segs],
+               "{}")
         if prop.store.burns_mass else
-        Column("time", "min", [s.time / 60.0 for s in segs], "{:.1f}"),
-        Column("dist", ld, [s.distance * fd for s in segs], "{:.1f}"),
-        Column("used", lq, [s.used * fq for s in segs], qfmt),
-        Column("remaining", lq, [s.remaining * fq for s in segs], qfmt),
-        Column("over reserve", lq, [m * fq for m in margin], qfmt),
+        Column("time", "min", flown(lambda s: s.time / 60.0), "{:.1f}"),
+        Column("dist", ld, flown(lambda s: s.distance * fd), "{:.1f}"),
+        Column("used", lq, flown(lambda s: s.used * fq), qfmt),
+        Column("remaining", lq, flown(lambda s: s.remaining * fq), qfmt),
+        Column("over reserve", lq, [m * fq if s.flown else None for s, m in zip(segs, margin)],
+               qfmt),
         Column("note", "", [s.note for s in segs], "{}"),
     ]
     verdict = plan.verdict if plan.go else "NO-GO: " + "; ".join(plan.reasons)
@@ -422,10 +475,12 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
             f"File: {shown_path(mission.source)}"] + airframe_lines(af) + [
         f"Take-off mass {plan.takeoff_mass * fm:.1f} {lm}; "
         f"{store_text(af, plan.initial, units)}",
-        f"Day: ISA {mission.isa_dev:+.1f} K; altitudes are pressure altitudes (PA)",
-        f"Totals: {n_legs} legs, {hours_minutes(plan.time)} h:mm, "
-        f"{plan.distance * fd:.1f} {ld}, used {plan.used * fq:{qfmt[2:-1]}} {lq}, "
-        f"remaining at landing {plan.remaining * fq:{qfmt[2:-1]}} {lq}",
+        f"Day: ISA {mission.isa_dev:+.1f} K; " + (
+            "altitudes: pressure altitude (PA) and indicated on QNH "
+            f"{format_altimeter(mission.altimeter)}" if mission.altimeter
+            else "altitudes are pressure altitudes (PA)"),
+        *_as_flown_lines(mission),
+        _totals_line(plan, n_legs, fd, ld, fq, lq, qfmt),
         f"Reserve required {plan.reserve_required * fq:{qfmt[2:-1]}} {lq}: "
         f"{plan.reserve.describe(prop, units)}"
         " (local rules decide the minimum reserve)",
@@ -433,13 +488,25 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
     ]
     notes = ["over reserve: remaining minus the reserve required at landing",
              "Climbs at full power (or the set climb rate) and the climb speed held as "
-             "indicated; descents at the set rate and the cruise indicated speed"]
+             "indicated; descents at the set rate and the cruise indicated speed",
+             *_as_flown_notes(mission)]
     summary = {"verdict": plan.verdict, "reasons": "; ".join(plan.reasons),
                "time_s": plan.time, "distance_m": plan.distance,
                f"used_{prop.store.unit}": plan.used,
                f"remaining_{prop.store.unit}": plan.remaining,
                f"reserve_required_{prop.store.unit}":
                    plan.reserve_required}
+    if remedies is not None:
+        at = next(k for k, line in enumerate(meta) if line.startswith("Reserve required"))
+        meta[at + 1:at + 1] = ["What would make it GO (each found by re-planning with that "
+                               "change alone):"] + [f"  - {line}" for line in
+                                                    remedies.lines(prop, units)]
+        summary.update({f"go_if_{k}": v for k, v in (
+            ("reachable_m", remedies.reachable),
+            (f"extra_{prop.store.unit}", remedies.extra_store),
+            (f"short_when_full_{prop.store.unit}", remedies.short_when_full),
+            ("max_payload_kg", remedies.max_payload),
+            ("max_added_headwind_m_s", remedies.max_headwind))})
     if uncertainty is not None:
         u = uncertainty
         extra = " and the mission file (winds)" if mission.wind_tolerance else ""
@@ -451,3 +518,126 @@ def plan_report(plan, units: str | None = None, uncertainty=None) -> Report:
                     f"probability the reserve holds {u.reserve_probability * 100:.1f} %")
         summary.update(_spread_summary(u))
     return Report(f"Mission plan: {mission.name}", meta, cols, notes, CAUTIONS, summary)
+
+
+# --- altitudes and headings as flown (plan report) -------------------------------------
+
+def _segment_legs(plan) -> list:
+    """The leg of each segment, in flight order; None for the departure allowance."""
+    legs = plan.mission.legs
+    out, i = [], 0
+    for n, seg in enumerate(plan.segments):
+        j = next((k for k in range(i, len(legs)) if legs[k].name == seg.leg), None)
+        if n == 0 or j is None:
+            out.append(None)
+            continue
+        i = j
+        out.append(legs[j])
+    return out
+
+
+def _as_read(mission, pressure_altitude) -> float:
+    """A pressure altitude [m] as the crew reads it: indicated on QNH, or PA without one."""
+    if mission.altimeter:
+        return float(indicated_altitude(pressure_altitude, mission.altimeter))
+    return float(pressure_altitude)
+
+
+def _as_flown_columns(plan, fa, la) -> list:
+    """IA columns on QNH, when given; heights above take-off and ground, for drones.
+
+    Electric airframes get heights above take-off and above each leg's highest ground; all
+    in display units (factor ``fa``, label ``la``).
+    """
+    mission = plan.mission
+    segs = plan.segments
+    cols = []
+    if mission.altimeter:
+        for name, attr in (("IA from", "altitude_start"), ("IA to", "altitude_end")):
+            cols.append(Column(name, la, [_as_read(mission, getattr(s, attr)) * fa
+                                          for s in segs], "{:.0f}"))
+    if not mission.airframe.propulsion.store.burns_mass:
+        dep = _as_read(mission, mission.profile.departure_elevation)
+        ground = [None if leg is None else _as_read(mission, ground_elevation(mission, leg))
+                  for leg in _segment_legs(plan)]
+        for name, attr in (("HTO from", "altitude_start"), ("HTO to", "altitude_end")):
+            cols.append(Column(name, la, [(_as_read(mission, getattr(s, attr)) - dep) * fa
+                                          for s in segs], "{:.0f}"))
+        for name, attr in (("AGL from", "altitude_start"), ("AGL to", "altitude_end")):
+            cols.append(Column(name, la, [None if g is None else
+                                          (_as_read(mission, getattr(s, attr)) - g) * fa
+                                          for s, g in zip(segs, ground)], "{:.0f}"))
+    return cols
+
+
+def _is_magnetic(mission) -> bool:
+    """Whether the mission gives a magnetic variation (headings are then magnetic)."""
+    return mission.variation != 0 or any(leg.variation is not None for leg in mission.legs)
+
+
+def _heading_column(plan) -> Column:
+    """Headings, magnetic (true minus variation) when the mission gives a variation."""
+    mission = plan.mission
+    if not _is_magnetic(mission):
+        return Column("HDG", "deg T", [s.heading if s.time else None for s in plan.segments],
+                      "{:03.0f}")
+    values = [float(magnetic(s.heading, leg_variation(mission, leg))) if s.time else None
+              for s, leg in zip(plan.segments, _segment_legs(plan))]
+    return Column("HDG", "deg M", values, "{:03.0f}")
+
+
+def _variation_text(variation: float) -> str:
+    """A variation [deg] as crews write it: ``"5 E"``, ``"3.5 W"``."""
+    if variation == 0:
+        return "0"
+    return f"{abs(variation):g} {'E' if variation > 0 else 'W'}"
+
+
+def _as_flown_lines(mission) -> list:
+    """Header lines: magnetic variation, the level rule and the what-if overrides."""
+    lines = []
+    if _is_magnetic(mission):
+        per_leg = [leg_variation(mission, leg) for leg in mission.legs]
+        if len(set(per_leg)) == 1:
+            given = _variation_text(per_leg[0])
+        else:
+            given = ", ".join(f"{leg.name} {_variation_text(v)}"
+                              for leg, v in zip(mission.legs, per_leg))
+        lines.append(f"Headings: magnetic (true minus variation, east positive); variation "
+                     f"{given}")
+    if mission.levels:
+        ref = (f"indicated on QNH {format_altimeter(mission.altimeter)}" if mission.altimeter
+               else "pressure altitude")
+        rule = "; ".join(f"{s.label} {s.text}" for s in mission.levels)
+        lines.append(f"Cruising levels by magnetic course (the mission file's rule, {ref}): "
+                     f"{rule}")
+    if mission.overrides:
+        lines.append(f"What-if: {', '.join(mission.overrides)} (overrides of the mission "
+                     "file)")
+    return lines
+
+
+def _as_flown_notes(mission) -> list:
+    """Notes on IA, drone heights, magnetic headings and cruising levels, as shown."""
+    notes = []
+    if mission.altimeter:
+        notes.append("IA: indicated altitude, as the altimeter set to QNH reads (ISA "
+                     "calibration, no temperature correction: on a day colder than ISA the "
+                     "aircraft is lower than it reads); PA: pressure altitude")
+    if not mission.airframe.propulsion.store.burns_mass:
+        t_isa = float(isa_temperature_pressure(mission.profile.departure_elevation)[0])
+        pct = 100.0 * mission.isa_dev / t_isa
+        notes.append("HTO: height above take-off (altitude minus the departure elevation); "
+                     "AGL: height above the leg's highest ground (negative where a field lies "
+                     "below it); both are altimeter differences: on this day the true "
+                     f"heights are about {abs(pct):.0f} % {'more' if pct >= 0 else 'less'}, "
+                     "so keep height limits with that margin and as local rules require")
+    if _is_magnetic(mission):
+        notes.append("HDG M: true heading minus the variation given (east positive); no "
+                     "compass deviation; check the variation against a current chart")
+    if mission.levels:
+        notes.append("Cruising levels: a best altitude is chosen among the rule's levels "
+                     "for each leg's magnetic course, and a fixed altitude off them is a "
+                     "NO-GO reason; local rules and air traffic control decide the level "
+                     "flown")
+    return notes
