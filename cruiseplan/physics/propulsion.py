@@ -276,6 +276,29 @@ class PropellerEfficiency:
         """
         return self(tas) * (power - shaft)
 
+    def shaft_with_extra(self, shaft, drag, tas, density, extra):
+        """Shaft power [W] for thrust power ``extra`` [W] beyond level flight's.
+
+        Parameters
+        ----------
+        shaft : array_like
+            Shaft power in level flight [W].
+        drag : array_like
+            Drag [N] (not used).
+        tas : array_like
+            True airspeed [m/s].
+        density : array_like
+            Air density [kg/m^3] (not used).
+        extra : array_like
+            Extra thrust power [W], e.g. weight x climb rate (negative in a descent).
+
+        Returns
+        -------
+        numpy.ndarray
+            ``shaft + extra / eta_p(V)`` [W].
+        """
+        return shaft + extra / self(tas)
+
 
 def _monotone_slopes(x, y):
     """Fritsch-Carlson end and interior slopes for a monotone cubic through (x, y)."""
@@ -558,6 +581,31 @@ class ActuatorDiskPropeller:
             Excess thrust power [W] (negative: cannot hold the speed level).
         """
         return (self.thrust_available(tas, density, power) - drag) * tas
+
+    def shaft_with_extra(self, shaft, drag, tas, density, extra):
+        """Shaft power [W] for thrust power ``extra`` [W] beyond level flight's.
+
+        Parameters
+        ----------
+        shaft : array_like
+            Shaft power in level flight [W] (not used).
+        drag : array_like
+            Drag [N].
+        tas : array_like
+            True airspeed [m/s] (positive).
+        density : array_like
+            Air density [kg/m^3].
+        extra : array_like
+            Extra thrust power [W], e.g. weight x climb rate (negative in a descent).
+
+        Returns
+        -------
+        numpy.ndarray
+            Shaft power for thrust ``drag + extra / V`` by momentum theory [W] (zero where
+            no thrust is needed).
+        """
+        thrust = np.maximum(drag + extra / tas, 0.0)
+        return self.shaft_for_thrust(thrust, tas, density)
 
 
 class _Propeller:

@@ -160,7 +160,7 @@ POWER_SOURCES = {
 }
 
 
-def thrust_power(propulsion, source: str, values, tas):
+def thrust_power(propulsion, source: str, values, tas, density=None):
     r"""Thrust power [W] from a logged power source through the propulsion chain.
 
     Parameters
@@ -173,11 +173,14 @@ def thrust_power(propulsion, source: str, values, tas):
         The logged quantity in SI [W, kg/s or m^3/s].
     tas : array_like
         True airspeed [m/s], for the propeller efficiency.
+    density : array_like, optional
+        Air density [kg/m^3]; needed when the propeller has a diameter (momentum theory).
 
     Returns
     -------
     numpy.ndarray
-        Thrust power :math:`P_{shaft}\,\eta_p(V)` [W].
+        Thrust power :math:`P_{shaft}\,\eta_p(V)` [W], or with a propeller diameter the
+        momentum-theory thrust at that shaft power times TAS.
 
     Raises
     ------
@@ -191,7 +194,12 @@ def thrust_power(propulsion, source: str, values, tas):
                               f"{propulsion.kind}: log {' or '.join(sorted(set(fits)))}")
     tas = np.asarray(tas, dtype=float)
     shaft = entry.to_shaft(propulsion, np.asarray(values, dtype=float))
-    return shaft * propulsion.propeller(tas)
+    if density is None:
+        if not hasattr(propulsion.propeller, "diameter"):
+            return shaft * propulsion.propeller(tas)
+        raise CruiseplanError("a propeller with a diameter needs the air density for its "
+                              "thrust")
+    return propulsion.thrust_available(tas, density, shaft) * tas
 
 
 # --- PIW-VIW ---------------------------------------------------------------------------------
@@ -702,7 +710,7 @@ def fit_flight_log(airframe, log, *, reference_mass=None, fit_efficiency=False,
         raise CruiseplanError(f"{airframe.name} is a {airframe.kind}: the PIW-VIW drag-polar "
                               "fit is for fixed-wing airframes")
     prop = airframe.propulsion
-    power = thrust_power(prop, log.power_source, log.power, log.tas)
+    power = thrust_power(prop, log.power_source, log.power, log.tas, log.density)
     result = fit_polar(
         power, log.tas, log.density, log.mass, wing_area=airframe.wing_area,
         aspect_ratio=airframe.aspect_ratio,

@@ -356,23 +356,27 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
     for j in range(CLIMB_STEPS):
         air = air_steps.row(j)
         v = tas_from_eas(v_eas, air.density)
-        eta = fl.prop.propeller(v)
-        p_level = fl.shaft(m, air, v)
+        prop = fl.prop.propeller
+        level = fl.af.level_flight(m, air, v)
+        p_level, drag = level.shaft, level.drag
         weight = m * G0
-        # Climb: set power, rate from the excess (capped by a set rate, and kept below
-        # 0.9 x TAS where the shallow-climb formula holds).
+        # Climb: set power, rate from the excess thrust power (capped by a set rate, and
+        # kept below 0.9 x TAS where the shallow-climb formula holds). With a propeller
+        # diameter the thrust comes from momentum theory and is finite at low speed.
         p_up = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
-        roc = eta * (p_up - p_level) / weight
+        roc = prop.excess_thrust_power(v, air.density, p_up, p_level, drag) / weight
         if profile.climb_rate is not None:
             capped = roc > profile.climb_rate
             roc = np.where(capped, profile.climb_rate, roc)
-            p_up = np.where(capped, p_level + weight * roc / eta, p_up)
+            p_up = np.where(capped, prop.shaft_with_extra(p_level, drag, v, air.density,
+                                                          weight * roc), p_up)
         roc = np.minimum(roc, 0.9 * v)
         bad = moving & climbing & (roc < MIN_CLIMB_RATE)
         fail_at = np.where(bad & ok, h_steps[j], fail_at)
         ok &= ~bad
         # Descent: the set rate, at the power that gives it, never below idle.
-        p_down = np.maximum(p_level - weight * profile.descent_rate / eta, idle)
+        p_down = np.maximum(prop.shaft_with_extra(p_level, drag, v, air.density,
+                                                  -weight * profile.descent_rate), idle)
         vz = np.where(climbing, np.where(bad, MIN_CLIMB_RATE, roc), profile.descent_rate)
         p = np.where(climbing, p_up, p_down)
         dt = np.where(moving, np.abs(dh) / vz, 0.0)
