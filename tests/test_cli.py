@@ -93,8 +93,8 @@ def test_table_by_power_setting(capsys, trainer):
     col = {n: [r[i] for r in doc["rows"]] for i, n in enumerate(names)}
     assert col["power"][:3] == pytest.approx([55.0, 65.0, 75.0], abs=1e-6)
     # The same numbers as the public API.
-    pts = cp.power_setting_table(trainer, np.arange(0.0, 10001.0, 2000.0) * FT,
-                                 [0.55, 0.65, 0.75])
+    pts = cp.power_setting_table(cp.load_airframe("demo-trainer"),
+                                 np.arange(0.0, 10001.0, 2000.0) * FT, [0.55, 0.65, 0.75])
     tas = np.array([np.nan if v is None else v for v in col["TAS"]])
     np.testing.assert_allclose(tas, pts.tas.ravel() / KT, rtol=1e-12)
     # 75 % at 10000 ft exceeds the Gagg-Ferrar full-throttle power there (70 %): flagged.

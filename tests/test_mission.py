@@ -7,6 +7,7 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
+from conftest import constant_propeller
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -25,7 +26,8 @@ FT = 0.3048
 
 @pytest.fixture(scope="module")
 def trainer():
-    return cp.load_airframe("demo-trainer")
+    # Constant propeller efficiency, as the closed forms checked here assume.
+    return constant_propeller(cp.load_airframe("demo-trainer"))
 
 
 @pytest.fixture(scope="module")
