@@ -45,8 +45,14 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     fq, lq, _ = amount_unit(prop, units)
     what = "fuel remaining" if prop.store.burns_mass else "usable energy remaining"
     # Points at every segment boundary: altitude and remaining vary linearly within one.
+    # Only what is flown: a NO-GO plan's line stops where it fails.
     x, h, q = [0.0], [plan.segments[0].altitude_start], [plan.initial]
+    holds = []
     for seg in plan.segments:
+        if not seg.flown:
+            break
+        if seg.kind in ("hover", "loiter"):
+            holds.append((x[-1], seg))
         x.append(x[-1] + seg.distance)
         h.append(seg.altitude_end)
         q.append(seg.remaining)
@@ -69,9 +75,22 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
                       linestyle="--", linewidth=1.4,
                       label="height cap above ground" if k == 0 else None)
         ax_h.axvline(end, color="0.6", linewidth=0.8, linestyle=":")
-        ax_h.text(0.5 * (start + end), 1.01, leg.name, transform=ax_h.get_xaxis_transform(),
-                  ha="center", va="bottom", fontsize=MIN_FONT, rotation=0, clip_on=False)
+        if end > start:  # a hover or loiter holds a point: it is marked below instead
+            ax_h.text(0.5 * (start + end), 1.01, leg.name,
+                      transform=ax_h.get_xaxis_transform(), ha="center", va="bottom",
+                      fontsize=MIN_FONT, rotation=0, clip_on=False)
         start = end
+    for at, seg in holds:
+        what_hold = "orbit" if seg.kind == "loiter" else "hover"
+        ax_h.annotate(f"{what_hold} {seg.time / 60:.0f} min", (at * fd, seg.altitude_end * fa),
+                      xytext=(0, 8), textcoords="offset points", ha="center", va="bottom",
+                      fontsize=MIN_FONT, color=OKABE_ITO["blue"],
+                      bbox=dict(boxstyle="round,pad=0.2", fc="white", ec="none", alpha=0.85))
+    if not all(seg.flown for seg in plan.segments):
+        ax_h.plot(x[-1:], h[-1:], marker="X", markersize=10, color=OKABE_ITO["vermillion"],
+                  linestyle="none", label="the plan fails here: the rest is not flown")
+        ax_q.plot(x[-1:], q[-1:], marker="X", markersize=10, color=OKABE_ITO["vermillion"],
+                  linestyle="none")
     ax_q.plot(x, q, color=OKABE_ITO["green"], linewidth=2.0, marker="s", markersize=3.5,
               label=what)
     reserve = plan.reserve_required * fq
