@@ -335,6 +335,7 @@ UNIT_SYSTEMS = {
         "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
         "sr_fuel": ("km/L", "km/L"), "sr_energy": ("km/kWh", "km/kWh"),
         "rate": ("m/s", "m/s"), "pressure": ("hPa", "hPa"),
+        "manifold_pressure": ("hPa", "hPa"),
     },
     "aviation": {
         "altitude": ("ft", "ft"), "speed": ("kt", "kt"), "mass": ("lb", "lb"),
@@ -343,13 +344,14 @@ UNIT_SYSTEMS = {
         "energy": ("Wh", "Wh"), "electric_power": ("W", "W"),
         "sr_fuel": ("nmi/gallon", "nm/US gal"), "sr_energy": ("nmi/kWh", "nm/kWh"),
         "rate": ("ft/min", "ft/min"), "pressure": ("hPa", "hPa"),
+        "manifold_pressure": ("inHg", "inHg"),
     },
 }
 _SI_OF_KIND = {
     "altitude": "m", "speed": "m/s", "mass": "kg", "volume": "m^3", "distance": "m",
     "power": "W", "volume_flow": "m^3/s", "mass_flow": "kg/s", "energy": "J",
     "electric_power": "W", "sr_fuel": "m/m^3", "sr_energy": "m/J", "rate": "m/s",
-    "pressure": "Pa",
+    "pressure": "Pa", "manifold_pressure": "Pa",
 }
 
 

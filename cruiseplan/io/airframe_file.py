@@ -41,11 +41,13 @@ from cruiseplan.physics.dragbuildup import (
 )
 from cruiseplan.physics.propulsion import (
     FUELS,
+    INTAKE_LOSS,
     POWER_LAPSE_LAWS,
     PROPULSION_KINDS,
     ActuatorDiskPropeller,
     ElectricPropeller,
     PistonPropeller,
+    PowerChart,
     PropellerEfficiency,
 )
 from cruiseplan.physics.rotor import Rotors
@@ -201,7 +203,37 @@ def _piston(r: SchemaReader, sec: dict, vals: dict):
     return PistonPropeller(rated_power=vals["rated_power"], bsfc=vals["bsfc"],
                            propeller=_propeller(r, sec, vals["propeller_diameter"]),
                            fuel=fuel, fuel_density=density,
-                           fuel_capacity=vals["fuel_capacity"], power_lapse=lapse)
+                           fuel_capacity=vals["fuel_capacity"], power_lapse=lapse,
+                           power_chart=_power_chart(r, sec))
+
+
+_POWER_CHART_FIELDS = {
+    "rated_rpm": _dim("revolution/minute", 500.0, 10000.0, example="'2700 rpm'"),
+    "rated_manifold_pressure": _dim("Pa", 50000.0, 150000.0,
+                                    example="'28.5 inHg'"),
+    "cruise_rpm": None,
+    "intake_loss": _dim("Pa", 0.0, 20000.0, required=False, lo_open=False,
+                        example="'1 inHg'"),
+}
+
+
+def _power_chart(r: SchemaReader, sec: dict):
+    """``[propulsion.power_chart]``: RPM and manifold pressure for a power setting."""
+    where = "[propulsion.power_chart]"
+    chart = r.section("power_chart", _POWER_CHART_FIELDS, required=False, where=where,
+                      data=sec)
+    if not chart:
+        return None
+    vals = {k: r.value(where, chart, k, spec) for k, spec in _POWER_CHART_FIELDS.items()
+            if spec is not None}
+    rpms = r.number_list("propulsion.power_chart", chart, "cruise_rpm", 500.0, 10000.0,
+                         unit="revolution/minute")
+    if any(b <= a for a, b in zip(rpms, rpms[1:])):
+        r.fail(f"{where} cruise_rpm", "RPMs must increase")
+    if rpms[-1] > vals["rated_rpm"]:
+        r.fail(f"{where} cruise_rpm", "a cruise RPM above the rated RPM")
+    return PowerChart(vals["rated_rpm"], vals["rated_manifold_pressure"], rpms,
+                      INTAKE_LOSS if vals["intake_loss"] is None else vals["intake_loss"])
 
 
 def _battery(r: SchemaReader, sec: dict, vals: dict, propeller):
@@ -287,6 +319,7 @@ PROPULSION_READERS = {
         "fuel": None,
         "fuel_capacity": _dim("m^3", example="'100 L'"),
         "fuel_density": _dim("kg/m^3", 500.0, 1000.0, required=False, example="'0.72 kg/L'"),
+        "power_chart": None,
     }, _piston),
     "electric-propeller": Reader({**_BATTERY_FIELDS, "propeller_efficiency": None,
                                   "propeller_diameter": _PROPELLER_DIAMETER},

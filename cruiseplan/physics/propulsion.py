@@ -677,6 +677,103 @@ class _Propeller:
 
 # --- Propulsion kinds ------------------------------------------------------------------
 
+#: Manifold pressure lost in the intake at full throttle [Pa] (1 inHg; common practice,
+#: no source).
+INTAKE_LOSS = 3386.389
+
+
+@dataclass(frozen=True)
+class PowerChart:
+    r"""A piston engine's power as manifold pressure times RPM, corrected for temperature.
+
+    .. math:: \frac{P}{P_{rated}} = \frac{MP}{MP_{rated}} \frac{N}{N_{rated}}
+              \sqrt{\frac{T_{std}}{T}}
+
+    the common approximation (common practice, no source) that power goes with the charge
+    mass per stroke (manifold pressure over the square root of temperature, at the
+    standard temperature of the altitude) times the strokes per minute. It maps a power
+    setting to the RPM and manifold pressure a pilot sets; the power the engine can give
+    stays that of the power-lapse law.
+
+    Parameters
+    ----------
+    rated_rpm : float
+        RPM at rated power [1/min].
+    rated_manifold_pressure : float
+        Manifold pressure at rated power, sea level ISA [Pa].
+    cruise_rpm : tuple of float
+        RPMs a crew sets in cruise [1/min], increasing.
+    intake_loss : float
+        Manifold pressure below ambient at full throttle [Pa].
+    """
+
+    rated_rpm: float
+    rated_manifold_pressure: float
+    cruise_rpm: tuple
+    intake_loss: float = INTAKE_LOSS
+
+    def manifold_pressure(self, fraction, rpm, temperature, standard_temperature):
+        """Manifold pressure [Pa] for a power setting at an RPM.
+
+        Parameters
+        ----------
+        fraction : array_like
+            Power over rated power [-].
+        rpm : array_like
+            Engine speed [1/min].
+        temperature : array_like
+            Outside air temperature [K].
+        standard_temperature : array_like
+            ISA temperature at the pressure altitude [K].
+
+        Returns
+        -------
+        numpy.ndarray
+            Manifold pressure [Pa].
+        """
+        return (np.asarray(fraction, dtype=float) * self.rated_manifold_pressure
+                * (self.rated_rpm / np.asarray(rpm, dtype=float))
+                * np.sqrt(np.asarray(temperature) / np.asarray(standard_temperature)))
+
+    def setting(self, fraction, pressure, temperature, standard_temperature):
+        """The RPM and manifold pressure to set for a power.
+
+        The lowest cruise RPM whose manifold pressure the throttle can give (below
+        ambient less the intake loss, and not above the rated manifold pressure).
+
+        Parameters
+        ----------
+        fraction : array_like
+            Power over rated power [-].
+        pressure : array_like
+            Ambient static pressure [Pa].
+        temperature : array_like
+            Outside air temperature [K].
+        standard_temperature : array_like
+            ISA temperature at the pressure altitude [K].
+
+        Returns
+        -------
+        rpm : numpy.ndarray
+            Engine speed [1/min]; NaN where no cruise RPM gives the power short of full
+            throttle.
+        manifold_pressure : numpy.ndarray
+            Manifold pressure [Pa]; NaN likewise.
+        """
+        top = np.minimum(np.asarray(pressure, dtype=float) - self.intake_loss,
+                         self.rated_manifold_pressure)
+        shape = np.broadcast_shapes(np.shape(fraction), np.shape(top), np.shape(temperature))
+        rpm = np.full(shape, np.nan)
+        mp = np.full(shape, np.nan)
+        # From the highest RPM down: each lower one that fits replaces it.
+        for n in sorted(self.cruise_rpm, reverse=True):
+            m = self.manifold_pressure(fraction, n, temperature, standard_temperature)
+            fits = np.broadcast_to(m <= top * (1 + 1e-12), shape)
+            rpm = np.where(fits, n, rpm)
+            mp = np.where(fits, np.broadcast_to(m, shape), mp)
+        return rpm, mp
+
+
 @dataclass(frozen=True)
 class PistonPropeller(_Propeller):
     """Piston engine driving a propeller.
@@ -697,6 +794,8 @@ class PistonPropeller(_Propeller):
         Usable fuel volume [m^3].
     power_lapse : str
         Power-lapse law, a key of :data:`POWER_LAPSE_LAWS`.
+    power_chart : PowerChart or None
+        RPM and manifold pressure for a power setting; None: power settings in % only.
     """
 
     rated_power: float
@@ -706,6 +805,7 @@ class PistonPropeller(_Propeller):
     fuel_density: float
     fuel_capacity: float
     power_lapse: str = "gagg-ferrar"
+    power_chart: PowerChart | None = None
     kind: str = field(default="piston-propeller", init=False)
     store: Store = field(default=FUEL, init=False)
 

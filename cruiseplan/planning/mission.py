@@ -58,6 +58,7 @@ from cruiseplan.planning.levels import leg_candidates
 from cruiseplan.planning.optimise import max_climb_rate, objective_speed
 from cruiseplan.planning.performance import shaft_power_required, speed_for_min_power
 from cruiseplan.planning.reserve import ReserveAmount, reserve_required
+from cruiseplan.units import display
 
 #: Integration steps per segment (altitude steps in climb and descent, RK4 steps in cruise).
 CLIMB_STEPS = 8
@@ -780,6 +781,20 @@ def _pick(d, i):
     return {k: (v[i] if np.ndim(v) else v) for k, v in d.items()}
 
 
+def _chart_text(fl: Flight, fraction: float, h: float) -> str:
+    """`` (2400 rpm, 22.1 inHg)``: the engine's setting for a power, when it has a chart."""
+    chart = getattr(fl.prop, "power_chart", None)
+    if chart is None:
+        return ""
+    air = fl.air(h)
+    rpm, mp = chart.setting(fraction, air.pressure, air.temperature,
+                            air.temperature - air.isa_dev)
+    if not np.isfinite(rpm):
+        return " (full throttle)"
+    f, label = display("manifold_pressure", fl.prop.store.default_units)
+    return f" ({float(rpm):.0f} rpm, {float(mp) * f:.1f} {label})"
+
+
 def _store_text(fl, amount):
     return format_amount(amount, fl.prop, fl.prop.store.default_units, with_mass=False)
 
@@ -880,7 +895,8 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
             elif kind == "hover" and seg["tas"] > 0:
                 note = f"holding position in a {float(seg['tas']):.1f} m/s wind"
             elif kind in ("cruise", "loiter") and o["mode"] == "power":
-                note = f"{float(seg['power']) * 100:.0f} % power set"
+                note = f"{float(seg['power']) * 100:.0f} % power set" + _chart_text(
+                    fl, float(seg["power"]), H)
             segments.append(Segment(leg.name, kind, h_start, h_end, float(seg["tas"]),
                                     float(seg["gs"]), float(seg["heading"]),
                                     float(seg["time"]), float(seg["distance"]), used, store, m,

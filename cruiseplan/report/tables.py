@@ -72,6 +72,37 @@ def store_text(airframe, store: float, units: str) -> str:
     return f"usable energy on board {amount} ({share:.0f} % of usable)"
 
 
+def power_chart_columns(prop, pts: CruisePoints, units: str, flat) -> list:
+    """RPM and manifold pressure of each point's power, when the engine has a power chart.
+
+    Parameters
+    ----------
+    prop : object
+        The propulsion kind (its ``power_chart``, if any).
+    pts : CruisePoints
+        The points.
+    units : {"aviation", "si"}
+        Display units.
+    flat : callable
+        Lays an array out as the table's rows.
+
+    Returns
+    -------
+    list of Column
+        ``RPM`` [rpm] and ``MP`` [inHg or hPa]; empty without a chart. A point that needs
+        full throttle at every cruise RPM shows "-".
+    """
+    chart = getattr(prop, "power_chart", None)
+    if chart is None:
+        return []
+    air = pts.air
+    rpm, mp = chart.setting(pts.power_fraction, air.pressure, air.temperature,
+                            air.temperature - air.isa_dev)
+    f, label = display("manifold_pressure", units)
+    return [Column("RPM", "rpm", flat(rpm), "{:.0f}"),
+            Column("MP", label, flat(mp * f), "{:.1f}")]
+
+
 def store_columns(prop, pts: CruisePoints, units: str, flat, *, ground: bool = False) -> list:
     """The flow and specific-range columns of a store: fuel flow or battery power.
 
@@ -180,6 +211,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
         cols.append(Column("GS", ls, flat(pts.ground_speed * fs), "{:.1f}"))
     cols += [
         Column("power", "% rated", flat(pts.power_fraction * 100.0), "{:.0f}"),
+        *power_chart_columns(prop, pts, units, flat),
         Column("max", "% rated", flat(pts.power_available / pts.rated_power * 100.0),
                "{:.0f}"),
         Column("shaft", lp, flat(pts.shaft_power * fp),
