@@ -26,7 +26,12 @@ from cruiseplan.errors import (
     UnitError,
 )
 from cruiseplan.io.airframe_file import bundled_airframes, load_airframe, read_airframe
-from cruiseplan.io.mission_file import bundled_missions, load_mission, read_mission
+from cruiseplan.io.mission_file import (
+    apply_overrides,
+    bundled_missions,
+    load_mission,
+    read_mission,
+)
 from cruiseplan.io.text import parse_wind_profile
 from cruiseplan.kinds import KINDS, Airframe, FixedWing, LevelFlight, Loading, Multirotor
 from cruiseplan.limits import Limit, describe, explain
@@ -34,13 +39,22 @@ from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
 from cruiseplan.physics.atmosphere import AirState, air_state, density_altitude
 from cruiseplan.physics.winds import WindProfile
 from cruiseplan.planning.mission import Plan, Segment, plan_mission
-from cruiseplan.planning.optimise import BestCruise, best_cruise, ceilings
+from cruiseplan.planning.nogo import Remedies, what_would_make_it_go
+from cruiseplan.planning.optimise import (
+    BestCruise,
+    Climb,
+    best_angle_climb,
+    best_cruise,
+    best_rate_climb,
+    ceilings,
+)
 from cruiseplan.planning.performance import (
     CruisePoints,
     cruise_grid,
     cruise_points,
     power_setting_table,
 )
+from cruiseplan.planning.reserve import ReserveAmount, reserve_required
 from cruiseplan.version import __version__
 
 __all__ = [
@@ -52,5 +66,6 @@ __all__ = [
     "best_cruise", "bundled_airframes", "bundled_missions", "ceilings", "cruise_grid",
     "cruise_points", "density_altitude", "describe", "explain", "load_airframe",
     "load_mission", "parse_wind_profile", "plan_mission", "power_setting_table",
-    "read_airframe", "read_mission",
+    "read_airframe", "read_mission", "apply_overrides", "Remedies", "what_would_make_it_go",
+    "Climb", "best_angle_climb", "best_rate_climb", "ReserveAmount", "reserve_required",
 ]

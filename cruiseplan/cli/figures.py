@@ -8,6 +8,8 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
+import numpy as np
+
 from cruiseplan.cli import options
 from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.airframe_file import load_airframe
@@ -100,9 +102,10 @@ def cmd_plot(args):
     if args.speeds:
         v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
                         else "km/h", what="--speeds")
-        if v.size < 2 or (v <= 0).any() or (v[1:] <= v[:-1]).any():
+        slowest = 0.0 if af.hovers else np.nextafter(0.0, 1.0)
+        if v.size < 2 or (v < slowest).any() or (v[1:] <= v[:-1]).any():
             raise UnitError(f"--speeds: {args.speeds!r} must be at least two increasing "
-                            "positive speeds")
+                            "speeds, positive (0, the hover, only for a kind that hovers)")
 
     from cruiseplan import plots  # matplotlib, only for the figure
 
