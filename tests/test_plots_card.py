@@ -303,7 +303,7 @@ def test_card_too_long_for_one_page(trainer):
     (["plot", "demo-trainer", "-o", "{d}/out.png", "--wind", "270/20@0ft"],
      "--wind needs --course"),
     (["plot", "demo-trainer", "-o", "{d}/out.png", "--speeds", "90,80kt"],
-     "must be at least two increasing positive speeds"),
+     "must be at least two increasing speeds, positive"),
     (["card", "demo-trainer", "-o", "{d}/out.png"],
      "--output {d}/out.png: the file must end in .pdf"),
     (["card", "demo-trainer", "-o", "{d}/out.pdf", "--reserve", "200L"],
