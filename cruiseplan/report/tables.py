@@ -17,7 +17,7 @@ from cruiseplan.cautions import CAUTIONS
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.io.bundled import shown_path
 from cruiseplan.io.text import format_altimeter
-from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, UNFLYABLE, Limit, explain
+from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, PACK_LIMITS, UNFLYABLE, Limit, explain
 from cruiseplan.physics.atmosphere import indicated_altitude, isa_temperature_pressure
 from cruiseplan.planning.levels import leg_variation, magnetic
 from cruiseplan.planning.mission import ground_elevation
@@ -248,7 +248,9 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
         " (V < stall speed)" if flag == Limit.BEYOND_CLMAX else "")
         for flag, code in LIMIT_CODE.items() if used & flag]
     if used & UNFLYABLE:
-        codes_out = "/".join(code for flag, code in LIMIT_CODE.items() if flag & UNFLYABLE)
+        pack = getattr(prop, "circuit", None) is not None
+        codes_out = "/".join(code for flag, code in LIMIT_CODE.items()
+                             if flag & UNFLYABLE and (pack or not flag & PACK_LIMITS))
         notes.append(f"-: not flyable ({codes_out}): no {prop.store_name} flow, specific "
                      "range, endurance or range")
     if airframe.hovers and np.any(np.asarray(pts.tas) == 0):
@@ -595,10 +597,22 @@ def _as_flown_columns(plan, fa, la) -> list:
         for name, attr in (("HTO from", "altitude_start"), ("HTO to", "altitude_end")):
             cols.append(Column(name, la, [(_as_read(mission, getattr(s, attr)) - dep) * fa
                                           for s in segs], "{:.0f}"))
-        for name, attr in (("AGL from", "altitude_start"), ("AGL to", "altitude_end")):
-            cols.append(Column(name, la, [None if g is None else
-                                          (_as_read(mission, getattr(s, attr)) - g) * fa
-                                          for s, g in zip(segs, ground)], "{:.0f}"))
+        arr = _as_read(mission, mission.profile.arrival_elevation)
+
+        def agl(seg, g, end):
+            # Over the fields the ground is the field's: a climb starts from the take-off
+            # field and the last descent ends on the arrival field, not over the leg's
+            # highest ground.
+            a = _as_read(mission, seg.altitude_end if end else seg.altitude_start)
+            if not end and seg.kind == "climb" and abs(a - dep) < 1e-6:
+                return (a - dep) * fa
+            if end and seg.kind == "descent to arrival":
+                return (a - arr) * fa
+            return None if g is None else (a - g) * fa
+
+        for name, end in (("AGL from", False), ("AGL to", True)):
+            cols.append(Column(name, la, [agl(s, g, end) for s, g in zip(segs, ground)],
+                               "{:.0f}"))
     return cols
 
 
