@@ -56,10 +56,11 @@ def register(sub):
                                        "0:400m:100m)")
     p.add_argument("--power", help="power settings in %% of rated power (default 55,65,75; "
                                    "drones 20,30,40)")
-    p.add_argument("--reserve", help="reserve to keep: '30min' (at best-endurance power at "
-                                     "the lowest altitude), '25%%' of the usable capacity, "
-                                     "or '10L', '7kg', '120Wh' (default: piston 45min, "
-                                     "electric 25%%; local rules decide)")
+    p.add_argument("--reserve", help="reserve to keep: '30min' (flown at normal cruise "
+                                     "power, 65%% for engines, 30%% for electric motors), "
+                                     "'25%%' of the usable capacity, or '10L', '7kg', "
+                                     "'120Wh' (default: piston 45min, electric 25%%; local "
+                                     "rules decide)")
     options.add_monte_carlo(p)
     p.set_defaults(run=cmd_card)
 

@@ -17,7 +17,7 @@ in ``[mission]`` for every leg and in a leg, which then overrides it.
 With an altimeter setting, elevations and altitudes are read as altitudes above mean sea
 level (what the altimeter shows on QNH) and converted to pressure altitude; without one,
 they are taken as pressure altitudes. Errors are one line naming the file, the leg and the
-field. Defaults are conservative and stated in the plan; local rules decide the reserve.
+field. Defaults are planning values, stated in the plan; local rules decide the reserve.
 """
 
 from __future__ import annotations
@@ -70,7 +70,7 @@ _RESERVE_FIELDS = {"time", "fraction", "quantity", "alternate", "power"}
 #: Bank angle of a loiter orbit when the file gives none [deg] (common practice, no source).
 DEFAULT_LOITER_BANK = 20.0
 
-#: Conservative defaults by propulsion kind (stated in every plan).
+#: Planning defaults by propulsion kind (stated in every plan).
 DEFAULTS = {
     "fuel": dict(allowance_fraction=0.03, descent_rate=500 * FT / 60, climb_rate=None,
                  min_clearance=1000 * FT, altitude_step=500 * FT, top=12000 * FT),

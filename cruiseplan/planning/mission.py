@@ -22,10 +22,16 @@ A ``best`` altitude is chosen per leg among candidate altitudes by the store the
 leg uses, **climb and descent included**, so a short leg is not flown high just because
 cruise is cheaper up there.
 
-The reserve (time at best-endurance power, a fraction of capacity, or a fixed quantity,
-plus an optional alternate leg) is what must remain at landing. The verdict is GO, or
-NO-GO with every reason found. Local rules decide the reserve; the defaults are
-conservative and the output says so.
+Legs are flown as crews fly them: at a power setting, a TAS or CAS held, or an
+objective's best speed; a hover holds position and a loiter orbits, each for a time.
+
+The reserve (a time flown at the plan's cruise power unless the policy names a power, a
+fraction of capacity, or a fixed quantity, plus an optional alternate leg;
+:mod:`cruiseplan.planning.reserve`) is what must remain at landing. The verdict is GO, or
+NO-GO with every reason found; a NO-GO plan stops at the segment where it fails (the rest
+is not flown) and :mod:`cruiseplan.planning.nogo` says what would make it GO. Local rules
+decide the reserve; the defaults are planning values and the output says how the reserve
+was computed.
 
 References
 ----------

@@ -13,7 +13,8 @@ Reserves, in the order a crew would write them (``--reserve``, read by
 :func:`cruiseplan.io.text.parse_reserve`), computed by
 :func:`cruiseplan.planning.reserve.reserve_required` as the mission planner does:
 
-* a time, ``"30min"``: flown at best-endurance power at the lowest altitude of the card;
+* a time, ``"30min"``: flown at the airframe's normal cruise power (65 % for engines, 30 % for
+  electric motors), as reserve rules state a time at normal cruising power;
 * a fraction of the usable capacity, ``"25%"``;
 * an amount, ``"10L"``, ``"7kg"`` (fuel) or ``"120Wh"`` (energy).
 
