@@ -12,12 +12,14 @@ from __future__ import annotations
 import subprocess
 import sys
 import time
+from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
 
 import cruiseplan as cp
 from cruiseplan.physics.atmosphere import isa_temperature_pressure
+from cruiseplan.physics.propulsion import PropellerEfficiency
 
 
 def best_of(fn, repeat=5):
@@ -59,7 +61,11 @@ def bare_numpy_grid(h, v, mass, S, cd0, k, cl_max, eta, bsfc, p_rated, rho_fuel,
 
 
 def main():
+    # The trainer with the constant propeller efficiency the bare-numpy side writes out
+    # (the bundled file gives a diameter: momentum theory).
     af = cp.load_airframe("demo-trainer")
+    af = replace(af, propulsion=replace(af.propulsion,
+                                        propeller=PropellerEfficiency((0.0,), (0.72,))))
     h = np.linspace(0.0, 4000.0, 1000)
     v = np.linspace(30.0, 80.0, 1000)
     load = af.loading()
@@ -75,8 +81,10 @@ def main():
                                prop.propeller.efficiency[0], prop.bsfc, prop.rated_power,
                                prop.fuel_density, load.store, T_isa, p)["sr"]
 
-    # Same answers first.
-    assert np.allclose(api(), bare(), rtol=1e-12)
+    # Same answers first, where the API gives figures (it shows none beyond a limit).
+    a, b = api(), bare()
+    shown = np.isfinite(a)
+    assert shown.any() and np.allclose(a[shown], b[shown], rtol=1e-12)
     t_api, t_bare = best_of(api), best_of(bare)
     print(f"cruise grid 1000x1000: API {t_api * 1e3:.1f} ms, bare numpy {t_bare * 1e3:.1f} ms, "
           f"ratio {t_api / t_bare:.2f} (target <= 1.5)")
