@@ -36,6 +36,7 @@ from cruiseplan.io.text import parse_wind_profile
 from cruiseplan.kinds import KINDS, Airframe, FixedWing, LevelFlight, Loading, Multirotor
 from cruiseplan.limits import Limit, describe, explain
 from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.model.survey import Survey
 from cruiseplan.physics.atmosphere import AirState, air_state, density_altitude
 from cruiseplan.physics.winds import WindProfile
 from cruiseplan.planning.mission import Plan, Segment, plan_mission
@@ -55,6 +56,7 @@ from cruiseplan.planning.performance import (
     power_setting_table,
 )
 from cruiseplan.planning.reserve import ReserveAmount, reserve_required
+from cruiseplan.planning.survey import SurveyPlan, plan_survey
 from cruiseplan.version import __version__
 
 __all__ = [
@@ -68,4 +70,5 @@ __all__ = [
     "load_mission", "parse_wind_profile", "plan_mission", "power_setting_table",
     "read_airframe", "read_mission", "apply_overrides", "Remedies", "what_would_make_it_go",
     "Climb", "best_angle_climb", "best_rate_climb", "ReserveAmount", "reserve_required",
+    "Survey", "SurveyPlan", "plan_survey",
 ]

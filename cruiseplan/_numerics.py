@@ -153,3 +153,48 @@ def illinois_root(f, lo, hi, *, xtol_rel=1e-12, max_iter=200):
         a, fa = np.where(done, a, a_new), np.where(done, fa, fa_new)
         b, fb = np.where(done, b, c), np.where(done, fb, fc)
     return np.where(bracketed, b, fallback)
+
+
+def monotone_slopes(x, y):
+    """Fritsch-Carlson slopes at the points of a monotone piecewise cubic through (x, y).
+
+    Interior slopes are weighted harmonic means of the neighbouring secants where they
+    agree in sign (zero otherwise); end slopes by the three-point formula, kept monotone.
+
+    Parameters
+    ----------
+    x : numpy.ndarray
+        Abscissae, strictly increasing, at least 2.
+    y : numpy.ndarray
+        Ordinates, same length.
+
+    Returns
+    -------
+    numpy.ndarray
+        dy/dx at each point.
+
+    References
+    ----------
+    .. [1] F. N. Fritsch and R. E. Carlson, "Monotone Piecewise Cubic Interpolation",
+       *SIAM J. Numer. Anal.* 17(2), 1980, pp. 238-246.
+    """
+    h = np.diff(x)
+    delta = np.diff(y) / h
+    d = np.zeros_like(y)
+    if x.size == 2:
+        return np.full_like(y, delta[0])
+    # Interior: weighted harmonic mean where neighbouring secants agree in sign, else 0.
+    w1, w2 = 2 * h[1:] + h[:-1], h[1:] + 2 * h[:-1]
+    same = delta[:-1] * delta[1:] > 0
+    with np.errstate(divide="ignore", invalid="ignore"):
+        d[1:-1] = np.where(same, (w1 + w2) / (w1 / delta[:-1] + w2 / delta[1:]), 0.0)
+    # Ends: three-point formula, kept monotone.
+    for end, (h0, h1, d0, d1) in ((0, (h[0], h[1], delta[0], delta[1])),
+                                  (-1, (h[-1], h[-2], delta[-1], delta[-2]))):
+        slope = ((2 * h0 + h1) * d0 - h0 * d1) / (h0 + h1)
+        if np.sign(slope) != np.sign(d0):
+            slope = 0.0
+        elif np.sign(d0) != np.sign(d1) and abs(slope) > abs(3 * d0):
+            slope = 3 * d0
+        d[end] = slope
+    return d

@@ -33,6 +33,9 @@ class Limit(enum.IntFlag):
     FLOOR = 4096
     HEIGHT_AGL = 8192
     BEYOND_CLMAX = 16384
+    PACK_POWER = 32768
+    CURRENT = 65536
+    CUTOFF = 131072
 
 
 @dataclass(frozen=True)
@@ -75,13 +78,26 @@ LIMITS = {
                                 "maximum height above ground"),
     Limit.BEYOND_CLMAX: LimitText("CLMAX", "CL above CLmax: slower than the stall speed, "
                                   "the wing cannot fly there", "CLmax (stall speed)"),
+    Limit.PACK_POWER: LimitText(
+        "PACK", "battery power beyond the pack's maximum OCV^2/(4R): no current gives it",
+        "pack's maximum power"),
+    Limit.CURRENT: LimitText("AMPS", "pack current above its maximum continuous current",
+                             "pack's maximum continuous current (C-rate)"),
+    Limit.CUTOFF: LimitText("VOLTS", "pack voltage under load below its cut-off voltage",
+                            "pack's cut-off voltage under load"),
 }
+
+#: The integer type of limit bit sets (the bits above no longer fit 16 bits).
+LIMIT_DTYPE = np.uint32
 
 #: Limits beyond which a point cannot be flown at all (as opposed to a margin or a model
 #: range): its range, endurance, specific range and flows are NaN, the bit says why.
 #: STALL alone (below the stall margin, above the stall speed) is not among them; a point
 #: beyond CLmax carries BEYOND_CLMAX as well as STALL.
-UNFLYABLE = Limit.BEYOND_CLMAX | Limit.POWER | Limit.WIND | Limit.NO_SOLUTION
+UNFLYABLE = (Limit.BEYOND_CLMAX | Limit.POWER | Limit.WIND | Limit.NO_SOLUTION
+             | Limit.PACK_POWER | Limit.CURRENT | Limit.CUTOFF)
+#: The limits of a battery pack given as an equivalent circuit (none without one).
+PACK_LIMITS = Limit.PACK_POWER | Limit.CURRENT | Limit.CUTOFF
 
 #: Short codes for the status column of printed tables.
 LIMIT_CODE = {flag: t.code for flag, t in LIMITS.items()}
@@ -132,7 +148,7 @@ def describe(code: int) -> str:
 
 
 def flag_if(condition, flag: Limit):
-    """``flag`` where ``condition`` holds, 0 elsewhere, as a uint16 array.
+    """``flag`` where ``condition`` holds, 0 elsewhere, as a :data:`LIMIT_DTYPE` array.
 
     Parameters
     ----------
@@ -144,6 +160,6 @@ def flag_if(condition, flag: Limit):
     Returns
     -------
     numpy.ndarray
-        uint16 bits of the condition's shape.
+        :data:`LIMIT_DTYPE` bits of the condition's shape.
     """
-    return np.where(condition, np.uint16(flag), np.uint16(0)).astype(np.uint16)
+    return np.where(condition, LIMIT_DTYPE(flag), LIMIT_DTYPE(0)).astype(LIMIT_DTYPE)

@@ -206,8 +206,10 @@ def test_missing_file(tmp_path):
 
 def test_unknown_bundled_name_lists_the_bundled_ones():
     with pytest.raises(cp.AirframeFileError,
+                       # Issue 12 added the two demo airframes with circuit packs.
                        match=r"^no-such-plane: no such airframe file, nor a bundled airframe "
-                             r"\(bundled: demo-mapping-quad, demo-sensor-wing, demo-survey-drone, "
+                             r"\(bundled: demo-mapping-quad-4s, demo-mapping-quad, "
+                             r"demo-sensor-wing, demo-survey-drone-6s, demo-survey-drone, "
                              r"demo-tourer, demo-trainer\)"):
         find_airframe("no-such-plane")
 

@@ -38,15 +38,18 @@ def test_airframes_lists_the_bundled_ones(capsys):
     status, out, err = run(capsys, "airframes")
     assert status == 0 and err == ""
     lines = out.splitlines()
-    assert [ln.split()[0] for ln in lines] == ["demo-mapping-quad", "demo-sensor-wing",
+    # Issue 12 added the two demo airframes whose packs are equivalent circuits.
+    assert [ln.split()[0] for ln in lines] == ["demo-mapping-quad-4s", "demo-mapping-quad",
+                                               "demo-sensor-wing", "demo-survey-drone-6s",
                                                "demo-survey-drone", "demo-tourer",
                                                "demo-trainer"]
     assert "fixed-wing piston" in out and "fixed-wing electric" in out
     assert "multirotor electric" in out
     status, out, _ = run(capsys, "airframes", "--format", "json")
     rows = json.loads(out)
-    assert {r["name"] for r in rows} == {"demo-mapping-quad", "demo-sensor-wing",
-                                         "demo-survey-drone", "demo-tourer", "demo-trainer"}
+    assert {r["name"] for r in rows} == {"demo-mapping-quad", "demo-mapping-quad-4s",
+                                         "demo-sensor-wing", "demo-survey-drone",
+                                         "demo-survey-drone-6s", "demo-tourer", "demo-trainer"}
     # The listing's masses are the files' (JSON keeps the float exact).
     for r in rows:
         assert r["max_takeoff_kg"] == cp.load_airframe(r["name"]).max_takeoff_mass, r["name"]

@@ -47,6 +47,7 @@ def register(sub):
     p.add_argument("--speeds", help="true airspeeds for map and power, e.g. '50:140kt:2kt' "
                                     "(default from below the stall to beyond full throttle)")
     options.add_wind(p)
+    options.add_pack_temperature(p)
     p.set_defaults(run=cmd_plot)
 
     p = sub.add_parser("card", help="one-page cruise card FILE.pdf and its markdown twin "
@@ -61,6 +62,7 @@ def register(sub):
                                      "'25%%' of the usable capacity, or '10L', '7kg', "
                                      "'120Wh' (default: piston 45min, electric 25%%; local "
                                      "rules decide)")
+    options.add_pack_temperature(p)
     options.add_monte_carlo(p)
     p.set_defaults(run=cmd_card)
 
@@ -90,6 +92,7 @@ def cmd_plot(args):
     h = options.read_altitudes(args.altitudes or defaults.get(
         args.kind, "0:500m:25m" if batteries else "0:12000ft:500ft"))
     dev = options.read_isa_dev(args)
+    af, _ = options.at_pack_temperature(af, args, float(np.min(h)), dev)
     loading = options.read_loading(af, args)
     profile, headwind, wind_text = options.read_wind(args)
     windy = profile is not None or headwind is not None
@@ -152,12 +155,14 @@ def cmd_card(args):
     af = load_airframe(args.airframe)
     h = options.read_altitudes(args.altitudes) if args.altitudes else None
     frac = options.power_settings(args.power) if args.power else None
+    dev = options.read_isa_dev(args)
+    af, _ = options.at_pack_temperature(af, args, 0.0 if h is None else float(np.min(h)), dev)
     reserve = parse_reserve(args.reserve, af.propulsion) if args.reserve else None
 
     from cruiseplan import plots  # matplotlib, only for the figure
 
     markdown, fig = plots.cruise_card(af, altitudes=h, power_settings=frac,
-                                      isa_dev=options.read_isa_dev(args), reserve=reserve,
+                                      isa_dev=dev, reserve=reserve,
                                       units=args.units, stall_margin=args.stall_margin,
                                       monte_carlo=options.monte_carlo_n(args), seed=args.seed,
                                       **options.read_loading(af, args))

@@ -15,9 +15,10 @@ from pathlib import Path
 import numpy as np
 
 from cruiseplan.amounts import parse_amount
-from cruiseplan.constants import DEFAULT_STALL_MARGIN
+from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.physics.atmosphere import isa_temperature_pressure
 from cruiseplan.report.output import write_atomic
 from cruiseplan.units import parse_quantity, parse_range
 
@@ -90,6 +91,75 @@ def add_loading(p):
     p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
     p.add_argument("--stall-margin", type=float, default=DEFAULT_STALL_MARGIN,
                    help=f"minimum TAS over stall speed (default {DEFAULT_STALL_MARGIN:g})")
+
+
+#: Help of ``--pack-temperature`` on the table commands and the card.
+PACK_TEMPERATURE_HELP = ("battery pack temperature, e.g. '5 degC' (a pack given as a circuit "
+                         "in its airframe file; default the outside air temperature at the "
+                         "lowest altitude)")
+
+
+def add_pack_temperature(p, text=PACK_TEMPERATURE_HELP):
+    """Add ``--pack-temperature`` to a command.
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser or argparse._ArgumentGroup
+        The command's parser (or an option group of it).
+    text : str, optional
+        Help text of the option.
+    """
+    p.add_argument("--pack-temperature", help=text)
+
+
+def at_pack_temperature(af, args, altitude: float, isa_dev: float):
+    """The airframe with its pack at ``--pack-temperature``, or at the day's temperature.
+
+    Parameters
+    ----------
+    af : Airframe
+        The airframe (a pack given as a circuit is what changes).
+    args : argparse.Namespace
+        Parsed options; ``pack_temperature`` is text such as ``"5 degC"`` [degC when
+        bare], or None.
+    altitude : float
+        Pressure altitude whose outside air temperature is the default [m].
+    isa_dev : float
+        ISA deviation of the day [K].
+
+    Returns
+    -------
+    airframe : Airframe
+        The airframe with its pack at that temperature.
+    celsius : float or None
+        The pack temperature [degC]; None for an airframe without a circuit.
+
+    Raises
+    ------
+    CruiseplanError
+        For a temperature that cannot be read or is out of range, ``--pack-temperature``
+        for an airframe without a circuit, or a temperature below the pack's table.
+    """
+    text = getattr(args, "pack_temperature", None)
+    circuit = getattr(af.propulsion, "circuit", None)
+    if circuit is None:
+        if text is not None:
+            raise CruiseplanError(f"--pack-temperature: {af.name} has no battery circuit "
+                                  "([battery] in its file) to warm or cool")
+        return af, None
+    if text is None:
+        celsius = float(isa_temperature_pressure(altitude)[0]) + isa_dev - T_ZERO_C
+        where = f"pack at the outside air temperature {celsius:.0f} degC"
+    else:
+        celsius = parse_quantity(text, "K", default_unit="degC",
+                                 what="--pack-temperature") - T_ZERO_C
+        if not -90.0 <= celsius <= 85.0:
+            raise UnitError(f"--pack-temperature: {text!r} is out of range (-90 to 85 degC)")
+        where = "--pack-temperature"
+    try:
+        return af.at_pack_temperature(celsius), celsius
+    except CruiseplanError as exc:
+        raise CruiseplanError(f"{where}: {exc}") from None
 
 
 def add_monte_carlo(p):

@@ -3,12 +3,14 @@
 from __future__ import annotations
 
 from cruiseplan.cli import options
+from cruiseplan.errors import CruiseplanError
 from cruiseplan.io.mission_file import apply_overrides, load_mission
 from cruiseplan.planning.mission import plan_mission
 from cruiseplan.planning.nogo import what_would_make_it_go
+from cruiseplan.planning.survey import plan_survey
 from cruiseplan.planning.uncertainty import plan_uncertainty
 from cruiseplan.report.output import write_bytes_atomic
-from cruiseplan.report.tables import plan_report
+from cruiseplan.report.tables import plan_report, survey_report
 
 
 def register(sub):
@@ -21,7 +23,8 @@ def register(sub):
     """
     p = sub.add_parser("plan", help="plan a mission file: segments, reserve, GO / NO-GO")
     p.add_argument("mission", help="mission TOML file, or a bundled mission name")
-    p.add_argument("--plot", metavar="FILE", help="also draw the profile (.png or .pdf)")
+    p.add_argument("--plot", metavar="FILE", help="also draw the profile, or a survey's plan "
+                                                  "view (.png or .pdf)")
     options.add_monte_carlo(p)
     options.add_output(p, formats=("text", "json", "csv", "markdown"))
     _add_what_if(p)
@@ -30,7 +33,8 @@ def register(sub):
 
 #: The what-if options, by the keyword of :func:`~cruiseplan.io.mission_file.apply_overrides`.
 WHAT_IF_OPTIONS = {"altimeter": "--altimeter", "isa_dev": "--isa-dev", "oat": "--oat",
-                   "wind": "--wind", "fuel": "--fuel", "payload": "--payload"}
+                   "wind": "--wind", "fuel": "--fuel", "payload": "--payload",
+                   "pack_temperature": "--pack-temperature"}
 
 
 def _add_what_if(p):
@@ -48,10 +52,13 @@ def _add_what_if(p):
     g.add_argument("--payload", help="crew and payload, e.g. '80 kg' (the fuel stays)")
     g.add_argument("--altimeter", help="QNH, e.g. '1009 hPa' or '29.80 inHg': the file's "
                                        "elevations and altitudes are read on it")
+    options.add_pack_temperature(g, "battery pack temperature, e.g. '5 degC' (a pack given "
+                                    "as a circuit; default the mission file's, else the "
+                                    "day's at the departure field)")
 
 
 def cmd_plan(args):
-    """Plan a mission; a NO-GO is a result (exit 0), not an error.
+    """Plan a mission, or a survey in packs; a NO-GO is a result (exit 0), not an error.
 
     Parameters
     ----------
@@ -71,6 +78,9 @@ def cmd_plan(args):
     n = options.monte_carlo_n(args)
     what_if = {k: getattr(args, k) for k in WHAT_IF_OPTIONS}
     mission = apply_overrides(load_mission(args.mission), **what_if, names=WHAT_IF_OPTIONS)
+    if mission.survey is not None:
+        _plan_survey(args, mission, n)
+        return
     plan = plan_mission(mission)
     spread = plan_uncertainty(plan, n, args.seed) if n else None
     remedies = None if plan.go else what_would_make_it_go(plan)
@@ -79,5 +89,20 @@ def cmd_plan(args):
         from cruiseplan import plots  # matplotlib, only for the figure
 
         data = plots.figure_bytes(plots.mission_profile(plan, units=args.units), args.plot)
+        write_bytes_atomic(args.plot, data)
+    options.emit(text, args.output)
+
+
+def _plan_survey(args, mission, n):
+    """Plan a survey mission in packs; print the packs, draw the plan view with --plot."""
+    if n:
+        raise CruiseplanError("--monte-carlo: a survey mission is planned in packs without "
+                              "a Monte Carlo (not available for surveys yet)")
+    splan = plan_survey(mission)
+    text = survey_report(splan, args.units).render(args.format)
+    if args.plot:
+        from cruiseplan import plots  # matplotlib, only for the figure
+
+        data = plots.figure_bytes(plots.survey_plan_view(splan, units=args.units), args.plot)
         write_bytes_atomic(args.plot, data)
     options.emit(text, args.output)

@@ -50,6 +50,7 @@ def register(sub):
     options.add_loading(p)
     p.add_argument("--headwind", default="0",
                    help="headwind component, e.g. '20 kt' (negative: tailwind)")
+    options.add_pack_temperature(p)
     options.add_output(p)
     p.set_defaults(run=cmd_table)
 
@@ -67,6 +68,7 @@ def register(sub):
     p.add_argument("--climb-reserve", default="0",
                    help="climb rate that must remain at cruise, e.g. '300ft/min'")
     options.add_loading(p)
+    options.add_pack_temperature(p)
     options.add_monte_carlo(p)
     options.add_output(p, formats=("text", "json", "csv", "markdown"))
     p.set_defaults(run=cmd_best)
@@ -143,6 +145,7 @@ def cmd_table(args):
     alt_text = args.altitudes or ("0:400m:100m" if batteries else "0:10000ft:2000ft")
     h = check_altitude(options.read_altitudes(alt_text), "--altitudes")
     dev = options.read_isa_dev(args)
+    af, _ = options.at_pack_temperature(af, args, float(np.min(h)), dev)
     wind = parse_quantity(args.headwind, "m/s", default_unit="kt", what="--headwind")
     common = dict(isa_dev=dev, headwind=wind, stall_margin=args.stall_margin,
                   **options.read_loading(af, args))
@@ -191,6 +194,7 @@ def cmd_best(args):
     h = options.read_altitudes(args.altitudes or ("0:500m:25m" if batteries
                                              else "0:12000ft:1000ft"))
     dev = options.read_isa_dev(args)
+    af, _ = options.at_pack_temperature(af, args, float(np.min(h)), dev)
     profile, headwind, wind_text = options.read_wind(args)
 
     def opt(text, what):

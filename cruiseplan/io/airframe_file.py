@@ -13,10 +13,10 @@ from __future__ import annotations
 
 import hashlib
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
-from cruiseplan.errors import AirframeFileError, UnitError
+from cruiseplan.errors import AirframeFileError, CruiseplanError, UnitError
 from cruiseplan.io.bundled import bundled_files, find_file
 from cruiseplan.io.schema import SchemaReader, parse_toml, read_toml
 from cruiseplan.io.schema import number as _num
@@ -28,6 +28,12 @@ from cruiseplan.physics.aerodynamics import (
     ParabolicPolar,
     TabulatedPolar,
     induced_drag_factor,
+)
+from cruiseplan.physics.battery import (
+    DEFAULT_TEMPERATURE,
+    REFERENCE_CELSIUS,
+    EquivalentCircuit,
+    PackTemperature,
 )
 from cruiseplan.physics.dragbuildup import (
     BODY_SHAPES,
@@ -236,7 +242,95 @@ def _power_chart(r: SchemaReader, sec: dict):
                       INTAKE_LOSS if vals["intake_loss"] is None else vals["intake_loss"])
 
 
+#: The fields of a ``[battery]`` circuit (``[battery.ocv]`` and ``[battery.temperature]``
+#: are tables read by :func:`_circuit`).
+_CIRCUIT_FIELDS = {
+    "cells_series": _num(1.0, 400.0, example="6"),
+    "cells_parallel": _num(1.0, 100.0, required=False, example="2"),
+    "cell_capacity": _dim("A*s", example="'8 Ah'"),
+    "cell_resistance": _dim("ohm", 0.0, 1.0, lo_open=False, example="'4 mohm'"),
+    "cutoff_voltage": _dim("V", hi=5.0, example="'3.3 V'"),
+    "max_current": _dim("A", required=False, example="'80 A'"),
+    "max_c_rate": _num(0.0, 200.0, required=False, lo_open=True, example="10"),
+    "ocv": None,
+    "temperature": None,
+}
+#: [propulsion] fields a [battery] circuit replaces: it gives the pack's energy, voltage
+#: and capacity, and its resistance replaces Peukert's law.
+_PACK_FIELDS = ("battery_energy", "pack_voltage", "capacity", "peukert_exponent",
+                "rating_time")
+
+
+def _temperature_table(r: SchemaReader, sec: dict) -> PackTemperature:
+    """``[battery.temperature]``: factors against pack temperature, or the default."""
+    if "temperature" not in sec:
+        return DEFAULT_TEMPERATURE
+    where = "battery.temperature"
+    t = r.section("temperature", {"celsius", "capacity", "resistance"}, where=f"[{where}]",
+                  data=sec)
+    celsius = r.number_list(where, t, "celsius", -80.0, 100.0)
+    cap = r.number_list(where, t, "capacity", 0.0, 1.5)
+    res = r.number_list(where, t, "resistance", 0.0, 50.0)
+    if not len(celsius) == len(cap) == len(res) or len(celsius) < 2:
+        r.fail(f"[{where}] capacity", "celsius, capacity and resistance need the same "
+                                      "length, at least 2")
+    if any(b <= a for a, b in zip(celsius, celsius[1:])):
+        r.fail(f"[{where}] celsius", f"{list(celsius)}: temperatures must increase")
+    if celsius[0] > REFERENCE_CELSIUS:
+        r.fail(f"[{where}] celsius", f"{list(celsius)}: the table must reach "
+                                     f"{REFERENCE_CELSIUS:g} degC, the reference temperature")
+    return PackTemperature(celsius, cap, res, source="the airframe file's table")
+
+
+def _circuit(r: SchemaReader) -> EquivalentCircuit:
+    """``[battery]``: the pack as an internal-resistance equivalent circuit."""
+    sec = r.section("battery", _CIRCUIT_FIELDS)
+    vals = r.values("battery", _CIRCUIT_FIELDS)
+    for key in ("cells_series", "cells_parallel"):
+        if vals[key] is not None and vals[key] != int(vals[key]):
+            r.fail(f"[battery] {key}", f"{vals[key]:g} is not a whole number")
+    ns, npar = int(vals["cells_series"]), int(vals["cells_parallel"] or 1)
+    ocv = r.section("ocv", {"soc", "volts"}, where="[battery.ocv]", data=sec)
+    soc = r.number_list("battery.ocv", ocv, "soc", -1e-12, 1.0)
+    volts = r.number_list("battery.ocv", ocv, "volts", 0.0, 5.0)
+    if len(soc) != len(volts) or len(soc) < 2:
+        r.fail("[battery.ocv] volts", "soc and volts need the same length, at least 2")
+    if soc[0] != 0.0 or soc[-1] != 1.0 or any(b <= a for a, b in zip(soc, soc[1:])):
+        r.fail("[battery.ocv] soc", f"{list(soc)}: states of charge must increase from 0 "
+                                    "to 1")
+    if any(b < a for a, b in zip(volts, volts[1:])):
+        r.fail("[battery.ocv] volts", f"{list(volts)}: cell voltages [V] must not fall as "
+                                      "the state of charge rises")
+    if vals["cutoff_voltage"] >= volts[-1]:
+        r.fail("[battery] cutoff_voltage", f"{sec['cutoff_voltage']!r} must be below the "
+                                           f"full cell's open-circuit voltage {volts[-1]:g} V")
+    if vals["max_current"] is not None and vals["max_c_rate"] is not None:
+        r.fail("[battery] max_c_rate", "give max_current or max_c_rate, not both")
+    pack_ah = npar * vals["cell_capacity"] / 3600.0
+    max_current = (vals["max_current"] if vals["max_c_rate"] is None
+                   else vals["max_c_rate"] * pack_ah)
+    table = _temperature_table(r, sec)
+    try:
+        return EquivalentCircuit(soc, volts, ns, npar, vals["cell_capacity"],
+                                 vals["cell_resistance"], vals["cutoff_voltage"], max_current,
+                                 table)
+    except CruiseplanError as exc:
+        r.fail("[battery]", str(exc))
+
+
 def _battery(r: SchemaReader, sec: dict, vals: dict, propeller):
+    if "battery" in r.data:
+        given = [k for k in _PACK_FIELDS if vals[k] is not None]
+        if given:
+            r.fail(f"[propulsion] {given[0]}", "not with a [battery] circuit, which gives the "
+                                               "pack's energy, voltage and capacity (and its "
+                                               "resistance replaces Peukert's law)")
+        c = _circuit(r)
+        return ElectricPropeller(
+            battery_energy=c.store_capacity, pack_voltage=c.nominal_voltage,
+            capacity=c.capacity, motor_efficiency=vals["motor_efficiency"],
+            controller_efficiency=vals["controller_efficiency"], propeller=propeller,
+            max_power=vals["max_power"], circuit=c)
     nominal = vals["pack_voltage"] * vals["capacity"]
     if vals["battery_energy"] > 1.02 * nominal:
         r.fail("[propulsion] battery_energy",
@@ -347,7 +441,15 @@ def _propulsion(r: SchemaReader, airframe_kind: str):
                                     f"{' or '.join(allowed)}")
     reader = PROPULSION_READERS[kind]
     r.check_fields(sec, reader.fields, "[propulsion]")
-    return reader.build(r, sec, r.values("propulsion", reader.fields))
+    fields = reader.fields
+    if "battery" in r.data:
+        if not set(_PACK_FIELDS) <= set(fields):
+            r.fail("[battery]", f"a {kind} engine has no battery pack")
+        # A [battery] circuit gives the pack's figures: the fields it replaces are then
+        # optional here, and _battery rejects them.
+        fields = {k: (replace(v, required=False) if k in _PACK_FIELDS else v)
+                  for k, v in fields.items()}
+    return reader.build(r, sec, r.values("propulsion", fields))
 
 
 def read_airframe(path) -> Airframe:
@@ -527,10 +629,10 @@ class KindReader:
 #: Readers of the airframe kinds in :data:`cruiseplan.kinds.KINDS`, by the same names.
 KIND_READERS = {
     FixedWing.kind: KindReader(
-        ("airframe", "masses", "wing", "polar", "propulsion", "uncertainty"),
+        ("airframe", "masses", "wing", "polar", "propulsion", "battery", "uncertainty"),
         ("piston-propeller", "electric-propeller"), _fixed_wing),
     Multirotor.kind: KindReader(
-        ("airframe", "masses", "rotors", "body", "propulsion", "uncertainty"),
+        ("airframe", "masses", "rotors", "body", "propulsion", "battery", "uncertainty"),
         ("electric-rotor",), _multirotor),
 }
 

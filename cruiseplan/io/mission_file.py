@@ -10,6 +10,11 @@ Layout (our own; every dimensional value is a string with its unit)::
     [[legs]]        distance or from/to waypoints, course, elevation, altitude, speed,
                     objective, wind, max_agl, max_altitude
     [levels]        sectors: a cruising-level rule by magnetic course (optional)
+    [route]         file (GPX or GeoJSON, relative to this file), name, and the leg fields
+                    its legs share; its legs come before any [[legs]]
+    [survey]        area or area_file, takeoff, spacing or footprint + side_overlap,
+                    direction, direction_step, turn, and the leg fields of its lines
+                    (altitude required); instead of [route] and [[legs]]
 
 ``variation`` (magnetic, ``"5 E"``, ``"3 W"`` or ``"-3 deg"``, east positive) may be given
 in ``[mission]`` for every leg and in a leg, which then overrides it.
@@ -39,6 +44,7 @@ from cruiseplan.errors import (
 )
 from cruiseplan.io.airframe_file import find_airframe, read_airframe
 from cruiseplan.io.bundled import bundled_files, find_file
+from cruiseplan.io.routes import read_area, read_route, route_legs
 from cruiseplan.io.schema import Field, SchemaReader, read_toml
 from cruiseplan.io.text import format_altimeter, parse_altimeter, parse_wind_profile
 from cruiseplan.model.levels import LevelSector, check_sectors
@@ -50,6 +56,7 @@ from cruiseplan.model.mission import (
     Reserve,
     default_reserve,
 )
+from cruiseplan.model.survey import Survey
 from cruiseplan.model.tolerance import WindTolerance
 from cruiseplan.physics.atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
 from cruiseplan.physics.geo import great_circle
@@ -57,8 +64,9 @@ from cruiseplan.physics.winds import WindProfile
 from cruiseplan.units import parse_quantity, temperature_difference, to_si
 
 _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty",
-             "levels"}
-_MISSION_FIELDS = {"name", "description", "airframe", "takeoff_mass", "fuel", "battery", "power",
+             "levels", "route", "survey"}
+_MISSION_FIELDS = {"pack_temperature",
+                   "name", "description", "airframe", "takeoff_mass", "fuel", "battery", "power",
                    "payload", "stall_margin", "variation"}
 _DAY_FIELDS = {"isa_dev", "oat", "altimeter"}
 _PROFILE_FIELDS = {"departure_elevation", "arrival_elevation", "climb_speed", "climb_power",
@@ -95,6 +103,58 @@ class _Reader(SchemaReader):
         spec = Field(unit, -math.inf if lo is None else lo, math.inf if hi is None else hi,
                      required, example, lo_open=False, default_unit=default_unit)
         return self.value(where, sec, key, spec)
+
+
+def pack_celsius(pack_temperature, departure_elevation, isa_dev) -> float:
+    """The pack temperature of a mission [degC]: stated, or the day's at the departure field.
+
+    Parameters
+    ----------
+    pack_temperature : float or None
+        Pack temperature stated by the mission file or an override [degC].
+    departure_elevation : float
+        Pressure altitude of the departure field [m].
+    isa_dev : float
+        The day's ISA deviation [K].
+
+    Returns
+    -------
+    float
+        Pack temperature [degC].
+    """
+    if pack_temperature is not None:
+        return float(pack_temperature)
+    oat = float(isa_temperature_pressure(departure_elevation)[0]) + isa_dev
+    return oat - T_ZERO_C
+
+
+def _repack(mission, pack_temperature, isa_dev, names, words):
+    """The mission with its pack at a new temperature; the store keeps its state of charge."""
+    old = mission.airframe.propulsion
+    if getattr(old, "circuit", None) is None:
+        if pack_temperature is not None:
+            raise CruiseplanError(f"{names['pack_temperature']}: {mission.airframe.name} has "
+                                  "no battery circuit ([battery] in its file) to warm or cool")
+        return mission
+    if pack_temperature is not None:
+        t = parse_quantity(pack_temperature, "K", default_unit="degC",
+                           what=names["pack_temperature"]) - T_ZERO_C
+        if not -90.0 <= t <= 85.0:
+            raise UnitError(f"{names['pack_temperature']}: {pack_temperature!r} is out of "
+                            "range (-90 to 85 degC)")
+        words.append(f"pack {t:g} degC")
+    else:
+        t = mission.pack_temperature
+    try:
+        af = mission.airframe.at_pack_temperature(
+            pack_celsius(t, mission.profile.departure_elevation, isa_dev))
+    except CruiseplanError as exc:
+        where = names["pack_temperature"] if pack_temperature is not None else "pack"
+        raise CruiseplanError(f"{where}: {exc}") from None
+    k = af.propulsion.store_capacity / old.store_capacity
+    store = None if mission.store is None else mission.store * k
+    return replace(mission, airframe=af, store=store, allowance=mission.allowance * k,
+                   pack_temperature=t)
 
 
 def _store_amount(r, raw, key, where, prop):
@@ -297,6 +357,132 @@ def _levels(r, data) -> tuple:
     return tuple(out)
 
 
+# --- [route] and [survey] ------------------------------------------------------------------
+
+#: A leg's fields a route or a survey gives for all its legs.
+_SHARED_LEG_FIELDS = {"altitude", "speed", "cas", "power", "objective", "wind", "winds",
+                      "elevation", "max_agl", "max_altitude", "variation"}
+_ROUTE_FIELDS = {"file", "name"} | _SHARED_LEG_FIELDS
+_SURVEY_FIELDS = {"area", "area_file", "takeoff", "spacing", "footprint", "side_overlap",
+                  "direction", "direction_step", "turn"} | _SHARED_LEG_FIELDS
+
+
+def _file_near(r, sec, key, where, example):
+    """The path of ``key`` (a file named relative to the mission file)."""
+    name = sec.get(key)
+    if not isinstance(name, str) or not name.strip():
+        r.fail(f"{where} {key}", f"expected a file name, e.g. {key} = {example!r} (relative "
+                                 "to this mission file)")
+    return Path(r.source).parent / name
+
+
+def _route(r, data, to_pa) -> tuple:
+    """The legs of ``[route]``: a GPX or GeoJSON file's points, with the route's fields."""
+    if "route" not in data:
+        return ()
+    sec = r.table(data, "route", _ROUTE_FIELDS)
+    try:
+        route = read_route(_file_near(r, sec, "file", "[route]", "ridge.gpx"))
+    except CruiseplanError as exc:
+        r.fail("[route] file", str(exc))
+    name = sec.get("name", "")
+    if not isinstance(name, str):
+        r.fail("[route] name", f"{name!r} should be text: the legs are named 'NAME 1', ...")
+    (lat0, lon0), (lat1, lon1) = route.points[:2]
+    shared = {k: v for k, v in sec.items() if k in _SHARED_LEG_FIELDS}
+    template = _leg(r, {**shared, "from": [float(lat0), float(lon0)],
+                        "to": [float(lat1), float(lon1)]}, "[route]", to_pa)
+    return route_legs(route, template, name)
+
+
+def _lat_lon(r, p, where):
+    """A ``[latitude, longitude]`` pair [deg], checked."""
+    if (not isinstance(p, list) or len(p) != 2
+            or not all(isinstance(v, (int, float)) and not isinstance(v, bool) for v in p)
+            or not (-90 <= p[0] <= 90 and -180 <= p[1] <= 180)):
+        r.fail(where, f"{p!r} should be [latitude, longitude] in degrees (-90..90, "
+                      "-180..180)")
+    return float(p[0]), float(p[1])
+
+
+def _turn(r, sec):
+    """``[survey] turn``: a distance [m] or a time [s] added at each turn (0, 0 absent)."""
+    raw = sec.get("turn")
+    if raw is None:
+        return 0.0, 0.0
+    for unit, hi in (("m", 5000.0), ("s", 600.0)):
+        try:
+            parse_quantity(raw, unit, what="turn")
+        except UnitError:
+            continue
+        value = r.quantity(sec, "turn", unit, "[survey]", lo=0.0, hi=hi,
+                           example="'40 m' or '15 s'")
+        return (value, 0.0) if unit == "m" else (0.0, value)
+    r.fail("[survey] turn", f"{raw!r} should be a distance ('40 m') or a time ('15 s') "
+                            "added at each turn")
+
+
+def _survey(r, data, to_pa):
+    """The ``[survey]`` of a mission file as a Survey, or None."""
+    if "survey" not in data:
+        return None
+    w = "[survey]"
+    sec = r.table(data, "survey", _SURVEY_FIELDS)
+    if ("area" in sec) == ("area_file" in sec):
+        r.fail(f"{w} area", "give either area = [[lat, lon], ...] (three or more vertices) "
+                            "or area_file = 'field.geojson' (a GeoJSON Polygon)")
+    if "area" in sec:
+        raw = sec["area"]
+        if not isinstance(raw, list) or len(raw) < 3:
+            r.fail(f"{w} area", "expected a list of three or more [latitude, longitude] "
+                                "vertices in order around the area")
+        area = tuple(_lat_lon(r, p, f"{w} area vertex {k}") for k, p in enumerate(raw, 1))
+        source = ""
+    else:
+        path = _file_near(r, sec, "area_file", w, "field.geojson")
+        try:
+            area = tuple(map(tuple, read_area(path).tolist()))
+        except CruiseplanError as exc:
+            r.fail(f"{w} area_file", str(exc))
+        source = str(path)
+    if "takeoff" not in sec:
+        r.fail(f"{w} takeoff", "missing; expected the take-off point, takeoff = [latitude, "
+                               "longitude]")
+    takeoff = _lat_lon(r, sec["takeoff"], f"{w} takeoff")
+    footprint = r.quantity(sec, "footprint", "m", w, lo=0.1, example="'80 m'")
+    overlap = r.quantity(sec, "side_overlap", "", w, lo=0.0, hi=0.95, example="'30 %'")
+    spacing = r.quantity(sec, "spacing", "m", w, lo=0.1, example="'55 m'")
+    if spacing is not None and (footprint is not None or overlap is not None):
+        r.fail(f"{w} spacing", "give either spacing or footprint with side_overlap, not both")
+    if spacing is None:
+        if footprint is None or overlap is None:
+            r.fail(f"{w} spacing", "missing; give spacing = '55 m', or footprint = '80 m' "
+                                   "with side_overlap = '30 %' (spacing = footprint x (1 - "
+                                   "overlap))")
+        spacing = footprint * (1.0 - overlap)
+    direction = sec.get("direction", "best")
+    if direction != "best":
+        direction = r.quantity(sec, "direction", "deg", w, lo=0.0, hi=360.0,
+                               default_unit="deg", example="35 (deg true) or 'best'")
+    step = r.quantity(sec, "direction_step", "deg", w, lo=1.0, hi=30.0, default_unit="deg",
+                      example="'10 deg'")
+    turn_distance, turn_time = _turn(r, sec)
+    if sec.get("altitude", "best") == "best":
+        r.fail(f"{w} altitude", "missing; a survey is flown at one altitude (its ground "
+                                "resolution), e.g. altitude = '195 m'")
+    shared = {k: v for k, v in sec.items() if k in _SHARED_LEG_FIELDS}
+    template = _leg(r, {**shared, "name": "survey", "distance": "1 km", "course": 0}, w,
+                    to_pa)
+    try:
+        return Survey(area, takeoff, spacing, template,
+                      direction=None if direction == "best" else direction,
+                      direction_step=10.0 if step is None else step,
+                      turn_distance=turn_distance, turn_time=turn_time, footprint=footprint,
+                      side_overlap=overlap, area_source=source)
+    except CruiseplanError as exc:
+        r.fail(w, str(exc))
+
+
 def _wind_words(profile) -> str:
     """A winds-aloft profile as written: ``"270/25kt@3000ft,250/40kt@8000ft"``."""
     kt = 1852.0 / 3600.0
@@ -376,6 +562,19 @@ def read_mission(path, *, altimeter=None, wind=None) -> Mission:
                                     "e.g. '+15 K' or '+15 degC'")
         if not -60 <= isa_dev <= 60:
             r.fail("[day] isa_dev", f"{day['isa_dev']!r} is out of range (-60 to 60 K)")
+    # A pack given as a circuit holds less and sags more when cold: it is set to the stated
+    # pack temperature, or the day's at the departure field, before any amount is read.
+    pack_t = r.quantity(head, "pack_temperature", "K", "[mission]", default_unit="degC",
+                        lo=180.0, hi=360.0, example="'15 degC'")
+    pack_t = None if pack_t is None else pack_t - T_ZERO_C
+    if pack_t is not None and getattr(prop, "circuit", None) is None:
+        r.fail("[mission] pack_temperature", f"{af.name} has no battery circuit ([battery] "
+                                             "in its file) to warm or cool")
+    try:
+        af = af.at_pack_temperature(pack_celsius(pack_t, dep, isa_dev))
+    except CruiseplanError as exc:
+        r.fail("[mission] pack_temperature" if pack_t is not None else "[day]", str(exc))
+    prop = af.propulsion
 
     def opt(key, unit, lo, example, default=None, hi=None):
         v = r.quantity(prof_raw, key, unit, w, lo=lo, hi=hi, example=example)
@@ -439,12 +638,18 @@ def read_mission(path, *, altimeter=None, wind=None) -> Mission:
     reserve = Reserve(kind, amount, alternate, text=str(written[kinds[0]]) if kinds else "",
                       power=res_power)
 
-    legs_raw = data.get("legs")
-    if not isinstance(legs_raw, list) or not legs_raw:
-        r.fail("[[legs]]", "missing; a mission needs at least one leg")
-    legs = tuple(_leg(r, leg, f"leg {k}" + (f" {leg.get('name')!r}" if isinstance(leg, dict)
-                                            and "name" in leg else ""), to_pa)
-                 for k, leg in enumerate(legs_raw, 1))
+    route, survey = _route(r, data, to_pa), _survey(r, data, to_pa)
+    legs_raw = data.get("legs", [])
+    if survey is not None and (route or legs_raw):
+        r.fail("[survey]", "a survey mission lays its own legs from its area: give [survey] "
+                           "or [route] and [[legs]], not both")
+    if not isinstance(legs_raw, list) or not (legs_raw or route or survey):
+        r.fail("[[legs]]", "missing; a mission needs at least one leg, a [route] file or a "
+                           "[survey] area")
+    legs = route + tuple(_leg(r, leg, f"leg {k}" + (f" {leg.get('name')!r}"
+                                                   if isinstance(leg, dict) and "name" in leg
+                                                   else ""), to_pa)
+                         for k, leg in enumerate(legs_raw, 1))
     variation = _variation(r, head, "[mission]")
     if variation is not None:
         legs = tuple(leg if leg.variation is not None else replace(leg, variation=variation)
@@ -472,7 +677,9 @@ def read_mission(path, *, altimeter=None, wind=None) -> Mission:
                                 example="'65 %'"),
         source=str(path),
         description=str(head.get("description", "")), wind_tolerance=wind_tolerance,
-        altimeter=qnh, variation=variation or 0.0, levels=levels, overrides=what_if)
+        pack_temperature=pack_t,
+        altimeter=qnh, variation=variation or 0.0, levels=levels, overrides=what_if,
+        survey=survey)
     try:
         af.loading(mass=mass, store=store, payload=payload)
     except CruiseplanError as exc:
@@ -512,7 +719,7 @@ def load_mission(name_or_path, *, altimeter=None, wind=None) -> Mission:
 
 
 #: The what-if overrides of :func:`apply_overrides`, in the order the plan lists them.
-OVERRIDES = ("altimeter", "isa_dev", "oat", "wind", "fuel", "payload")
+OVERRIDES = ("altimeter", "isa_dev", "oat", "wind", "fuel", "payload", "pack_temperature")
 
 
 def _reread(mission, qnh, profile, names):
@@ -532,12 +739,15 @@ def _reread(mission, qnh, profile, names):
     alt = mission.reserve.alternate
     reserve = (mission.reserve if alt is None
                else replace(mission.reserve, alternate=replace(alt, wind=profile)))
+    survey = mission.survey
+    if survey is not None:
+        survey = replace(survey, leg=replace(survey.leg, wind=profile))
     return replace(mission, legs=tuple(replace(leg, wind=profile) for leg in mission.legs),
-                   reserve=reserve)
+                   reserve=reserve, survey=survey)
 
 
 def apply_overrides(mission, *, altimeter=None, isa_dev=None, oat=None, wind=None, fuel=None,
-                    payload=None, names=None) -> Mission:
+                    payload=None, names=None, pack_temperature=None) -> Mission:
     """A mission with what-if overrides of its file, recorded for the plan's header.
 
     Each override is text as on the command line or a value in SI; those left None keep
@@ -564,6 +774,11 @@ def apply_overrides(mission, *, altimeter=None, isa_dev=None, oat=None, wind=Non
         take-off mass then follows from it.
     payload : str or float, optional
         Crew and payload, ``"80 kg"`` [kg]; the fuel on board stays as it was.
+    pack_temperature : str or float, optional
+        Battery pack temperature, ``"5 degC"`` [degC when bare] (a pack given as a
+        circuit). A pack at a new temperature (this, or the day's changed by ``isa_dev``
+        or ``oat``) keeps its state of charge: the energy on board scales with its
+        capacity.
     names : dict, optional
         How errors name each override, by keyword (the command line passes its options,
         ``{"isa_dev": "--isa-dev", ...}``); the keyword by default.
@@ -617,6 +832,9 @@ def apply_overrides(mission, *, altimeter=None, isa_dev=None, oat=None, wind=Non
         words.append(f"OAT {t - T_ZERO_C:g} degC at departure (ISA {dev:+.1f} K)")
     if profile is not None:
         words.append(f"wind {wind_text} on every leg")
+    if pack_temperature is not None or "isa_dev" in changes:
+        mission = _repack(mission, pack_temperature, changes.get("isa_dev", mission.isa_dev),
+                          names, words)
     if fuel is not None or payload is not None:
         changes.update(_loading_overrides(mission, fuel, payload, names, words))
     return replace(mission, **changes, overrides=tuple(words))

@@ -10,7 +10,7 @@ it is. The common fields (masses, propulsion, file) and the loading rules live i
 from __future__ import annotations
 
 import warnings
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import ClassVar, Protocol, runtime_checkable
 
 import numpy as np
@@ -168,7 +168,7 @@ class Airframe(Protocol):
         Returns
         -------
         numpy.ndarray
-            uint16 :class:`~cruiseplan.limits.Limit` bits.
+            :data:`~cruiseplan.limits.LIMIT_DTYPE` :class:`~cruiseplan.limits.Limit` bits.
         """
 
     def stall_speed_ratio(self, flight: LevelFlight):
@@ -249,6 +249,30 @@ class AirframeBase:
     source: str = ""
     checksum: str = ""
     tolerances: tuple = ()
+
+    def at_pack_temperature(self, celsius: float):
+        """The same airframe with its battery pack at ``celsius`` [degC].
+
+        Only a pack given as an equivalent circuit changes (capacity and resistance by its
+        temperature table); any other airframe is returned as it is.
+
+        Parameters
+        ----------
+        celsius : float
+            Pack temperature [degC].
+
+        Returns
+        -------
+        Airframe
+            The airframe with its propulsion at that pack temperature.
+
+        Raises
+        ------
+        CruiseplanError
+            Below the pack's temperature table.
+        """
+        prop = self.propulsion.at_pack_temperature(celsius)
+        return self if prop is self.propulsion else replace(self, propulsion=prop)
 
     def loading(self, mass=None, store=None, payload=None) -> Loading:
         """Resolve the mass and the fuel or energy on board.

@@ -130,7 +130,7 @@ class FixedWing(AirframeBase):
         Returns
         -------
         numpy.ndarray
-            uint16 :class:`~cruiseplan.limits.Limit` bits.
+            :data:`~cruiseplan.limits.LIMIT_DTYPE` :class:`~cruiseplan.limits.Limit` bits.
         """
         cl = flight.cl
         bits = flag_if(cl > self.cl_max / stall_margin**2, Limit.STALL)

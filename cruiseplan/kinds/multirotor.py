@@ -125,7 +125,7 @@ class Multirotor(AirframeBase):
         Returns
         -------
         numpy.ndarray
-            uint16 :class:`~cruiseplan.limits.Limit` bits.
+            :data:`~cruiseplan.limits.LIMIT_DTYPE` :class:`~cruiseplan.limits.Limit` bits.
         """
         rot = flight.rotor
         beyond = ((rot.advance_ratio > MAX_ADVANCE_RATIO)

@@ -210,7 +210,8 @@ class Mission:
     """A mission: airframe, loading, day, legs, allowance, reserve and profile (SI).
 
     ``cruise_power`` [-] is the power setting (a fraction of rated power) of the legs that
-    give no speed, power or objective of their own; None: their best speed.
+    give no speed, power or objective of their own; None: their best speed. A survey
+    mission has a ``survey`` and no legs of its own: each pack's legs are laid from it.
     """
 
     name: str
@@ -233,8 +234,14 @@ class Mission:
     altimeter: float | None = None
     #: Magnetic variation of the legs that give none [deg], east positive.
     variation: float = 0.0
+    #: Pack temperature [degC] the mission file or an override states; None: the day's
+    #: outside air temperature at the departure field (used by a battery circuit only).
+    pack_temperature: float | None = None
     #: Cruising-level rule: :class:`~cruiseplan.model.levels.LevelSector` s covering every
     #: magnetic course; empty for none.
     levels: tuple = ()
     #: What-if overrides applied to the file, in words, for the plan's header.
     overrides: tuple = ()
+    #: A survey area (:class:`~cruiseplan.model.survey.Survey`) flown in packs by
+    #: :func:`cruiseplan.planning.survey.plan_survey`; None for a route of legs.
+    survey: object = None

@@ -49,7 +49,10 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from cruiseplan._numerics import monotone_slopes
 from cruiseplan.errors import CruiseplanError, lookup
+from cruiseplan.limits import LIMIT_DTYPE
+from cruiseplan.physics.battery import EquivalentCircuit, PackLoad
 
 
 @dataclass(frozen=True)
@@ -178,7 +181,7 @@ class PropellerEfficiency:
             x = np.asarray(self.tas, dtype=float)
             y = np.asarray(self.efficiency, dtype=float)
             object.__setattr__(self, "_x", x)
-            d = _monotone_slopes(x, y)
+            d = monotone_slopes(x, y)
             # Per-interval polynomial in the local coordinate t in [0, 1], evaluated by
             # Horner's rule: this is called thousands of times inside speed searches.
             h = np.diff(x)
@@ -298,30 +301,6 @@ class PropellerEfficiency:
             ``shaft + extra / eta_p(V)`` [W].
         """
         return shaft + extra / self(tas)
-
-
-def _monotone_slopes(x, y):
-    """Fritsch-Carlson end and interior slopes for a monotone cubic through (x, y)."""
-    h = np.diff(x)
-    delta = np.diff(y) / h
-    d = np.zeros_like(y)
-    if x.size == 2:
-        return np.full_like(y, delta[0])
-    # Interior: weighted harmonic mean where neighbouring secants agree in sign, else 0.
-    w1, w2 = 2 * h[1:] + h[:-1], h[1:] + 2 * h[:-1]
-    same = delta[:-1] * delta[1:] > 0
-    with np.errstate(divide="ignore", invalid="ignore"):
-        d[1:-1] = np.where(same, (w1 + w2) / (w1 / delta[:-1] + w2 / delta[1:]), 0.0)
-    # Ends: three-point formula, kept monotone.
-    for end, (h0, h1, d0, d1) in ((0, (h[0], h[1], delta[0], delta[1])),
-                                  (-1, (h[-1], h[-2], delta[-1], delta[-2]))):
-        slope = ((2 * h0 + h1) * d0 - h0 * d1) / (h0 + h1)
-        if np.sign(slope) != np.sign(d0):
-            slope = 0.0
-        elif np.sign(d0) != np.sign(d1) and abs(slope) > abs(3 * d0):
-            slope = 3 * d0
-        d[end] = slope
-    return d
 
 
 # --- Actuator disk (momentum theory) ---------------------------------------------------
@@ -876,13 +855,15 @@ class PistonPropeller(_Propeller):
         """
         return self.rated_power * self.lapse(sigma)
 
-    def store_rate(self, shaft_power):
+    def store_rate(self, shaft_power, soc=None, store=None):
         """Rate the store is used [kg/s] at shaft power [W]: the fuel flow, BSFC x P.
 
         Parameters
         ----------
         shaft_power : array_like
             Shaft power [W].
+        soc, store : optional
+            Not used (a battery's state of charge and store on board).
 
         Returns
         -------
@@ -910,6 +891,31 @@ class PistonPropeller(_Propeller):
             Fuel flow x lower heating value [W].
         """
         return self.store_rate(shaft_power) * FUELS[self.fuel].lower_heating_value
+
+    def pack_limits(self, shaft_power, store=None):
+        """No battery pack: no pack limits.
+
+        Parameters
+        ----------
+        shaft_power : array_like
+            Shaft power [W].
+        store : optional
+            Not used.
+
+        Returns
+        -------
+        numpy.ndarray
+            Zeros of :data:`~cruiseplan.limits.LIMIT_DTYPE`, shape of ``shaft_power``.
+        """
+        return np.zeros(np.shape(shaft_power), dtype=LIMIT_DTYPE)
+
+    def at_pack_temperature(self, celsius):
+        """The same engine: a pack temperature [degC] changes nothing without a pack."""
+        return self
+
+    def pack_shaft_limit(self, store=None):
+        """No pack: no shaft-power limit of one (inf [W], bit 0)."""
+        return np.inf, 0
 
     def endurance(self, store, shaft_power):
         """Time [s] to burn ``store`` kg of fuel at constant shaft power [W].
@@ -980,6 +986,11 @@ class ElectricPropeller(_Propeller):
         Peukert exponent n [-]; 1 for an ideal pack.
     rating_time : float
         Discharge time at which the capacity is rated [s] (Hart's form).
+    circuit : EquivalentCircuit, optional
+        The pack as an equivalent circuit (:mod:`cruiseplan.physics.battery`): then the
+        store, its rate and the pack limits come from it, at its temperature, and
+        ``battery_energy``, ``pack_voltage`` and ``capacity`` are its 25 degC figures,
+        for display; without it the fixed energy and Peukert's law, as before.
     """
 
     battery_energy: float
@@ -991,6 +1002,7 @@ class ElectricPropeller(_Propeller):
     max_power: float
     peukert_exponent: float = 1.0
     rating_time: float = 3600.0
+    circuit: EquivalentCircuit | None = None
     kind: str = field(default="electric-propeller", init=False)
     store: Store = field(default=ENERGY, init=False)
 
@@ -1006,8 +1018,97 @@ class ElectricPropeller(_Propeller):
 
     @property
     def store_capacity(self) -> float:
-        """Usable battery energy when full [J]."""
+        """Usable battery energy when full [J] (the circuit's at its temperature)."""
+        if self.circuit is not None:
+            return self.circuit.store_capacity
         return self.battery_energy
+
+    def at_pack_temperature(self, celsius):
+        """The same chain with its pack at ``celsius`` [degC] (no change without a circuit).
+
+        Parameters
+        ----------
+        celsius : float
+            Pack temperature [degC].
+
+        Returns
+        -------
+        ElectricPropeller
+            Capacity and resistance derated by the pack's temperature table.
+
+        Raises
+        ------
+        CruiseplanError
+            Below the temperature table's range.
+        """
+        if self.circuit is None:
+            return self
+        return replace(self, circuit=self.circuit.at_temperature(celsius))
+
+    def pack_load(self, shaft_power, store=None, soc=None) -> PackLoad:
+        """Current, terminal voltage and pack limits at a shaft power (circuit only).
+
+        Parameters
+        ----------
+        shaft_power : array_like
+            Shaft power [W].
+        store : array_like, optional
+            Store on board [J]; a full pack by default.
+        soc : array_like, optional
+            State of charge [-], instead of ``store``.
+
+        Returns
+        -------
+        PackLoad
+            See :meth:`cruiseplan.physics.battery.EquivalentCircuit.load`.
+        """
+        c = self.circuit
+        if soc is None:
+            soc = 1.0 if store is None else c.soc_of_store(store)
+        return c.load(self.source_power(shaft_power), soc)
+
+    def pack_shaft_limit(self, store=None):
+        """Largest shaft power the pack allows with ``store`` on board, and its limit bit.
+
+        Parameters
+        ----------
+        store : float, optional
+            Store on board [J]; a full pack by default.
+
+        Returns
+        -------
+        power : float
+            Shaft power [W]: the pack's largest battery power within its limits
+            (:meth:`~cruiseplan.physics.battery.EquivalentCircuit.power_limit`) through the
+            motor and controller (inf without a circuit).
+        bit : int
+            :class:`~cruiseplan.limits.Limit` bit that binds (0: none).
+        """
+        if self.circuit is None:
+            return np.inf, 0
+        c = self.circuit
+        soc = 1.0 if store is None else float(np.max(c.soc_of_store(store)))
+        power, bit = c.power_limit(soc)
+        return power * self.motor_efficiency * self.controller_efficiency, bit
+
+    def pack_limits(self, shaft_power, store=None):
+        """Pack limits at a shaft power with ``store`` on board (zeros without a circuit).
+
+        Parameters
+        ----------
+        shaft_power : array_like
+            Shaft power [W].
+        store : array_like, optional
+            Store on board [J]; a full pack by default.
+
+        Returns
+        -------
+        numpy.ndarray
+            :class:`~cruiseplan.limits.Limit` bits PACK_POWER, CURRENT and CUTOFF.
+        """
+        if self.circuit is None:
+            return np.zeros(np.shape(shaft_power), dtype=LIMIT_DTYPE)
+        return self.pack_load(shaft_power, store).limits
 
     def lapse(self, sigma):
         """Electric motors keep their power with altitude: 1 [-].
@@ -1069,8 +1170,14 @@ class ElectricPropeller(_Propeller):
         """
         return shaft_power / (self.motor_efficiency * self.controller_efficiency)
 
-    def store_rate(self, shaft_power):
+    def store_rate(self, shaft_power, soc=None, store=None):
         r"""Rate the usable energy is used [W] at shaft power [W], Peukert included.
+
+        With an equivalent circuit (:attr:`circuit`) the rate at state of charge ``soc``
+        is :math:`U(s) I(P, s) = P + I^2 R` (the planner, which follows the state of
+        charge); without ``soc`` it is the mean rate of a constant-power discharge of
+        ``store`` (a full pack by default) to the loaded cut-off, so that store / rate is
+        that discharge's time (grids, best speeds, reserves). Without a circuit:
 
         Peukert's law in Hart's form gives the time a pack lasts at current :math:`I`,
         :math:`t = R_t (C/(I R_t))^n`, for its rated energy :math:`U C`; the usable energy
@@ -1087,6 +1194,10 @@ class ElectricPropeller(_Propeller):
         ----------
         shaft_power : array_like
             Shaft power [W].
+        soc : array_like, optional
+            State of charge [-] (circuit only).
+        store : array_like, optional
+            Store on board [J] (circuit only, without ``soc``).
 
         Returns
         -------
@@ -1096,8 +1207,13 @@ class ElectricPropeller(_Propeller):
         References
         ----------
         .. [1] Traub (2011), eq. 9.
+        .. [2] :mod:`cruiseplan.physics.battery` (the Rint circuit).
         """
         p_batt = self.source_power(shaft_power)
+        if self.circuit is not None:
+            if soc is not None:
+                return self.circuit.rate(p_batt, soc)
+            return self.circuit.mean_rate(p_batt, store)
         n = self.peukert_exponent
         if np.all(n == 1.0):
             return p_batt
@@ -1127,7 +1243,7 @@ class ElectricPropeller(_Propeller):
         ----------
         .. [1] Traub (2011), eq. 9.
         """
-        return store / self.store_rate(shaft_power)
+        return store / self.store_rate(shaft_power, store=store)
 
     def sampled(self, name: str, factors: dict):
         """The battery chain with toleranced parameters as arrays over samples.
@@ -1155,6 +1271,8 @@ class ElectricPropeller(_Propeller):
         changes = {}
         if "battery_energy" in factors:
             changes["battery_energy"] = self.battery_energy * factors["battery_energy"]
+            if self.circuit is not None:
+                changes["circuit"] = self.circuit.scaled(factors["battery_energy"])
         if "motor_efficiency" in factors:
             changes["motor_efficiency"] = self.motor_efficiency * factors["motor_efficiency"]
         if "propeller_efficiency" in factors:

@@ -16,7 +16,11 @@ elevation. Each segment is integrated along its path:
   that rate (never below idle).
 
 Battery aircraft keep their mass and use energy; with a Peukert exponent each segment uses
-its share :math:`\Delta t / t(I)` of the pack.
+its share :math:`\Delta t / t(I)` of the pack. A pack given as an equivalent circuit
+(:mod:`cruiseplan.physics.battery`) is followed through its state of charge: the energy
+used within a segment is a state of its integration, the rate is :math:`U(s) I = P + I^2 R`
+at each state, and a segment beyond the pack's current or cut-off voltage is a NO-GO
+reason.
 
 A ``best`` altitude is chosen per leg among candidate altitudes by the store the whole
 leg uses, **climb and descent included**, so a short leg is not flown high just because
@@ -50,6 +54,8 @@ import numpy as np
 from cruiseplan._numerics import illinois_root
 from cruiseplan.amounts import format_amount
 from cruiseplan.constants import FT_PER_MIN, G0, MACH_LIMIT
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.limits import LIMIT_DTYPE, Limit
 from cruiseplan.model.mission import Mission
 from cruiseplan.physics.airspeed import (
     eas_from_tas,
@@ -99,6 +105,10 @@ class Segment:
     power_fraction: float
     note: str = ""
     flown: bool = True
+    #: Lowest pack voltage under load [V] and highest current [A] in the segment (a pack
+    #: given as a circuit; NaN otherwise).
+    pack_voltage: float = float("nan")
+    pack_current: float = float("nan")
 
 
 @dataclass(frozen=True)
@@ -191,6 +201,8 @@ class Flight:
         self.dev = mission.isa_dev
         self.margin = mission.stall_margin
         self.burns_mass = self.prop.store.burns_mass
+        # A pack given as an equivalent circuit: segments follow its state of charge.
+        self.circuit = getattr(self.prop, "circuit", None)
         self.wind_error = wind_error
         self.headwind_offset = headwind_offset
         self.sample_shape = sample_shape
@@ -234,20 +246,42 @@ class Flight:
         """
         return shaft_power_required(self.af, m, air, v)
 
-    def rate(self, shaft):
+    def rate(self, shaft, soc=None):
         """Rate the store is used [kg/s or W] at shaft power ``shaft`` [W].
 
         Parameters
         ----------
         shaft : array_like
             Shaft power [W].
+        soc : array_like, optional
+            State of charge [-] of a pack given as a circuit (:meth:`soc`): its rate there,
+            U I = P + I^2 R; None: the store rate without a state.
 
         Returns
         -------
         numpy.ndarray
             Fuel flow [kg/s] or rate of use of usable energy [W].
         """
-        return self.prop.store_rate(shaft)
+        if soc is None:
+            return self.prop.store_rate(shaft)
+        return self.prop.store_rate(shaft, soc=soc)
+
+    def soc(self, store):
+        """State of charge [-] with ``store`` [J] on board; None without a circuit.
+
+        Parameters
+        ----------
+        store : array_like or None
+            Store on board [J] (None: not followed).
+
+        Returns
+        -------
+        numpy.ndarray or None
+            State of charge [-] of the pack's circuit.
+        """
+        if self.circuit is None or store is None:
+            return None
+        return self.circuit.soc_of_store(store)
 
     def wind(self, leg, h):
         """Headwind and crosswind [m/s] on the leg's course at altitudes ``h``.
@@ -328,14 +362,44 @@ class Flight:
         return gs, heading, held
 
 
-def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
+class _PackWatch:
+    """Lowest voltage, highest current and the pack limits met along a segment."""
+
+    def __init__(self, fl: Flight):
+        self.fl = fl
+        self.voltage, self.current, self.limits = np.inf, 0.0, LIMIT_DTYPE(0)
+
+    def see(self, shaft, soc, where=True):
+        """Take the pack's load at shaft power [W] and state of charge [-] into account."""
+        if soc is None:
+            return
+        load = self.fl.prop.pack_load(shaft, soc=soc)
+        self.voltage = np.where(where, np.minimum(self.voltage, load.voltage), self.voltage)
+        self.current = np.where(where, np.maximum(self.current, load.current), self.current)
+        self.limits = self.limits | np.where(where, load.limits, 0).astype(LIMIT_DTYPE)
+
+    def out(self, shape) -> dict:
+        """The watch's figures as arrays of ``shape`` (NaN and 0 without a circuit)."""
+        if self.fl.circuit is None:
+            nan = np.full(shape, np.nan)
+            return dict(pack_voltage=nan, pack_current=nan,
+                        pack_limits=np.zeros(shape, dtype=LIMIT_DTYPE))
+        return dict(pack_voltage=np.broadcast_to(self.voltage, shape) + 0.0,
+                    pack_current=np.broadcast_to(self.current, shape) + 0.0,
+                    pack_limits=np.broadcast_to(self.limits, shape).astype(LIMIT_DTYPE))
+
+
+def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=None):
     """Climb or descend from h0 to h1 (arrays over candidates), integrated in steps.
 
     Each candidate climbs (h1 > h0) at the climb EAS ``v_climb`` and climb power, or
-    descends at the set rate and the EAS ``v_descent``; both kinds in one pass.
+    descends at the set rate and the EAS ``v_descent``; both kinds in one pass. With
+    ``store0`` [J], the store at the start, a pack given as a circuit is followed through
+    its state of charge.
 
     Returns a dict of arrays: time, distance, used, mass_end, ok (the climb rate held),
-    fail_at (altitude where it did not), tas, gs and power (time means), heading.
+    fail_at (altitude where it did not), tas, gs and power (time means), heading, and the
+    pack's lowest voltage, highest current and limits (:class:`_PackWatch`).
     """
     # Altitudes keep their own shape (candidates, or one altitude); masses and sampled
     # parameters broadcast against them.
@@ -349,9 +413,10 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
     ok = np.ones(shape, dtype=bool)
     fail_at = np.full(shape, np.nan)
     moving = np.broadcast_to(np.abs(dh) > 0, shape)
+    watch = _PackWatch(fl)
     if not np.any(moving):
         return dict(time=zero, distance=zero, used=zero, mass_end=m, ok=ok, fail_at=fail_at,
-                    tas=fail_at, gs=fail_at, heading=zero, power=fail_at)
+                    tas=fail_at, gs=fail_at, heading=zero, power=fail_at, **watch.out(shape))
     climbing = dh > 0
     v_eas = np.where(climbing, v_climb, v_descent)
     # The atmosphere and the wind once for every step of every altitude.
@@ -389,7 +454,9 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
         dt = np.where(moving, np.abs(dh) / vz, 0.0)
         gs, heading, _ = fl.ground(v, leg, h_steps[j], vz, (head_steps[j], cross_steps[j]))
         # Candidates that do not move contribute nothing (not NaN x 0).
-        burn = np.where(moving, fl.rate(p) * dt, 0.0)
+        soc = fl.soc(None if store0 is None else store0 - used)
+        watch.see(p, soc, moving)
+        burn = np.where(moving, fl.rate(p, soc) * dt, 0.0)
         t += dt
         x += np.where(moving, gs * dt, 0.0)
         used += burn
@@ -402,7 +469,7 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile):
         mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
         return dict(time=t, distance=x, used=used, mass_end=m, ok=ok, fail_at=fail_at,
                     tas=mean(tas_sum), gs=mean(gs_sum), heading=heading,
-                    power=mean(pw_sum))
+                    power=mean(pw_sum), **watch.out(shape))
 
 
 def _speed_rule(fl: Flight, mode, target, v_ref, m_ref, air, n=1.0):
@@ -430,13 +497,15 @@ def _speed_rule(fl: Flight, mode, target, v_ref, m_ref, air, n=1.0):
 
 
 def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
-            target=None):
+            target=None, store0=None):
     """Cruise at altitudes ``h`` over ``distance`` (arrays over candidates) by RK4.
 
     The speed follows the leg's speed mode (:func:`speed_mode`): a best speed holds the
     lift coefficient of TAS ``v_ref`` at mass ``m_ref`` (TAS goes as sqrt(mass)); a power
     setting holds shaft power ``target`` [W]; a TAS or CAS is held. The cruise starts at
-    mass ``m0``. ``air`` may carry the air at ``h``.
+    mass ``m0``. ``air`` may carry the air at ``h``. With ``store0`` [J], the store at the
+    start, a pack given as a circuit is followed through its state of charge: the energy
+    used is integrated with the mass, and the rate is the circuit's at each state.
     """
     air = fl.air(h) if air is None else air
     wind = fl.wind(leg, h)
@@ -446,28 +515,35 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
     speed = _speed_rule(fl, mode, target, v_ref, m_ref, air)
     v0 = speed(m0)
 
-    def deriv(m):
+    watch = _PackWatch(fl)
+    dx = np.asarray(distance, dtype=float) / CRUISE_STEPS
+
+    def deriv(m, e=0.0):
         v = speed(m)
         gs, _, _ = fl.ground(v, leg, h, wind=wind)
         # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
         # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest.
         gs = np.maximum(np.nan_to_num(gs, nan=GS_FLOOR), GS_FLOOR)
-        r = fl.rate(fl.shaft(m, air, v))
+        shaft = fl.shaft(m, air, v)
+        soc = fl.soc(None if store0 is None else store0 - e)
+        watch.see(shaft, soc, dx > 0)
+        r = fl.rate(shaft, soc)
         burning = fl.burns_mass & (m > fl.zero_fuel_mass)
         return np.where(burning, -r / gs, 0.0), r / gs, 1.0 / gs
 
     n = CRUISE_STEPS
-    dx = np.asarray(distance, dtype=float) / n
     shape = np.broadcast_shapes(dx.shape, m0.shape, np.shape(h), np.shape(v_ref),
                                 fl.sample_shape)
     m = np.broadcast_to(m0, shape).copy()
     used = np.zeros(shape)
     t = np.zeros(shape)
     for _ in range(n):
-        k1 = deriv(m)
-        k2 = deriv(np.maximum(m + 0.5 * dx * k1[0], fl.zero_fuel_mass))
-        k3 = deriv(np.maximum(m + 0.5 * dx * k2[0], fl.zero_fuel_mass))
-        k4 = deriv(np.maximum(m + dx * k3[0], fl.zero_fuel_mass))
+        # The store used is a state of the integration too (the circuit's rate depends on
+        # the state of charge); for fuel and plain packs its stages change nothing.
+        k1 = deriv(m, used)
+        k2 = deriv(np.maximum(m + 0.5 * dx * k1[0], fl.zero_fuel_mass), used + 0.5 * dx * k1[1])
+        k3 = deriv(np.maximum(m + 0.5 * dx * k2[0], fl.zero_fuel_mass), used + 0.5 * dx * k2[1])
+        k4 = deriv(np.maximum(m + dx * k3[0], fl.zero_fuel_mass), used + dx * k3[1])
         for i, acc in ((1, used), (2, t)):
             acc += dx / 6.0 * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
         m = np.maximum(m + dx / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]),
@@ -483,7 +559,7 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
                 power_ok=np.maximum(p0, p1) <= fl.prop.shaft_power_available(air.sigma)
                 * (1 + 1e-9),
                 stall_ok=v0 >= fl.margin * v_stall * (1 - 1e-9),
-                wind_ok=held & (gs0 > 0), v_end=v_end)
+                wind_ok=held & (gs0 > 0), v_end=v_end, **watch.out(shape))
 
 
 def speed_mode(mission: Mission, leg) -> tuple:
@@ -577,20 +653,26 @@ def _load_factor(leg) -> float:
     return 1.0 / np.cos(np.radians(leg.bank)) if leg.kind == "loiter" else 1.0
 
 
-def _hold(fl: Flight, leg, h, m0, duration, v_ref, m_ref, air, mode, target):
+def _hold(fl: Flight, leg, h, m0, duration, v_ref, m_ref, air, mode, target, store0=None):
     """A hover or loiter at altitudes ``h`` for ``duration`` [s], by RK4 in time.
 
     In a loiter orbit at bank angle phi the lift is n = 1/cos(phi) times the weight, so the
     induced drag is n^2 = 1/cos^2(phi) times that of straight flight at the same speed;
-    the kind's level flight at n times the mass gives exactly that.
+    the kind's level flight at n times the mass gives exactly that. With ``store0`` [J] a
+    pack given as a circuit is followed through its state of charge, as in
+    :func:`_cruise`.
     """
     n = _load_factor(leg)
     m0 = np.asarray(m0, dtype=float)
     speed = _speed_rule(fl, mode, target, v_ref, m_ref, air, n)
     v0 = speed(m0)
+    watch = _PackWatch(fl)
 
-    def rate(m):
-        r = fl.rate(fl.shaft(m * n, air, speed(m)))
+    def rate(m, e=0.0):
+        shaft = fl.shaft(m * n, air, speed(m))
+        soc = fl.soc(None if store0 is None else store0 - e)
+        watch.see(shaft, soc)
+        r = fl.rate(shaft, soc)
         burning = fl.burns_mass & (m > fl.zero_fuel_mass)
         return np.where(burning, -r, 0.0), r
 
@@ -599,10 +681,10 @@ def _hold(fl: Flight, leg, h, m0, duration, v_ref, m_ref, air, mode, target):
     used = np.zeros(shape)
     dt = float(duration) / CRUISE_STEPS
     for _ in range(CRUISE_STEPS):
-        k1 = rate(m)
-        k2 = rate(np.maximum(m + 0.5 * dt * k1[0], fl.zero_fuel_mass))
-        k3 = rate(np.maximum(m + 0.5 * dt * k2[0], fl.zero_fuel_mass))
-        k4 = rate(np.maximum(m + dt * k3[0], fl.zero_fuel_mass))
+        k1 = rate(m, used)
+        k2 = rate(np.maximum(m + 0.5 * dt * k1[0], fl.zero_fuel_mass), used + 0.5 * dt * k1[1])
+        k3 = rate(np.maximum(m + 0.5 * dt * k2[0], fl.zero_fuel_mass), used + 0.5 * dt * k2[1])
+        k4 = rate(np.maximum(m + dt * k3[0], fl.zero_fuel_mass), used + dt * k3[1])
         used += dt / 6.0 * (k1[1] + 2 * k2[1] + 2 * k3[1] + k4[1])
         m = np.maximum(m + dt / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]),
                        fl.zero_fuel_mass)
@@ -617,7 +699,7 @@ def _hold(fl: Flight, leg, h, m0, duration, v_ref, m_ref, air, mode, target):
                 power_ok=np.maximum(p0, p1) <= fl.prop.shaft_power_available(air.sigma)
                 * (1 + 1e-9),
                 stall_ok=v0 >= fl.margin * v_stall * (1 - 1e-9),
-                wind_ok=np.ones(shape, dtype=bool), v_end=speed(m))
+                wind_ok=np.ones(shape, dtype=bool), v_end=speed(m), **watch.out(shape))
 
 
 def climb_speed(mission: Mission) -> float:
@@ -708,28 +790,29 @@ def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
         target = value * fl.prop.rated_power if mode == "power" else None
         v_cr, speed_ok = v_cruise + 0.0 * H, np.ones(H.shape, dtype=bool)
     v_eas_cruise = eas_from_tas(np.nan_to_num(v_cr), air_H.density)
-    trans = _vertical(fl, leg, h_now, H, m, v_climb, v_eas_cruise, prof)
+    trans = _vertical(fl, leg, h_now, H, m, v_climb, v_eas_cruise, prof, store)
     m_cr = trans["mass_end"]
+    store_cr = store - trans["used"]  # a pack's state of charge is followed from it
     # The final descent's distance is flown within the last leg: estimate it from the mass
     # at the start of the cruise, then integrate it after the cruise.
     if leg.kind != "cruise":
         # A hover or loiter holds its point for its time; no distance of its own.
         fits = np.ones(H.shape, dtype=bool)
-        cr = _hold(fl, leg, H, m_cr, leg.duration, v_cr, m, air_H, mode, target)
+        cr = _hold(fl, leg, H, m_cr, leg.duration, v_cr, m, air_H, mode, target, store_cr)
     else:
         if last:
             fin0 = _vertical(fl, leg, H, prof.arrival_elevation, m_cr, v_climb,
-                             v_eas_cruise, prof)
+                             v_eas_cruise, prof, store_cr)
             d_final = fin0["distance"]
         else:
             d_final = 0.0
         d_cruise = leg.distance - trans["distance"] - d_final
         fits = d_cruise >= 0
         cr = _cruise(fl, leg, H, m_cr, np.maximum(d_cruise, 0.0), v_cr, m, air_H, mode,
-                     target)
+                     target, store_cr)
     # Same descent speed as the estimate, so that the leg's distances add up exactly.
     fin = _vertical(fl, leg, H, prof.arrival_elevation if last else H, cr["mass_end"],
-                    v_climb, v_eas_cruise, prof)
+                    v_climb, v_eas_cruise, prof, store_cr - cr["used"])
     total = trans["used"] + cr["used"] + fin["used"]
     return dict(H=H, trans=trans, cruise=cr, final=fin, fits=fits, speed_ok=speed_ok,
                 total=total, time=trans["time"] + cr["time"] + fin["time"], v_cruise=v_cr,
@@ -774,13 +857,38 @@ def _choose(options, lo, top):
     H = options["H"]
     ok = (options["fits"] & options["trans"]["ok"] & options["speed_ok"]
           & options["cruise"]["power_ok"] & options["cruise"]["wind_ok"]
-          & (H >= lo - 1e-6) & (H <= top + 1e-6))
+          & _pack_ok(options) & (H >= lo - 1e-6) & (H <= top + 1e-6))
     if not np.any(ok):
         return -1
     cost = np.where(ok, options["total"], np.inf)
     best = np.min(cost)
     near = np.flatnonzero(cost <= best * (1 + 1e-9) + 1e-12)
     return int(near[np.argmin(options["time"][near])])
+
+
+def _pack_ok(options):
+    """Candidates whose segments keep within the battery pack's limits (all without one)."""
+    return ((options["trans"]["pack_limits"] | options["cruise"]["pack_limits"]
+             | options["final"]["pack_limits"]) == 0)
+
+
+def _pack_reasons(fl, leg, kind, seg) -> list:
+    """NO-GO reasons of a segment beyond the battery pack's limits (circuit only)."""
+    bits = int(seg["pack_limits"])
+    c = fl.circuit
+    out = []
+    if bits & (Limit.CUTOFF | Limit.PACK_POWER):
+        out.append(f"pack voltage: leg {leg.name!r} ({kind}) takes the pack to "
+                   f"{float(seg['pack_voltage']):.1f} V under load, below its cut-off "
+                   f"{c.cutoff:.1f} V at {c.celsius:.0f} degC (the controller would cut "
+                   "the power): fly slower, climb less steeply or take a warmer or "
+                   "fuller pack")
+    if bits & Limit.CURRENT:
+        out.append(f"pack current above its maximum: leg {leg.name!r} ({kind}) draws "
+                   f"{float(seg['pack_current']):.0f} A, above the pack's "
+                   f"{c.max_current:.0f} A continuous: set less climb power or a slower "
+                   "speed")
+    return out
 
 
 def _pick(d, i):
@@ -825,6 +933,11 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.10-5.14.
     """
+    if not mission.legs:
+        raise CruiseplanError(f"mission {mission.name!r} has no legs"
+                              + (": it is a survey, planned in packs by "
+                                 "cruiseplan.planning.survey.plan_survey"
+                                 if getattr(mission, "survey", None) is not None else ""))
     af = mission.airframe
     fl = Flight(mission, headwind_offset=headwind_offset)
     prof = mission.profile
@@ -903,10 +1016,13 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
             elif kind in ("cruise", "loiter") and o["mode"] == "power":
                 note = f"{float(seg['power']) * 100:.0f} % power set" + _chart_text(
                     fl, float(seg["power"]), H)
+            reasons.extend(_pack_reasons(fl, leg, kind, seg))
             segments.append(Segment(leg.name, kind, h_start, h_end, float(seg["tas"]),
                                     float(seg["gs"]), float(seg["heading"]),
                                     float(seg["time"]), float(seg["distance"]), used, store, m,
-                                    float(seg["power"]), note))
+                                    float(seg["power"]), note,
+                                    pack_voltage=float(seg["pack_voltage"]),
+                                    pack_current=float(seg["pack_current"])))
         # A leg that cannot be flown stops the plan there; a broken altitude limit makes
         # it NO-GO but the flight itself could go on.
         if failed_at is None and any(not r.startswith(_LIMIT_REASONS)
@@ -936,7 +1052,8 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
 
 
 #: NO-GO reasons that break a limit of the flight, not its physics.
-_LIMIT_REASONS = ("altitude above a limit", "altitude below a limit")
+_LIMIT_REASONS = ("altitude above a limit", "altitude below a limit",
+                  "pack current above its maximum")
 
 
 def _not_flown(segments, k, reasons):
@@ -961,6 +1078,8 @@ def _why_not(opts, leg, lo, top) -> str:
         parts.append("no speed within the stall margin and power")
     if not np.any(opts["cruise"]["wind_ok"]):
         parts.append("wind too strong")
+    if not np.any(_pack_ok(opts)):
+        parts.append("the battery pack's current or cut-off voltage")
     if lo > top:
         parts.append(f"the lowest safe altitude {lo:.0f} m is above the cap {top:.0f} m")
     return "; ".join(parts) or "no candidate satisfies every limit"

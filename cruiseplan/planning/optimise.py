@@ -45,7 +45,7 @@ import numpy as np
 from cruiseplan._numerics import brent_minimise, golden_minimise, illinois_root
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.limits import Limit, describe
+from cruiseplan.limits import LIMIT_DTYPE, Limit, describe
 from cruiseplan.physics.aerodynamics import ParabolicPolar, min_drag_speed, min_power_speed
 from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import AirState, air_state, check_altitude
@@ -257,7 +257,9 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     v_s = airframe.stall_speed(mass, air.density)
     v = np.maximum(free, stall_margin * v_s)
     prop = airframe.propulsion
-    enough = shaft_power_required(airframe, mass, air, v) <= prop.shaft_power_available(air.sigma)
+    # Full throttle, or less where the battery pack allows less (its cap at this store).
+    cap = np.minimum(prop.shaft_power_available(air.sigma), prop.pack_shaft_limit(store)[0])
+    enough = shaft_power_required(airframe, mass, air, v) <= cap
     feasible = np.ones(shape, dtype=bool)
     if np.all(enough):
         return v, feasible
@@ -268,7 +270,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     sub = AirState(*(np.broadcast_to(getattr(air, f), shape)[short] for f in
                      AirState.__dataclass_fields__))
     m_sub = np.broadcast_to(np.asarray(mass, dtype=float), shape)[short]
-    avail = prop.shaft_power_available(sub.sigma)
+    avail = np.minimum(prop.shaft_power_available(sub.sigma), prop.pack_shaft_limit(store)[0])
 
     def deficit(x):
         return shaft_power_required(airframe, m_sub, sub, x) - avail
@@ -332,33 +334,46 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     v_margin = stall_margin * v_s
     win_lo = np.maximum(c_lo, v_margin)
     win_hi = c_hi
-    infeasible = np.zeros(shape, dtype=np.uint16)
-    infeasible |= np.where(~p_ok, Limit.POWER, 0).astype(np.uint16)
-    infeasible |= np.where(p_ok & ~c_ok, Limit.CLIMB_RESERVE, 0).astype(np.uint16)
+    infeasible = np.zeros(shape, dtype=LIMIT_DTYPE)
+    infeasible |= np.where(~p_ok, Limit.POWER, 0).astype(LIMIT_DTYPE)
+    infeasible |= np.where(p_ok & ~c_ok, Limit.CLIMB_RESERVE, 0).astype(LIMIT_DTYPE)
     squeezed = c_ok & (v_margin > c_hi)
     infeasible |= np.where(squeezed, Limit.STALL | (
         Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER), 0
-    ).astype(np.uint16)
+    ).astype(LIMIT_DTYPE)
+    # A battery pack given as a circuit caps the power at the store's state of charge
+    # (its maximum power, cut-off voltage or maximum current): a speed beyond it is not
+    # flyable, and where the cap binds a best speed its bit is named.
+    k_lo, k_hi, cap_bit = _pack_window(airframe, mass, air, store, lo, hi, v_end)
+    if cap_bit:
+        no_cap = ~np.isfinite(k_lo) | (k_lo > win_hi) | (k_hi < win_lo)
+        infeasible |= np.where(no_cap, cap_bit, 0).astype(LIMIT_DTYPE)
+        win_lo, win_hi = np.fmax(win_lo, k_lo), np.fmin(win_hi, k_hi)
     ok = infeasible == 0
     win_lo = np.where(ok, win_lo, np.nan)
     win_hi = np.where(ok, win_hi, np.nan)
 
     def clamp(v_unc):
         v = np.clip(v_unc, win_lo, win_hi)
-        code = np.zeros(shape, dtype=np.uint16)
+        code = np.zeros(shape, dtype=LIMIT_DTYPE)
         below = v_unc < win_lo
         above = v_unc > win_hi
         stall_bound = below & (v_margin >= c_lo)
-        code |= np.where(stall_bound, Limit.STALL, 0).astype(np.uint16)
+        code |= np.where(stall_bound, Limit.STALL, 0).astype(LIMIT_DTYPE)
         power_side = (below & ~stall_bound) | above
         at_mach = above & (win_hi >= hi * (1 - 1e-9))
         outside_p = (v_unc < p_lo) | (v_unc > p_hi)
         code |= np.where(power_side & ~at_mach & outside_p, Limit.POWER, 0
-                         ).astype(np.uint16)
+                         ).astype(LIMIT_DTYPE)
         code |= np.where(power_side & ~at_mach & ~outside_p, Limit.CLIMB_RESERVE, 0
-                         ).astype(np.uint16)
-        code |= np.where(at_mach, Limit.MACH, 0).astype(np.uint16)
-        return np.where(ok, v, np.nan), np.where(ok, code, 0).astype(np.uint16)
+                         ).astype(LIMIT_DTYPE)
+        code |= np.where(at_mach, Limit.MACH, 0).astype(LIMIT_DTYPE)
+        if cap_bit:
+            # Where the pack's side of the window is the one that holds the speed, it
+            # alone binds there.
+            by_pack = (below & (k_lo >= win_lo)) | (above & (k_hi <= win_hi))
+            code = np.where(by_pack, LIMIT_DTYPE(cap_bit), code)
+        return np.where(ok, v, np.nan), np.where(ok, code, 0).astype(LIMIT_DTYPE)
 
     tas, binding = {}, {}
     tas["range"], binding["range"] = clamp(v_range)
@@ -366,12 +381,32 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     econ_unc = np.maximum(v_econ, tas["range"])
     tas["economy"], binding["economy"] = clamp(econ_unc)
     binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
-                                   ).astype(np.uint16)
+                                   ).astype(LIMIT_DTYPE)
     return SpeedSchedule(air=air, headwind=hw, crosswind=cw, stall_speed=v_s,
                          window_lo=win_lo, window_hi=win_hi, infeasible=infeasible,
                          tas=tas, binding=binding,
                          tas_unconstrained={"range": v_range, "endurance": v_end,
                                             "economy": v_econ})
+
+
+def _pack_window(airframe, mass, air, store, lo, hi, v_mp):
+    """Speeds whose shaft power the battery pack allows with ``store`` on board.
+
+    Returns the slowest and fastest such TAS [m/s] (NaN where none) and the pack's limit
+    bit that binds (0, and no window, for an airframe without a circuit).
+    """
+    cap, bit = airframe.propulsion.pack_shaft_limit(store)
+    if not bit:
+        return None, None, 0
+
+    def over(v):
+        return shaft_power_required(airframe, mass, air, v) - cap
+
+    ok = over(v_mp) <= 0
+    v_lo = np.where(over(lo) <= 0, lo, illinois_root(over, lo, v_mp, xtol_rel=1e-11))
+    v_hi = np.where(over(hi) <= 0, hi,
+                    illinois_root(lambda v: -over(v), v_mp, hi, xtol_rel=1e-11))
+    return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), bit
 
 
 @dataclass(frozen=True)
@@ -454,18 +489,18 @@ class BestCruise:
 
 
 def _band(altitudes, floor, ceiling, max_agl, elevation):
-    code = np.zeros(np.shape(altitudes), dtype=np.uint16)
+    code = np.zeros(np.shape(altitudes), dtype=LIMIT_DTYPE)
     if floor is not None:
-        code |= np.where(altitudes < floor, Limit.FLOOR, 0).astype(np.uint16)
+        code |= np.where(altitudes < floor, Limit.FLOOR, 0).astype(LIMIT_DTYPE)
     top = np.inf if ceiling is None else ceiling
     if max_agl is not None:
         cap = elevation + max_agl
         code |= np.where((altitudes > cap) & (cap <= top), Limit.HEIGHT_AGL, 0
-                         ).astype(np.uint16)
+                         ).astype(LIMIT_DTYPE)
         top = min(top, cap)
     if ceiling is not None:
         code |= np.where((altitudes > ceiling) & (ceiling <= top), Limit.CEILING, 0
-                         ).astype(np.uint16)
+                         ).astype(LIMIT_DTYPE)
     return code
 
 
@@ -609,7 +644,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin, keep_unflyable=True)
     wind_bad = sched.feasible & ~(gs > 0)
-    infeasible = sched.infeasible | np.where(wind_bad, Limit.WIND, 0).astype(np.uint16)
+    infeasible = sched.infeasible | np.where(wind_bad, Limit.WIND, 0).astype(LIMIT_DTYPE)
     sched = replace(sched, infeasible=infeasible)
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)

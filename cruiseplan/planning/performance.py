@@ -34,7 +34,7 @@ import numpy as np
 from cruiseplan._numerics import brent_minimise, illinois_root
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.limits import UNFLYABLE, Limit, explain, flag_if
+from cruiseplan.limits import LIMIT_DTYPE, UNFLYABLE, Limit, explain, flag_if
 from cruiseplan.physics import airspeed as _airspeed
 from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import (
@@ -61,7 +61,10 @@ class CruisePoints:
     * ``BEYOND_CLMAX`` (CL above CLmax, TAS below the stall speed; always with ``STALL``),
       ``POWER`` (shaft power required above power available), ``WIND`` (ground speed not
       positive, or a crosswind the TAS cannot hold the course against) and
-      ``NO_SOLUTION`` (no level flight at a power setting): NaN for :attr:`store_rate`,
+      ``NO_SOLUTION`` (no level flight at a power setting), and for a pack given as a
+      circuit ``PACK_POWER``, ``CURRENT`` and ``CUTOFF`` (beyond its maximum power, its
+      maximum continuous current or its cut-off voltage under load, with the store on
+      board): NaN for :attr:`store_rate`,
       :attr:`fuel_volume_flow`, :attr:`source_power`, :attr:`specific_range_air`,
       :attr:`specific_range_ground`, :attr:`endurance`, :attr:`range_air` and
       :attr:`range_ground`. The drag, powers, CL, CD and L/D, ground speed and stall speed
@@ -262,21 +265,26 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     sigma = air.sigma
     available = prop.shaft_power_available(sigma)
     # One store rate for every output: endurance and specific range both divide by it.
-    rate = prop.store_rate(shaft)
+    # A pack given as a circuit: the mean rate of a discharge of this store to the loaded
+    # cut-off (physics.battery), so that store / rate is that discharge's time.
+    rate = prop.store_rate(shaft, store=store)
     gs = tas - headwind if ground_speed is None else np.asarray(ground_speed, dtype=float)
     endurance = store / rate
 
     ratio = airframe.stall_speed_ratio(flight)
     limits = airframe.model_limits(flight, tas, stall_margin, air)
-    limits = limits | (shaft > available).astype(np.uint16) << 1
-    limits |= (tas > MACH_LIMIT * air.speed_of_sound).astype(np.uint16) << 3
-    limits |= prop.lapse_outside(sigma).astype(np.uint16) << 5
+    limits = limits | (shaft > available).astype(LIMIT_DTYPE) << 1
+    limits |= (tas > MACH_LIMIT * air.speed_of_sound).astype(LIMIT_DTYPE) << 3
+    limits |= prop.lapse_outside(sigma).astype(LIMIT_DTYPE) << 5
     # A hover (TAS 0, ground speed 0: calm air) holds its position, so no WIND limit.
     hover = (tas == 0) & (gs == 0)
-    limits |= (~((gs > 0) | hover)).astype(np.uint16) << 7
+    limits |= (~((gs > 0) | hover)).astype(LIMIT_DTYPE) << 7
     # V/Vs < 1 is CL > CLmax: beyond the stall itself, not just the margin (NaN: no wing).
     limits |= flag_if(ratio < 1, Limit.BEYOND_CLMAX) | flag_if(ratio < 1, Limit.STALL)
-    limits = np.broadcast_to(limits, np.shape(shaft)).astype(np.uint16)
+    # Battery pack: its maximum power, maximum continuous current and cut-off voltage
+    # under load, with this store on board (zeros without a circuit).
+    limits |= prop.pack_limits(shaft, store)
+    limits = np.broadcast_to(limits, np.shape(shaft)).astype(LIMIT_DTYPE)
 
     shape = np.shape(shaft)
     out = dict(
@@ -293,7 +301,7 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     if valid_air is not None and not np.all(valid_air):
         bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), shape)
         out = {k: (None if v is None else np.where(bad, np.nan, v)) for k, v in out.items()}
-        limits = np.where(bad, np.uint16(Limit.ATMOSPHERE), limits).astype(np.uint16)
+        limits = np.where(bad, LIMIT_DTYPE(Limit.ATMOSPHERE), limits).astype(LIMIT_DTYPE)
     pts = CruisePoints(air=air, tas=tas, mass=mass if np.ndim(mass) else float(mass),
                        store=store if np.ndim(store) else float(store),
                        store_name=prop.store_name, limits=limits,
@@ -303,7 +311,7 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
 
 def _hide_unflyable(points: CruisePoints) -> CruisePoints:
     """The points with NaN in :data:`UNFLYABLE_FIELDS` where an UNFLYABLE bit is set."""
-    unflyable = (points.limits & np.uint16(UNFLYABLE)) != 0
+    unflyable = (points.limits & LIMIT_DTYPE(UNFLYABLE)) != 0
     if not np.any(unflyable):
         return points
     return replace(points, **{k: np.where(unflyable, np.nan, getattr(points, k))
@@ -553,15 +561,15 @@ def power_setting_points(airframe, mass, air: AirState, power_fraction, store, *
     unsolved = too_much | too_little | beyond
     pts = cruise_points(airframe, mass, air, np.where(unsolved, np.nan, v), store,
                         headwind=headwind, stall_margin=stall_margin, keep_unflyable=True)
-    extra = (np.broadcast_to(too_much, shape).astype(np.uint16) * np.uint16(Limit.POWER)
-             | np.broadcast_to(too_little | beyond, shape).astype(np.uint16)
-             * np.uint16(Limit.NO_SOLUTION))
+    extra = (np.broadcast_to(too_much, shape).astype(LIMIT_DTYPE) * LIMIT_DTYPE(Limit.POWER)
+             | np.broadcast_to(too_little | beyond, shape).astype(LIMIT_DTYPE)
+             * LIMIT_DTYPE(Limit.NO_SOLUTION))
     # NaN comparisons set no flags, so unsolved points carry only the reasons found here.
     # Whether a setting has the power is decided above (within 1e-12 of full throttle):
     # the root's last digits must not flag a 100 % setting POWER.
-    solved = pts.limits & np.uint16(0xFFFF ^ int(Limit.POWER))
+    solved = pts.limits & LIMIT_DTYPE(~int(Limit.POWER) & 0xFFFFFFFF)
     limits = np.where(np.broadcast_to(unsolved, shape), extra, solved | extra)
-    return _hide_unflyable(_replace(pts, limits=limits.astype(np.uint16)))
+    return _hide_unflyable(_replace(pts, limits=limits.astype(LIMIT_DTYPE)))
 
 
 def _replace(points: CruisePoints, **changes) -> CruisePoints:

@@ -1,4 +1,4 @@
-"""Figures for crews: specific-range map, power curves, altitude profile, cruise-card page.
+"""Figures for crews: range map, power curves, profiles, cruise card, survey plan view.
 
 The only part of cruiseplan that imports matplotlib, one module per kind of figure; nothing
 imports it at package import, and the CLI imports it only in the commands that draw.
@@ -37,10 +37,11 @@ from cruiseplan.plots.style import (
     figure_bytes,
     speed_span,
 )
+from cruiseplan.plots.survey import survey_plan_view
 
 __all__ = [
     "CARD_FONTS", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES", "MIN_FONT",
     "OBJECTIVE_STYLES", "OKABE_ITO", "PLOT_SIZE", "SERIES_STYLES", "altitude_profile",
     "card_figure", "cruise_card", "figure_bytes", "fit_residuals", "mission_profile",
-    "power_curves", "specific_range_map", "speed_span",
+    "power_curves", "specific_range_map", "speed_span", "survey_plan_view",
 ]

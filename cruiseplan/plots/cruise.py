@@ -13,7 +13,7 @@ from matplotlib.ticker import MaxNLocator
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, UNFLYABLE, Limit, describe
+from cruiseplan.limits import LIMIT_CODE, LIMIT_DTYPE, LIMIT_TEXT, UNFLYABLE, Limit, describe
 from cruiseplan.physics.atmosphere import air_state, check_altitude
 from cruiseplan.planning.optimise import OBJECTIVES
 from cruiseplan.planning.performance import (
@@ -131,7 +131,7 @@ def _colour_field(airframe, grid, ground: bool) -> np.ndarray:
     It stays beneath the fill: never labelled, never in the colour bar's range.
     """
     sr = grid.specific_range_ground if ground else grid.specific_range_air
-    hidden = (grid.limits & np.uint16(UNFLYABLE)) != 0
+    hidden = (grid.limits & LIMIT_DTYPE(UNFLYABLE)) != 0
     if not np.any(hidden):
         return sr
     speed = grid.ground_speed if ground else np.broadcast_to(grid.tas, grid.shape)

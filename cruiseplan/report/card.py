@@ -41,7 +41,7 @@ from cruiseplan.cautions import CAUTION_LINE, CAUTIONS
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT, T_ZERO_C
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.io.text import parse_reserve
-from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, describe, explain
+from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, UNFLYABLE, describe, explain
 from cruiseplan.model.mission import default_reserve
 from cruiseplan.physics.airspeed import cas_from_tas
 from cruiseplan.planning.optimise import CEILING_SEARCH_TOP, best_cruise, ceilings
@@ -49,6 +49,7 @@ from cruiseplan.planning.performance import power_setting_table, resolve_loading
 from cruiseplan.planning.reserve import reserve_required
 from cruiseplan.planning.uncertainty import cruise_uncertainty, quantiles
 from cruiseplan.report.output import hours_minutes
+from cruiseplan.report.pack import circuit_of, pack_line, to_reserve
 from cruiseplan.report.tables import airframe_lines, store_text
 from cruiseplan.units import display, temperature_difference, to_si
 from cruiseplan.version import __version__
@@ -239,6 +240,18 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         flow = table.source_power * fflow
         flow_col, flow_fmt = ("battery\npower", lflow, "right"), "{:.0f}"
     cas = table.cas()
+    # A pack given as a circuit: minutes, the discharge to the reserve itself (not a share
+    # of the total: the pack sags as it empties), the current and the voltage there.
+    pack = circuit_of(airframe) is not None
+    if pack:
+        t_res, v_res, amps = to_reserve(airframe, table.shaft_power, store, amount)
+        hidden = (table.limits & int(UNFLYABLE)) != 0
+        t_res, v_res = np.where(hidden, np.nan, t_res), np.where(hidden, np.nan, v_res)
+        r_res = table.tas * t_res
+        clock = _minutes
+    else:
+        t_res, r_res = table.endurance * keep, table.range_air * keep
+        clock = hours_minutes
     rows, groups = [], []
     for i in range(n_alt):
         for j in range(n_pow):
@@ -247,10 +260,11 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
                 f"{h[i] * fa:.0f}", f"{frac[j] * 100:.0f}",
                 _cell(table.tas[i, j] * fs, "{:.0f}"), _cell(cas[i, j] * fs, "{:.0f}"),
                 _cell(flow[i, j], flow_fmt),
-                hours_minutes(table.endurance[i, j]),
-                hours_minutes(table.endurance[i, j] * keep),
+                clock(table.endurance[i, j]),
+                clock(t_res[i, j]),
                 _cell(table.range_air[i, j] * fd, "{:.0f}"),
-                _cell(table.range_air[i, j] * keep * fd, "{:.0f}"),
+                _cell(r_res[i, j] * fd, "{:.0f}"),
+                *((_cell(amps[i, j], "{:.0f}"), _cell(v_res[i, j], "{:.1f}")) if pack else ()),
                 explain(code, short=True)))
             groups.append(i)
     used = int(np.bitwise_or.reduce(table.limits.ravel()))
@@ -260,10 +274,17 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         f"total: all usable {store_name}, NO reserve; to res.: until only the reserve is "
         "left. Level flight, calm air; no allowance for taxi, climb or descent.",
     ] + [f"{code}: {LIMIT_TEXT[flag]}." for flag, code in LIMIT_CODE.items() if used & flag]
+    tu = "min" if pack else "h:mm"
     columns = (("PA", la, "right"), ("power", "%", "right"), ("TAS", ls, "right"),
-               ("CAS", ls, "right"), flow_col, ("endur.\ntotal", "h:mm", "right"),
-               ("endur.\nto res.", "h:mm", "right"), ("range\ntotal", ld, "right"),
-               ("range\nto res.", ld, "right"), ("status", "", "left"))
+               ("CAS", ls, "right"), flow_col, ("endur.\ntotal", tu, "right"),
+               ("endur.\nto res.", tu, "right"), ("range\ntotal", ld, "right"),
+               ("range\nto res.", ld, "right"),
+               *((("amps", "A", "right"), ("V at\nres.", "V", "right")) if pack else ()),
+               ("status", "", "left"))
+    if pack:
+        notes.insert(1, "amps: pack current at the start; V at res.: pack voltage under load "
+                        "when only the reserve is left ('-': the pack reaches its cut-off "
+                        "voltage or current limit first, before the reserve).")
     if not used:  # every row flyable: no status column
         columns, rows = columns[:-1], [r[:-1] for r in rows]
     cruise = CardTable("Cruise by altitude and power setting", columns, tuple(rows),
@@ -319,6 +340,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     meta = tuple(airframe_lines(airframe)) + (
         f"Holds for: mass {table.mass * fm:.1f} {lm}; {store_text(airframe, store, units)}; "
         f"ISA {dev:+.0f} K; altitudes are pressure altitudes (PA); calm air.",
+        *(line + "." for line in (pack_line(airframe),) if line),
         f"Made {date.today().isoformat()} by cruiseplan {__version__}.",
     )
     lines = (ceiling_line, reserve_line)
@@ -375,17 +397,23 @@ def _hover_block(airframe, best, store, reserve, units, stall_margin) -> CardTab
                       isa_dev=float(air.isa_dev[0]), stall_margin=stall_margin)
     hover = airframe.hover_endurance(mass, air, store)
     hover_res = airframe.hover_endurance(mass, air, store - reserve)
+    if circuit_of(airframe) is not None:
+        # A pack given as a circuit: the discharge from full to the reserve itself.
+        hover_res = to_reserve(airframe, airframe.hover_power(mass, air), store, reserve)[0]
     keep = 1.0 - reserve / store
     fa, la = display("altitude", units)
     fs, ls = display("speed", units)
     fd, ld = display("distance", units)
     ok_e, ok_r = best.feasible, rng.feasible
     e = np.where(ok_e, pts.endurance, np.nan)
+    e_res = e * keep
+    if circuit_of(airframe) is not None:
+        e_res = np.where(ok_e, to_reserve(airframe, pts.shaft_power, store, reserve)[0], np.nan)
     r = np.where(ok_r, rng.points.range_ground, np.nan)
     rows = tuple((
         f"{h[i] * fa:.0f}", _minutes(hover[i]), _minutes(hover_res[i]),
         _cell(sched.tas["endurance"][i] * fs, "{:.0f}"), _minutes(e[i]),
-        _minutes(e[i] * keep),
+        _minutes(e_res[i]),
         _cell(rng.schedule.tas["range"][i] * fs, "{:.0f}"),
         _cell(r[i] * fd, "{:.1f}"), _cell(r[i] * keep * fd, "{:.1f}"))
         for i in range(h.size))

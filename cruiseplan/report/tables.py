@@ -24,6 +24,13 @@ from cruiseplan.planning.mission import ground_elevation
 from cruiseplan.planning.performance import UNFLYABLE_FIELDS, CruisePoints
 from cruiseplan.planning.uncertainty import quantiles
 from cruiseplan.report.output import Column, Report, hours_minutes
+from cruiseplan.report.pack import (
+    mission_pack_line,
+    pack_columns,
+    pack_line,
+    pack_notes,
+    plan_columns,
+)
 from cruiseplan.units import display
 
 
@@ -224,6 +231,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
     ]
     if show_ground:
         cols.append(Column("gnd range", ld, flat(pts.range_ground * fd), "{:.0f}"))
+    cols += pack_columns(airframe, pts, flat)  # a pack given as a circuit
     if airframe.has_wing:  # CL, L/D and stall exist only for a wing
         cols += [
             Column("L/D", "", flat(pts.lift_to_drag), "{:.1f}"),
@@ -242,7 +250,9 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
         f"Made {date.today().isoformat()} by cruiseplan",
     ]
     used = int(np.bitwise_or.reduce(codes)) if codes.size else 0
+    meta[3:3] = [line for line in (pack_line(airframe),) if line]
     notes = ["max: full-throttle (maximum continuous) shaft power at the altitude"]
+    notes += pack_notes(airframe)
     notes += [f"{code}: {LIMIT_TEXT[flag]}" + (
         f" (V < {stall_margin:g} x stall speed)" if flag == Limit.STALL else
         " (V < stall speed)" if flag == Limit.BEYOND_CLMAX else "")
@@ -381,6 +391,8 @@ def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
                                 zip(flat(pts.endurance), feasible)]),
         Column("gnd range", ld, [r if ok else None for r, ok in
                                  zip(flat(pts.range_ground * fd), feasible)], "{:.0f}"),
+        *pack_columns(airframe, replace(pts, limits=np.where(feasible, pts.limits,
+                                                              int(Limit.NO_SOLUTION))), flat),
         Column("status", "", [("BEST " if i == best.best_index else "") + best.reason(i)
                               for i in range(n)], "{}"),
     ]
@@ -402,8 +414,10 @@ def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
         "no climb or descent",
         f"Made {date.today().isoformat()} by cruiseplan",
     ]
-    notes = ["V range / V endur / V econ: best-range, best-endurance and economy (99 % of best "
-             "specific range) TAS at each altitude, within the speed constraints"]
+    meta[3:3] = [line for line in (pack_line(airframe),) if line]
+    notes = pack_notes(airframe) + [
+        "V range / V endur / V econ: best-range, best-endurance and economy (99 % of best "
+        "specific range) TAS at each altitude, within the speed constraints"]
     summary = {f"best_{k}": v for k, v in b.items()}
     summary["units"] = "SI (m, m/s, s, and m for ranges)"
     if uncertainty is not None:
@@ -499,6 +513,7 @@ def plan_report(plan, units: str | None = None, uncertainty=None, remedies=None)
         Column("remaining", lq, flown(lambda s: s.remaining * fq), qfmt),
         Column("over reserve", lq, [m * fq if s.flown else None for s, m in zip(segs, margin)],
                qfmt),
+        *plan_columns(plan),  # a pack given as a circuit
         Column("note", "", [s.note for s in segs], "{}"),
     ]
     verdict = plan.verdict if plan.go else "NO-GO: " + "; ".join(plan.reasons)
@@ -552,6 +567,159 @@ def plan_report(plan, units: str | None = None, uncertainty=None, remedies=None)
                     f"probability the reserve holds {u.reserve_probability * 100:.1f} %")
         summary.update(_spread_summary(u))
     return Report(f"Mission plan: {mission.name}", meta, cols, notes, CAUTIONS, summary)
+
+
+# --- survey plan -----------------------------------------------------------------------
+
+def _survey_speed_text(leg, units) -> str:
+    """How a survey's lines are flown, in words: a TAS, a CAS, a power or a best speed."""
+    fs, ls = display("speed", units)
+    if leg.tas is not None:
+        return f"{leg.tas * fs:.0f} {ls} TAS"
+    if leg.cas is not None:
+        return f"{leg.cas * fs:.0f} {ls} CAS"
+    if leg.power is not None:
+        return f"{leg.power * 100:.0f} % power"
+    return f"best {leg.objective or 'range'} speed"
+
+
+def _point_text(p) -> str:
+    return f"{p[0]:.5f}, {p[1]:.5f}"
+
+
+def survey_report(splan, units: str | None = None) -> Report:
+    """Lay out a survey planned in packs: one row per pack, the lines and the verdict.
+
+    Parameters
+    ----------
+    splan : SurveyPlan
+        The planned survey (:func:`cruiseplan.planning.survey.plan_survey`).
+    units : {"aviation", "si"}, optional
+        Display units; aviation for piston airframes, SI for electric ones by default.
+
+    Returns
+    -------
+    Report
+        Per pack: its lines, line length, flight time, store used, remaining, the reserve
+        and what is left over it, and where the swap falls; the area, lines, direction
+        and verdict in the header.
+    """
+    mission = splan.mission
+    survey = mission.survey
+    layout = splan.layout
+    af = mission.airframe
+    prop = af.propulsion
+    units = units or prop.store.default_units
+    fa, la = display("altitude", units)
+    fs, ls = display("speed", units)
+    fd, ld = display("distance", units)
+    fq, lq, qfmt = amount_unit(prop, units)
+    q = qfmt[2:-1]
+    packs = splan.packs
+    line_length = [sum(ln.length for ln in layout.lines[p.first - 1:p.last]) for p in packs]
+    time_col = (Column("time", "h:mm", [hours_minutes(p.plan.time) for p in packs], "{}")
+                if prop.store.burns_mass else
+                Column("time", "min", [p.plan.time / 60.0 for p in packs], "{:.1f}"))
+    swap = [f"swap after line {p.last} at {_point_text(layout.lines[p.last - 1].end)}"
+            if k < len(packs) - 1 or not splan.go else "last pack" for k, p in
+            enumerate(packs)]
+    cols = [
+        Column("pack", "", [p.number for p in packs], "{:d}"),
+        Column("lines", "", [f"{p.first}-{p.last}" for p in packs], "{}"),
+        Column("count", "", [p.lines for p in packs], "{:d}"),
+        Column("on lines", ld, [x * fd for x in line_length], "{:.2f}"),
+        Column("flown", ld, [p.plan.distance * fd for p in packs], "{:.2f}"),
+        time_col,
+        Column("used", lq, [p.plan.used * fq for p in packs], qfmt),
+        Column("remaining", lq, [p.plan.remaining * fq for p in packs], qfmt),
+        Column("reserve", lq, [p.plan.reserve_required * fq for p in packs], qfmt),
+        Column("over reserve", lq, [p.over_reserve * fq for p in packs], qfmt),
+        Column("note", "", swap, "{}"),
+    ]
+    if splan.go:
+        verdict = (f"GO: {len(packs)} pack{'s' if len(packs) != 1 else ''}"
+                   + (f", swaps after line{'s' if len(packs) > 2 else ''} "
+                      + ", ".join(str(n) for n in splan.swaps) if splan.swaps else ""))
+    else:
+        verdict = "NO-GO: " + "; ".join(splan.reasons)
+    area_m2 = float(abs(np.dot(layout.area_xy[:, 0], np.roll(layout.area_xy[:, 1], -1))
+                        - np.dot(layout.area_xy[:, 1], np.roll(layout.area_xy[:, 0], -1)))
+                    / 2.0)
+    spacing = f"spacing {survey.spacing * fa:.1f} {la}"
+    if survey.footprint is not None:
+        spacing += (f" (footprint {survey.footprint * fa:.1f} {la} x (1 - "
+                    f"{survey.side_overlap * 100:.0f} % side overlap))")
+    if splan.candidates is None:
+        how = "given"
+    else:
+        use = splan.candidates[:, 1]
+        how = (f"least energy of {len(use)} directions every {survey.direction_step:g} deg "
+               f"(estimated {use.min() * fq:{q}} {lq} for the lines in one flight; the "
+               f"costliest {use.max() * fq:{q}} {lq})")
+    turn = ("no allowance" if not (survey.turn_distance or survey.turn_time) else
+            f"{survey.turn_distance * fa:.0f} {la} added to each" if survey.turn_distance
+            else f"{survey.turn_time:g} s added at each")
+    leg = survey.leg
+    w_dir, w_speed = (float(np.ravel(v)[0]) for v in leg.wind.at(leg.altitude))
+    wind = ("calm" if w_speed == 0 else
+            f"from {w_dir:03.0f} deg true at {w_speed * fs:.0f} {ls}")
+    first = packs[0].plan if packs else None
+    fm, lm = display("mass", units)
+    meta = [
+        f"VERDICT: {verdict}",
+        f"Mission: {mission.name} - {mission.description}",
+        f"File: {shown_path(mission.source)}",
+        *airframe_lines(af),
+        f"Area: {len(layout.area_xy)} vertices"
+        + (f" from {shown_path(survey.area_source)}" if survey.area_source else "")
+        + f", {area_m2 / 1e4:.1f} ha, centre {_point_text(layout.centre)}; take-off and "
+          f"landing at {_point_text(survey.takeoff)}",
+        f"Lines: {len(layout.lines)} in {layout.rows} rows across "
+        f"{layout.width * fa:.0f} {la}, {layout.length * fd:.2f} {ld} in all; {spacing}; "
+        f"direction {layout.direction:03.0f}/{layout.direction + 180:03.0f} deg true ({how})",
+        f"Flown at {leg.altitude * fa:.0f} {la} pressure altitude, "
+        f"{_survey_speed_text(leg, units)}; wind there {wind}; {layout.turns} turns between "
+        f"rows, {turn}",
+    ]
+    if first is not None:
+        meta.append(f"Each pack: take-off mass {first.takeoff_mass * fm:.1f} {lm}; "
+                    f"{store_text(af, first.initial, units)}")
+        meta.append(f"Reserve kept on every pack: {first.reserve.describe(prop, units)} "
+                    "(local rules decide the minimum reserve)")
+    meta += mission_pack_line(mission)
+    meta += [
+        f"Day: ISA {mission.isa_dev:+.1f} K; altitudes are pressure altitudes",
+        *([f"What-if: {', '.join(mission.overrides)} (overrides of the mission file)"]
+          if mission.overrides else []),
+        f"Totals: {len(packs)} pack{'s' if len(packs) != 1 else ''}, flight time "
+        f"{hours_minutes(splan.time)} h:mm (swaps on the ground not counted), used "
+        f"{splan.used * fq:{q}} {lq}",
+        f"Made {date.today().isoformat()} by cruiseplan",
+    ]
+    notes = [
+        "Each pack takes off from the take-off point with the loading above, climbs over "
+        "it, flies its lines in order and lands back there; the next pack resumes at the "
+        "next line. Swap time on the ground is not planned.",
+        "on lines: length of the pack's survey lines; flown: its whole ground track, "
+        "transits and turns included",
+        "over reserve: remaining at landing minus the reserve required on that pack",
+        "Lines: ceil(width / spacing) rows centred across the area, cut to its edges, laid "
+        "on a flat (azimuthal equidistant) projection around the area's centre, good to "
+        "1e-7 in length over a few km; every line, turn and transit is a great-circle leg "
+        "planned with the wind on its course",
+    ]
+    if splan.grouped:
+        notes.append("A pack's lines and turns on one course are planned as one leg of "
+                     "their summed length (the same use at a set speed in the survey "
+                     "altitude's wind)")
+    summary = {"verdict": splan.verdict, "reasons": "; ".join(splan.reasons),
+               "packs": len(packs), "lines": len(layout.lines), "rows": layout.rows,
+               "direction_deg": layout.direction,
+               "direction_searched": splan.candidates is not None,
+               "spacing_m": survey.spacing, "line_length_m": layout.length,
+               "swaps_after_lines": list(splan.swaps), "time_s": splan.time,
+               f"used_{prop.store.unit}": splan.used}
+    return Report(f"Survey plan: {mission.name}", meta, cols, notes, CAUTIONS, summary)
 
 
 # --- altitudes and headings as flown (plan report) -------------------------------------
@@ -640,8 +808,8 @@ def _variation_text(variation: float) -> str:
 
 
 def _as_flown_lines(mission) -> list:
-    """Header lines: magnetic variation, the level rule and the what-if overrides."""
-    lines = []
+    """Header lines: the battery pack, magnetic variation, the level rule, the what-ifs."""
+    lines = mission_pack_line(mission)
     if _is_magnetic(mission):
         per_leg = [leg_variation(mission, leg) for leg in mission.legs]
         if len(set(per_leg)) == 1:

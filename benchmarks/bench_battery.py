@@ -1,0 +1,79 @@
+"""Issue 12 benchmark: the equivalent-circuit pack against today's energy model, per point.
+
+The baseline is today's energy model: the same airframe (the fixed-wing survey drone with
+its 6-cell pack, ``demo-survey-drone-6s``) with the pack as a fixed usable energy and a
+Peukert exponent of 1.03 (``battery_energy`` / ``peukert_exponent``, no circuit), through
+the same public cruise grid (``cruise_grid``: level flight, limits, store rate, endurance,
+range). The other side is the same grid with the pack as its internal-resistance circuit
+(a constant-power discharge to the loaded cut-off at every point, with its pack limits).
+Both run interleaved in one process, several times each; the ratio of the medians is
+reported (target <= 2x per grid point). A second ratio does the same for the planner
+(``plan_mission`` of a survey run, the state of charge followed through every segment).
+No timed assertion: the ratios are printed.
+"""
+
+from __future__ import annotations
+
+import statistics
+import time
+from dataclasses import replace
+from pathlib import Path
+
+import numpy as np
+
+import cruiseplan as cp
+from cruiseplan.io.mission_file import read_mission
+from cruiseplan.planning.mission import plan_mission
+
+
+def _timed(fn):
+    t0 = time.perf_counter()
+    fn()
+    return time.perf_counter() - t0
+
+
+def interleaved(a, b, repeat=9):
+    """Median times of ``a`` and ``b`` [s], run one after the other ``repeat`` times."""
+    a(), b()  # warm up both
+    ta, tb = [], []
+    for _ in range(repeat):
+        ta.append(_timed(a))
+        tb.append(_timed(b))
+    return statistics.median(ta), statistics.median(tb)
+
+
+def todays_model(af):
+    """The airframe with its pack as today's fixed energy and Peukert exponent 1.03."""
+    prop = af.propulsion
+    return replace(af, propulsion=replace(prop, circuit=None, peukert_exponent=1.03,
+                                          battery_energy=prop.store_capacity))
+
+
+def main():
+    circuit = cp.load_airframe("demo-survey-drone-6s").at_pack_temperature(15.0)
+    today = todays_model(circuit)
+    h = np.linspace(0.0, 1000.0, 300)
+    v = np.linspace(14.0, 40.0, 300)
+    t_today, t_circuit = interleaved(lambda: cp.cruise_grid(today, h, v),
+                                     lambda: cp.cruise_grid(circuit, h, v))
+    n = h.size * v.size
+    print(f"cruise grid 300x300, per point: today's energy model {t_today / n * 1e9:.0f} ns, "
+          f"equivalent circuit {t_circuit / n * 1e9:.0f} ns, ratio "
+          f"{t_circuit / t_today:.2f} (target <= 2)")
+
+    here = Path(__file__).resolve().parent.parent
+    text = (here / "missions" / "demo-survey-run.toml").read_text(encoding="utf-8")
+    path = Path("/tmp") / "cruiseplan-bench-battery.toml"
+    path.write_text(text.replace('airframe = "demo-survey-drone"',
+                                 'airframe = "demo-survey-drone-6s"'), encoding="utf-8")
+    mission = read_mission(path)
+    plain = replace(mission, airframe=todays_model(mission.airframe))
+    t_plain, t_pack = interleaved(lambda: plan_mission(plain), lambda: plan_mission(mission),
+                                  repeat=5)
+    print(f"plan of demo-survey-run on the 6-cell pack: today's energy model "
+          f"{t_plain * 1e3:.0f} ms, equivalent circuit {t_pack * 1e3:.0f} ms, ratio "
+          f"{t_pack / t_plain:.2f}")
+
+
+if __name__ == "__main__":
+    main()
