@@ -2,9 +2,12 @@
 
 The numeric core of cruiseplan works in SI floats. This module is where text such as
 ``"7777 ft"`` or ``"180 hp"`` and pint Quantities from the public API become SI floats,
-and where SI results become display units. pint is imported lazily, the first time a
-string is parsed or a Quantity converted, so that importing the core stays cheap; the
-registry is built once per process and its parsed definitions are cached on disk.
+and where SI results become display units. The units the tool itself reads and prints
+(those of the command line, the bundled files and the display systems) are converted with
+a small table of SI factors (:data:`FAST_UNITS`, :data:`FAST_OFFSET_UNITS`) without building
+pint's registry; pint reads every other unit and converts every Quantity. It is imported
+lazily, the first time it is needed, so that start-up stays cheap; the registry is built
+once per process and its parsed definitions are cached on disk.
 
 Aviation conventions handled here: ``nm``/``NM`` in a length or speed means the nautical
 mile (never the nanometre), ``kts`` means knots, and a temperature *difference* may be
@@ -57,6 +60,182 @@ _ALIASES = [
     (re.compile(r"(?<![A-Za-z_])(fpm)(?![A-Za-z_])"), "ft/min"),
     (re.compile(r"%"), "percent"),
 ]
+
+
+# --- The fast table: the tool's own unit spellings without pint's registry -----------
+#
+# Each unit is an SI factor and a dimension (exponents of length, mass, time, current,
+# temperature). ``value_si = value * factor`` for all of them; the absolute temperatures
+# degC and degF also carry an offset in kelvin, ``value_si = value * factor + offset``. Compound
+# expressions of these units (``"lb/(hp*h)"``, ``"kg/m^3"``) are read by :func:`_fast_unit`;
+# anything else goes to pint. tests/test_fast_units.py checks the whole table against pint.
+
+_FT = 0.3048  # international foot [m]
+_LB = 0.45359237  # avoirdupois pound [kg]
+_G0 = 9.80665  # standard gravity [m/s^2]
+_GALLON = 231 * 0.0254**3  # US liquid gallon [m^3]
+_HP = 550 * _FT * _LB * _G0  # mechanical horsepower [W]
+_REV = 2.0 * np.pi  # one revolution [rad], dimensionless
+
+
+def _dim(length=0, mass=0, time=0, current=0, temperature=0) -> tuple:
+    return (length, mass, time, current, temperature)
+
+
+_NONE = _dim()
+_LENGTH, _MASS, _TIME = _dim(length=1), _dim(mass=1), _dim(time=1)
+_CURRENT, _TEMPERATURE = _dim(current=1), _dim(temperature=1)
+_VOLUME, _POWER = _dim(length=3), _dim(mass=1, length=2, time=-3)
+_ENERGY, _PRESSURE = _dim(mass=1, length=2, time=-2), _dim(mass=1, length=-1, time=-2)
+_VOLTAGE = _dim(mass=1, length=2, time=-3, current=-1)
+
+#: Unit spellings read without pint: name -> (SI factor, dimension).
+FAST_UNITS = {
+    "m": (1.0, _LENGTH), "km": (1000.0, _LENGTH), "cm": (0.01, _LENGTH),
+    "mm": (0.001, _LENGTH), "ft": (_FT, _LENGTH), "in": (0.0254, _LENGTH),
+    "nmi": (1852.0, _LENGTH), "mi": (1609.344, _LENGTH),
+    "kt": (1852.0 / 3600.0, _dim(length=1, time=-1)),
+    "kg": (1.0, _MASS), "g": (0.001, _MASS), "lb": (_LB, _MASS),
+    "L": (0.001, _VOLUME), "l": (0.001, _VOLUME), "gallon": (_GALLON, _VOLUME),
+    "s": (1.0, _TIME), "min": (60.0, _TIME), "h": (3600.0, _TIME),
+    "second": (1.0, _TIME), "minute": (60.0, _TIME), "hour": (3600.0, _TIME),
+    "W": (1.0, _POWER), "kW": (1000.0, _POWER), "hp": (_HP, _POWER),
+    "J": (1.0, _ENERGY), "kJ": (1000.0, _ENERGY), "MJ": (1e6, _ENERGY),
+    "Wh": (3600.0, _ENERGY), "kWh": (3.6e6, _ENERGY),
+    "V": (1.0, _VOLTAGE), "A": (1.0, _CURRENT), "mA": (0.001, _CURRENT),
+    "Ah": (3600.0, _dim(current=1, time=1)), "mAh": (3.6, _dim(current=1, time=1)),
+    "ohm": (1.0, _dim(mass=1, length=2, time=-3, current=-2)),
+    "mohm": (0.001, _dim(mass=1, length=2, time=-3, current=-2)),
+    "K": (1.0, _TEMPERATURE), "delta_degC": (1.0, _TEMPERATURE),
+    "delta_degF": (5.0 / 9.0, _TEMPERATURE),
+    "Pa": (1.0, _PRESSURE), "hPa": (100.0, _PRESSURE), "kPa": (1000.0, _PRESSURE),
+    "inHg": (0.0254 * 13595.1 * _G0, _PRESSURE),
+    "percent": (0.01, _NONE), "deg": (np.pi / 180.0, _NONE), "rad": (1.0, _NONE),
+    "revolution": (_REV, _NONE), "rpm": (_REV / 60.0, _dim(time=-1)),
+}
+#: Absolute temperatures: name -> (SI factor, dimension, offset [K]);
+#: K = value * factor + offset.
+FAST_OFFSET_UNITS = {
+    "degC": (1.0, _TEMPERATURE, 273.15),
+    "degF": (5.0 / 9.0, _TEMPERATURE, 233.15 + 200.0 / 9.0),
+}
+# pint's wording of the dimension of the SI units the code converts to (for messages);
+# a target not listed here goes to pint when the dimensions differ.
+_DIMENSION_TEXT = {
+    "": "dimensionless", "m": "[length]", "m/s": "[length] / [time]", "kg": "[mass]", "s": "[time]",
+    "K": "[temperature]", "A": "[current]", "m^2": "[length] ** 2",
+    "m^3": "[length] ** 3", "kg/m^3": "[mass] / [length] ** 3",
+    "W": "[mass] * [length] ** 2 / [time] ** 3",
+    "J": "[mass] * [length] ** 2 / [time] ** 2", "A*s": "[current] * [time]",
+    "V": "[mass] * [length] ** 2 / [time] ** 3 / [current]",
+    "Pa": "[mass] / [length] / [time] ** 2", "kg/J": "[time] ** 2 / [length] ** 2",
+    "1/s": "1 / [time]", "revolution/minute": "1 / [time]",
+    "ohm": "[mass] * [length] ** 2 / [time] ** 3 / [current] ** 2",
+}
+_TOKEN = re.compile(r"\s*(\*\*|[*/^()]|[A-Za-z_]+|\d+)\s*")
+
+
+def _tokens(unit: str):
+    pos, out = 0, []
+    while pos < len(unit):
+        m = _TOKEN.match(unit, pos)
+        if not m:
+            return None
+        out.append(m.group(1))
+        pos = m.end()
+    return out
+
+
+@functools.lru_cache(maxsize=512)
+def _fast_unit(unit: str):
+    """SI factor, dimension and offset of a unit expression from the fast table.
+
+    Parameters
+    ----------
+    unit : str
+        A unit expression as normalised by :func:`normalise_unit`: a unit of
+        :data:`FAST_UNITS`, or products (``*``), quotients (``/``), integer powers (``^``
+        or ``**``) and parentheses of them; or one of :data:`FAST_OFFSET_UNITS` alone.
+
+    Returns
+    -------
+    tuple or None
+        ``(factor, dimension, offset)`` with ``value_si = value * factor + offset``;
+        None when the expression is not all from the table (pint then reads it).
+    """
+    unit = unit.strip()
+    if unit in FAST_OFFSET_UNITS:
+        return FAST_OFFSET_UNITS[unit]
+    if not unit:
+        return 1.0, _NONE, 0.0
+    tokens = _tokens(unit)
+    if not tokens:
+        return None
+    pos = 0
+
+    def atom():
+        nonlocal pos
+        if pos >= len(tokens):
+            raise ValueError(unit)
+        tok = tokens[pos]
+        pos += 1
+        if tok == "(":
+            value = product()
+            if pos >= len(tokens) or tokens[pos] != ")":
+                raise ValueError(unit)
+            pos += 1
+        elif tok == "1":
+            value = (1.0, _NONE)
+        elif tok in FAST_UNITS:
+            value = FAST_UNITS[tok]
+        else:
+            raise ValueError(unit)
+        if pos < len(tokens) and tokens[pos] in ("^", "**"):
+            if pos + 1 >= len(tokens) or not tokens[pos + 1].isdigit():
+                raise ValueError(unit)
+            n = int(tokens[pos + 1])
+            pos += 2
+            value = (value[0] ** n, tuple(d * n for d in value[1]))
+        return value
+
+    def product():
+        nonlocal pos
+        factor, dim = atom()
+        while pos < len(tokens) and tokens[pos] in ("*", "/"):
+            op = tokens[pos]
+            pos += 1
+            f, d = atom()
+            sign = 1 if op == "*" else -1
+            factor = factor * f if sign > 0 else factor / f
+            dim = tuple(a + sign * b for a, b in zip(dim, d))
+        return factor, dim
+
+    try:
+        factor, dim = product()
+    except ValueError:
+        return None
+    if pos != len(tokens):
+        return None
+    return factor, dim, 0.0
+
+
+def _fast_convert(number: float, from_unit: str, to_unit: str):
+    """``number`` in ``from_unit`` expressed in ``to_unit`` from the fast table.
+
+    Returns
+    -------
+    float or None or bool
+        The converted value; None when either unit is not in the table; False when both
+        are but their dimensions differ.
+    """
+    a, b = _fast_unit(from_unit), _fast_unit(to_unit)
+    if a is None or b is None:
+        return None
+    if a[1] != b[1]:
+        return False
+    if a[2] == 0.0 and b[2] == 0.0:
+        return number * (a[0] / b[0])
+    return (number * a[0] + a[2] - b[2]) / b[0]
 
 
 @functools.lru_cache(maxsize=1)
@@ -114,6 +293,9 @@ def is_quantity(value) -> bool:
 
 @functools.lru_cache(maxsize=256)
 def _factor(from_unit: str, to_unit: str) -> float:
+    a, b = _fast_unit(from_unit), _fast_unit(to_unit)
+    if a is not None and b is not None and a[1] == b[1] and a[2] == b[2] == 0.0:
+        return a[0] / b[0]
     ureg = registry()
     return float(ureg.Quantity(1.0, from_unit).to(to_unit).magnitude)
 
@@ -165,7 +347,13 @@ def parse_quantity(text, si_unit: str, *, default_unit: str | None = None,
     if isinstance(text, bool):
         raise UnitError(f"{what}: expected a quantity in units of {si_unit}, got {text!r}")
     if isinstance(text, (int, float)):
-        return float(text) * (conversion_factor(default_unit, si_unit) if default_unit else 1.0)
+        if not default_unit:
+            return float(text)
+        # An offset unit (degC, degF) converts with its offset, not as a factor.
+        fast = _fast_convert(float(text), normalise_unit(default_unit), si_unit)
+        if fast is not None and fast is not False:
+            return float(fast)
+        return float(text) * conversion_factor(default_unit, si_unit)
     if is_quantity(text):
         return float(to_si(text, si_unit, what=what))
     if not isinstance(text, str):
@@ -183,6 +371,13 @@ def parse_quantity(text, si_unit: str, *, default_unit: str | None = None,
     if delta_temperature:
         unit = {"degC": "delta_degC", "°C": "delta_degC", "C": "delta_degC",
                 "degF": "delta_degF", "°F": "delta_degF", "F": "delta_degF"}.get(unit, unit)
+    fast = _fast_convert(number, unit, si_unit)
+    if fast is not None and fast is not False:
+        return float(fast)
+    if fast is False and si_unit in _DIMENSION_TEXT:
+        raise UnitError(f"{what}: {text!r} is not a quantity of dimension "
+                        f"{_DIMENSION_TEXT[si_unit]} "
+                        f"(expected a value in units such as {si_unit or 'a plain number'})")
     ureg = registry()
     try:
         q = ureg.Quantity(number, unit)

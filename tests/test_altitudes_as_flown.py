@@ -108,7 +108,7 @@ def json_plan(*argv, capsys):
 def test_plan_shows_indicated_altitude_on_the_file_qnh(tmp_path, capsys):
     doc = json_plan(write(tmp_path, BASE), capsys=capsys)
     assert "Day: ISA +10.0 K; altitudes: pressure altitude (PA) and indicated on QNH " \
-           "1009 hPa" in doc["meta"]
+           "1009 hPa" in doc["meta_text"]
     units = {c["name"]: c["unit"] for c in doc["columns"]}
     assert units["IA from"] == units["IA to"] == "ft"
     pa, ia = np.array(rows(doc, "PA to")), np.array(rows(doc, "IA to"))
@@ -119,7 +119,7 @@ def test_plan_shows_indicated_altitude_on_the_file_qnh(tmp_path, capsys):
     doc = json_plan(write(tmp_path, BASE.replace('altimeter = "1009 hPa"\n', "")),
                     capsys=capsys)
     assert "IA to" not in [c["name"] for c in doc["columns"]]
-    assert any(m.endswith("altitudes are pressure altitudes (PA)") for m in doc["meta"])
+    assert any(m.endswith("altitudes are pressure altitudes (PA)") for m in doc["meta_text"])
 
 
 def test_magnetic_heading_is_true_minus_variation(tmp_path, capsys):
@@ -142,7 +142,7 @@ def test_magnetic_heading_is_true_minus_variation(tmp_path, capsys):
         assert hdg == pytest.approx((seg.heading - by_leg[seg.leg]) % 360.0, abs=1e-9)
         checked += 1
     assert checked >= 4
-    assert any("variation out 5 E, back 3 W" in m for m in doc["meta"])
+    assert any("variation out 5 E, back 3 W" in m for m in doc["meta_text"])
     # Without a variation the headings are true and equal the plan's.
     doc = json_plan(write(tmp_path, BASE, "t.toml"), capsys=capsys)
     assert {c["name"]: c["unit"] for c in doc["columns"]}["HDG"] == "deg T"
@@ -420,8 +420,8 @@ def test_isa_dev_override_equals_the_file_bit_for_bit(tmp_path, capsys):
     file = json_plan(write(tmp_path, BASE.replace('"+10 K"', '"+20 K"'), "f.toml"),
                      capsys=capsys)
     same_plan(over, file)
-    assert "What-if: ISA +20 K (overrides of the mission file)" in over["meta"]
-    assert not any(m.startswith("What-if") for m in file["meta"])
+    assert "What-if: ISA +20 K (overrides of the mission file)" in over["meta_text"]
+    assert not any(m.startswith("What-if") for m in file["meta_text"])
 
 
 def test_oat_altimeter_and_wind_overrides_equal_the_file(tmp_path, capsys):
@@ -437,7 +437,7 @@ def test_oat_altimeter_and_wind_overrides_equal_the_file(tmp_path, capsys):
     assert dev == pytest.approx(12.5, abs=0.05)
     assert (f"What-if: altimeter 29.80 inHg, OAT 25 degC at departure (ISA {dev:+.1f} K), "
             "wind 250/30@2000ft,240/45@8000ft on every leg (overrides of the mission file)"
-            in over["meta"]), over["meta"]
+            in over["meta_text"]), over["meta_text"]
     # The altimeter re-reads the file's elevations: the departure field reads as written.
     assert rows(over, "IA from")[0] == pytest.approx(1150.0, abs=1e-6)
 
@@ -451,7 +451,7 @@ def test_fuel_and_payload_overrides_are_applied_and_echoed(tmp_path, capsys):
     assert plan_mission(half).initial != plan_mission(mission).initial
     assert half.overrides == ("fuel 50%",)
     doc = json_plan(path, "--fuel", "50%", "--payload", "80 kg", capsys=capsys)
-    assert "What-if: fuel 50%, payload 80 kg (overrides of the mission file)" in doc["meta"]
+    assert "What-if: fuel 50%, payload 80 kg (overrides of the mission file)" in doc["meta_text"]
     expected = plan_report(plan_mission(apply_overrides(mission, fuel="50%",
                                                         payload="80 kg")))
     assert doc["rows"] == json.loads(expected.render("json"))["rows"]

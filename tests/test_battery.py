@@ -487,7 +487,7 @@ def test_a_pack_temperature_override_needs_a_circuit(write_toml):
 
 def test_tables_and_cards_show_current_voltage_and_minutes_to_the_reserve(capsys, tmp_path):
     assert main(["table", "demo-survey-drone-6s", "--speeds", "18,22m/s", "--altitudes",
-                 "100m", "--pack-temperature", "0degC", "--format", "csv"]) == 0
+                 "100m", "--pack-temperature", "0degC", "--format", "csv", "--csv-header"]) == 0
     out = capsys.readouterr().out
     assert "Pack: 6S4P internal-resistance circuit at 0 degC" in out
     heads = next(ln for ln in out.splitlines() if ln.startswith("PA"))

@@ -375,7 +375,9 @@ def test_plan_cli_formats(tmp_path, capsys):
     out = tmp_path / "plan.csv"
     assert main(["plan", "demo-cross-country", "--format", "csv", "-o", str(out)]) == 0
     text = out.read_text()
-    assert "leg,segment,PA from [ft]" in text and "# CAUTION" in text
+    assert text.startswith("leg,segment,PA from [ft]") and "#" not in text
+    meta = (tmp_path / "plan.meta.txt").read_text()
+    assert meta.startswith("Mission plan: demo-cross-country") and "CAUTION:" in meta
 
 
 def test_plan_cli_bad_file_one_line_no_output(tmp_path, capsys):

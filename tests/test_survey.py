@@ -386,7 +386,7 @@ def test_cli_survey_text_json_and_plot(tmp_path, capsys):
     assert main(["plan", "demo-field-survey", "--format", "json", "--oat", "0 degC"]) == 0
     doc = json.loads(capsys.readouterr().out)
     assert doc["summary"]["verdict"] == "GO"
-    assert any(line.startswith("What-if: OAT 0 degC") for line in doc["meta"])
+    assert any(line.startswith("What-if: OAT 0 degC") for line in doc["meta_text"])
 
 
 def test_cli_survey_refuses_monte_carlo(tmp_path, capsys):

@@ -150,7 +150,7 @@ def test_cli_monte_carlo(tmp_path, capsys):
     assert s["mc_reserve_probability"] == api["reserve_probability"]
     for key in ("remaining", "used", "time", "reserve_required"):
         assert [s[f"mc_{key}_p{p}"] for p in (10, 50, 90)] == list(api[key]), key
-    assert any("probability the reserve holds" in line for line in doc["meta"])
+    assert any("probability the reserve holds" in line for line in doc["meta_text"])
     assert main(["best", "demo-trainer", "--monte-carlo", "1000"]) == 0
     out = capsys.readouterr().out
     assert "ground range P10 / P50 / P90" in out and "Monte Carlo, 1000 samples" in out

@@ -15,6 +15,7 @@ import warnings
 
 from cruiseplan.cli import figures, fit, options, plan, tables
 from cruiseplan.errors import CruiseplanError
+from cruiseplan.version import __version__
 
 #: Exit status for bad input.
 EXIT_BAD_INPUT = 2
@@ -33,6 +34,8 @@ def build_parser() -> options.Parser:
         description="Cruise tables, best altitude and speed, and mission plans for small "
                     "propeller aircraft and drones. A planning aid: the flight manual, "
                     "licensed planning and local rules come first.")
+    parser.add_argument("--version", action="version", version=f"cruiseplan {__version__}",
+                        help="print the version and exit")
     sub = parser.add_subparsers(dest="command", required=True, parser_class=options.Parser)
     for family in (tables, plan, figures, fit):
         family.register(sub)

@@ -19,7 +19,7 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.text import parse_wind_profile
 from cruiseplan.physics.atmosphere import isa_temperature_pressure
-from cruiseplan.report.output import write_atomic
+from cruiseplan.report.output import write_atomic, write_files_atomic
 from cruiseplan.units import parse_quantity, parse_range
 
 AIRFRAME_HELP = "bundled airframe name or path to an airframe TOML file"
@@ -57,6 +57,11 @@ def add_output(p, formats=("text", "csv", "json", "markdown")):
     """
     p.add_argument("--format", choices=formats, default="text", help="output format")
     p.add_argument("--output", "-o", metavar="FILE", help="write to FILE instead of stdout")
+    if "csv" in formats:
+        p.add_argument("--csv-header", action="store_true",
+                       help="CSV: put the title, header lines, notes and cautions ahead of "
+                            "the table as '#' lines (by default the CSV is a plain table "
+                            "and they go to FILE.meta.txt beside --output FILE.csv)")
     add_units(p, "display units: aviation (ft, kt, lb, US gal, nm, hp) or si (m, km/h, kg, "
                  "L, km, kW); default aviation for piston airframes, si for electric ones")
 
@@ -395,6 +400,41 @@ def figure_path(text: str, suffixes, option: str = "--output") -> str:
     if Path(text).suffix.lower() not in suffixes:
         raise CruiseplanError(f"{option} {text}: the file must end in {' or '.join(suffixes)}")
     return text
+
+
+#: Printed to standard error when a plain CSV goes to standard output.
+CSV_CAUTIONS_HINT = "cautions and provenance: use --csv-header or --output"
+
+
+def emit_report(rep, args):
+    """Render a report in ``args.format`` and write it whole (with a CSV's sidecar) or print it.
+
+    Parameters
+    ----------
+    rep : cruiseplan.report.output.Report
+        The report.
+    args : argparse.Namespace
+        ``format``, ``output`` and, for commands offering CSV, ``csv_header``.
+
+    Raises
+    ------
+    CruiseplanError
+        If the output's folder does not exist.
+
+    Notes
+    -----
+    A plain CSV written to a file takes its provenance and cautions to ``FILE.meta.txt``
+    (both files written whole or not at all); printed to standard output, it goes without
+    them and one line on standard error says how to get them.
+    """
+    header = bool(getattr(args, "csv_header", False))
+    files = rep.files(args.format, args.output or None, csv_header=header)
+    if not args.output:
+        sys.stdout.write(files[None])
+        if args.format == "csv" and not header:
+            sys.stderr.write(CSV_CAUTIONS_HINT + "\n")
+        return
+    write_files_atomic(files)
 
 
 def emit(text: str, output: str | None):

@@ -84,13 +84,13 @@ def cmd_plan(args):
     plan = plan_mission(mission)
     spread = plan_uncertainty(plan, n, args.seed) if n else None
     remedies = None if plan.go else what_would_make_it_go(plan)
-    text = plan_report(plan, args.units, spread, remedies).render(args.format)
+    rep = plan_report(plan, args.units, spread, remedies)
     if args.plot:
         from cruiseplan import plots  # matplotlib, only for the figure
 
         data = plots.figure_bytes(plots.mission_profile(plan, units=args.units), args.plot)
         write_bytes_atomic(args.plot, data)
-    options.emit(text, args.output)
+    options.emit_report(rep, args)
 
 
 def _plan_survey(args, mission, n):
@@ -99,10 +99,10 @@ def _plan_survey(args, mission, n):
         raise CruiseplanError("--monte-carlo: a survey mission is planned in packs without "
                               "a Monte Carlo (not available for surveys yet)")
     splan = plan_survey(mission)
-    text = survey_report(splan, args.units).render(args.format)
+    rep = survey_report(splan, args.units)
     if args.plot:
         from cruiseplan import plots  # matplotlib, only for the figure
 
         data = plots.figure_bytes(plots.survey_plan_view(splan, units=args.units), args.plot)
         write_bytes_atomic(args.plot, data)
-    options.emit(text, args.output)
+    options.emit_report(rep, args)

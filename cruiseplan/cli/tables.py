@@ -119,7 +119,7 @@ def cmd_atmosphere(args):
     else:
         air = air_state(h, options.read_isa_dev(args))
     rep = atmosphere_report(air, args.units or "aviation")
-    options.emit(rep.render(args.format), args.output)
+    options.emit_report(rep, args)
 
 
 def cmd_table(args):
@@ -169,7 +169,7 @@ def cmd_table(args):
         title = "Cruise table by power setting"
     rep = cruise_report(af, pts, isa_dev=dev, units=units, title=title,
                         stall_margin=args.stall_margin, show_ground=wind != 0.0)
-    options.emit(rep.render(args.format), args.output)
+    options.emit_report(rep, args)
 
 
 def cmd_best(args):
@@ -220,4 +220,4 @@ def cmd_best(args):
                                     float(p.tas[i]), float(p.ground_speed[i]), n, args.seed)
     rep = best_report(af, best, isa_dev=dev, units=units, wind_text=wind_text,
                       uncertainty=spread)
-    options.emit(rep.render(args.format), args.output)
+    options.emit_report(rep, args)

@@ -134,4 +134,8 @@ def fit_report(fit, log: FlightLog, airframe, *, units: str | None = None):
                       "A fitted polar is only as good as the log (stabilised points, "
                       "calibrated instruments, the propeller efficiency assumed): compare "
                       "it with the flight manual before planning with it.",),
-                  summary=summary)
+                  summary=summary,
+                  quantities={"reference_mass": (float(fit.reference_mass), "kg"),
+                              "cd0": (float(fit.cd0), ""),
+                              "oswald_e": (float(fit.oswald_e), ""), "k": (float(fit.k), ""),
+                              "rms_residual": (float(fit.rms_residual), "W")})

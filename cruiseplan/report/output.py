@@ -2,7 +2,18 @@
 
 A :class:`Report` is a title, a few header lines (what the figures hold for), columns with
 their units, notes and the cautions. Rendering is pure string work; writing goes through
-:func:`write_atomic`, so an error never leaves a half-written file. No matplotlib here.
+:func:`write_atomic` (or :func:`write_files_atomic` for a CSV and its sidecar), so an error
+never leaves a half-written file. No matplotlib here.
+
+Text and markdown show each column's display values (``Column.values``, formatted with
+``Column.fmt``). CSV and JSON are for programs: they carry each column's *machine* values
+(``Column.data`` in ``Column.data_unit`` when given, else ``Column.values``) at full
+precision, so a duration shown as ``h:mm`` is a number of minutes there. A plain CSV is one
+header row ``name [unit]`` and the rows; its provenance (title, header lines, notes,
+cautions, :meth:`Report.provenance`) goes to a sidecar file or, on request, into ``#``
+comment lines ahead of the table. A JSON document carries :data:`SCHEMA_VERSION`, the
+figures of the header as numbers with their units (``meta``), the prose lines
+(``meta_text``) and validates against ``schema/report.schema.json``.
 """
 
 from __future__ import annotations
@@ -20,20 +31,68 @@ import numpy as np
 
 from cruiseplan.errors import CruiseplanError, lookup
 
+#: Version of the JSON document layout (``schema_version``); raised on any change that a
+#: reader could notice (fields renamed, removed or given another meaning).
+SCHEMA_VERSION = 2
+
 
 @dataclass
 class Column:
-    """One column: a name, a unit label ('' when dimensionless), values and a format."""
+    """One column: a name, a unit label ('' when dimensionless), values and a format.
+
+    ``values`` are what people read (numbers in ``unit`` formatted with ``fmt``, or words,
+    e.g. ``"6:14"`` for a duration in ``h:mm``). ``data``, when given, holds the same
+    figures for programs, numbers in ``data_unit`` (e.g. minutes for an ``h:mm`` column):
+    CSV and JSON write ``data`` and ``data_unit`` instead of ``values`` and ``unit``.
+    """
 
     name: str
     unit: str
     values: list
     fmt: str = "{:.1f}"
+    data: list | None = None
+    data_unit: str | None = None
 
     @property
     def header(self) -> str:
         """Header with the unit in brackets."""
         return f"{self.name} [{self.unit}]" if self.unit else self.name
+
+    @property
+    def machine_unit(self) -> str:
+        """Unit of the machine values (CSV, JSON): ``data_unit`` if given, else ``unit``."""
+        return self.unit if self.data_unit is None else self.data_unit
+
+    @property
+    def machine_header(self) -> str:
+        """CSV header: ``name [machine unit]``, or the name alone when dimensionless."""
+        u = self.machine_unit
+        return f"{self.name} [{u}]" if u else self.name
+
+    def machine(self, i: int):
+        """Machine value of row ``i``: a float, int or str at full precision, or None.
+
+        Parameters
+        ----------
+        i : int
+            Row index [-].
+
+        Returns
+        -------
+        float, int, str or None
+            ``data[i]`` (else ``values[i]``) in :attr:`machine_unit`; numpy scalars as
+            Python numbers; None for a missing or non-finite value and for ``"-"``.
+        """
+        v = (self.values if self.data is None else self.data)[i]
+        if v is None or isinstance(v, str) and v == "-":
+            return None
+        if isinstance(v, (bool, np.bool_)):
+            return bool(v)
+        if isinstance(v, (int, np.integer)):
+            return int(v)
+        if isinstance(v, (float, np.floating)):
+            return float(v) if math.isfinite(v) else None
+        return v
 
     def cell(self, i: int) -> str:
         """Formatted cell ``i``; '-' for a missing value.
@@ -69,6 +128,9 @@ class Report:
     notes: list = field(default_factory=list)
     cautions: tuple = ()
     summary: dict = field(default_factory=dict)
+    #: Figures the header states, as numbers with their units: ``{"mass": (745.0, "kg"),
+    #: "isa_dev": (10.0, "K"), ...}`` (SI); JSON writes them under ``meta``.
+    quantities: dict = field(default_factory=dict)
 
     @property
     def n_rows(self) -> int:
@@ -94,6 +156,73 @@ class Report:
             For an unknown output format.
         """
         return lookup(RENDERERS, fmt, "output format")(self)
+
+    def provenance(self) -> str:
+        """What a plain CSV leaves out: title, header lines, notes and cautions.
+
+        Returns
+        -------
+        str
+            Plain text, the content of the ``FILE.meta.txt`` sidecar of a CSV file.
+        """
+        out = [self.title, "=" * len(self.title)] + self.meta
+        if self.notes:
+            out += [""] + self.notes
+        if self.cautions:
+            out += ["", "CAUTION:"] + [f"  * {c}" for c in self.cautions]
+        return "\n".join(out) + "\n"
+
+    def csv(self, header: bool = False) -> str:
+        """Render as CSV: one header row ``name [unit]``, then the rows.
+
+        Parameters
+        ----------
+        header : bool, optional
+            Put the provenance (title, header lines, notes, cautions) ahead of the table
+            as ``#`` comment lines; by default the CSV is a plain table.
+
+        Returns
+        -------
+        str
+            Numbers at full precision (``repr`` of the float) in each column's machine
+            unit, words as given, empty cells where there is no value.
+        """
+        buf = io.StringIO()
+        if header:
+            for m in ([self.title] + self.meta + self.notes
+                      + [f"CAUTION: {c}" for c in self.cautions]):
+                buf.write(f"# {m}\n")
+        w = csv.writer(buf, lineterminator="\n")
+        w.writerow([c.machine_header for c in self.columns])
+        for i in range(self.n_rows):
+            w.writerow([_csv_cell(c.machine(i)) for c in self.columns])
+        return buf.getvalue()
+
+    def files(self, fmt: str, output=None, *, csv_header: bool = False) -> dict:
+        """The files an output of this report consists of, rendered.
+
+        Parameters
+        ----------
+        fmt : str
+            Output format, a key of :data:`RENDERERS`.
+        output : str or pathlib.Path, optional
+            File to write; None for standard output.
+        csv_header : bool, optional
+            CSV only: the provenance as ``#`` lines in the CSV itself rather than in the
+            sidecar ``FILE.meta.txt`` (:func:`sidecar_path`).
+
+        Returns
+        -------
+        dict
+            Path (None for standard output) to text: a CSV written to a file without
+            ``csv_header`` gives two entries, the table and its sidecar; anything else one.
+        """
+        if fmt != "csv":
+            return {output: self.render(fmt)}
+        files = {output: self.csv(header=csv_header)}
+        if output and not csv_header:
+            files[sidecar_path(output)] = self.provenance()
+        return files
 
 
 def hours_minutes(seconds) -> str:
@@ -158,15 +287,33 @@ def _markdown(rep: Report) -> str:
     return "\n".join(out) + "\n"
 
 
+def sidecar_path(output) -> Path:
+    """The provenance sidecar of a CSV file: ``FILE.csv`` -> ``FILE.meta.txt``.
+
+    Parameters
+    ----------
+    output : str or pathlib.Path
+        The CSV file.
+
+    Returns
+    -------
+    pathlib.Path
+        The same folder and stem, suffix ``.meta.txt``.
+    """
+    return Path(output).with_suffix(".meta.txt")
+
+
+def _csv_cell(v) -> str:
+    # Full precision: repr of a float round-trips exactly.
+    if v is None:
+        return ""
+    if isinstance(v, float):
+        return repr(v)
+    return str(v)
+
+
 def _csv(rep: Report) -> str:
-    buf = io.StringIO()
-    for m in [rep.title] + rep.meta + rep.notes + [f"CAUTION: {c}" for c in rep.cautions]:
-        buf.write(f"# {m}\n")
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow([c.header for c in rep.columns])
-    for i in range(rep.n_rows):
-        w.writerow(["" if c.cell(i) == "-" else c.cell(i) for c in rep.columns])
-    return buf.getvalue()
+    return rep.csv()
 
 
 def _jsonable(v):
@@ -179,10 +326,12 @@ def _jsonable(v):
 
 def _json(rep: Report) -> str:
     doc = {
+        "schema_version": SCHEMA_VERSION,
         "title": rep.title,
-        "meta": rep.meta,
-        "columns": [{"name": c.name, "unit": c.unit} for c in rep.columns],
-        "rows": [[_jsonable(c.values[i]) for c in rep.columns] for i in range(rep.n_rows)],
+        "meta": {k: {"value": _jsonable(v), "unit": u} for k, (v, u) in rep.quantities.items()},
+        "meta_text": rep.meta,
+        "columns": [{"name": c.name, "unit": c.machine_unit} for c in rep.columns],
+        "rows": [[c.machine(i) for c in rep.columns] for i in range(rep.n_rows)],
         "notes": rep.notes,
         "cautions": list(rep.cautions),
     }
@@ -210,6 +359,46 @@ def write_atomic(path, text: str) -> None:
         If the destination folder does not exist.
     """
     write_bytes_atomic(path, text.encode("utf-8"))
+
+
+def write_files_atomic(files: dict) -> None:
+    """Write several files whole or not at all (a CSV and its sidecar).
+
+    Every file is first written to a temporary file beside its destination; only when all
+    are written are they renamed into place. An error before that leaves no file and no
+    temporary file behind.
+
+    Parameters
+    ----------
+    files : dict
+        Destination (str or pathlib.Path) to text.
+
+    Raises
+    ------
+    CruiseplanError
+        If a destination folder does not exist.
+    """
+    staged = []
+    try:
+        for path, text in files.items():
+            path = Path(path)
+            folder = path.parent if str(path.parent) else Path(".")
+            if not folder.is_dir():
+                raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
+            fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
+            staged.append((tmp, path))
+            with os.fdopen(fd, "wb") as fh:
+                umask = os.umask(0)
+                os.umask(umask)
+                os.fchmod(fh.fileno(), 0o666 & ~umask)
+                fh.write(text.encode("utf-8"))
+        for tmp, path in staged:
+            os.replace(tmp, path)
+    except BaseException:
+        for tmp, _ in staged:
+            if os.path.exists(tmp):
+                os.unlink(tmp)
+        raise
 
 
 def write_bytes_atomic(path, data: bytes) -> None:

@@ -158,12 +158,14 @@ def endurance_column(prop, seconds) -> Column:
     -------
     Column
         ``"endurance"`` in ``h:mm`` or ``min``; a missing value is None (``"-"`` in text,
-        empty in CSV, null in JSON).
+        empty in CSV, null in JSON). CSV and JSON give it in minutes [min] either way.
     """
     if prop.store.burns_mass:
         return Column("endurance", "h:mm",
                       [None if t is None or not math.isfinite(t) else hours_minutes(t)
-                       for t in seconds], "{}")
+                       for t in seconds], "{}",
+                      data=[None if t is None else t / 60.0 for t in seconds],
+                      data_unit="min")
     return Column("endurance", "min", [None if t is None else t / 60.0 for t in seconds],
                   "{:.0f}")
 
@@ -265,7 +267,10 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
                      "range, endurance or range")
     if airframe.hovers and np.any(np.asarray(pts.tas) == 0):
         notes.append("TAS 0: the hover (ground speed 0, range 0; endurance in the hover)")
-    return Report(title, meta, cols, notes, CAUTIONS)
+    quantities = {"mass": (float(pts.mass), "kg"),
+                  "store": (float(pts.store), prop.store.unit),
+                  "isa_dev": (float(isa_dev), "K"), "reserve": (0.0, prop.store.unit)}
+    return Report(title, meta, cols, notes, CAUTIONS, quantities=quantities)
 
 
 def atmosphere_report(air, units: str = "aviation") -> Report:
@@ -429,7 +434,10 @@ def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
                        if airframe.propulsion.store.burns_mass
                        else _spread_text("endurance", u.endurance, 1 / 60.0, "min")))
         summary.update(_spread_summary(u))
-    return Report(f"Best cruise ({obj})", meta, cols, notes, CAUTIONS, summary)
+    quantities = {"mass": (float(pts.mass), "kg"),
+                  "store": (float(pts.store), prop.store.unit),
+                  "isa_dev": (float(isa_dev), "K"), "reserve": (0.0, prop.store.unit)}
+    return Report(f"Best cruise ({obj})", meta, cols, notes, CAUTIONS, summary, quantities)
 
 
 def _totals_line(plan, n_legs, fd, ld, fq, lq, qfmt) -> str:
@@ -505,7 +513,7 @@ def plan_report(plan, units: str | None = None, uncertainty=None, remedies=None)
                "{:.0f}"),
         # Drones' segments last minutes: h:mm would print most of them as 0:00.
         Column("time", "h:mm", [hours_minutes(s.time) if s.flown else "-" for s in segs],
-               "{}")
+               "{}", data=flown(lambda s: s.time / 60.0), data_unit="min")
         if prop.store.burns_mass else
         Column("time", "min", flown(lambda s: s.time / 60.0), "{:.1f}"),
         Column("dist", ld, flown(lambda s: s.distance * fd), "{:.1f}"),
@@ -566,7 +574,16 @@ def plan_report(plan, units: str | None = None, uncertainty=None, remedies=None)
                     f"{_spread_text('flight time', u.time, 1 / 60.0, 'min')}; "
                     f"probability the reserve holds {u.reserve_probability * 100:.1f} %")
         summary.update(_spread_summary(u))
-    return Report(f"Mission plan: {mission.name}", meta, cols, notes, CAUTIONS, summary)
+    st = prop.store.unit
+    quantities = {"mass": (float(plan.takeoff_mass), "kg"), "store": (float(plan.initial), st),
+                  "isa_dev": (float(mission.isa_dev), "K"),
+                  "reserve": (float(plan.reserve_required), st),
+                  "time": (float(plan.time), "s"), "distance": (float(plan.distance), "m"),
+                  "used": (float(plan.used), st), "remaining": (float(plan.remaining), st)}
+    if mission.altimeter:
+        quantities["altimeter"] = (float(mission.altimeter), "Pa")
+    return Report(f"Mission plan: {mission.name}", meta, cols, notes, CAUTIONS, summary,
+                  quantities)
 
 
 # --- survey plan -----------------------------------------------------------------------
@@ -617,7 +634,8 @@ def survey_report(splan, units: str | None = None) -> Report:
     q = qfmt[2:-1]
     packs = splan.packs
     line_length = [sum(ln.length for ln in layout.lines[p.first - 1:p.last]) for p in packs]
-    time_col = (Column("time", "h:mm", [hours_minutes(p.plan.time) for p in packs], "{}")
+    time_col = (Column("time", "h:mm", [hours_minutes(p.plan.time) for p in packs], "{}",
+                       data=[p.plan.time / 60.0 for p in packs], data_unit="min")
                 if prop.store.burns_mass else
                 Column("time", "min", [p.plan.time / 60.0 for p in packs], "{:.1f}"))
     swap = [f"swap after line {p.last} at {_point_text(layout.lines[p.last - 1].end)}"
@@ -719,7 +737,17 @@ def survey_report(splan, units: str | None = None) -> Report:
                "spacing_m": survey.spacing, "line_length_m": layout.length,
                "swaps_after_lines": list(splan.swaps), "time_s": splan.time,
                f"used_{prop.store.unit}": splan.used}
-    return Report(f"Survey plan: {mission.name}", meta, cols, notes, CAUTIONS, summary)
+    st = prop.store.unit
+    quantities = {"isa_dev": (float(mission.isa_dev), "K"), "time": (float(splan.time), "s"),
+                  "used": (float(splan.used), st), "spacing": (float(survey.spacing), "m"),
+                  "line_length": (float(layout.length), "m"), "area": (area_m2, "m^2"),
+                  "altitude": (float(leg.altitude), "m")}
+    if first is not None:
+        quantities.update({"mass": (float(first.takeoff_mass), "kg"),
+                           "store": (float(first.initial), st),
+                           "reserve": (float(first.reserve_required), st)})
+    return Report(f"Survey plan: {mission.name}", meta, cols, notes, CAUTIONS, summary,
+                  quantities)
 
 
 # --- altitudes and headings as flown (plan report) -------------------------------------
