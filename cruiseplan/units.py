@@ -428,6 +428,109 @@ def to_si(value, si_unit: str, *, what: str = "value"):
     return arr if arr.ndim else float(arr)
 
 
+def fraction(value, *, what: str = "value"):
+    """A fraction [-] from a plain number (0.65) or a dimensionless Quantity (65 %).
+
+    Parameters
+    ----------
+    value : float or array_like or pint.Quantity
+        A fraction as a plain number or array [-], kept as it is (bit for bit), or a
+        dimensionless Quantity such as ``65 * u.percent`` [percent, or any dimensionless
+        unit].
+    what : str, optional
+        Name of the argument, for messages.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The fraction [-].
+
+    Raises
+    ------
+    UnitError
+        When a Quantity is not dimensionless.
+    """
+    if is_quantity(value) or isinstance(value, str):
+        return to_si(value, "", what=what)
+    return value
+
+
+def to_store(value, propulsion, *, what: str = "fuel"):
+    """An amount of fuel or energy in the store's SI unit (kg of fuel or J).
+
+    Parameters
+    ----------
+    value : float or array_like or pint.Quantity
+        A plain number [kg of fuel or J of usable energy], returned as :func:`to_si`
+        returns it; or a Quantity: a volume of fuel [any volume unit] (converted through
+        the airframe's fuel density), a mass of fuel [any mass unit] or an energy [any
+        energy unit] for a battery.
+    propulsion : object
+        The propulsion kind: its ``store`` (``unit``, ``burns_mass``) and, for fuel, its
+        ``fuel_density`` [kg/m^3].
+    what : str, optional
+        Name of the argument, for messages.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The amount [kg or J].
+
+    Raises
+    ------
+    UnitError
+        When a Quantity is of none of the accepted dimensions.
+    """
+    store = propulsion.store
+    if not is_quantity(value):
+        return to_si(value, store.unit, what=what)
+    if store.burns_mass and value.check("[length] ** 3"):
+        return to_si(value, "m^3", what=what) * propulsion.fuel_density
+    if not value.check(store.unit):
+        kinds = "a volume or mass of fuel" if store.burns_mass else "an energy"
+        raise UnitError(f"{what}: {value!s} is not {kinds} (expected e.g. "
+                        + ("'50 L' or '36 kg')" if store.burns_mass else "'450 Wh')"))
+    return to_si(value, store.unit, what=what)
+
+
+def quantity_of(obj, name: str, table: dict, *, store_unit: str | None = None):
+    """Field ``name`` of a result object as a pint Quantity in SI units.
+
+    Parameters
+    ----------
+    obj : object
+        A result object (its fields, properties or methods without arguments).
+    name : str
+        The field; a key of ``table``.
+    table : dict
+        Field name -> SI unit (``""`` for dimensionless; ``"store"`` in it stands for the
+        store's unit, kg of fuel or J of energy, e.g. ``"m/store"``).
+    store_unit : {"kg", "J"}, optional
+        The store's unit, for the fields marked ``"store"``.
+
+    Returns
+    -------
+    pint.Quantity
+        The value [the SI unit of ``table[name]``].
+
+    Raises
+    ------
+    CruiseplanError
+        For a name not in the table, listing the known ones, or a store field without
+        ``store_unit``.
+    """
+    unit = lookup(table, name, "field with a unit")
+    if "store" in unit:
+        if store_unit is None:
+            raise UnitError(f"{name}: give store_unit ('kg' of fuel or 'J' of energy)")
+        unit = unit.replace("store", store_unit)
+    value = getattr(obj, name)
+    if callable(value):
+        value = value()
+    value = np.asarray(value, dtype=float) if np.ndim(value) else float(value)
+    return registry().Quantity(value, unit or "dimensionless")
+
+
 def parse_range(text: str, si_unit: str, *, default_unit: str | None = None,
                 what: str = "values") -> np.ndarray:
     """Parse ``"a:b:step"`` or ``"a,b,c"`` (each with optional units) into SI values.

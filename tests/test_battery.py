@@ -100,7 +100,7 @@ def test_power_beyond_the_maximum_is_a_grid_bit(wing6s):
     g = cruise_grid(weak, [100.0], [20.0, 30.0])
     assert np.all((g.limits & int(Limit.PACK_POWER)) != 0)
     assert np.all(np.isnan(g.endurance))   # unflyable: no figures, with the reason
-    assert "battery power beyond the pack's maximum" in g.reasons()[0, 0]
+    assert "battery power beyond the pack's maximum" in g.reasons[0, 0]
 
 
 @given(p=st.floats(1.0, 2000.0), s=st.floats(0.05, 1.0))
@@ -270,7 +270,7 @@ def test_current_and_cutoff_are_grid_bits_without_figures(wing6s):
     pts = cruise_points(af, load.mass, air, np.array([[30.0]]), low)
     assert int(pts.limits[0, 0]) & int(Limit.CUTOFF)
     assert int(pts.limits[0, 0]) & int(UNFLYABLE)
-    assert "pack voltage under load below its cut-off voltage" in pts.reasons()[0, 0]
+    assert "pack voltage under load below its cut-off voltage" in pts.reasons[0, 0]
 
 
 def test_best_cruise_keeps_within_the_current_limit(wing6s):

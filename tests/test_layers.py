@@ -4,7 +4,7 @@ Read from the source with ``ast`` (nothing is imported), so a new import that br
 architecture fails here with the module and the line.
 
 Layers, bottom to top: base (units, constants, errors, limits, cautions, amounts, version,
-numerics) < physics < kinds < model < planning < report < plots < cli, with io (files in)
+numerics, frames) < physics < kinds < model < planning < report < plots < cli, with io (files in)
 beside planning: io may use the base, physics, kinds and model, never planning or report.
 """
 
@@ -16,8 +16,11 @@ from pathlib import Path
 import pytest
 
 PACKAGE = Path(__file__).resolve().parent.parent / "cruiseplan"
+#: frames (labelled arrays) reads result objects by their attributes and imports only
+#: limits from the package, so it sits in the base layer where the result classes of
+#: planning may reach it.
 BASE = {"units", "constants", "errors", "limits", "cautions", "amounts", "version",
-        "_numerics"}
+        "_numerics", "frames"}
 #: What each layer may import from the package (its own layer always).
 ALLOWED = {
     "base": {"base"},
@@ -32,8 +35,10 @@ ALLOWED = {
 }
 #: Heavy packages a module may import inside a function, so that importing the package or
 #: running a command that does not need them stays quick. cruiseplan.plots carries
-#: matplotlib, so it counts as heavy too.
-LAZY_OK = ("matplotlib", "scipy", "pint", "ambiance", "cruiseplan.plots")
+#: matplotlib, so it counts as heavy too; cruiseplan.frames carries pandas and xarray (the
+#: optional "frames" extra), imported by the result classes' to_xarray/to_dataframe only.
+LAZY_OK = ("matplotlib", "scipy", "pint", "ambiance", "cruiseplan.plots", "cruiseplan.frames",
+           "pandas", "xarray")
 
 
 def module_name(path: Path) -> str:

@@ -143,7 +143,7 @@ def test_advance_ratio_limit_is_reported(quad):
     g = cp.cruise_grid(quad, [0.0], [10.0, 40.0])
     assert g.limits[0, 0] == 0
     assert g.limits[0, 1] & cp.Limit.ROTOR_RANGE
-    assert "beyond the rotor model's range" in g.reasons()[0, 1]
+    assert "beyond the rotor model's range" in g.reasons[0, 1]
 
 
 # --- skin friction and bodies ---------------------------------------------------------------
@@ -321,6 +321,6 @@ def test_reynolds_outside_a_correlation_is_reported():
                    + (Component("antenna", 0.01, 0.02, 1.0, "turbulent"),))
     g = cp.cruise_grid(replace(wing, polar=tiny), [0.0], [20.0, 30.0])
     assert np.all(g.limits & cp.Limit.REYNOLDS_RANGE)
-    assert "Reynolds number outside its drag correlation's range" in g.reasons()[0, 0]
+    assert "Reynolds number outside its drag correlation's range" in g.reasons[0, 0]
     assert not np.any(cp.cruise_grid(wing, [0.0], [20.0, 30.0]).limits
                       & cp.Limit.REYNOLDS_RANGE)

@@ -146,9 +146,11 @@ def test_ceilings_same_for_floats_and_quantities(case):
         assert np.isnan(a.absolute) and "above 20000 m" in a.note
 
 
-def test_fuel_as_a_volume_is_refused_with_the_dimension_named(trainer):
-    # The API's fuel is a mass (kg) for a piston airframe: a volume is refused, not guessed
-    # at some density.
-    with pytest.raises(cp.UnitError, match=r"fuel: 80 liter cannot be converted to kg "
-                                           r"\(wrong dimension\)"):
-        cp.best_cruise(trainer, [0.0, 1000.0], fuel=Q(80, "L"))
+def test_fuel_as_a_volume_uses_the_airframes_density(trainer):
+    # The API's fuel is a mass (kg) for a piston airframe: a volume is converted with the
+    # airframe's own fuel density, never some other; a wrong dimension is refused.
+    a = cp.best_cruise(trainer, [0.0, 1000.0], fuel=Q(80, "L"))
+    b = cp.best_cruise(trainer, [0.0, 1000.0], fuel=0.08 * trainer.propulsion.fuel_density)
+    assert a.points.store == pytest.approx(b.points.store, rel=RTOL)
+    with pytest.raises(cp.UnitError, match=r"^fuel: 80 second is not a volume or mass"):
+        cp.best_cruise(trainer, [0.0, 1000.0], fuel=Q(80, "s"))

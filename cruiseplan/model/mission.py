@@ -9,8 +9,54 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT
-from cruiseplan.errors import CruiseplanError
+from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.physics.winds import WindProfile
+from cruiseplan.units import is_quantity, temperature_difference, to_si, to_store
+
+
+def _convert(obj, units: dict, prefix: str) -> None:
+    """Set each pint Quantity field of a frozen dataclass to its SI value.
+
+    Fields that are not Quantities are left as they are (SI floats stay bit for bit).
+
+    Parameters
+    ----------
+    obj : object
+        The dataclass instance (frozen: fields are set with ``object.__setattr__``).
+    units : dict
+        Field name -> SI unit (``""`` for a fraction, which accepts percent).
+    prefix : str
+        Start of error messages, e.g. ``"leg 'a' "``.
+
+    Raises
+    ------
+    UnitError
+        For a Quantity of the wrong dimension, naming the field.
+    """
+    for name, unit in units.items():
+        value = getattr(obj, name)
+        if is_quantity(value):
+            object.__setattr__(obj, name, to_si(value, unit, what=prefix + name))
+
+
+#: SI unit of each dimensional field of a :class:`Leg` ("": a fraction [-]).
+LEG_UNITS = {
+    "distance": "m", "course": "deg", "altitude": "m", "tas": "m/s", "power": "",
+    "cas": "m/s", "duration": "s", "bank": "deg", "elevation": "m", "max_agl": "m",
+    "max_altitude": "m", "variation": "deg",
+}
+#: SI unit of each dimensional field of a :class:`Profile`.
+PROFILE_UNITS = {
+    "departure_elevation": "m", "arrival_elevation": "m", "climb_speed": "m/s",
+    "climb_power": "", "climb_rate": "m/s", "descent_rate": "m/s", "min_clearance": "m",
+    "altitude_step": "m", "top": "m", "idle_power": "",
+}
+#: SI unit of the dimensional fields of a :class:`Mission` (``store`` and ``allowance``
+#: are kg of fuel or J of energy, by the airframe's store; ``isa_dev`` a difference [K]).
+MISSION_UNITS = {
+    "mass": "kg", "payload": "kg", "stall_margin": "", "cruise_power": "",
+    "altimeter": "Pa", "variation": "deg", "pack_temperature": "degC",
+}
 
 
 @dataclass(frozen=True)
@@ -21,8 +67,10 @@ class Leg:
     ----------
     name : str
         Name used in plans and errors.
-    distance : float
-        Leg length [m].
+    distance : float or pint.Quantity
+        Leg length [m]. Each dimensional field also takes a pint Quantity of its
+        dimension (any length unit, kt, percent for ``power``), converted to SI
+        (:data:`LEG_UNITS`).
     course : float
         True course [deg] (needed with winds; 0 in calm air is fine).
     wind : WindProfile
@@ -76,6 +124,7 @@ class Leg:
     variation: float | None = None
 
     def __post_init__(self):
+        _convert(self, LEG_UNITS, f"leg {self.name!r} ")
         if self.kind not in LEG_KINDS:
             raise CruiseplanError(f"leg {self.name!r}: kind {self.kind!r} is not one of "
                                   f"{', '.join(LEG_KINDS)}")
@@ -110,14 +159,17 @@ class Reserve:
     kind : {"time", "fraction", "amount"}
         Time at best-endurance power, a fraction of the usable capacity (full tanks or a
         full pack), or a fixed amount.
-    amount : float
-        Seconds, a fraction [-], or kg of fuel / J of usable energy.
+    amount : float or pint.Quantity
+        Seconds, a fraction [-], or kg of fuel / J of usable energy. A Quantity is
+        converted: a time, a dimensionless value (``25 * u.percent``), or a mass of fuel
+        or an energy.
     alternate : Leg or None
         A diversion leg flown at best range, added to the reserve.
     text : str
         As the crew wrote it; empty for a default.
-    power : float or None
-        Power a time reserve is flown at [-], a fraction of rated power; None: the normal
+    power : float or pint.Quantity or None
+        Power a time reserve is flown at [-], a fraction of rated power (or a percent
+        Quantity); None: the normal
         cruise power (the plan's cruise power; on a card the airframe's).
     """
 
@@ -128,6 +180,17 @@ class Reserve:
     power: float | None = None
 
     def __post_init__(self):
+        _convert(self, {"power": ""}, "reserve ")
+        if is_quantity(self.amount):
+            unit = {"time": "s", "fraction": ""}.get(self.kind)
+            if unit is None:  # a fixed amount: a mass of fuel or an energy
+                unit = "J" if self.amount.check("[energy]") else "kg"
+                if not self.amount.check(f"[{'energy' if unit == 'J' else 'mass'}]"):
+                    raise UnitError(f"reserve amount: {self.amount!s} is neither a mass of "
+                                    "fuel nor an energy (a volume needs the fuel density: "
+                                    "give kg)")
+            object.__setattr__(self, "amount", to_si(self.amount, unit,
+                                                     what="reserve amount"))
         if self.power is not None and not 0.0 < self.power <= 1.0:
             raise CruiseplanError(f"reserve power {self.power:g} is not a fraction of rated "
                                   "power in (0, 1]")
@@ -191,6 +254,9 @@ class Profile:
         Highest candidate altitude for ``best`` [m].
     idle_power : float
         Fraction of rated power at idle in descents [-].
+
+    Each field also takes a pint Quantity of its dimension (fractions as percent), which
+    is converted to SI (:data:`PROFILE_UNITS`).
     """
 
     departure_elevation: float = 0.0
@@ -204,6 +270,9 @@ class Profile:
     top: float = 12000 * FT
     idle_power: float = 0.05
 
+    def __post_init__(self):
+        _convert(self, PROFILE_UNITS, "profile ")
+
 
 @dataclass(frozen=True)
 class Mission:
@@ -212,6 +281,10 @@ class Mission:
     ``cruise_power`` [-] is the power setting (a fraction of rated power) of the legs that
     give no speed, power or objective of their own; None: their best speed. A survey
     mission has a ``survey`` and no legs of its own: each pack's legs are laid from it.
+
+    The dimensional fields also take pint Quantities (:data:`MISSION_UNITS`; ``store`` and
+    ``allowance`` as a volume or mass of fuel or an energy, ``isa_dev`` as a temperature
+    difference), converted to SI.
     """
 
     name: str
@@ -245,3 +318,14 @@ class Mission:
     #: A survey area (:class:`~cruiseplan.model.survey.Survey`) flown in packs by
     #: :func:`cruiseplan.planning.survey.plan_survey`; None for a route of legs.
     survey: object = None
+
+    def __post_init__(self):
+        _convert(self, MISSION_UNITS, "mission ")
+        if is_quantity(self.isa_dev):
+            object.__setattr__(self, "isa_dev",
+                               temperature_difference(self.isa_dev, what="mission isa_dev"))
+        for name in ("store", "allowance"):
+            value = getattr(self, name)
+            if is_quantity(value):
+                object.__setattr__(self, name, to_store(value, self.airframe.propulsion,
+                                                        what="mission " + name))

@@ -70,7 +70,22 @@ from cruiseplan.planning.levels import leg_candidates
 from cruiseplan.planning.optimise import max_climb_rate, objective_speed
 from cruiseplan.planning.performance import shaft_power_required, speed_for_min_power
 from cruiseplan.planning.reserve import ReserveAmount, reserve_required
-from cruiseplan.units import display
+from cruiseplan.units import display, quantity_of
+
+#: SI unit of each :class:`Segment` field :meth:`Segment.quantity` hands back
+#: (``"store"``: kg of fuel or J of usable energy; ``""``: dimensionless).
+SEGMENT_UNITS = {
+    "altitude_start": "m", "altitude_end": "m", "tas": "m/s", "ground_speed": "m/s",
+    "heading": "deg", "time": "s", "distance": "m", "used": "store", "remaining": "store",
+    "mass_end": "kg", "power_fraction": "", "pack_voltage": "V", "pack_current": "A",
+}
+#: SI unit of each :class:`Plan` field :meth:`Plan.quantity` hands back (``"store"``: kg
+#: of fuel or J of usable energy).
+PLAN_UNITS = {
+    "initial": "store", "reserve_required": "store", "used": "store",
+    "remaining": "store", "time": "s", "distance": "m", "takeoff_mass": "kg",
+    "climb_speed": "m/s", "leg_altitudes": "m", "leg_speeds": "m/s",
+}
 
 #: Integration steps per segment (altitude steps in climb and descent, RK4 steps in cruise).
 CLIMB_STEPS = 8
@@ -109,6 +124,30 @@ class Segment:
     #: given as a circuit; NaN otherwise).
     pack_voltage: float = float("nan")
     pack_current: float = float("nan")
+
+    def quantity(self, name: str, store_name: str | None = None):
+        """A field as a pint Quantity in SI units (see :data:`SEGMENT_UNITS`).
+
+        Parameters
+        ----------
+        name : str
+            A key of :data:`SEGMENT_UNITS`, e.g. ``"time"`` [s] or ``"used"``.
+        store_name : {"fuel", "energy"}, optional
+            The store (``airframe.propulsion.store_name``): ``used`` and ``remaining``
+            are kg of fuel or J of energy; needed for them.
+
+        Returns
+        -------
+        pint.Quantity
+            The value [its SI unit].
+
+        Raises
+        ------
+        CruiseplanError
+            For a name without a unit, or a store amount without ``store_name``.
+        """
+        unit = None if store_name is None else {"fuel": "kg", "energy": "J"}.get(store_name)
+        return quantity_of(self, name, SEGMENT_UNITS, store_unit=unit)
 
 
 @dataclass(frozen=True)
@@ -182,6 +221,57 @@ class Plan:
     def distance(self) -> float:
         """Total ground distance [m]."""
         return float(sum(s.distance for s in self.segments))
+
+    def quantity(self, name: str):
+        """A field as a pint Quantity in SI units (see :data:`PLAN_UNITS`).
+
+        A segment's figures are ``plan.segments[i].quantity(name, store_name)``.
+
+        Parameters
+        ----------
+        name : str
+            A key of :data:`PLAN_UNITS`, e.g. ``"reserve_required"`` (kg of fuel or J of
+            energy, by the airframe's store) or ``"time"`` [s].
+
+        Returns
+        -------
+        pint.Quantity
+            The value [its SI unit].
+
+        Raises
+        ------
+        CruiseplanError
+            For a name without a unit, listing the known ones.
+        """
+        store = self.mission.airframe.propulsion.store.unit
+        return quantity_of(self, name, PLAN_UNITS, store_unit=store)
+
+    def to_xarray(self):
+        """The segments as an xarray Dataset with dim ``segment`` (``frames`` extra).
+
+        Returns
+        -------
+        xarray.Dataset
+            Per segment: altitudes [m], speeds [m/s], heading [deg], time [s], distance
+            [m], store used and remaining [kg or J], mass [kg], ...; the verdict and
+            reasons as attributes. See :func:`cruiseplan.frames.plan_to_xarray`.
+        """
+        from cruiseplan.frames import plan_to_xarray
+
+        return plan_to_xarray(self)
+
+    def to_dataframe(self):
+        """The segments as a pandas DataFrame, one row per segment (``frames`` extra).
+
+        Returns
+        -------
+        pandas.DataFrame
+            The variables of :meth:`to_xarray` as columns (SI); units in
+            ``df.attrs["units"]``.
+        """
+        from cruiseplan.frames import plan_to_dataframe
+
+        return plan_to_dataframe(self)
 
 
 # --- the flight model used by the planner ---------------------------------------------

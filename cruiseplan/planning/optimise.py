@@ -55,7 +55,7 @@ from cruiseplan.planning.performance import (
     resolve_loading,
     shaft_power_required,
 )
-from cruiseplan.units import temperature_difference, to_si
+from cruiseplan.units import quantity_of, temperature_difference, to_si
 
 #: Fraction of the best specific range kept by the economy speed (common practice).
 ECONOMY_FRACTION = 0.99
@@ -470,6 +470,33 @@ class BestCruise:
         b = int(self.schedule.binding[self.objective][i])
         return "ok" if b == 0 else "speed limited by " + describe(b)
 
+    def to_xarray(self):
+        """The answer by altitude as an xarray Dataset (needs the ``frames`` extra).
+
+        Returns
+        -------
+        xarray.Dataset
+            Dim ``altitude`` [m]: the cruise points at the objective's speed (SI), the
+            objective ``value`` [m or s], flag variables ``out_of_band``, ``infeasible``
+            and ``binding``, and ``best``. See :func:`cruiseplan.frames.best_to_xarray`.
+        """
+        from cruiseplan.frames import best_to_xarray
+
+        return best_to_xarray(self)
+
+    def to_dataframe(self):
+        """The answer as a pandas DataFrame, one row per altitude, ``status`` its reason.
+
+        Returns
+        -------
+        pandas.DataFrame
+            The variables of :meth:`to_xarray` as columns (SI); units in
+            ``df.attrs["units"]``.
+        """
+        from cruiseplan.frames import best_to_dataframe
+
+        return best_to_dataframe(self)
+
     def best(self) -> dict:
         """The answer in SI: altitude, TAS, ground speed, value and binding constraint."""
         i = self.best_index
@@ -486,6 +513,36 @@ class BestCruise:
             "power_fraction": float(p.power_fraction[i]), "binding": describe(self.binding),
             "feasible": True,
         }
+
+    def quantity(self, name: str):
+        """A field as a pint Quantity in SI units (see :data:`BEST_CRUISE_UNITS`).
+
+        Parameters
+        ----------
+        name : str
+            A key of :data:`BEST_CRUISE_UNITS`: ``"altitudes"`` [m] or ``"value"`` (ground
+            range [m], or endurance [s] for the endurance objective). The figures at each
+            altitude's speed are ``best.points.quantity(name)``.
+
+        Returns
+        -------
+        pint.Quantity
+            The field's values per altitude [its SI unit].
+
+        Raises
+        ------
+        CruiseplanError
+            For a name without a unit, listing the known ones.
+        """
+        table = dict(BEST_CRUISE_UNITS)
+        if self.objective == "endurance":
+            table["value"] = "s"
+        return quantity_of(self, name, table)
+
+
+#: SI unit of each :class:`BestCruise` field :meth:`BestCruise.quantity` hands back
+#: (``"value"`` is in seconds for the endurance objective).
+BEST_CRUISE_UNITS = {"altitudes": "m", "value": "m"}
 
 
 def _band(altitudes, floor, ceiling, max_agl, elevation):
@@ -586,7 +643,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
         ISA deviation [K].
     wind : WindProfile, optional
         Winds aloft; needs ``course``.
-    course : float, optional
+    course : float or pint.Quantity, optional
         True course [deg].
     headwind : float or pint.Quantity, optional
         Plain headwind component [m/s] at every altitude (negative: tailwind); not with
@@ -630,9 +687,10 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     loading = resolve_loading(airframe, mass, fuel, payload)
     air = air_state(h, temperature_difference(isa_dev))
     if wind is not None:
-        hw, cw = wind.components(float(course), h)
+        hw, cw = wind.components(float(to_si(course, "deg", what="course")), h)
     else:
-        hw = np.full(h.shape, 0.0 if headwind is None else to_si(headwind, "m/s"))
+        hw = np.full(h.shape, 0.0 if headwind is None
+                     else to_si(headwind, "m/s", what="headwind"))
         cw = np.zeros(h.shape)
     sched = speed_schedule(airframe, loading.mass, air, loading.store, headwind=hw,
                            crosswind=cw, stall_margin=stall_margin,
@@ -820,6 +878,26 @@ class Ceilings:
     service: float
     note: str = ""
 
+    def quantity(self, name: str):
+        """``"absolute"`` or ``"service"`` as a pint Quantity [m].
+
+        Parameters
+        ----------
+        name : str
+            ``"absolute"`` or ``"service"``.
+
+        Returns
+        -------
+        pint.Quantity
+            The ceiling's pressure altitude [m].
+
+        Raises
+        ------
+        CruiseplanError
+            For another name.
+        """
+        return quantity_of(self, name, {"absolute": "m", "service": "m"})
+
 
 def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
              service_rate=SERVICE_CEILING_RATE,
@@ -838,7 +916,7 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
         energy [J], payload [kg].
     isa_dev : float or pint.Quantity, optional
         ISA deviation [K].
-    service_rate : float, optional
+    service_rate : float or pint.Quantity, optional
         Climb rate defining the service ceiling [m/s]; 100 ft/min by default.
     stall_margin : float, optional
         Slowest TAS of the climb over stall speed [-] (1.3, common practice).
@@ -855,7 +933,7 @@ def ceilings(airframe, *, mass=None, fuel=None, payload=None, isa_dev=0.0,
     """
     loading = resolve_loading(airframe, mass, fuel, payload)
     dev = temperature_difference(isa_dev)
-    targets = np.array([0.0, float(service_rate)])
+    targets = np.array([0.0, float(to_si(service_rate, "m/s", what="service_rate"))])
 
     def deficit(h):
         return targets - best_rate_climb(airframe, loading.mass, air_state(h, dev),

@@ -44,7 +44,7 @@ from cruiseplan.physics.atmosphere import (
     air_state,
     check_altitude,
 )
-from cruiseplan.units import temperature_difference, to_si
+from cruiseplan.units import fraction, quantity_of, temperature_difference, to_si, to_store
 
 #: Fields of :class:`CruisePoints` that are NaN where a point is beyond an
 #: :data:`~cruiseplan.limits.UNFLYABLE` limit: what the store would give there.
@@ -180,12 +180,74 @@ class CruisePoints:
         """Mach number [-]."""
         return _airspeed.mach_from_tas(self.tas, self.air.speed_of_sound)
 
+    @property
     def reasons(self) -> np.ndarray:
         """Reason text per point, an object array of the points' shape."""
         flat = self.limits.ravel()
         codes, inverse = np.unique(flat, return_inverse=True)
         texts = np.array([explain(c) for c in codes], dtype=object)
         return texts[inverse].reshape(self.limits.shape)
+
+    def to_xarray(self):
+        """The points as an xarray Dataset (needs the ``frames`` extra).
+
+        Returns
+        -------
+        xarray.Dataset
+            Dims ``altitude`` x ``airspeed`` for a grid (pressure altitude [m], TAS [m/s]);
+            every field in SI with ``units`` and ``long_name``; ``limits`` a CF flag
+            variable. See :func:`cruiseplan.frames.points_to_xarray`.
+        """
+        from cruiseplan.frames import points_to_xarray
+
+        return points_to_xarray(self)
+
+    def to_dataframe(self):
+        """The points as a pandas DataFrame, one row per point (needs the ``frames`` extra).
+
+        Returns
+        -------
+        pandas.DataFrame
+            ``altitude`` [m], ``airspeed`` [m/s], the fields in SI, ``limits`` and
+            ``status``; units in ``df.attrs["units"]``.
+        """
+        from cruiseplan.frames import points_to_dataframe
+
+        return points_to_dataframe(self)
+
+    def quantity(self, name: str):
+        """A field as a pint Quantity in SI units (see :data:`CRUISE_POINTS_UNITS`).
+
+        Parameters
+        ----------
+        name : str
+            A key of :data:`CRUISE_POINTS_UNITS`, e.g. ``"drag"`` or ``"endurance"``.
+
+        Returns
+        -------
+        pint.Quantity
+            The field's values [its SI unit; kg of fuel or J of energy for the store].
+
+        Raises
+        ------
+        CruiseplanError
+            For a name without a unit, listing the known ones.
+        """
+        return quantity_of(self, name, CRUISE_POINTS_UNITS,
+                           store_unit="kg" if self.store_name == "fuel" else "J")
+
+
+#: SI unit of each :class:`CruisePoints` field :meth:`CruisePoints.quantity` hands back
+#: (``"store"``: kg of fuel or J of usable energy; ``""``: dimensionless).
+CRUISE_POINTS_UNITS = {
+    "tas": "m/s", "mass": "kg", "store": "store", "cl": "", "cd": "", "lift_to_drag": "",
+    "drag": "N", "thrust_power": "W", "shaft_power": "W", "source_power": "W",
+    "power_available": "W", "power_margin": "W", "store_rate": "store/s",
+    "fuel_volume_flow": "m^3/s", "ground_speed": "m/s", "specific_range_air": "m/store",
+    "specific_range_ground": "m/store", "endurance": "s", "range_air": "m",
+    "range_ground": "m", "stall_speed_ratio": "", "rated_power": "W",
+    "power_fraction": "", "cas": "m/s", "mach": "",
+}
 
 
 def shaft_power_required(airframe, mass, air, tas):
@@ -430,7 +492,8 @@ def resolve_loading(airframe, mass=None, fuel=None, payload=None):
     mass : float or pint.Quantity, optional
         Aircraft mass [kg].
     fuel : float or pint.Quantity, optional
-        Fuel [kg] or usable energy [J] on board; full when neither is given.
+        Fuel [kg] or usable energy [J] on board; full when neither is given. A Quantity
+        may be a volume of fuel (through the fuel density), a mass of fuel or an energy.
     payload : float or pint.Quantity, optional
         Crew and payload [kg].
 
@@ -439,10 +502,9 @@ def resolve_loading(airframe, mass=None, fuel=None, payload=None):
     Loading
         See :meth:`cruiseplan.Airframe.loading`.
     """
-    unit = airframe.propulsion.store.unit
     return airframe.loading(
         mass=None if mass is None else to_si(mass, "kg", what="mass"),
-        store=None if fuel is None else to_si(fuel, unit, what=airframe.propulsion.store_name),
+        store=None if fuel is None else to_store(fuel, airframe.propulsion, what="fuel"),
         payload=None if payload is None else to_si(payload, "kg", what="payload"))
 
 
@@ -588,8 +650,9 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
         The airframe.
     altitudes : array_like or pint.Quantity
         Pressure altitudes [m], one-dimensional.
-    power_settings : array_like
-        Fractions of rated power [-] (0.75 for 75 %), one-dimensional.
+    power_settings : array_like or pint.Quantity
+        Fractions of rated power [-] (0.75 for 75 %), or a dimensionless Quantity
+        (``[65, 75] * u.percent``), one-dimensional.
     mass : float or pint.Quantity, optional
         Aircraft mass [kg]; from the loading when not given.
     fuel : float or pint.Quantity, optional
@@ -618,7 +681,8 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.5.
     """
-    frac = np.atleast_1d(np.asarray(power_settings, dtype=float))
+    frac = np.atleast_1d(np.asarray(fraction(power_settings, what="power_settings"),
+                                    dtype=float))
     if frac.ndim != 1 or np.any(frac <= 0) or np.any(frac > 1.0 + 1e-9):
         raise CruiseplanError("power settings must be fractions of rated power in (0, 1]")
     # The speed searches need real air: altitudes outside the model are an error here.

@@ -26,7 +26,7 @@ import numpy as np
 
 from cruiseplan.amounts import format_amount
 from cruiseplan.model.mission import Reserve
-from cruiseplan.units import display
+from cruiseplan.units import display, fraction, is_quantity, to_si, to_store
 
 #: Where the power of a time reserve came from, in words.
 POWER_SOURCES = {
@@ -108,16 +108,17 @@ def reserve_required(airframe, reserve: Reserve, *, mass, cruise_power=None,
         The airframe (any kind; arrays of parameters over samples are allowed).
     reserve : Reserve
         The policy.
-    mass : float or array_like
+    mass : float or array_like or pint.Quantity
         Mass at landing [kg] (arrays over samples set the result's shape).
-    cruise_power : float, optional
+    cruise_power : float or pint.Quantity, optional
         Power a time reserve is flown at when the policy names none [-], a fraction of
-        rated power.
+        rated power (or a percent Quantity).
     power_source : str, optional
         What ``cruise_power`` is: ``"plan"`` (the plan's cruise power), ``"mission"`` (the
         mission file's power setting) or ``"card"`` (the airframe's normal cruise power).
-    alternate_used : float or array_like, optional
-        Store the alternate leg uses [kg or J].
+    alternate_used : float or array_like or pint.Quantity, optional
+        Store the alternate leg uses [kg or J]; a Quantity may be a volume or mass of fuel
+        or an energy.
 
     Returns
     -------
@@ -129,6 +130,12 @@ def reserve_required(airframe, reserve: Reserve, *, mass, cruise_power=None,
     .. [1] Yechout et al. (2003), ch. 2.
     """
     prop = airframe.propulsion
+    if is_quantity(mass):
+        mass = to_si(mass, "kg", what="mass")
+    if is_quantity(alternate_used):
+        alternate_used = to_store(alternate_used, prop, what="alternate_used")
+    if cruise_power is not None:
+        cruise_power = fraction(cruise_power, what="cruise_power")
     scalar = np.ndim(mass) == 0
     m = np.atleast_1d(np.asarray(mass, dtype=float))
     extra = {}

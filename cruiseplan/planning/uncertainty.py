@@ -33,6 +33,19 @@ from cruiseplan.errors import CruiseplanError
 from cruiseplan.model.tolerance import normal_ppf
 from cruiseplan.planning.mission import Flight, leg_options, mission_reserve
 from cruiseplan.planning.performance import cruise_points
+from cruiseplan.units import quantity_of
+
+#: SI unit of each :class:`PlanUncertainty` field :meth:`PlanUncertainty.quantity` hands
+#: back (``"store"``: kg of fuel or J of usable energy).
+PLAN_UNCERTAINTY_UNITS = {"remaining": "store", "used": "store", "time": "s",
+                          "reserve_required": "store"}
+#: SI unit of each :class:`CruiseUncertainty` field :meth:`CruiseUncertainty.quantity`
+#: hands back.
+CRUISE_UNCERTAINTY_UNITS = {"range_ground": "m", "endurance": "s"}
+
+
+def _store_unit(store_name):
+    return None if store_name is None else {"fuel": "kg", "energy": "J"}.get(store_name)
 
 #: Quantiles reported (P10, P50, P90).
 QUANTILES = (0.10, 0.50, 0.90)
@@ -172,6 +185,66 @@ class PlanUncertainty:
                 "reserve_probability": self.reserve_probability, "n": self.n,
                 "seed": self.seed}
 
+    def quantity(self, name: str, store_name: str | None = None):
+        """A sampled field as a pint Quantity in SI units (:data:`PLAN_UNCERTAINTY_UNITS`).
+
+        Parameters
+        ----------
+        name : str
+            ``"remaining"``, ``"used"``, ``"reserve_required"`` [kg or J] or ``"time"``
+            [s].
+        store_name : {"fuel", "energy"}, optional
+            The store (``airframe.propulsion.store_name``): kg of fuel or J of energy;
+            needed for the store amounts.
+
+        Returns
+        -------
+        pint.Quantity
+            The samples [the field's SI unit].
+
+        Raises
+        ------
+        CruiseplanError
+            For a name without a unit, or a store amount without ``store_name``.
+        """
+        return quantity_of(self, name, PLAN_UNCERTAINTY_UNITS,
+                           store_unit=_store_unit(store_name))
+
+    def to_xarray(self, store_name: str | None = None):
+        """The samples as an xarray Dataset with dim ``sample`` (``frames`` extra).
+
+        Parameters
+        ----------
+        store_name : str, optional
+            ``"fuel"`` (amounts in kg) or ``"energy"`` (J): sets the ``units`` of store
+            amounts, which carry none without it. Times [s] and distances [m] always do.
+
+        Returns
+        -------
+        xarray.Dataset
+            One variable per sampled field (SI); attribute ``seed``.
+        """
+        from cruiseplan.frames import samples_to_xarray
+
+        return samples_to_xarray(self, store_name)
+
+    def to_dataframe(self, store_name: str | None = None):
+        """The samples as a pandas DataFrame, one row per sample (``frames`` extra).
+
+        Parameters
+        ----------
+        store_name : str, optional
+            As for :meth:`to_xarray`.
+
+        Returns
+        -------
+        pandas.DataFrame
+            One column per sampled field (SI); units in ``df.attrs["units"]``.
+        """
+        from cruiseplan.frames import samples_to_dataframe
+
+        return samples_to_dataframe(self, store_name)
+
 
 def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
     """Re-fly a planned mission with ``n`` sampled airframes and winds.
@@ -264,6 +337,61 @@ class CruiseUncertainty:
         return {"range_ground": quantiles(self.range_ground),
                 "endurance": quantiles(self.endurance), "n": int(self.range_ground.size),
                 "seed": self.seed}
+
+    def quantity(self, name: str):
+        """A sampled field as a pint Quantity in SI units (:data:`CRUISE_UNCERTAINTY_UNITS`).
+
+        Parameters
+        ----------
+        name : str
+            ``"range_ground"`` [m] or ``"endurance"`` [s].
+
+        Returns
+        -------
+        pint.Quantity
+            The samples [m or s].
+
+        Raises
+        ------
+        CruiseplanError
+            For a name without a unit, listing the known ones.
+        """
+        return quantity_of(self, name, CRUISE_UNCERTAINTY_UNITS)
+
+    def to_xarray(self, store_name: str | None = None):
+        """The samples as an xarray Dataset with dim ``sample`` (``frames`` extra).
+
+        Parameters
+        ----------
+        store_name : str, optional
+            ``"fuel"`` (amounts in kg) or ``"energy"`` (J): sets the ``units`` of store
+            amounts, which carry none without it. Times [s] and distances [m] always do.
+
+        Returns
+        -------
+        xarray.Dataset
+            One variable per sampled field (SI); attribute ``seed``.
+        """
+        from cruiseplan.frames import samples_to_xarray
+
+        return samples_to_xarray(self, store_name)
+
+    def to_dataframe(self, store_name: str | None = None):
+        """The samples as a pandas DataFrame, one row per sample (``frames`` extra).
+
+        Parameters
+        ----------
+        store_name : str, optional
+            As for :meth:`to_xarray`.
+
+        Returns
+        -------
+        pandas.DataFrame
+            One column per sampled field (SI); units in ``df.attrs["units"]``.
+        """
+        from cruiseplan.frames import samples_to_dataframe
+
+        return samples_to_dataframe(self, store_name)
 
 
 def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, seed=0,
