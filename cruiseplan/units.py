@@ -653,6 +653,101 @@ _SI_OF_KIND = {
 }
 
 
+def _override_label(unit: str) -> str:
+    """The printed label of an override unit (``gallon`` -> ``US gal``, ``nmi`` -> ``nm``)."""
+    for name, text in (("gallon", "US gal"), ("nmi", "nm")):
+        unit = re.sub(rf"(?<![A-Za-z_]){name}(?![A-Za-z_])", text, unit)
+    return unit
+
+
+def check_override(kind: str, unit: str, *, what: str = "--unit") -> str:
+    """Check one per-quantity override: a known kind and a unit of its dimension.
+
+    Parameters
+    ----------
+    kind : str
+        A kind of :data:`UNIT_SYSTEMS`, e.g. ``"volume"``.
+    unit : str
+        The display unit wanted for it, e.g. ``"L"`` [any unit of the kind's dimension].
+    what : str, optional
+        The option or field named in errors.
+
+    Returns
+    -------
+    str
+        The unit, normalised (``kts`` -> ``kt``).
+
+    Raises
+    ------
+    UnitError
+        For an unknown kind (listing the valid ones), or a unit that is empty, contains
+        ``;`` or ``=``, or is not of the kind's dimension.
+    """
+    if kind not in _SI_OF_KIND:
+        raise UnitError(f"{what} {kind}={unit}: unknown kind {kind!r}; valid kinds: "
+                        f"{', '.join(sorted(_SI_OF_KIND))}")
+    norm = normalise_unit(unit) if isinstance(unit, str) else ""
+    if not norm or ";" in norm or "=" in norm:
+        raise UnitError(f"{what} {kind}={unit}: give a unit, e.g. {kind}="
+                        f"{UNIT_SYSTEMS['si'][kind][0]}")
+    fast = _fast_convert(1.0, _SI_OF_KIND[kind], norm)
+    if fast is False or (fast is not None and not np.isfinite(fast)):
+        ok = False
+    elif fast is None:
+        try:
+            ok = np.isfinite(conversion_factor(_SI_OF_KIND[kind], norm))
+        except Exception:
+            ok = False
+    else:
+        ok = True
+    if not ok:
+        raise UnitError(f"{what} {kind}={unit}: {unit!r} is not a unit of {kind} (e.g. "
+                        f"{UNIT_SYSTEMS['si'][kind][0]} or {UNIT_SYSTEMS['aviation'][kind][0]})")
+    return norm
+
+
+def unit_choice(system: str, overrides=()) -> str:
+    """The display-units value of a unit system with per-quantity overrides.
+
+    Parameters
+    ----------
+    system : {"aviation", "si"}
+        The base unit system.
+    overrides : dict or iterable of (str, str), optional
+        Kind -> display unit, e.g. ``{"volume": "L", "mass": "kg"}``; checked with
+        :func:`check_override`.
+
+    Returns
+    -------
+    str
+        ``"aviation"`` when there are no overrides, else e.g. ``"aviation;mass=kg;volume=L"``
+        (kinds sorted), the value :func:`display` reads.
+
+    Raises
+    ------
+    CruiseplanError
+        For an unknown system, kind, or a unit of the wrong dimension.
+    """
+    lookup(UNIT_SYSTEMS, system, "unit system")
+    items = dict(overrides.items() if isinstance(overrides, dict) else overrides)
+    parts = [f"{k}={check_override(k, v)}" for k, v in sorted(items.items())]
+    return ";".join([system, *parts])
+
+
+@functools.lru_cache(maxsize=64)
+def _parse_choice(units: str) -> tuple:
+    system, *parts = units.split(";")
+    table = dict(lookup(UNIT_SYSTEMS, system.strip(), "unit system"))
+    for part in parts:
+        kind, sep, unit = part.partition("=")
+        if not sep:
+            raise UnitError(f"units {units!r}: {part!r} is not KIND=UNIT")
+        kind = kind.strip()
+        norm = check_override(kind, unit.strip(), what="units")
+        table[kind] = (norm, _override_label(norm))
+    return system.strip(), table
+
+
 def display(kind: str, units: str):
     """Factor from SI and label of a physical kind in a display unit system.
 
@@ -660,8 +755,13 @@ def display(kind: str, units: str):
     ----------
     kind : str
         A key of the unit systems, e.g. ``"altitude"``, ``"speed"``, ``"volume_flow"``.
-    units : {"aviation", "si"}
-        The display unit system.
+    units : str
+        The display units: a unit system, ``"aviation"`` or ``"si"``, optionally followed
+        by per-quantity overrides ``;KIND=UNIT`` (``"aviation;volume=L;mass=kg"``: feet and
+        knots with litres and kilograms). Build it with :func:`unit_choice`; it is parsed
+        once per process (cached). An override of ``volume`` also sets ``volume_flow``
+        (per hour) and ``sr_fuel`` (distance per volume), ``mass`` sets ``mass_flow`` and
+        ``distance`` sets ``sr_fuel`` and ``sr_energy``, unless they are given themselves.
 
     Returns
     -------
@@ -673,8 +773,35 @@ def display(kind: str, units: str):
     Raises
     ------
     CruiseplanError
-        For an unknown unit system, listing the known ones.
+        For an unknown unit system, listing the known ones, an unknown kind, or an
+        override of the wrong dimension.
     """
-    pint_unit, label = lookup(lookup(UNIT_SYSTEMS, units, "unit system"), kind,
-                              "kind of quantity")
+    system, table = _parse_choice(units)
+    pint_unit, label = lookup(table, kind, "kind of quantity")
+    if ";" in units:
+        pint_unit, label = _derived(kind, units, table) or (pint_unit, label)
     return conversion_factor(_SI_OF_KIND[kind], pint_unit), label
+
+
+def _derived(kind: str, units: str, table: dict):
+    """The unit of a rate or ratio kind from the overridden units it is made of, or None."""
+    given = {p.partition("=")[0].strip() for p in units.split(";")[1:]}
+    if kind in given:
+        return None
+
+    def wrap(u):
+        return f"({u})" if any(c in u for c in "/*") else u
+
+    if kind == "volume_flow" and "volume" in given:
+        u, lab = table["volume"]
+        return f"{wrap(u)}/h", f"{lab}/h"
+    if kind == "sr_fuel" and ({"volume", "distance"} & given):
+        (d, ld), (v, lv) = table["distance"], table["volume"]
+        return f"{wrap(d)}/{wrap(v)}", f"{ld}/{lv}"
+    if kind == "mass_flow" and "mass" in given:
+        u, lab = table["mass"]
+        return f"{wrap(u)}/h", f"{lab}/h"
+    if kind == "sr_energy" and "distance" in given:
+        d, ld = table["distance"]
+        return f"{wrap(d)}/kWh", f"{ld}/kWh"
+    return None

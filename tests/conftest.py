@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import textwrap
 from dataclasses import replace
 
@@ -17,6 +18,10 @@ settings.register_profile(
     "cruiseplan", deadline=None, max_examples=60, derandomize=True,
     suppress_health_check=[HealthCheck.function_scoped_fixture])
 settings.load_profile("cruiseplan")
+
+# Hermetic: no user's or project's settings file (cruiseplan.toml, ~/.config/cruiseplan)
+# changes the display units of a test; tests that want one set CRUISEPLAN_SETTINGS.
+os.environ["CRUISEPLAN_SETTINGS"] = ""
 
 
 def constant_propeller(af, efficiency=0.72):

@@ -37,8 +37,9 @@ ALLOWED = {
 #: running a command that does not need them stays quick. cruiseplan.plots carries
 #: matplotlib, so it counts as heavy too; cruiseplan.frames carries pandas and xarray (the
 #: optional "frames" extra), imported by the result classes' to_xarray/to_dataframe only.
+#: tqdm draws the command line's progress bars (cli/progress.py), only on a terminal.
 LAZY_OK = ("matplotlib", "scipy", "pint", "ambiance", "cruiseplan.plots", "cruiseplan.frames",
-           "pandas", "xarray")
+           "pandas", "xarray", "tqdm")
 
 
 def module_name(path: Path) -> str:

@@ -19,6 +19,8 @@ from cruiseplan.version import __version__
 
 #: Exit status for bad input.
 EXIT_BAD_INPUT = 2
+#: Exit status after Ctrl-C (128 + SIGINT, the shells' convention).
+EXIT_INTERRUPTED = 130
 
 
 def build_parser() -> options.Parser:
@@ -57,7 +59,9 @@ def main(argv=None) -> int:
     Returns
     -------
     int
-        Exit status: 0, or 2 for bad input. A bug raises (exit status 1, with traceback).
+        Exit status: 0, 2 for bad input, or 130 when interrupted (Ctrl-C: one line on
+        stderr; outputs are written whole at the end, so none is left behind). A bug raises
+        (exit status 1, with traceback).
     """
     warnings.showwarning = _show_warning
     # Figures are drawn off-screen; the backend is chosen here, in the command line's own
@@ -72,6 +76,9 @@ def main(argv=None) -> int:
         msg = " ".join(str(exc).split())
         sys.stderr.write(f"cruiseplan: error: {msg}\n")
         return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        sys.stderr.write("cruiseplan: interrupted; nothing written\n")
+        return EXIT_INTERRUPTED
     return 0
 
 

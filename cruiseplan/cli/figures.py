@@ -11,6 +11,7 @@ from pathlib import Path
 import numpy as np
 
 from cruiseplan.cli import options
+from cruiseplan.cli.progress import monte_carlo_progress
 from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.airframe_file import load_airframe
 from cruiseplan.io.text import parse_reserve
@@ -87,7 +88,7 @@ def cmd_plot(args):
     out = options.figure_path(args.output, (".png", ".pdf"))
     af = load_airframe(args.airframe)
     batteries = not af.propulsion.store.burns_mass
-    units = args.units or options.default_units(af)
+    units = options.read_units(args, af)
     defaults = {"power": "0,200,400m" if batteries else "0,4000,8000,12000ft"}
     h = options.read_altitudes(args.altitudes or defaults.get(
         args.kind, "0:500m:25m" if batteries else "0:12000ft:500ft"))
@@ -104,7 +105,7 @@ def cmd_plot(args):
                               "with --kind map or altitude")
     v = None
     if args.speeds:
-        v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
+        v = parse_range(args.speeds, "m/s", default_unit="kt" if units.startswith("aviation")
                         else "km/h", what="--speeds")
         slowest = 0.0 if af.hovers else np.nextafter(0.0, 1.0)
         if v.size < 2 or (v < slowest).any() or (v[1:] <= v[:-1]).any():
@@ -161,11 +162,14 @@ def cmd_card(args):
 
     from cruiseplan import plots  # matplotlib, only for the figure
 
-    markdown, fig = plots.cruise_card(af, altitudes=h, power_settings=frac,
-                                      isa_dev=dev, reserve=reserve,
-                                      units=args.units, stall_margin=args.stall_margin,
-                                      monte_carlo=options.monte_carlo_n(args), seed=args.seed,
-                                      **options.read_loading(af, args))
+    n = options.monte_carlo_n(args)
+    with monte_carlo_progress(n) as progress:
+        markdown, fig = plots.cruise_card(af, altitudes=h, power_settings=frac,
+                                          isa_dev=dev, reserve=reserve,
+                                          units=options.read_units(args, af),
+                                          stall_margin=args.stall_margin,
+                                          monte_carlo=n, seed=args.seed, progress=progress,
+                                          **options.read_loading(af, args))
     pdf = plots.figure_bytes(fig, "pdf")
     twin = out.with_suffix(".md")
     write_bytes_atomic(out, pdf)

@@ -85,7 +85,7 @@ def cmd_fit(args):
     if args.output and getattr(af.polar, "kind", None) != "parabolic":
         raise CruiseplanError(f"--output: {af.name} has a {getattr(af.polar, 'kind', 'no')} "
                               "polar; the fit writes cd0 and oswald_e of a parabolic one")
-    units = args.units or options.default_units(af)
+    units = options.read_units(args, af)
     text = fit_report(fit, log, af, units=units).render(args.format)
     toml = None
     if args.output:

@@ -17,10 +17,17 @@ import numpy as np
 from cruiseplan.amounts import parse_amount
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.io.settings import read_settings
 from cruiseplan.io.text import parse_wind_profile
 from cruiseplan.physics.atmosphere import isa_temperature_pressure
 from cruiseplan.report.output import write_atomic, write_files_atomic
-from cruiseplan.units import parse_quantity, parse_range
+from cruiseplan.units import (
+    UNIT_SYSTEMS,
+    check_override,
+    parse_quantity,
+    parse_range,
+    unit_choice,
+)
 
 AIRFRAME_HELP = "bundled airframe name or path to an airframe TOML file"
 
@@ -78,6 +85,47 @@ def add_units(p, text="display units (default aviation for piston airframes, si 
         Help text of the option.
     """
     p.add_argument("--units", choices=("aviation", "si"), default=None, help=text)
+    p.add_argument("--unit", action="append", default=[], metavar="KIND=UNIT",
+                   help="display one kind of quantity in another unit, on top of --units "
+                        "(repeatable), e.g. --unit volume=L --unit mass=kg; kinds: "
+                        + ", ".join(sorted(UNIT_SYSTEMS["si"])) + "; defaults from "
+                        "cruiseplan.toml or ~/.config/cruiseplan/settings.toml [units]")
+
+
+def read_units(args, airframe=None) -> str:
+    """The display units of a command: ``--units``/``--unit`` over the settings file.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed options: ``units`` (``"aviation"``, ``"si"`` or None) and ``unit`` (a list
+        of ``KIND=UNIT`` texts); either may be missing.
+    airframe : Airframe, optional
+        Its crews' units are the default system (else aviation).
+
+    Returns
+    -------
+    str
+        The value :func:`cruiseplan.units.display` reads, e.g. ``"aviation;volume=L"``.
+
+    Raises
+    ------
+    CruiseplanError
+        For a ``--unit`` that is not ``KIND=UNIT``, an unknown kind (listing the valid
+        ones), a unit of the wrong dimension, or a bad settings file (naming it and the
+        field).
+    """
+    settings = read_settings()
+    system = (getattr(args, "units", None) or settings.system
+              or (default_units(airframe) if airframe is not None else "aviation"))
+    overrides = dict(settings.overrides)
+    for text in getattr(args, "unit", None) or []:
+        kind, sep, unit = text.partition("=")
+        if not sep:
+            raise UnitError(f"--unit {text}: expected KIND=UNIT, e.g. volume=L; valid "
+                            f"kinds: {', '.join(sorted(UNIT_SYSTEMS['si']))}")
+        overrides[kind.strip()] = check_override(kind.strip(), unit.strip())
+    return unit_choice(system, overrides)
 
 
 def add_loading(p):

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from cruiseplan.cli import options
+from cruiseplan.cli.progress import monte_carlo_progress
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.io.mission_file import apply_overrides, load_mission
 from cruiseplan.planning.mission import plan_mission
@@ -78,11 +79,13 @@ def cmd_plan(args):
     n = options.monte_carlo_n(args)
     what_if = {k: getattr(args, k) for k in WHAT_IF_OPTIONS}
     mission = apply_overrides(load_mission(args.mission), **what_if, names=WHAT_IF_OPTIONS)
+    args.units = options.read_units(args, mission.airframe)
     if mission.survey is not None:
         _plan_survey(args, mission, n)
         return
     plan = plan_mission(mission)
-    spread = plan_uncertainty(plan, n, args.seed) if n else None
+    with monte_carlo_progress(n) as progress:
+        spread = plan_uncertainty(plan, n, args.seed, progress=progress) if n else None
     remedies = None if plan.go else what_would_make_it_go(plan)
     rep = plan_report(plan, args.units, spread, remedies)
     if args.plot:

@@ -8,6 +8,7 @@ import sys
 import numpy as np
 
 from cruiseplan.cli import options
+from cruiseplan.cli.progress import monte_carlo_progress
 from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.airframe_file import bundled_airframes, load_airframe, read_airframe
 from cruiseplan.physics.atmosphere import air_state, check_altitude
@@ -118,7 +119,7 @@ def cmd_atmosphere(args):
         air = air_state(h, oat=oat)
     else:
         air = air_state(h, options.read_isa_dev(args))
-    rep = atmosphere_report(air, args.units or "aviation")
+    rep = atmosphere_report(air, options.read_units(args))
     options.emit_report(rep, args)
 
 
@@ -140,7 +141,7 @@ def cmd_table(args):
         or the table.
     """
     af = load_airframe(args.airframe)
-    units = args.units or options.default_units(af)
+    units = options.read_units(args, af)
     batteries = not af.propulsion.store.burns_mass
     alt_text = args.altitudes or ("0:400m:100m" if batteries else "0:10000ft:2000ft")
     h = check_altitude(options.read_altitudes(alt_text), "--altitudes")
@@ -151,7 +152,7 @@ def cmd_table(args):
                   **options.read_loading(af, args))
     if args.speeds or (batteries and not args.power):
         if args.speeds:
-            v = parse_range(args.speeds, "m/s", default_unit="kt" if units == "aviation"
+            v = parse_range(args.speeds, "m/s", default_unit="kt" if units.startswith("aviation")
                             else "km/h", what="--speeds")
         elif af.hovers:
             v = np.arange(0.0, 22.01, 2.0)  # from the hover
@@ -189,7 +190,7 @@ def cmd_best(args):
         options or the optimiser.
     """
     af = load_airframe(args.airframe)
-    units = args.units or options.default_units(af)
+    units = options.read_units(args, af)
     batteries = not af.propulsion.store.burns_mass
     h = options.read_altitudes(args.altitudes or ("0:500m:25m" if batteries
                                              else "0:12000ft:1000ft"))
@@ -216,8 +217,10 @@ def cmd_best(args):
     if n and best.best_index >= 0:
         i = best.best_index
         p = best.points
-        spread = cruise_uncertainty(af, p.mass, p.store, best.schedule.air.row(i),
-                                    float(p.tas[i]), float(p.ground_speed[i]), n, args.seed)
+        with monte_carlo_progress(n) as progress:
+            spread = cruise_uncertainty(af, p.mass, p.store, best.schedule.air.row(i),
+                                        float(p.tas[i]), float(p.ground_speed[i]), n,
+                                        args.seed, progress=progress)
     rep = best_report(af, best, isa_dev=dev, units=units, wind_text=wind_text,
                       uncertainty=spread)
     options.emit_report(rep, args)

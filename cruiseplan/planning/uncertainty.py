@@ -49,6 +49,43 @@ def _store_unit(store_name):
 
 #: Quantiles reported (P10, P50, P90).
 QUANTILES = (0.10, 0.50, 0.90)
+#: Samples re-flown at once by default [-]: bounds the memory of a large run and lets a
+#: caller show progress between chunks.
+CHUNK = 50_000
+
+
+def chunk_slices(n: int, chunk: int | None = CHUNK, progress=None):
+    """Slices of ``range(n)`` in order, ``chunk`` long (the last may be shorter).
+
+    Parameters
+    ----------
+    n : int
+        Number of samples [-].
+    chunk : int, optional
+        Samples per slice [-]; None or a value of at least ``n`` gives one slice.
+    progress : callable, optional
+        Called as ``progress(done, total)`` [-, -] after each slice has been used by the
+        caller (so the last call is ``progress(n, n)``).
+
+    Yields
+    ------
+    slice
+        The next slice of samples.
+
+    Raises
+    ------
+    CruiseplanError
+        If ``chunk`` is below 1.
+    """
+    if chunk is None:
+        chunk = max(n, 1)
+    if chunk < 1:
+        raise CruiseplanError(f"Monte Carlo chunks need at least one sample, got {chunk}")
+    for start in range(0, n, chunk):
+        stop = min(start + chunk, n)
+        yield slice(start, stop)
+        if progress is not None:
+            progress(stop, n)
 
 
 def unit_samples(n: int, dims: int, seed: int):
@@ -246,7 +283,8 @@ class PlanUncertainty:
         return samples_to_dataframe(self, store_name)
 
 
-def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
+def plan_uncertainty(plan, n: int = 10000, seed: int = 0, chunk: int | None = CHUNK,
+                     progress=None) -> PlanUncertainty:
     """Re-fly a planned mission with ``n`` sampled airframes and winds.
 
     The crew flies the plan: its altitudes, its cruise speeds at each leg's start and its
@@ -260,6 +298,13 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
         Number of samples [-].
     seed : int
         Seed of numpy's default generator [-].
+    chunk : int, optional
+        Samples re-flown at once [-] (default :data:`CHUNK`); None re-flies all at once.
+        The samples are drawn whole first, so every chunk size gives the same results, bit
+        for bit.
+    progress : callable, optional
+        Called as ``progress(done, total)`` [-, -] after each chunk (see
+        :func:`chunk_slices`).
 
     Returns
     -------
@@ -289,6 +334,19 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
         k = len(tol)
         wind_error = (wt.speed_sd * normal_ppf(u[:, k]),
                       wt.direction_sd * normal_ppf(u[:, k + 1]))
+    parts = []
+    for sl in chunk_slices(n, chunk, progress):
+        we = None if wind_error is None else (wind_error[0][sl], wind_error[1][sl])
+        parts.append(_refly_plan(plan, {k: v[sl] for k, v in factors.items()}, we,
+                                 sl.stop - sl.start))
+    store, used, time, required = (np.concatenate(col) for col in zip(*parts))
+    return PlanUncertainty(store, used, time, required, seed)
+
+
+def _refly_plan(plan, factors, wind_error, n):
+    """Fuel or energy at landing, used, time and reserve of ``n`` samples re-flying a plan."""
+    mission = plan.mission
+    af = mission.airframe
     af_s = sample_airframe(af, factors)
     fl = Flight(mission, af_s, wind_error, sample_shape=(n,))
     prof = mission.profile
@@ -321,7 +379,7 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0) -> PlanUncertainty:
                                plan.reserve.power_fraction,
                                plan.reserve.power_source or "plan").amount
     required = np.broadcast_to(np.asarray(required, dtype=float), (n,))
-    return PlanUncertainty(store, np.broadcast_to(used, (n,)), time, required, seed)
+    return (store, np.broadcast_to(used, (n,)), time, required)
 
 
 @dataclass(frozen=True)
@@ -395,7 +453,8 @@ class CruiseUncertainty:
 
 
 def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, seed=0,
-                       reserve=0.0) -> CruiseUncertainty:
+                       reserve=0.0, chunk: int | None = CHUNK,
+                       progress=None) -> CruiseUncertainty:
     """Range and endurance at one cruise point over ``n`` sampled airframes.
 
     Parameters
@@ -416,6 +475,12 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
         Seed of numpy's default generator [-].
     reserve : float
         Fuel or energy kept back [kg or J]; range and endurance use the rest.
+    chunk : int, optional
+        Samples flown at once [-] (default :data:`CHUNK`); None flies all at once. The
+        samples are drawn whole first, so every chunk size gives the same results, bit for
+        bit.
+    progress : callable, optional
+        Called as ``progress(done, total)`` [-, -] after each chunk.
 
     Returns
     -------
@@ -429,10 +494,16 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     """
     tol = dict(airframe.tolerances)
     factors = draw_factors(tol, unit_samples(n, len(tol), seed))
-    af_s = sample_airframe(airframe, factors)
-    usable = np.maximum(store * factors.get("battery_energy", 1.0) - reserve, 0.0)
-    # Every sample re-flies the nominal speed and counts, as before the unflyable
-    # figures became NaN (a NaN sample would make every quantile NaN).
-    pts = cruise_points(af_s, mass, air, tas + np.zeros(n), usable,
-                        ground_speed=ground_speed + np.zeros(n), keep_unflyable=True)
-    return CruiseUncertainty(pts.range_ground, pts.endurance, seed)
+    ranges, endurances = [], []
+    for sl in chunk_slices(n, chunk, progress):
+        part = {k: v[sl] for k, v in factors.items()}
+        m = sl.stop - sl.start
+        af_s = sample_airframe(airframe, part)
+        usable = np.maximum(store * part.get("battery_energy", 1.0) - reserve, 0.0)
+        # Every sample re-flies the nominal speed and counts, as before the unflyable
+        # figures became NaN (a NaN sample would make every quantile NaN).
+        pts = cruise_points(af_s, mass, air, tas + np.zeros(m), usable,
+                            ground_speed=ground_speed + np.zeros(m), keep_unflyable=True)
+        ranges.append(np.broadcast_to(pts.range_ground, (m,)))
+        endurances.append(np.broadcast_to(pts.endurance, (m,)))
+    return CruiseUncertainty(np.concatenate(ranges), np.concatenate(endurances), seed)

@@ -196,7 +196,7 @@ def card_figure(content) -> Figure:
 def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
                 payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
                 stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
-                seed: int = 0):
+                seed: int = 0, progress=None):
     """The cruise card as markdown and as a one-page figure.
 
     Parameters
@@ -222,6 +222,8 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
         Samples of the airframe's tolerances [-]: adds the spread of range and endurance.
     seed : int
         Seed of the Monte Carlo [-].
+    progress : callable, optional
+        Called as ``progress(done, total)`` [-, -] after each chunk of the Monte Carlo.
 
     Returns
     -------
@@ -244,5 +246,5 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
     content = card_content(airframe, altitudes=altitudes, power_settings=power_settings,
                            mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,
                            reserve=reserve, units=units, stall_margin=stall_margin,
-                           monte_carlo=monte_carlo, seed=seed)
+                           monte_carlo=monte_carlo, seed=seed, progress=progress)
     return content.markdown(), card_figure(content)

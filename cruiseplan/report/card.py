@@ -140,7 +140,7 @@ def _cell(value, fmt: str) -> str:
 def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
                  payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
                  stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
-                 seed: int = 0) -> CardContent:
+                 seed: int = 0, progress=None) -> CardContent:
     """Compute what the cruise card says.
 
     Parameters
@@ -168,6 +168,8 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         to the reserve at the best-range altitude and speed.
     seed : int
         Seed of the Monte Carlo [-].
+    progress : callable, optional
+        Called as ``progress(done, total)`` [-, -] after each chunk of the Monte Carlo.
 
     Returns
     -------
@@ -346,7 +348,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
     lines = (ceiling_line, reserve_line)
     if monte_carlo:
         lines += (_spread_line(airframe, table, store, amount, dev, h, units, stall_margin,
-                               monte_carlo, seed),)
+                               monte_carlo, seed, progress),)
     blocks = (cruise, speeds)
     if airframe.hovers:
         blocks += (_hover_block(airframe, best, store, amount, units, stall_margin),)
@@ -431,7 +433,8 @@ def _hover_block(airframe, best, store, reserve, units, stall_margin) -> CardTab
                      tuple(range(h.size)), notes)
 
 
-def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n, seed):
+def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n, seed,
+                 progress=None):
     """Monte Carlo spread of range and endurance to the reserve at the best-range point."""
     best = best_cruise(airframe, h, objective="range", mass=table.mass, fuel=store,
                        isa_dev=dev, stall_margin=stall_margin)
@@ -440,7 +443,8 @@ def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n
         return "Spread: no flyable altitude for best range."
     p = best.points
     u = cruise_uncertainty(airframe, p.mass, store, best.schedule.air.row(i),
-                           float(p.tas[i]), float(p.ground_speed[i]), n, seed, reserve)
+                           float(p.tas[i]), float(p.ground_speed[i]), n, seed, reserve,
+                           progress=progress)
     fa, la = display("altitude", units)
     fd, ld = display("distance", units)
     fs, ls = display("speed", units)
