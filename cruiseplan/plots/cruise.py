@@ -494,7 +494,15 @@ def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
     ax_sr.set_xlabel(f"ground specific range at best-{objective} TAS [{sr_label}]",
                      fontsize=9.5)
     ax_sr.tick_params(labelleft=False)
+    # Where specific range barely changes with altitude (drones over a few hundred metres),
+    # autoscaling zooms into noise and crowds offset tick labels: show at least +-5 %.
+    lo, hi = ax_sr.get_xlim()
+    mid, half = (lo + hi) / 2, (hi - lo) / 2
+    if np.isfinite(mid) and mid > 0 and half < 0.05 * mid:
+        ax_sr.set_xlim(mid * 0.95, mid * 1.05)
     for ax in (ax_v, ax_sr):
+        ax.xaxis.get_major_formatter().set_useOffset(False)
+        ax.xaxis.set_major_locator(MaxNLocator(nbins=6))
         ax.tick_params(labelsize=8.5)
         ax.grid(True, color="0.85", linewidth=0.6)
     handles = [Line2D([], [], color=OBJECTIVE_STYLES[o][0], marker=OBJECTIVE_STYLES[o][1],
