@@ -91,7 +91,7 @@ def cas_from_tas(tas, pressure, speed_of_sound):
     ----------
     .. [1] Anderson, *Introduction to Flight*, eqs. 4.72-4.77 (inverted).
     """
-    mach = np.asarray(tas, dtype=float) / speed_of_sound
+    mach = mach_from_tas(tas, speed_of_sound)
     qc = pressure * ((1.0 + 0.2 * mach**2) ** 3.5 - 1.0)
     return A0 * np.sqrt(5.0 * ((qc / P0 + 1.0) ** (2.0 / 7.0) - 1.0))
 
