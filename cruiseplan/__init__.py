@@ -15,60 +15,58 @@ Layers, from the bottom: units, constants, errors, limits and cautions; ``physic
 data); ``planning``; ``io`` (files in); ``report``; ``plots``; ``cli``.
 """
 
-from cruiseplan.cautions import CAUTION_LINE, CAUTIONS
-from cruiseplan.errors import (
-    AirframeFileError,
-    AtmosphereRangeError,
-    CruiseplanError,
-    CruiseplanWarning,
-    LogFileError,
-    MissionFileError,
-    UnitError,
-)
-from cruiseplan.io.airframe_file import bundled_airframes, load_airframe, read_airframe
-from cruiseplan.io.mission_file import (
-    apply_overrides,
-    bundled_missions,
-    load_mission,
-    read_mission,
-)
-from cruiseplan.io.text import parse_wind_profile
-from cruiseplan.kinds import KINDS, Airframe, FixedWing, LevelFlight, Loading, Multirotor
-from cruiseplan.limits import Limit, describe, explain
-from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
-from cruiseplan.model.survey import Survey
-from cruiseplan.physics.atmosphere import AirState, air_state, density_altitude
-from cruiseplan.physics.winds import WindProfile
-from cruiseplan.planning.mission import Plan, Segment, plan_mission
-from cruiseplan.planning.nogo import Remedies, what_would_make_it_go
-from cruiseplan.planning.optimise import (
-    BestCruise,
-    Climb,
-    best_angle_climb,
-    best_cruise,
-    best_rate_climb,
-    ceilings,
-)
-from cruiseplan.planning.performance import (
-    CruisePoints,
-    cruise_grid,
-    cruise_points,
-    power_setting_table,
-)
-from cruiseplan.planning.reserve import ReserveAmount, reserve_required
-from cruiseplan.planning.survey import SurveyPlan, plan_survey
+import importlib
+
 from cruiseplan.version import __version__
 
-__all__ = [
-    "KINDS", "Airframe", "AirframeFileError", "AirState", "AtmosphereRangeError",
-    "BestCruise", "CAUTIONS", "CAUTION_LINE", "CruisePoints", "CruiseplanError",
-    "CruiseplanWarning", "FixedWing", "Leg", "LevelFlight", "Limit", "Loading",
-    "LogFileError", "Mission", "MissionFileError", "Multirotor", "Plan", "Profile",
-    "Reserve", "Segment", "UnitError", "WindProfile", "__version__", "air_state",
-    "best_cruise", "bundled_airframes", "bundled_missions", "ceilings", "cruise_grid",
-    "cruise_points", "density_altitude", "describe", "explain", "load_airframe",
-    "load_mission", "parse_wind_profile", "plan_mission", "power_setting_table",
-    "read_airframe", "read_mission", "apply_overrides", "Remedies", "what_would_make_it_go",
-    "Climb", "best_angle_climb", "best_rate_climb", "ReserveAmount", "reserve_required",
-    "Survey", "SurveyPlan", "plan_survey",
-]
+#: The public API: each defining module and the names it gives. Names are imported when
+#: first used (PEP 562, as Scientific Python's SPEC 1 recommends), so that
+#: ``import cruiseplan`` and each command of the command line load only what they use.
+_PUBLIC = {
+    "cruiseplan.cautions": ("CAUTION_LINE", "CAUTIONS"),
+    "cruiseplan.errors": (
+        "AirframeFileError", "AtmosphereRangeError", "CruiseplanError", "CruiseplanWarning",
+        "LogFileError", "MissionFileError", "UnitError",
+    ),
+    "cruiseplan.io.airframe_file": ("bundled_airframes", "load_airframe", "read_airframe"),
+    "cruiseplan.io.mission_file": (
+        "apply_overrides", "bundled_missions", "load_mission", "read_mission",
+    ),
+    "cruiseplan.io.text": ("parse_wind_profile",),
+    "cruiseplan.kinds": (
+        "KINDS", "Airframe", "FixedWing", "LevelFlight", "Loading", "Multirotor",
+    ),
+    "cruiseplan.limits": ("Limit", "describe", "explain"),
+    "cruiseplan.model.mission": ("Leg", "Mission", "Profile", "Reserve"),
+    "cruiseplan.model.survey": ("Survey",),
+    "cruiseplan.physics.atmosphere": ("AirState", "air_state", "density_altitude"),
+    "cruiseplan.physics.winds": ("WindProfile",),
+    "cruiseplan.planning.mission": ("Plan", "Segment", "plan_mission"),
+    "cruiseplan.planning.nogo": ("Remedies", "what_would_make_it_go"),
+    "cruiseplan.planning.optimise": (
+        "BestCruise", "Climb", "best_angle_climb", "best_cruise", "best_rate_climb",
+        "ceilings",
+    ),
+    "cruiseplan.planning.performance": (
+        "CruisePoints", "cruise_grid", "cruise_points", "power_setting_table",
+    ),
+    "cruiseplan.planning.reserve": ("ReserveAmount", "reserve_required"),
+    "cruiseplan.planning.survey": ("SurveyPlan", "plan_survey"),
+}
+_API = {name: module for module, names in _PUBLIC.items() for name in names}
+
+__all__ = ["__version__", *sorted(_API)]
+
+
+def __getattr__(name):
+    try:
+        module = _API[name]
+    except KeyError:
+        raise AttributeError(f"module 'cruiseplan' has no attribute {name!r}") from None
+    value = getattr(importlib.import_module(module), name)
+    globals()[name] = value  # later look-ups skip this function
+    return value
+
+
+def __dir__():
+    return sorted(set(globals()) | set(_API))

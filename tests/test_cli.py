@@ -188,6 +188,33 @@ def test_module_runs_as_a_program():
     assert "demo-trainer" in res.stdout and res.stderr == ""
 
 
+def test_each_family_registers_the_commands_listed_for_it():
+    # The command -> family table decides which module a command imports; it must match
+    # what each family registers, or a command would be missing from its own parser.
+    from cruiseplan.cli import FAMILIES, build_parser
+    for family, commands in FAMILIES.items():
+        sub = build_parser(commands[0])._subparsers._group_actions[0]
+        assert tuple(sub.choices) == commands, family
+    assert tuple(build_parser()._subparsers._group_actions[0].choices) == tuple(
+        c for commands in FAMILIES.values() for c in commands)
+
+
+def test_a_command_imports_only_its_own_family():
+    # Start-up time: `table` does not load the mission planner, the log fit, the plots or
+    # pint's registry (the airframe's units are converted by the fast table).
+    code = ("import sys; from cruiseplan.cli import main; main(['table', 'demo-trainer']); "
+            "print(' '.join(sorted(sys.modules)), file=sys.stderr)")
+    res = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         timeout=60)
+    assert res.returncode == 0, res.stderr
+    loaded = set(res.stderr.split())
+    assert "cruiseplan.cli.tables" in loaded
+    for module in ("cruiseplan.cli.plan", "cruiseplan.cli.fit", "cruiseplan.cli.figures",
+                   "cruiseplan.io.mission_file", "cruiseplan.planning.fit",
+                   "cruiseplan.plots", "matplotlib", "pint"):
+        assert module not in loaded, module
+
+
 # --- bad input: status 2, one line on stderr, no traceback, no output file ---------------------
 
 BAD_CALLS = [

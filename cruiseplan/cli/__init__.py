@@ -9,13 +9,25 @@ commands that draw.
 
 from __future__ import annotations
 
+import importlib
 import os
 import sys
 import warnings
 
-from cruiseplan.cli import figures, fit, options, plan, tables
+from cruiseplan.cli import options
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.version import __version__
+
+#: Each command family (a module of this package with a ``register(sub)``) and the commands
+#: it registers, in the order of the help. A command imports only its own family, so that
+#: ``cruiseplan table`` does not load the mission planner, the log fit or the card.
+FAMILIES = {
+    "tables": ("airframes", "atmosphere", "table", "best"),
+    "plan": ("plan",),
+    "figures": ("plot", "card"),
+    "fit": ("fit",),
+}
+FAMILY_OF = {command: family for family, commands in FAMILIES.items() for command in commands}
 
 #: Exit status for bad input.
 EXIT_BAD_INPUT = 2
@@ -23,13 +35,19 @@ EXIT_BAD_INPUT = 2
 EXIT_INTERRUPTED = 130
 
 
-def build_parser() -> options.Parser:
+def build_parser(command: str | None = None) -> options.Parser:
     """The argument parser of the ``cruiseplan`` command.
+
+    Parameters
+    ----------
+    command : str, optional
+        The command about to run: only its family is imported and registered. None (or an
+        unknown name, which the parser then reports) registers every family.
 
     Returns
     -------
     argparse.ArgumentParser
-        With one subcommand per command family's ``register``.
+        With the subcommands of each registered family.
     """
     parser = options.Parser(
         prog="cruiseplan",
@@ -39,8 +57,9 @@ def build_parser() -> options.Parser:
     parser.add_argument("--version", action="version", version=f"cruiseplan {__version__}",
                         help="print the version and exit")
     sub = parser.add_subparsers(dest="command", required=True, parser_class=options.Parser)
-    for family in (tables, plan, figures, fit):
-        family.register(sub)
+    families = [FAMILY_OF[command]] if command in FAMILY_OF else list(FAMILIES)
+    for family in families:
+        importlib.import_module(f"cruiseplan.cli.{family}").register(sub)
     return parser
 
 
@@ -68,7 +87,11 @@ def main(argv=None) -> int:
     # process, not on importing the plotting module (which would change a notebook's).
     os.environ.setdefault("MPLBACKEND", "Agg")
     try:
-        args = build_parser().parse_args(argv)
+        argv = sys.argv[1:] if argv is None else list(argv)
+        # The top-level options (--help, --version) take no value, so the first word that
+        # is not an option names the command.
+        command = next((a for a in argv if not a.startswith("-")), None)
+        args = build_parser(command).parse_args(argv)
         args.run(args)
     except (CruiseplanError, OSError) as exc:
         if isinstance(exc, BrokenPipeError):  # pragma: no cover - e.g. piped into head

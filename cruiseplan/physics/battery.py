@@ -81,8 +81,10 @@ REFERENCE_CELSIUS = 25.0
 #: Least share of the store a discharge is counted to deliver [-]: where a pack cannot
 #: give a power at all its mean rate is the power over this, huge but finite and rising.
 MIN_SHARE = 1e-12
-#: Gauss-Legendre nodes and weights on [-1, 1] for the resistive loss of a discharge.
-_GAUSS_X, _GAUSS_W = np.polynomial.legendre.leggauss(3)
+#: Three-point Gauss-Legendre nodes and weights on [-1, 1] for the resistive loss of a
+#: discharge (the closed form; numpy.polynomial's leggauss(3) gives the same to 1 ulp).
+_GAUSS_X = np.array([-np.sqrt(0.6), 0.0, np.sqrt(0.6)])
+_GAUSS_W = np.array([5.0, 8.0, 5.0]) / 9.0
 
 
 @dataclass(frozen=True)
