@@ -26,6 +26,10 @@ class MissionFileError(CruiseplanError):
     """A mission file is malformed."""
 
 
+class StudyFileError(CruiseplanError):
+    """A study file (a sweep's axes and records) is missing, unreadable or invalid."""
+
+
 class LogFileError(CruiseplanError):
     """A flight-log file is malformed."""
 

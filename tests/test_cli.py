@@ -287,7 +287,8 @@ def test_bad_call(capsys, tmp_path, argv, message):
 COMMANDS = {"airframes": [], "atmosphere": [], "table": ["demo-trainer"],
             "best": ["demo-trainer"], "plan": ["demo-survey-run"],
             "plot": ["demo-trainer", "-o", "x.png"], "card": ["demo-trainer", "-o", "x.pdf"],
-            "fit": ["log.csv", "--airframe", "demo-trainer"]}
+            "fit": ["log.csv", "--airframe", "demo-trainer"],
+            "sweep": ["demo-hot-day-loads", "-o", "x.zarr"]}
 
 
 @pytest.mark.parametrize("command", sorted(COMMANDS))

@@ -4,8 +4,9 @@ Read from the source with ``ast`` (nothing is imported), so a new import that br
 architecture fails here with the module and the line.
 
 Layers, bottom to top: base (units, constants, errors, limits, cautions, amounts, version,
-numerics, frames) < physics < kinds < model < planning < report < plots < cli, with io (files in)
-beside planning: io may use the base, physics, kinds and model, never planning or report.
+numerics, frames) < physics < kinds < model < planning < studies < report < plots < cli, with io
+(files in) beside planning: io may use the base, physics, kinds and model, never planning or
+report; studies (sweeps of many plans) use both planning and io.
 """
 
 from __future__ import annotations
@@ -29,17 +30,20 @@ ALLOWED = {
     "model": {"base", "physics", "kinds"},
     "planning": {"base", "physics", "kinds", "model"},
     "io": {"base", "physics", "kinds", "model"},
-    "report": {"base", "physics", "kinds", "model", "planning", "io"},
-    "plots": {"base", "physics", "kinds", "model", "planning", "io", "report"},
-    "cli": {"base", "physics", "kinds", "model", "planning", "io", "report", "plots"},
+    "studies": {"base", "physics", "kinds", "model", "planning", "io"},
+    "report": {"base", "physics", "kinds", "model", "planning", "io", "studies"},
+    "plots": {"base", "physics", "kinds", "model", "planning", "io", "report", "studies"},
+    "cli": {"base", "physics", "kinds", "model", "planning", "io", "report", "plots",
+            "studies"},
 }
 #: Heavy packages a module may import inside a function, so that importing the package or
 #: running a command that does not need them stays quick. cruiseplan.plots carries
 #: matplotlib, so it counts as heavy too; cruiseplan.frames carries pandas and xarray (the
 #: optional "frames" extra), imported by the result classes' to_xarray/to_dataframe only.
 #: tqdm draws the command line's progress bars (cli/progress.py), only on a terminal.
+#: dask, distributed and zarr run studies (the "sweeps" extra), imported when one runs.
 LAZY_OK = ("matplotlib", "scipy", "pint", "ambiance", "cruiseplan.plots", "cruiseplan.frames",
-           "pandas", "xarray", "tqdm")
+           "pandas", "xarray", "tqdm", "dask", "distributed", "zarr")
 
 
 def module_name(path: Path) -> str:

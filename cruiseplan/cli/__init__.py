@@ -26,6 +26,7 @@ FAMILIES = {
     "plan": ("plan",),
     "figures": ("plot", "card"),
     "fit": ("fit",),
+    "sweep": ("sweep",),
 }
 FAMILY_OF = {command: family for family, commands in FAMILIES.items() for command in commands}
 

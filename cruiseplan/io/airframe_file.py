@@ -11,6 +11,7 @@ layout of a file.
 
 from __future__ import annotations
 
+import copy
 import hashlib
 import math
 from dataclasses import dataclass, replace
@@ -452,18 +453,24 @@ def _propulsion(r: SchemaReader, airframe_kind: str):
     return reader.build(r, sec, r.values("propulsion", fields))
 
 
-def read_airframe(path) -> Airframe:
-    """Read and validate an airframe file.
+def read_airframe(path, overrides=None) -> Airframe:
+    """Read and validate an airframe file, optionally with some of its fields replaced.
 
     Parameters
     ----------
     path : str or pathlib.Path
         A TOML airframe file.
+    overrides : dict, optional
+        Fields replaced before the file is validated, by dotted path to a field of an
+        existing table (``{"polar.cd0": 0.031, "propulsion.fuel_capacity": "90 L"}``);
+        values as the file would hold them (numbers, or strings with units). A study's
+        airframe axes use this, so an override is read exactly as the file would be.
 
     Returns
     -------
     Airframe
-        The airframe in SI units, with the file path and its SHA-256.
+        The airframe in SI units, with the file path and its SHA-256 (of the file as
+        written; ``overrides`` are then listed in its ``source``).
 
     Raises
     ------
@@ -472,7 +479,27 @@ def read_airframe(path) -> Airframe:
     """
     path = Path(path)
     data, checksum = read_toml(path, AirframeFileError)
-    return _airframe(SchemaReader(path, data, AirframeFileError), path, checksum)
+    source = path
+    if overrides:
+        data = _with_overrides(path, data, overrides)
+        source = Path(f"{path} with " + ", ".join(f"{k} = {v!r}" for k, v in
+                                                   overrides.items()))
+    return _airframe(SchemaReader(source, data, AirframeFileError), path, checksum)
+
+
+def _with_overrides(path, data: dict, overrides: dict) -> dict:
+    """A copy of the file's tables with fields replaced by dotted path."""
+    data = copy.deepcopy(data)
+    for dotted, value in overrides.items():
+        *tables, key = str(dotted).split(".")
+        table = data
+        for name in tables:
+            table = table.get(name) if isinstance(table, dict) else None
+        if not tables or not isinstance(table, dict) or not key:
+            raise AirframeFileError(f"{path}: override {dotted!r}: expected TABLE.FIELD of a "
+                                    f"table in the file ({', '.join(sorted(data))})")
+        table[key] = value
+    return data
 
 
 def read_airframe_text(text: str, source: str = "airframe text") -> Airframe:

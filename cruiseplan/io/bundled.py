@@ -1,16 +1,16 @@
-"""The bundled airframe and mission files: where they are and how a name finds one.
+"""The bundled airframe, mission and study files: where they are and how a name finds one.
 
-The repository's top-level ``airframes/`` and ``missions/`` folders are the source. A wheel
-or sdist carries them inside the package as ``cruiseplan/_bundled/airframes`` and
-``cruiseplan/_bundled/missions`` (see ``pyproject.toml``), which are searched first; a
-source checkout or editable install reads the repository folders.
+The repository's top-level ``airframes/``, ``missions/`` and ``studies/`` folders are the
+source. A wheel or sdist carries them inside the package as ``cruiseplan/_bundled/airframes``
+(and ``missions``, ``studies``; see ``pyproject.toml``), which are searched first; a source
+checkout or editable install reads the repository folders.
 """
 
 from __future__ import annotations
 
 from pathlib import Path
 
-from cruiseplan.errors import AirframeFileError, MissionFileError, lookup
+from cruiseplan.errors import AirframeFileError, MissionFileError, StudyFileError, lookup
 
 _PACKAGE_DIR = Path(__file__).resolve().parent.parent
 
@@ -18,8 +18,10 @@ _PACKAGE_DIR = Path(__file__).resolve().parent.parent
 BUNDLED_DIRS = {
     "airframe": (_PACKAGE_DIR / "_bundled" / "airframes", _PACKAGE_DIR.parent / "airframes"),
     "mission": (_PACKAGE_DIR / "_bundled" / "missions", _PACKAGE_DIR.parent / "missions"),
+    "study": (_PACKAGE_DIR / "_bundled" / "studies", _PACKAGE_DIR.parent / "studies"),
 }
-_ERRORS = {"airframe": AirframeFileError, "mission": MissionFileError}
+_ERRORS = {"airframe": AirframeFileError, "mission": MissionFileError,
+           "study": StudyFileError}
 
 
 def bundled_files(kind: str) -> dict:
@@ -27,7 +29,7 @@ def bundled_files(kind: str) -> dict:
 
     Parameters
     ----------
-    kind : {"airframe", "mission"}
+    kind : {"airframe", "mission", "study"}
         Which files.
 
     Returns
@@ -48,7 +50,7 @@ def find_file(name_or_path, kind: str) -> Path:
     ----------
     name_or_path : str or pathlib.Path
         ``"demo-trainer"`` or ``"my/plane.toml"``.
-    kind : {"airframe", "mission"}
+    kind : {"airframe", "mission", "study"}
         Which kind of file.
 
     Returns

@@ -490,7 +490,7 @@ def _wind_words(profile) -> str:
                     for h, d, v in zip(profile.altitudes, profile.directions, profile.speeds))
 
 
-def read_mission(path, *, altimeter=None, wind=None) -> Mission:
+def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
     """Read and validate a mission file.
 
     Parameters
@@ -503,6 +503,9 @@ def read_mission(path, *, altimeter=None, wind=None) -> Mission:
     wind : WindProfile, optional
         Winds aloft that replace every leg's (and the alternate's); the legs' courses are
         still required.
+    airframe : Airframe, optional
+        The airframe flown instead of the one the file names (e.g. read with overrides):
+        the file's fuel or battery amounts are read against it.
 
     Returns
     -------
@@ -526,7 +529,7 @@ def read_mission(path, *, altimeter=None, wind=None) -> Mission:
     name_or_path = str(head["airframe"])
     local = path.parent / name_or_path
     try:
-        af = read_airframe(local if local.is_file() else find_airframe(name_or_path))
+        af = airframe or read_airframe(local if local.is_file() else find_airframe(name_or_path))
     except AirframeFileError as exc:
         r.fail("[mission] airframe", str(exc))
     prop = af.propulsion
@@ -698,7 +701,7 @@ def bundled_missions() -> dict:
     return bundled_files("mission")
 
 
-def load_mission(name_or_path, *, altimeter=None, wind=None) -> Mission:
+def load_mission(name_or_path, *, altimeter=None, wind=None, airframe=None) -> Mission:
     """Load a bundled mission by name, or a mission file by path.
 
     Parameters
@@ -709,13 +712,16 @@ def load_mission(name_or_path, *, altimeter=None, wind=None) -> Mission:
         QNH that replaces the file's (``"1009 hPa"``, ``"29.80 inHg"`` or [Pa]).
     wind : WindProfile, optional
         Winds aloft that replace every leg's.
+    airframe : Airframe, optional
+        The airframe flown instead of the one the file names.
 
     Returns
     -------
     Mission
         The validated mission.
     """
-    return read_mission(find_file(name_or_path, "mission"), altimeter=altimeter, wind=wind)
+    return read_mission(find_file(name_or_path, "mission"), altimeter=altimeter, wind=wind,
+                        airframe=airframe)
 
 
 #: The what-if overrides of :func:`apply_overrides`, in the order the plan lists them.
@@ -732,7 +738,7 @@ def _reread(mission, qnh, profile, names):
                 f"{names[key]}: the mission already has what-if overrides "
                 f"({', '.join(mission.overrides)}); an altimeter or wind override reads "
                 "the mission file again, so give every override in one call")
-        return read_mission(source, altimeter=qnh, wind=profile)
+        return read_mission(source, altimeter=qnh, wind=profile, airframe=mission.airframe)
     if qnh is not None:
         raise CruiseplanError(f"{names['altimeter']}: the mission has no file to read its "
                               "elevations and altitudes again on a new altimeter setting")

@@ -1,0 +1,320 @@
+"""Studies: every point of a sweep equals the single plan, stores resume, bad files exit 2."""
+
+from __future__ import annotations
+
+import os
+import signal
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+pytest.importorskip("dask")
+pytest.importorskip("zarr")
+xr = pytest.importorskip("xarray")
+
+from cruiseplan.cli import main  # noqa: E402
+from cruiseplan.io.airframe_file import find_airframe, read_airframe  # noqa: E402
+from cruiseplan.io.mission_file import apply_overrides, load_mission, read_mission  # noqa: E402
+from cruiseplan.io.study_file import read_study  # noqa: E402
+from cruiseplan.model.study import GO, NO_GO, NOT_RUN  # noqa: E402
+from cruiseplan.physics.winds import WindProfile  # noqa: E402
+from cruiseplan.planning.mission import plan_mission  # noqa: E402
+from cruiseplan.planning.optimise import best_cruise  # noqa: E402
+from cruiseplan.studies import run_study  # noqa: E402
+
+MISSION_STUDY = """
+[study]
+name = "small"
+mission = "demo-cross-country"
+chunk = 2
+
+[axes]
+isa_dev = ["0 K", "25 K"]
+payload = ["120 kg", "200 kg"]
+fuel = ["60 %", "100 %"]
+wind_direction = [40]
+wind_speed = ["0 kt", "25 kt"]
+"""
+
+RECORDS = ("verdict", "used", "remaining", "reserve_required", "reserve_margin", "time",
+           "leg_altitude", "leg_tas")
+
+
+def write(tmp_path, text, name="study.toml"):
+    path = tmp_path / name
+    path.write_text(text)
+    return path
+
+
+def single_plan(isa_dev, payload, fuel, wind_dir, wind_speed):
+    """The plan `cruiseplan plan demo-cross-country --isa-dev ... --wind ...` makes."""
+    wind = WindProfile(altitudes=(0.0,), directions=(wind_dir,), speeds=(wind_speed,))
+    mission = apply_overrides(load_mission("demo-cross-country"), isa_dev=isa_dev,
+                              payload=payload, fuel=f"{fuel!r} %", wind=wind)
+    return plan_mission(mission)
+
+
+def assert_points_equal_single_plans(ds):
+    assert ds.attrs["complete"]
+    for idx in np.ndindex(*ds["verdict"].shape):
+        sel = dict(zip(ds["verdict"].dims, idx))
+        point = {d: float(ds[d].values[i]) for d, i in sel.items()}
+        plan = single_plan(point["isa_dev"], point["payload"], point["fuel"],
+                           point["wind_direction"], point["wind_speed"])
+        got = {name: ds[name].isel(sel).values for name in RECORDS}
+        assert got["verdict"] == (GO if plan.go else NO_GO)
+        # Bit for bit: == on floats, not approx.
+        assert got["used"] == plan.used and got["remaining"] == plan.remaining
+        assert got["reserve_required"] == plan.reserve_required
+        assert got["reserve_margin"] == plan.remaining - plan.reserve_required
+        assert got["time"] == plan.time
+        assert list(got["leg_altitude"]) == list(plan.leg_altitudes)
+        assert list(got["leg_tas"]) == list(plan.leg_speeds)
+
+
+def test_sweep_points_equal_single_plans_on_local_processes(tmp_path):
+    study = read_study(write(tmp_path, MISSION_STUDY))
+    assert study.shape == (2, 2, 2, 1, 2) and study.block_shape() == (1, 1, 1, 1, 2)
+    ds = run_study(study, tmp_path / "out.zarr", workers=2)
+    verdicts = set(np.unique(ds["verdict"].values))
+    assert verdicts == {GO, NO_GO}, "the sweep should hold both verdicts"
+    assert_points_equal_single_plans(ds.load())
+    # The store reads back as the same Dataset with units on every record.
+    again = xr.open_zarr(tmp_path / "out.zarr", consolidated=False)
+    for name in RECORDS:
+        assert "units" in again[name].attrs and "long_name" in again[name].attrs
+    assert again["verdict"].attrs["flag_meanings"].split() == [
+        "not-run", "NO-GO", "GO", "not-planned:bad-input"]
+
+
+def test_sweep_points_equal_single_plans_on_a_distributed_cluster(tmp_path):
+    distributed = pytest.importorskip("distributed")
+    study = read_study(write(tmp_path, MISSION_STUDY))
+    with distributed.LocalCluster(n_workers=2, threads_per_worker=1, processes=True,
+                                  host="127.0.0.1", dashboard_address=None) as cluster, \
+            distributed.Client(cluster) as client:
+        assert len(client.scheduler_info()["workers"]) == 2
+        ds = run_study(study, tmp_path / "out.zarr", client=client)
+        assert_points_equal_single_plans(ds.load())
+        # In memory, without a store, on the same cluster.
+        mem = run_study(study, client=client)
+    assert_points_equal_single_plans(mem)
+
+
+def test_in_memory_run_equals_the_store(tmp_path):
+    study = read_study(write(tmp_path, MISSION_STUDY))
+    mem = run_study(study, workers=1)
+    stored = run_study(study, tmp_path / "out.zarr", workers=1).load()
+    for name in RECORDS:
+        np.testing.assert_array_equal(mem[name].values, stored[name].values)
+
+
+def test_airframe_field_axis_equals_the_edited_airframe_file(tmp_path):
+    study = read_study(write(tmp_path, """
+[study]
+mission = "demo-cross-country"
+record = ["verdict", "used"]
+[axes]
+"airframe.polar.cd0" = [0.030, 0.042]
+"airframe.propulsion.fuel_capacity" = ["90 L", "110 L"]
+"""))
+    ds = run_study(study, workers=1)
+    text = find_airframe("demo-trainer").read_text()
+    for i, cd0 in enumerate((0.030, 0.042)):
+        for j, cap in enumerate(("90 L", "110 L")):
+            edited = text.replace("cd0 = 0.036", f"cd0 = {cd0!r}").replace(
+                'fuel_capacity = "100 L"', f'fuel_capacity = "{cap}"')
+            assert edited != text
+            af_file = write(tmp_path, edited, "af.toml")
+            mission = read_mission(load_mission("demo-cross-country").source,
+                                   airframe=read_airframe(af_file))
+            assert ds["used"].values[i, j] == plan_mission(mission).used
+    # The fuel "100 %" of the mission follows the capacity: more fuel, more used.
+    assert ds["used"].values[0, 1] > ds["used"].values[0, 0]
+
+
+def test_airframe_study_equals_best_cruise(tmp_path):
+    study = read_study(write(tmp_path, """
+[study]
+airframe = "demo-trainer"
+[axes]
+isa_dev = ["0 K", "20 K"]
+payload = ["100 kg", "160 kg"]
+[best]
+altitudes = "0:10000:2000 ft"
+objective = "range"
+"""))
+    ds = run_study(study, workers=1)
+    af = read_airframe(find_airframe("demo-trainer"))
+    for i, dev in enumerate((0.0, 20.0)):
+        for j, payload in enumerate((100.0, 160.0)):
+            b = best_cruise(af, np.asarray(study.altitudes), isa_dev=dev,
+                            payload=payload).best()
+            assert ds["best_altitude"].values[i, j] == b["altitude"]
+            assert ds["best_tas"].values[i, j] == b["tas"]
+            assert ds["range"].values[i, j] == b["range_ground"]
+            assert ds["best_value"].attrs["units"] == "m"
+
+
+def test_a_point_that_is_bad_input_is_marked_not_planned(tmp_path):
+    # 95 L fits the 110 L tank but not the 90 L one: bad input only in combination.
+    study = read_study(write(tmp_path, """
+[study]
+mission = "demo-cross-country"
+record = ["verdict", "used"]
+[axes]
+"airframe.propulsion.fuel_capacity" = ["90 L", "110 L"]
+fuel = ["95 L"]
+"""))
+    ds = run_study(study, workers=1)
+    assert ds["verdict"].values[0, 0] == 2 and np.isnan(ds["used"].values[0, 0])
+    assert ds["verdict"].values[1, 0] in (GO, NO_GO) and ds["used"].values[1, 0] > 0
+
+
+def test_a_value_bad_on_its_own_stops_the_study_before_anything_runs(tmp_path, capsys):
+    study_file = write(tmp_path, """
+[study]
+mission = "demo-cross-country"
+[axes]
+fuel = ["50 L", "500 L"]
+""")
+    out = tmp_path / "out.zarr"
+    assert main(["sweep", str(study_file), "-o", str(out)]) == 2
+    err = capsys.readouterr().err
+    assert "[axes] fuel: '500 L'" in err and not out.exists()
+    bad_field = write(tmp_path, """
+[study]
+mission = "demo-cross-country"
+[axes]
+"airframe.polar.cd0" = [0.03, -1.0]
+""", "field.toml")
+    assert main(["sweep", str(bad_field), "-o", str(out)]) == 2
+    err = capsys.readouterr().err
+    assert "[axes] airframe.polar.cd0: -1.0" in err and "cd0" in err and not out.exists()
+
+
+# --- the command line: interrupt, resume, bad input --------------------------------------
+
+SLOW_STUDY = """
+[study]
+name = "slow"
+mission = "demo-cross-country"
+record = ["verdict", "used", "time", "leg_altitude"]
+chunk = 1
+
+[axes]
+isa_dev = "0:15:1 K"
+"""
+
+
+def _done(store: Path) -> int:
+    import zarr
+
+    try:
+        return int(np.asarray(zarr.open_group(str(store), mode="r")["chunk_done"][...]).sum())
+    except Exception:  # the store is still being made
+        return 0
+
+
+def test_interrupted_sweep_resumes_to_the_same_store(tmp_path):
+    study_file = write(tmp_path, SLOW_STUDY)
+    whole = tmp_path / "whole.zarr"
+    assert main(["sweep", str(study_file), "-o", str(whole), "--workers", "1"]) == 0
+    cut = tmp_path / "cut.zarr"
+    proc = subprocess.Popen([sys.executable, "-m", "cruiseplan", "sweep", str(study_file),
+                             "-o", str(cut), "--workers", "1"],
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+    deadline = time.monotonic() + 60
+    while _done(cut) < 3 and proc.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.02)
+    assert proc.poll() is None, "the sweep finished before it could be interrupted"
+    os.kill(proc.pid, signal.SIGKILL)  # as hard as a crash: no clean-up at all
+    proc.wait(timeout=30)
+    partial = xr.open_zarr(cut, consolidated=False)
+    n_done = int(partial["chunk_done"].values.sum())
+    assert 3 <= n_done < 16 and not partial.attrs["complete"]
+    assert (partial["verdict"].values == NOT_RUN).sum() >= 16 - n_done
+    status = subprocess.run([sys.executable, "-m", "cruiseplan", "sweep", str(study_file),
+                             "-o", str(cut), "--resume", "--workers", "1"],
+                            capture_output=True, text=True, timeout=120)
+    assert status.returncode == 0, status.stderr
+    a = xr.open_zarr(whole, consolidated=False).load()
+    b = xr.open_zarr(cut, consolidated=False).load()
+    assert b.attrs["complete"]
+    for name in ("verdict", "used", "time", "leg_altitude", "chunk_done"):
+        np.testing.assert_array_equal(a[name].values, b[name].values)
+
+
+def test_ctrl_c_says_how_to_resume(tmp_path):
+    study_file = write(tmp_path, SLOW_STUDY)
+    cut = tmp_path / "cut.zarr"
+    proc = subprocess.Popen([sys.executable, "-m", "cruiseplan", "sweep", str(study_file),
+                             "-o", str(cut), "--workers", "1"],
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    deadline = time.monotonic() + 60
+    while _done(cut) < 1 and proc.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.02)
+    proc.send_signal(signal.SIGINT)
+    _, err = proc.communicate(timeout=60)
+    assert proc.returncode == 130, err
+    assert "--resume" in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("text, message", [
+    ("[study]\nmission = 'demo-cross-country'\n", r"\[axes\]: section missing"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\naltitude = [1]\n",
+     r"\[axes\] altitude: unknown axis for a mission study"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\nisa_dev = ['0 K', 'hot']\n",
+     r"\[axes\] isa_dev: .*'hot'"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\nisa_dev = ['nan K']\n",
+     r"\[axes\] isa_dev: .*(finite|nan)"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\npayload = ['10 kg', '10 kg']\n",
+     r"values repeat"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\nwind_speed = ['10 kt']\n",
+     r"wind_speed and wind_direction go together"),
+    ("[study]\nmission = 'demo-cross-country'\nrecord = ['best_tas']\n[axes]\n"
+     "payload = ['10 kg']\n", r"'best_tas' is not recorded by a mission study"),
+    ("[study]\nmission = 'demo-cross-country'\nrecord = ['reserve_probability']\n[axes]\n"
+     "payload = ['10 kg']\n", r"needs Monte Carlo samples"),
+    ("[study]\nmission = 'no-such-mission'\n[axes]\npayload = ['10 kg']\n",
+     r"no such mission file"),
+    ("[study]\nairframe = 'demo-trainer'\n[axes]\npayload = ['10 kg']\n",
+     r"\[best\]: section missing"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\nisa_dev = '0:1e9:1 K'\n",
+     r"isa_dev"),
+    ("[study\n", r"study\.toml"),
+])
+def test_bad_study_files_exit_2_and_write_nothing(tmp_path, capsys, text, message):
+    import re
+
+    study_file = write(tmp_path, text)
+    out = tmp_path / "out.zarr"
+    assert main(["sweep", str(study_file), "-o", str(out)]) == 2
+    err = capsys.readouterr().err
+    assert len(err.strip().splitlines()) == 1 and "Traceback" not in err
+    assert re.search(message, err), err
+    assert not out.exists()
+
+
+def test_an_existing_store_is_never_overwritten_and_only_its_own_study_resumes(
+        tmp_path, capsys):
+    study_file = write(tmp_path, MISSION_STUDY.replace("chunk = 2", "chunk = 16"))
+    out = tmp_path / "out.zarr"
+    assert main(["sweep", str(study_file), "-o", str(out), "--workers", "1"]) == 0
+    before = sorted(p.name for p in out.rglob("*"))
+    assert main(["sweep", str(study_file), "-o", str(out)]) == 2
+    assert "exists: --resume completes it" in capsys.readouterr().err
+    other = write(tmp_path, MISSION_STUDY.replace("25 K", "20 K"), "other.toml")
+    assert main(["sweep", str(other), "-o", str(out), "--resume"]) == 2
+    assert "made from another study" in capsys.readouterr().err
+    assert sorted(p.name for p in out.rglob("*")) == before
+    not_a_store = tmp_path / "plain.zarr"
+    not_a_store.mkdir()
+    assert main(["sweep", str(study_file), "-o", str(not_a_store), "--resume"]) == 2
+    assert "not a study store" in capsys.readouterr().err
+    # A resume of a complete store has nothing to do and succeeds.
+    assert main(["sweep", str(study_file), "-o", str(out), "--resume"]) == 0
