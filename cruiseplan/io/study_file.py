@@ -6,7 +6,7 @@ A study file is TOML, with units written as strings, like the airframe and missi
     name = "hot-day-loads"
     mission = "demo-cross-country"     # or: airframe = "demo-trainer" (best cruise)
     record = ["verdict", "used", "reserve_margin", "time", "leg_altitude"]
-    chunk = 16                         # points per chunk (work, progress, --resume)
+    chunk = 16                         # points per chunk (default: about 1000 chunks)
 
     [axes]                             # in this order: the Dataset's dimensions
     isa_dev = "-10:30:10 K"            # a range start:stop:step, or a list
@@ -248,10 +248,29 @@ def read_study(path) -> Study:
     return Study(name=str(head.get("name", path.stem)),
                  description=str(head.get("description", "")), kind=kind, base=str(base),
                  axes=tuple(axes), records=tuple(records),
-                 chunk=_integer(r, head, "chunk", 16, 1, 1_000_000),
+                 chunk=_integer(r, head, "chunk", auto_chunk(size), 1, 1_000_000),
                  monte_carlo=monte_carlo, seed=_integer(r, head, "seed", 0, 0, 2**63 - 1),
                  altitudes=altitudes, objective=objective, forecast=None,
                  source=str(path), checksum=checksum)
+
+
+def auto_chunk(size: int) -> int:
+    """Points per chunk when the file gives none: about a thousand chunks, 16 to 4096 each.
+
+    A chunk is the unit of work, of progress and of ``--resume``; a thousand of them keep
+    a store's files few and each chunk's loss on a crash small.
+
+    Parameters
+    ----------
+    size : int
+        Points in the study [-].
+
+    Returns
+    -------
+    int
+        Points per chunk [-].
+    """
+    return max(16, min(4096, -(-size // 1000)))
 
 
 def _integer(r: SchemaReader, table: dict, key: str, default: int, lo: int, hi: int) -> int:

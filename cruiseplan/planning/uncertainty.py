@@ -51,7 +51,7 @@ def _store_unit(store_name):
 QUANTILES = (0.10, 0.50, 0.90)
 #: Samples re-flown at once by default [-]: bounds the memory of a large run and lets a
 #: caller show progress between chunks.
-CHUNK = 50_000
+CHUNK = 20_000
 
 
 def chunk_slices(n: int, chunk: int | None = CHUNK, progress=None):

@@ -21,6 +21,7 @@ saying whether every chunk is in.
 from __future__ import annotations
 
 import functools
+import itertools
 import os
 import warnings
 from pathlib import Path
@@ -406,7 +407,28 @@ def _open_existing(study: Study, store: Path):
     return group, done
 
 
-def _create(study: Study, store: Path):
+def create_store(study: Study, store: Path):
+    """Make a new store for ``study``: every point not run, every chunk not done.
+
+    Parameters
+    ----------
+    study : Study
+        The study.
+    store : pathlib.Path
+        The zarr store to make; it must not exist.
+
+    Returns
+    -------
+    zarr.Group
+        The store, open for writing.
+    numpy.ndarray
+        Chunks done (all False), over the chunk grid.
+
+    Raises
+    ------
+    CruiseplanError
+        If ``store`` exists or its folder does not.
+    """
     if store.exists():
         raise CruiseplanError(f"{store} exists: --resume completes it, or choose another "
                               "path (nothing is overwritten)")
@@ -466,7 +488,7 @@ def run_study(study: Study, store=None, *, resume: bool = False, client=None,
     elif resume:
         raise CruiseplanError("--resume needs the store to complete (-o OUT.zarr)")
     elif path is not None:
-        group, done = _create(study, path)
+        group, done = create_store(study, path)
     else:
         group, done = None, np.zeros(study.blocks(), dtype=bool)
     todo = [ix for ix in study.all_blocks() if not done[ix]]
@@ -489,63 +511,61 @@ def _execute(study, todo, store, client, scheduler, workers, progress, total):
     """Run chunks ``todo``; return [(index, arrays or None)] as they finish."""
     if not todo:
         return []
-    if client is None and scheduler is not None:
-        from distributed import Client
+    if client is not None:
+        return _on_cluster(client, study, todo, store, progress, total)
+    from distributed import Client, LocalCluster
 
+    if scheduler is not None:
         try:
             client = Client(scheduler, timeout="10s")
         except (OSError, TimeoutError) as exc:
             raise CruiseplanError(f"--scheduler {scheduler}: cannot connect ({exc})") from None
-        try:
+        with client:
             return _on_cluster(client, study, todo, store, progress, total)
-        finally:
-            client.close()
-    if client is not None:
-        return _on_cluster(client, study, todo, store, progress, total)
     workers = (os.cpu_count() or 1) if workers is None else workers
     if workers <= 1 or len(todo) == 1:
+        # One process: no cluster to start; the same run_block, in order.
         out = []
         for k, index in enumerate(todo, 1):
             out.append(run_block(study, index, store))
             if progress is not None:
                 progress(k, total)
         return out
-    return _local_processes(study, todo, store, workers, progress, total)
+    # dask's local cluster: one single-threaded worker process per core (planning is
+    # Python-bound, so threads would share one core), on loopback only.
+    with LocalCluster(n_workers=min(workers, len(todo)), threads_per_worker=1,
+                      processes=True, host="127.0.0.1", dashboard_address=None,
+                      silence_logs=40) as cluster, Client(cluster) as client:
+        return _on_cluster(client, study, todo, store, progress, total)
+
+
+#: Chunks in flight per worker: enough to keep each busy, few enough that the driver's
+#: memory does not grow with the number of chunks in the study.
+IN_FLIGHT_PER_WORKER = 2
 
 
 def _on_cluster(client, study, todo, store, progress, total):
+    """Run chunks on a dask.distributed cluster, a bounded number in flight at a time."""
     from distributed import as_completed
 
-    futures = [client.submit(run_block, study, index, store, pure=False) for index in todo]
+    n_workers = max(1, len(client.scheduler_info().get("workers", {})))
+    window = IN_FLIGHT_PER_WORKER * n_workers
+    pending = iter(todo)
+    study_future = client.scatter(study, broadcast=True)
+    futures = [client.submit(run_block, study_future, ix, store, pure=False)
+               for ix in itertools.islice(pending, window)]
+    queue = as_completed(futures)
     out = []
     try:
-        for k, future in enumerate(as_completed(futures), 1):
+        for k, future in enumerate(queue, 1):
             out.append(future.result())
+            future.release()
             if progress is not None:
                 progress(k, total)
+            nxt = next(pending, None)
+            if nxt is not None:
+                queue.add(client.submit(run_block, study_future, nxt, store, pure=False))
     except BaseException:
-        client.cancel(futures)
+        client.cancel(list(queue.futures))
         raise
     return out
-
-
-def _local_processes(study, todo, store, workers, progress, total):
-    import dask
-    from dask.callbacks import Callback
-
-    tasks = [dask.delayed(run_block, pure=False)(study, index, store) for index in todo]
-    keys = {t.key for t in tasks}
-
-    class _Count(Callback):
-        def __init__(self):
-            super().__init__()
-            self.done = 0
-
-        def _posttask(self, key, result, dsk, state, worker_id):
-            if key in keys:
-                self.done += 1
-                if progress is not None:
-                    progress(self.done, total)
-
-    with _Count():
-        return list(dask.compute(*tasks, scheduler="processes", num_workers=workers))

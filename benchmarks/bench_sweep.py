@@ -1,0 +1,170 @@
+"""Issue 14 benchmark: plan evaluations per second in a sweep, and the sweep's memory.
+
+Reports, measured in one run (no timed assertions):
+
+1. **Rate.** A 10-leg mission (the demo tourer, best altitudes and speeds on every leg)
+   swept over ISA deviation x payload, 48 points. Baseline: the same 48 points planned by
+   a Python loop, each ``plan_mission(apply_overrides(mission, isa_dev=..., payload=...))``
+   on the mission read once (what a script does without the sweep). Sides:
+
+       loop      the Python loop in this process
+       sweep 1   run_study(study, workers=1) (in this process, no cluster)
+       sweep 2   run_study(study, workers=2) (dask LocalCluster, 2 worker processes,
+                 its start-up included)
+
+   run interleaved (loop, sweep 1, sweep 2, loop, ...) 3 times; the medians give
+   ``sweep 1 / loop`` and ``sweep 2 / loop`` in points per second, and ``sweep 2 / sweep 1``.
+   Targets (issue 14): sweep >= 20x the loop; 2 workers >= 1.6x 1 worker.
+
+2. **Memory.** Peak resident memory of a sweep process (workers=1, so every byte is in that
+   one process) that resumes a store of 1e4 and of 1e6 points of a 1-leg mission, of which
+   all chunks but the last 4 are marked done: the store's layout, the chunk list and the
+   writes scale with the study, the 4 chunks computed do not. Target: flat (the 1e6 figure
+   within 10 % of the 1e4 one). Each side runs in a new process; the stores are made
+   (filled with "not run") outside the measured process.
+"""
+
+from __future__ import annotations
+
+import statistics
+import subprocess
+import sys
+import tempfile
+import textwrap
+import time
+from pathlib import Path
+
+import numpy as np
+
+#: Interleaved repetitions of the rate comparison.
+RUNS = 3
+RATE_TARGET, SCALE_TARGET = 20.0, 1.6
+
+
+def ten_leg_mission(folder: Path) -> Path:
+    """A 10-leg mission file for the demo tourer (invented legs)."""
+    rng = np.random.default_rng(7)
+    legs = "".join(textwrap.dedent(f"""
+        [[legs]]
+        name = "leg {i + 1}"
+        distance = "{d:.1f} nm"
+        course = {c:.0f}
+        wind = "250/15kt@2000ft,260/30kt@6000ft,270/40kt@10000ft"
+        """) for i, (d, c) in enumerate(zip(rng.uniform(8, 30, 10), rng.uniform(0, 360, 10))))
+    path = folder / "ten-legs.toml"
+    path.write_text(textwrap.dedent("""
+        [mission]
+        name = "ten-legs"
+        airframe = "demo-tourer"
+        fuel = "100 %"
+        payload = "200 kg"
+        [day]
+        isa_dev = "+10 K"
+        [profile]
+        departure_elevation = "500 ft"
+        arrival_elevation = "500 ft"
+        [reserve]
+        time = "45 min"
+        """) + legs)
+    return path
+
+
+def rate(folder: Path):
+    from cruiseplan.io.mission_file import apply_overrides, read_mission
+    from cruiseplan.io.study_file import read_study
+    from cruiseplan.planning.mission import plan_mission
+    from cruiseplan.studies import run_study
+
+    mission_file = ten_leg_mission(folder)
+    study_file = folder / "rate.toml"
+    study_file.write_text(textwrap.dedent(f"""
+        [study]
+        mission = "{mission_file}"
+        record = ["verdict", "used", "time"]
+        chunk = 4
+        [axes]
+        isa_dev = "-10:25:5 K"
+        payload = "100:250:30 kg"
+        """))
+    study = read_study(study_file)
+    n = study.size
+
+    def loop():
+        mission = read_mission(mission_file)
+        for dev in study.axes[0].values:
+            for payload in study.axes[1].values:
+                plan_mission(apply_overrides(mission, isa_dev=dev, payload=payload))
+
+    sides = {"loop": loop, "sweep 1": lambda: run_study(study, workers=1),
+             "sweep 2": lambda: run_study(study, workers=2)}
+    times = {k: [] for k in sides}
+    for _ in range(RUNS):
+        for name, fn in sides.items():
+            t0 = time.perf_counter()
+            fn()
+            times[name].append(time.perf_counter() - t0)
+    med = {k: statistics.median(v) for k, v in times.items()}
+    for k, t in med.items():
+        print(f"{k:8s} {n / t:7.1f} points/s ({t:.2f} s for {n} points of a 10-leg mission)")
+    r1, r2, scale = med["loop"] / med["sweep 1"], med["loop"] / med["sweep 2"], \
+        med["sweep 1"] / med["sweep 2"]
+    print(f"sweep 1 / loop {r1:.2f}, sweep 2 / loop {r2:.2f} (target >= {RATE_TARGET:g})"
+          f"{'' if r2 >= RATE_TARGET else '  MISSES TARGET'}")
+    print(f"2 workers / 1 worker {scale:.2f} (target >= {SCALE_TARGET:g})"
+          f"{'' if scale >= SCALE_TARGET else '  MISSES TARGET'}")
+
+
+MEMORY_CHILD = """
+import resource, sys
+from cruiseplan.io.study_file import read_study
+from cruiseplan.studies import run_study
+run_study(read_study(sys.argv[1]), sys.argv[2], resume=True, workers=1)
+print(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)
+"""
+
+
+def memory(folder: Path):
+    import zarr
+
+    from cruiseplan.io.study_file import read_study
+    from cruiseplan.studies.sweep import create_store
+
+    peaks = {}
+    for points, isa_dev in ((10_000, "-50:49:1 K"), (1_000_000, "-50:49.99:0.01 K")):
+        study_file = folder / f"mem{points}.toml"
+        study_file.write_text(textwrap.dedent(f"""
+            [study]
+            mission = "demo-quad-inspection"
+            record = ["verdict", "used", "time"]
+            chunk = {points // 1000}
+            [axes]
+            isa_dev = "{isa_dev}"
+            payload = "0:0.99:0.01 kg"
+            """))
+        study = read_study(study_file)
+        store = folder / f"mem{points}.zarr"
+        # Made, then marked done but for 4 chunks, outside the measured process.
+        create_store(study, store)
+        done = zarr.open_group(str(store), mode="r+")["chunk_done"]
+        marks = np.ones(done.shape, dtype=bool)
+        marks.reshape(-1)[-4:] = False
+        done[...] = marks
+        out = subprocess.run([sys.executable, "-c", MEMORY_CHILD, str(study_file), str(store)],
+                             capture_output=True, text=True, check=True)
+        peaks[points] = int(out.stdout.split()[-1]) / 1024
+        print(f"{points:>9d} points ({study.size} in the study, 4 chunks of "
+              f"{study.chunk} computed): peak RSS {peaks[points]:.0f} MB")
+    growth = peaks[1_000_000] / peaks[10_000]
+    print(f"1e6 / 1e4 peak memory {growth:.2f} (target: flat, <= 1.10)"
+          f"{'' if growth <= 1.10 else '  MISSES TARGET'}")
+
+
+def main():
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+        rate(folder)
+        memory(folder)
+
+
+if __name__ == "__main__":
+    main()
