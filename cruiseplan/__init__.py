@@ -26,9 +26,10 @@ _PUBLIC = {
     "cruiseplan.cautions": ("CAUTION_LINE", "CAUTIONS"),
     "cruiseplan.errors": (
         "AirframeFileError", "AtmosphereRangeError", "CruiseplanError", "CruiseplanWarning",
-        "LogFileError", "MissionFileError", "UnitError",
+        "ForecastFileError", "LogFileError", "MissionFileError", "UnitError",
     ),
     "cruiseplan.io.airframe_file": ("bundled_airframes", "load_airframe", "read_airframe"),
+    "cruiseplan.io.forecast_file": ("read_forecast",),
     "cruiseplan.io.mission_file": (
         "apply_overrides", "bundled_missions", "load_mission", "read_mission",
     ),
@@ -39,8 +40,12 @@ _PUBLIC = {
     "cruiseplan.limits": ("Limit", "describe", "explain"),
     "cruiseplan.model.mission": ("Leg", "Mission", "Profile", "Reserve"),
     "cruiseplan.model.survey": ("Survey",),
-    "cruiseplan.physics.atmosphere": ("AirState", "air_state", "density_altitude"),
+    "cruiseplan.physics.atmosphere": (
+        "AirState", "air_state", "density_altitude", "pressure_altitude_from_pressure",
+    ),
+    "cruiseplan.physics.forecast": ("GriddedWeather",),
     "cruiseplan.physics.winds": ("WindProfile",),
+    "cruiseplan.planning.forecast": ("plan_with_forecast",),
     "cruiseplan.planning.mission": ("Plan", "Segment", "plan_mission"),
     "cruiseplan.planning.nogo": ("Remedies", "what_would_make_it_go"),
     "cruiseplan.planning.optimise": (
