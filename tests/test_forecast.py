@@ -296,6 +296,24 @@ def test_pressure_levels_and_decreasing_coordinates(tmp_path):
     assert st == pytest.approx(270.0, abs=1e-9)
 
 
+def test_dimensions_in_any_order_and_coordinates_by_axis_or_units(tmp_path):
+    u, v, dev = linear_fields()
+    g = grid()
+    ref = read_forecast(write_forecast(tmp_path / "ref.nc", u(*g), v(*g),
+                                       isa_temperature_pressure(g[1])[0] + dev(*g)))
+    ds = xr.open_dataset(tmp_path / "ref.nc").load()
+    ds = ds.transpose("lat", "lon", "level", "time")
+    ds["lat"].attrs = {"units": "degrees_north"}            # by its units (CF 4.1)
+    ds["lon"].attrs = {"axis": "X", "units": "degrees_east"}  # by its axis
+    ds = ds.assign_coords(level=ds["level"] / 0.3048)
+    ds["level"].attrs = {"axis": "Z", "units": "ft"}          # by axis and units: feet
+    ds.to_netcdf(tmp_path / "other.nc", engine="h5netcdf")
+    w = read_forecast(tmp_path / "other.nc")
+    np.testing.assert_allclose(w.levels, LEVELS, rtol=1e-15, atol=1e-12)
+    np.testing.assert_array_equal(w.u, ref.u)
+    np.testing.assert_array_equal(w.temperature, ref.temperature)
+
+
 @pytest.mark.parametrize("lons, point", [([350.0, 355.0, 0.0, 5.0], -2.5),
                                          ([-10.0, -5.0, 0.0, 5.0], 357.5),
                                          ([170.0, 175.0, -180.0, -175.0], 177.5)])
@@ -323,8 +341,23 @@ def test_a_point_outside_says_where_the_forecast_is(tmp_path):
                        r"2026-12-03T01:00Z is outside the area .*latitude 44..47 deg, "
                        r"longitude 6..9 deg, 2026-12-03T00:00Z to 2026-12-03T12:00Z"):
         w.sample([45.0, 50.0], 7.0, T0 + 3600.0, 0.0)
+    with pytest.raises(ForecastFileError, match=r"point 33.5000 S 172.2500 W at "):
+        w.sample(-33.5, 187.75, T0, 0.0)
     with pytest.raises(ForecastFileError, match=r"at 2026-12-03T13:00Z is outside the time"):
         w.sample(45.0, 7.0, T0 + 13 * 3600.0, 0.0)
+
+
+def test_a_leg_outside_is_named(tmp_path):
+    # The area holds the first leg's start and midpoint but not the second leg's midpoint.
+    lats, lons = [44.9, 45.45], [6.9, 7.5]
+    t, z, la, lo = grid(lats=lats, lons=lons)
+    path = write_forecast(tmp_path / "small.nc", np.zeros(t.shape), np.zeros(t.shape),
+                          isa_temperature_pressure(z)[0], lats=lats, lons=lons)
+    with pytest.raises(ForecastFileError, match=r"small.nc: point 45.3\d+ N 7.6\d+ E at "
+                       r"2026-12-03T06:00Z is outside the area .*; at the midpoint of leg "
+                       r"'on' at its planned mid-time$"):
+        plan_with_forecast(read_mission(mission_file(tmp_path)), read_forecast(path),
+                           parse_utc_time(DEPARTURE))
 
 
 def test_gridded_weather_needs_finite_values():
@@ -392,7 +425,8 @@ def test_a_forecast_needs_the_first_leg_placed(tmp_path):
     m = read_mission(mission_file(tmp_path))
     m = replace(m, legs=tuple(replace(leg, start=None, end=None) for leg in m.legs))
     w = read_forecast(uniform(tmp_path))
-    with pytest.raises(CruiseplanError, match=r"leg 'out' has no position: a forecast"):
+    with pytest.raises(CruiseplanError, match=r"mission.toml: leg 'out' has no position: "
+                                              r"a forecast"):
         plan_with_forecast(m, w, parse_utc_time(DEPARTURE))
     with pytest.raises(CruiseplanError, match=r"needs the departure time"):
         plan_with_forecast(read_mission(mission_file(tmp_path)), w)
@@ -438,11 +472,12 @@ def _bad_files():
                           r"ta: no units attribute; expected one of 'K'"),
         "no overlap in area": (dict(u=zero, v=zero, ta=ta, lats=LATS + 20.0),
                                r"point 45\.\d+ N 7\.\d+ E at 2026-12-03T\S+ is outside the "
-                               r"area of the forecast \(latitude 64..67 deg"),
+                               r"area of the forecast \(latitude 64..67 deg.*\); at the start "
+                               r"of leg 'out' at departure$"),
         "no overlap in time": (dict(u=zero, v=zero, ta=ta,
                                     time_units="hours since 2020-01-01 00:00:00"),
                                r"is outside the time span of the forecast \(.*"
-                               r"2020-01-01T00:00Z to 2020-01-01T12:00Z"),
+                               r"2020-01-01T00:00Z to 2020-01-01T12:00Z.*\); at the start"),
         "NaN in winds": (dict(u=nan_u, v=zero, ta=ta),
                          r"u: 1 of 240 values are missing or not finite"),
         "non-monotonic": (dict(u=zero, v=zero, ta=ta, lats=[44.0, 46.0, 45.0, 47.0]),

@@ -9,7 +9,8 @@ variable's name:
   ``m s**-1``, ``knots`` or ``kt``) and ``air_temperature`` (``K``, ``degC``,
   ``celsius`` or ``degree_Celsius``), each on the same four dimensions (size-one extra
   dimensions, such as a reference time, are dropped);
-* coordinates ``latitude`` and ``longitude`` [deg] (or ``axis`` Y and X), ``time`` (or
+* coordinates ``latitude`` and ``longitude`` [deg] (or ``axis`` Y and X, or units
+  ``degrees_north`` and ``degrees_east``), ``time`` (or
   ``axis`` T) with CF time units (``hours since 2026-12-03 00:00``, UTC unless stated),
   decoded by xarray, and a vertical coordinate: ``air_pressure`` (``Pa`` or ``hPa``),
   converted exactly to pressure altitude, or ``altitude`` (height above mean sea level,
@@ -59,9 +60,15 @@ UNITS = {
     "pressure": {"Pa": (1.0, 0.0), "hPa": (100.0, 0.0)},
     "altitude": {"m": (1.0, 0.0), "ft": (FT, 0.0)},
     "angle": {"degrees_north": (1.0, 0.0), "degree_north": (1.0, 0.0),
-              "degrees_east": (1.0, 0.0), "degree_east": (1.0, 0.0),
-              "degrees": (1.0, 0.0), "degree": (1.0, 0.0)},
+              "degree_N": (1.0, 0.0), "degrees_N": (1.0, 0.0), "degreeN": (1.0, 0.0),
+              "degreesN": (1.0, 0.0), "degrees_east": (1.0, 0.0), "degree_east": (1.0, 0.0),
+              "degree_E": (1.0, 0.0), "degrees_E": (1.0, 0.0), "degreeE": (1.0, 0.0),
+              "degreesE": (1.0, 0.0), "degrees": (1.0, 0.0), "degree": (1.0, 0.0)},
 }
+#: Units that make a coordinate a latitude or a longitude without a standard name (CF 4.1,
+#: 4.2).
+_LAT_UNITS = ("degrees_north", "degree_north", "degree_N", "degrees_N", "degreeN", "degreesN")
+_LON_UNITS = ("degrees_east", "degree_east", "degree_E", "degrees_E", "degreeE", "degreesE")
 #: The variables read: (standard_name, kind of units, what it is for messages).
 VARIABLES = (("eastward_wind", "wind", "the eastward wind (u)"),
              ("northward_wind", "wind", "the northward wind (v)"),
@@ -139,8 +146,12 @@ def _role(coord) -> str | None:
         return table[sn]
     if axis in ("Y", "X", "T"):
         return {"Y": "lat", "X": "lon", "T": "time"}[axis]
+    units = str(coord.attrs.get("units", "")).strip()
+    if units in _LAT_UNITS:
+        return "lat"
+    if units in _LON_UNITS:
+        return "lon"
     if axis == "Z":
-        units = str(coord.attrs.get("units", "")).strip()
         if units in UNITS["pressure"]:
             return "pressure"
         if units in UNITS["altitude"]:

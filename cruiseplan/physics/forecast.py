@@ -67,6 +67,26 @@ def iso_time(seconds) -> str:
     return t.strftime("%Y-%m-%dT%H:%M:%SZ" if t.second else "%Y-%m-%dT%H:%MZ")
 
 
+def point_text(lat, lon) -> str:
+    """A position in words, ``45.1234 N 7.0000 E`` (longitude shown in -180..180).
+
+    Parameters
+    ----------
+    lat, lon : float
+        Latitude and longitude [deg].
+
+    Returns
+    -------
+    str
+        Degrees to four decimals with their hemispheres.
+    """
+    lat, lon = float(lat), float(lon)
+    if np.isfinite(lon):
+        lon = (lon + 180.0) % 360.0 - 180.0
+    return (f"{abs(lat):.4f} {'S' if lat < 0 else 'N'} "
+            f"{abs(lon):.4f} {'W' if lon < 0 else 'E'}")
+
+
 def wind_from(u, v):
     """Direction the wind blows from [deg true] and its speed, from its components.
 
@@ -244,7 +264,7 @@ class GriddedWeather:
                 la, lo, ti = (np.ravel(a)[k] for a in (lat, lon, time))
                 when = iso_time(ti) if np.isfinite(ti) else repr(float(ti))
                 raise ForecastFileError(
-                    f"{self.source}: point {la:.4f} N {lo:.4f} E at {when} is {what} of "
+                    f"{self.source}: point {point_text(la, lo)} at {when} is {what} of "
                     f"the forecast ({self.coverage()})")
         return x
 

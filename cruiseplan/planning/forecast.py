@@ -33,7 +33,7 @@ from pathlib import Path
 
 import numpy as np
 
-from cruiseplan.errors import CruiseplanError, CruiseplanWarning
+from cruiseplan.errors import CruiseplanError, CruiseplanWarning, ForecastFileError
 from cruiseplan.model.mission import Mission, place_legs
 from cruiseplan.physics.forecast import iso_time
 from cruiseplan.physics.geo import destination_point, great_circle
@@ -119,7 +119,14 @@ def leg_winds(legs, weather, times) -> tuple:
     tuple of WindProfile
         One per leg, over the forecast's levels [m].
     """
-    return tuple(weather.wind_profile(*leg_midpoint(leg), t) for leg, t in zip(legs, times))
+    out = []
+    for leg, t in zip(legs, times):
+        try:
+            out.append(weather.wind_profile(*leg_midpoint(leg), t))
+        except ForecastFileError as exc:
+            raise ForecastFileError(f"{exc}; at the midpoint of leg {leg.name!r} at its "
+                                    "planned mid-time") from None
+    return tuple(out)
 
 
 def _placed(mission: Mission) -> tuple:
@@ -127,10 +134,22 @@ def _placed(mission: Mission) -> tuple:
     for leg in legs:
         if leg.start is None or leg.end is None:
             raise CruiseplanError(
-                f"leg {leg.name!r} has no position: a forecast is sampled along the route, "
-                "so the first leg needs from/to waypoints (or the route a [route] file); "
-                "later legs given by distance and course are placed by dead reckoning")
+                f"{mission.source or mission.name}: leg {leg.name!r} has no position: a "
+                "forecast is sampled along the route, so the first leg needs from/to "
+                "waypoints (or the route a [route] file); later legs given by distance and "
+                "course are placed by dead reckoning")
     return legs
+
+
+def _deviation(weather, lat, lon, times, altitudes, weights, where) -> float:
+    """The forecast's ISA deviation [K], weighted by ``weights`` (None: one point)."""
+    try:
+        devs = weather.isa_deviation(lat, lon, times, altitudes)
+    except ForecastFileError as exc:
+        raise ForecastFileError(f"{exc}; {where}") from None
+    if weights is None:
+        return float(devs)
+    return float(np.sum(devs * weights) / np.sum(weights))
 
 
 def plan_with_forecast(mission: Mission, weather, departure: float | None = None, *,
@@ -180,8 +199,9 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
     mid = np.array([leg_midpoint(leg) for leg in legs])
     lat, lon = mid[:, 0], mid[:, 1]
     times = np.full(len(legs), dep)
-    dev = float(weather.isa_deviation(legs[0].start[0], legs[0].start[1], dep,
-                                      mission.profile.departure_elevation))
+    dev = _deviation(weather, legs[0].start[0], legs[0].start[1], dep,
+                     mission.profile.departure_elevation, None,
+                     f"at the start of leg {legs[0].name!r} at departure")
     before, plan, moved = None, None, np.inf
     for k in range(1, max_iterations + 1):
         winds = leg_winds(legs, weather, times)
@@ -196,8 +216,8 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
         before = (edges, plan.leg_altitudes)
         times = edges.mean(axis=1)
         weights = edges[:, 1] - edges[:, 0]
-        devs = weather.isa_deviation(lat, lon, times, np.asarray(plan.leg_altitudes))
-        dev = float(np.sum(devs * weights) / np.sum(weights))
+        dev = _deviation(weather, lat, lon, times, np.asarray(plan.leg_altitudes), weights,
+                         "at the legs' midpoints at their planned mid-times")
     settled = moved < tolerance
     name = Path(weather.source).name
     words = (f"winds aloft and ISA {plan.mission.isa_dev:+.1f} K from forecast {name} for "
