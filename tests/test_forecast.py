@@ -20,6 +20,7 @@ import pytest
 xr = pytest.importorskip("xarray")
 pytest.importorskip("h5netcdf")
 
+from cruiseplan.cautions import FORECAST_CAUTION  # noqa: E402
 from cruiseplan.cli import main  # noqa: E402
 from cruiseplan.errors import CruiseplanError, CruiseplanWarning, ForecastFileError  # noqa: E402
 from cruiseplan.io import forecast_file  # noqa: E402
@@ -274,7 +275,7 @@ def test_winds_along_a_route_equal_the_analytic_field(tmp_path):
     # The plan's deviation came from the times of the plan before it, within 1 s of these.
     assert plan.mission.isa_dev == pytest.approx(np.sum(devs * weights) / np.sum(weights),
                                                  abs=1e-3)
-    assert "leg times settled within 1 s" in plan.mission.overrides[-1]
+    assert "leg times settled within 1 s" in plan.mission.weather[1]
 
 
 def test_pressure_levels_and_decreasing_coordinates(tmp_path):
@@ -383,10 +384,11 @@ def test_a_uniform_field_plans_exactly_as_the_same_typed_wind(tmp_path):
     plan = plan_with_forecast(m, w, parse_utc_time(DEPARTURE))
     same_plan(plan, plan_mission(typed(m, WindProfile((0.0,), (270.0,), (20.0,)))))
     assert plan.mission.isa_dev == 0.0
-    assert plan.mission.overrides[0].startswith("winds aloft and ISA +0.0 K from forecast "
+    assert plan.mission.weather[0].startswith("winds aloft and ISA +0.0 K from forecast "
                                                 "uniform.nc for departure "
                                                 "2026-12-03T06:00Z")
-    assert "after 2 plans" in plan.mission.overrides[1]
+    assert "after 2 plans" in plan.mission.weather[1]
+    assert plan.mission.weather[2] == FORECAST_CAUTION
 
 
 def test_a_uniform_field_of_any_direction_plans_as_the_typed_wind(tmp_path):
@@ -418,7 +420,7 @@ def test_unsettled_times_are_said(tmp_path):
     with pytest.warns(CruiseplanWarning, match="NOT settled"):
         plan = plan_with_forecast(read_mission(mission_file(tmp_path)), w,
                                   parse_utc_time(DEPARTURE), max_iterations=1)
-    assert plan.mission.overrides[-1].startswith("leg times NOT settled")
+    assert plan.mission.weather[1].startswith("leg times NOT settled")
 
 
 def test_a_forecast_needs_the_first_leg_placed(tmp_path):
@@ -540,11 +542,14 @@ def test_mission_file_forecast_and_departure(tmp_path, capsys):
     status = main(["plan", str(path)])
     out, err = capsys.readouterr()
     assert status == 0, err
-    assert "What-if: winds aloft and ISA +10.0 K from forecast uniform.nc for departure " \
-           "2026-12-03T06:00Z" in out
+    assert "Weather: winds aloft and ISA +10.0 K from forecast uniform.nc for departure " \
+           "2026-12-03T06:00Z, replacing the mission file's winds" in out
+    assert "What-if" not in out
     assert "Day: ISA +10.0 K" in out
-    # Cautions stay on the plan.
-    assert "flight manual" in out.lower()
+    # Cautions stay on the plan, and the forecast's own.
+    assert "not a substitute for the approved flight manual" in out
+    assert "a forecast is a forecast: official weather briefings and the flight manual " \
+           "come first" in out
 
 
 @pytest.mark.parametrize("day, argv, message", [

@@ -378,6 +378,9 @@ class Mission:
     forecast: str | None = None
     #: Departure time [s since 1970-01-01T00:00Z], UTC; None when not given.
     departure: float | None = None
+    #: Where the winds and temperatures came from, in words, for the plan's header (a
+    #: forecast file; empty: typed in the mission file).
+    weather: tuple = ()
 
     def __post_init__(self):
         _convert(self, MISSION_UNITS, "mission ")

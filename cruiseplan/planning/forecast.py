@@ -13,7 +13,7 @@ with the times of the plan before, until no leg's start or end moves by
 :data:`TIME_TOLERANCE` or more and no leg changes altitude, at most
 :data:`MAX_ITERATIONS` plans. The first plan takes every leg at the departure time and the
 deviation at the first leg's start at the departure field's pressure altitude. The plan's
-header (``Mission.overrides``) says where the weather came from and whether the times
+header (``Mission.weather``) says where the weather came from and whether the times
 settled.
 
 The forecast wins over what the mission file types: the legs' winds and the ``[day]``
@@ -33,6 +33,7 @@ from pathlib import Path
 
 import numpy as np
 
+from cruiseplan.cautions import FORECAST_CAUTION
 from cruiseplan.errors import CruiseplanError, CruiseplanWarning, ForecastFileError
 from cruiseplan.model.mission import Mission, place_legs
 from cruiseplan.physics.forecast import iso_time
@@ -176,7 +177,7 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
     -------
     Plan
         The last plan. Its mission carries the sampled winds on each leg, the day's ISA
-        deviation, and in ``overrides`` the forecast file, the departure time and whether
+        deviation, and in ``weather`` the forecast file, the departure time and whether
         the times settled (a :class:`~cruiseplan.errors.CruiseplanWarning` too when not).
 
     Raises
@@ -221,9 +222,9 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
     settled = moved < tolerance
     name = Path(weather.source).name
     words = (f"winds aloft and ISA {plan.mission.isa_dev:+.1f} K from forecast {name} for "
-             f"departure {iso_time(dep)} (replacing the file's winds and day temperature; "
-             "winds at each leg's midpoint and mid-time, ISA deviation time-weighted over "
-             "the legs at their altitudes)")
+             f"departure {iso_time(dep)}, replacing the mission file's winds and day "
+             "temperature (winds at each leg's midpoint and mid-time, ISA deviation "
+             "time-weighted over the legs at their altitudes)")
     if settled:
         timing = f"leg times settled within {tolerance:g} s after {k} plans"
     else:
@@ -231,5 +232,5 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
                   "check the winds along the route")
         warnings.warn(f"mission {mission.name!r}: forecast {timing}", CruiseplanWarning,
                       stacklevel=2)
-    overrides = tuple(mission.overrides) + (words, timing)
-    return replace(plan, mission=replace(plan.mission, overrides=overrides))
+    return replace(plan, mission=replace(plan.mission, weather=(words, timing,
+                                                                 FORECAST_CAUTION)))
