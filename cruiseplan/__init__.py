@@ -33,7 +33,7 @@ _PUBLIC = {
     "cruiseplan.io.mission_file": (
         "apply_overrides", "bundled_missions", "load_mission", "read_mission",
     ),
-    "cruiseplan.io.text": ("parse_wind_profile",),
+    "cruiseplan.io.text": ("parse_utc_time", "parse_wind_profile"),
     "cruiseplan.kinds": (
         "KINDS", "Airframe", "FixedWing", "LevelFlight", "Loading", "Multirotor",
     ),

@@ -521,6 +521,19 @@ def test_unreadable_and_oversized_files(tmp_path, monkeypatch):
         read_forecast(uniform(tmp_path))
 
 
+def test_netcdf3_reads_as_netcdf4(tmp_path):
+    u, v, dev = linear_fields()
+    g = grid()
+    nc4 = write_forecast(tmp_path / "four.nc", u(*g), v(*g),
+                         isa_temperature_pressure(g[1])[0] + dev(*g))
+    with xr.open_dataset(nc4) as ds:
+        ds.load().to_netcdf(tmp_path / "three.nc", engine="scipy")   # netCDF-3 classic
+    assert (tmp_path / "three.nc").read_bytes()[:3] == b"CDF"
+    a, b = read_forecast(nc4), read_forecast(tmp_path / "three.nc")
+    for name in ("times", "levels", "latitudes", "longitudes", "u", "v", "temperature"):
+        np.testing.assert_array_equal(getattr(a, name), getattr(b, name), err_msg=name)
+
+
 def test_knots_and_celsius_are_converted(tmp_path):
     t, z, la, lo = grid()
     path = write_forecast(tmp_path / "kt.nc", np.full(t.shape, 10.0), np.zeros(t.shape),
