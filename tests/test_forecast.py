@@ -67,6 +67,12 @@ arrival_elevation = "500 ft"
 [reserve]
 time = "45 min"
 
+[reserve.alternate]
+name = "divert"
+distance = "15 nm"
+course = 270
+altitude = "3000 ft"
+
 [[legs]]
 name = "out"
 from = [45.0, 7.0]
@@ -266,6 +272,14 @@ def test_winds_along_a_route_equal_the_analytic_field(tmp_path):
         # these: u and v change by at most 0.5 m/s an hour, 1.4e-4 m/s a second.
         np.testing.assert_allclose(np.column_stack(leg.wind.vector(LEVELS)),
                                    np.column_stack([north, east]), rtol=0, atol=1.4e-4)
+    # The alternate starts at the route's end and takes the winds at the arrival time.
+    alt = plan.mission.reserve.alternate
+    assert alt.start == legs[-1].end
+    la, lo = leg_midpoint(alt)
+    h = (leg_times(plan, dep)[-1, 1] - T0) / 3600.0
+    north, east = alt.wind.vector(LEVELS)
+    np.testing.assert_allclose(east, u(h, LEVELS, la, lo), rtol=0, atol=1.4e-4)
+    np.testing.assert_allclose(north, v(h, LEVELS, la, lo), rtol=0, atol=1.4e-4)
     # The day: the deviation at each leg's midpoint, mid-time and altitude, time-weighted.
     edges = leg_times(plan, dep)
     weights = edges[:, 1] - edges[:, 0]
@@ -373,8 +387,9 @@ def test_gridded_weather_needs_finite_values():
 # --- planning -------------------------------------------------------------------------------
 
 def typed(mission, wind, isa_dev=0.0):
+    alternate = replace(mission.reserve.alternate, wind=wind)
     return replace(mission, legs=tuple(replace(leg, wind=wind) for leg in mission.legs),
-                   isa_dev=isa_dev)
+                   isa_dev=isa_dev, reserve=replace(mission.reserve, alternate=alternate))
 
 
 def test_a_uniform_field_plans_exactly_as_the_same_typed_wind(tmp_path):

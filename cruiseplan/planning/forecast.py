@@ -16,10 +16,14 @@ deviation at the first leg's start at the departure field's pressure altitude. T
 header (``Mission.weather``) says where the weather came from and whether the times
 settled.
 
-The forecast wins over what the mission file types: the legs' winds and the ``[day]``
-temperature are replaced, and the header says so. The reserve's alternate leg keeps its
-typed wind; a battery pack given as a circuit keeps the temperature the mission file set
-(its ``pack_temperature`` or the ``[day]``'s at the departure field).
+The reserve's alternate leg, placed from the route's end unless it has waypoints of its
+own, takes the winds at its midpoint at the planned arrival time (when the diversion would
+begin).
+
+The forecast wins over what the mission file types: the legs' and the alternate's winds and
+the ``[day]`` temperature are replaced, and the header says so. A battery pack given as a
+circuit keeps the temperature the mission file set (its ``pack_temperature`` or the
+``[day]``'s at the departure field).
 
 A forecast is a forecast: the plan is no better than it, and official weather briefings and
 the flight manual come first.
@@ -184,8 +188,8 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
     ------
     CruiseplanError
         For a survey mission, no departure time, a leg that cannot be placed, or a leg's
-        midpoint outside the forecast's area or time span (naming the point and the
-        coverage).
+        (or the alternate's) midpoint outside the forecast's area or time span (naming the
+        point, the leg and the coverage).
     """
     if mission.survey is not None:
         raise CruiseplanError(f"mission {mission.name!r}: a forecast plans route missions; "
@@ -200,14 +204,24 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
     mid = np.array([leg_midpoint(leg) for leg in legs])
     lat, lon = mid[:, 0], mid[:, 1]
     times = np.full(len(legs), dep)
+    alternate = mission.reserve.alternate
+    if alternate is not None:
+        # The diversion starts where the route ends, unless its file places it.
+        start = alternate.start if alternate.start is not None else legs[-1].end
+        alternate = place_legs([replace(alternate, start=start)])[0]
+    arrival = dep
     dev = _deviation(weather, legs[0].start[0], legs[0].start[1], dep,
                      mission.profile.departure_elevation, None,
                      f"at the start of leg {legs[0].name!r} at departure")
     before, plan, moved = None, None, np.inf
     for k in range(1, max_iterations + 1):
         winds = leg_winds(legs, weather, times)
+        reserve = mission.reserve
+        if alternate is not None:
+            wind, = leg_winds([alternate], weather, [arrival])
+            reserve = replace(reserve, alternate=replace(alternate, wind=wind))
         flown = replace(mission, legs=tuple(replace(leg, wind=w) for leg, w in zip(legs, winds)),
-                        isa_dev=dev)
+                        isa_dev=dev, reserve=reserve)
         plan = plan_mission(flown)
         edges = leg_times(plan, dep)
         if before is not None:
@@ -216,6 +230,7 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
                 break
         before = (edges, plan.leg_altitudes)
         times = edges.mean(axis=1)
+        arrival = edges[-1, 1]
         weights = edges[:, 1] - edges[:, 0]
         dev = _deviation(weather, lat, lon, times, np.asarray(plan.leg_altitudes), weights,
                          "at the legs' midpoints at their planned mid-times")
@@ -223,8 +238,9 @@ def plan_with_forecast(mission: Mission, weather, departure: float | None = None
     name = Path(weather.source).name
     words = (f"winds aloft and ISA {plan.mission.isa_dev:+.1f} K from forecast {name} for "
              f"departure {iso_time(dep)}, replacing the mission file's winds and day "
-             "temperature (winds at each leg's midpoint and mid-time, ISA deviation "
-             "time-weighted over the legs at their altitudes)")
+             "temperature (winds at each leg's midpoint and mid-time"
+             + (", the alternate's at arrival" if alternate is not None else "")
+             + ", ISA deviation time-weighted over the legs at their altitudes)")
     if settled:
         timing = f"leg times settled within {tolerance:g} s after {k} plans"
     else:
