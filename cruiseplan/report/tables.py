@@ -836,7 +836,7 @@ def _variation_text(variation: float) -> str:
 
 
 def _as_flown_lines(mission) -> list:
-    """Header lines: the battery pack, magnetic variation, the level rule, the what-ifs."""
+    """Header lines: battery pack, magnetic variation, level rule, weather, what-ifs."""
     lines = mission_pack_line(mission)
     if _is_magnetic(mission):
         per_leg = [leg_variation(mission, leg) for leg in mission.legs]
@@ -853,6 +853,8 @@ def _as_flown_lines(mission) -> list:
         rule = "; ".join(f"{s.label} {s.text}" for s in mission.levels)
         lines.append(f"Cruising levels by magnetic course (the mission file's rule, {ref}): "
                      f"{rule}")
+    if mission.weather:
+        lines.append(f"Weather: {'; '.join(mission.weather)}")
     if mission.overrides:
         lines.append(f"What-if: {', '.join(mission.overrides)} (overrides of the mission "
                      "file)")
