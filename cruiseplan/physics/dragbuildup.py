@@ -104,8 +104,8 @@ def cf_mixed(re, re_transition=5e5):
     over the laminar run is replaced by the laminar one,
     :math:`A = Re_{tr}\,(C_{f,turb}(Re_{tr}) - C_{f,lam}(Re_{tr}))`, which makes
     :math:`C_f` continuous at transition. With Blasius and Prandtl-Schlichting at 5e5 this
-    gives A = 1614. Schlichting's table quotes A = 1700 for 5e5 (close to the same
-    construction on the older 0.074 Re^-0.2 law, 1742); with 1700 the friction would
+    gives A = 1614. Schlichting's table quotes A = 1700 for 5e5 (from memory; near the
+    same construction on the older 0.074 Re^-0.2 law, 1742); with 1700 the friction would
     drop 9 % at transition, below the laminar value. The difference: 86/Re, C_f 3.1 %
     higher here than with 1700 at Re 1e6, 0.9 % at 3e6, 0.3 % at 1e7.
 
