@@ -18,6 +18,7 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.io.bundled import shown_path
 from cruiseplan.io.text import format_altimeter
 from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, PACK_LIMITS, UNFLYABLE, Limit, explain
+from cruiseplan.model.tolerance import tolerances_text
 from cruiseplan.physics.atmosphere import indicated_altitude, isa_temperature_pressure
 from cruiseplan.planning.levels import leg_variation, magnetic
 from cruiseplan.planning.mission import ground_elevation
@@ -330,7 +331,7 @@ def _spread_summary(u) -> dict:
 
 
 def _tolerance_note(airframe, n, seed, extra="") -> str:
-    keys = ", ".join(k for k, _ in airframe.tolerances) or "none given"
+    keys = tolerances_text(airframe.tolerances, airframe.tolerance_correlation)
     return (f"Uncertainty: Monte Carlo, {n} samples, seed {seed}; tolerances from the "
             f"airframe file ({keys}){extra}. P10 / P50 / P90: 10 %, 50 % and 90 % of the "
             "samples lie below.")
