@@ -100,7 +100,7 @@ def rate(folder: Path):
 
     t0 = time.perf_counter()
     with LocalCluster(n_workers=2, threads_per_worker=1, processes=True, host="127.0.0.1",
-                      dashboard_address=None) as cluster, Client(cluster) as client:
+                      dashboard_address="127.0.0.1:0") as cluster, Client(cluster) as client:
         client.run(lambda: __import__("cruiseplan.studies"))
         print(f"LocalCluster of 2 workers started in {time.perf_counter() - t0:.1f} s")
         sides = {"loop": loop, "sweep 1": lambda: run_study(study, workers=1),

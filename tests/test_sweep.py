@@ -98,14 +98,19 @@ def test_sweep_points_equal_single_plans_on_a_distributed_cluster(tmp_path):
     distributed = pytest.importorskip("distributed")
     study = read_study(write(tmp_path, MISSION_STUDY))
     with distributed.LocalCluster(n_workers=2, threads_per_worker=1, processes=True,
-                                  host="127.0.0.1", dashboard_address=None) as cluster, \
+                                  host="127.0.0.1", dashboard_address="127.0.0.1:0") as cluster, \
             distributed.Client(cluster) as client:
         assert len(client.scheduler_info()["workers"]) == 2
         ds = run_study(study, tmp_path / "out.zarr", client=client)
         assert_points_equal_single_plans(ds.load())
         # In memory, without a store, on the same cluster.
         mem = run_study(study, client=client)
+        # The command line, given the cluster's scheduler address.
+        assert main(["sweep", str(tmp_path / "study.toml"), "-o", str(tmp_path / "cli.zarr"),
+                     "--scheduler", cluster.scheduler_address]) == 0
     assert_points_equal_single_plans(mem)
+    assert_points_equal_single_plans(xr.open_zarr(tmp_path / "cli.zarr",
+                                                  consolidated=False).load())
 
 
 def test_in_memory_run_equals_the_store(tmp_path):
@@ -290,6 +295,8 @@ def test_ctrl_c_says_how_to_resume(tmp_path):
     ("[study]\nmission = 'demo-cross-country'\n[axes]\nisa_dev = '0:1e9:1 K'\n",
      r"isa_dev"),
     ("[study\n", r"study\.toml"),
+    ("[study]\nmission = 'demo-field-survey'\n[axes]\npayload = ['0.1 kg']\n",
+     r"is a survey, planned in packs"),
 ])
 def test_bad_study_files_exit_2_and_write_nothing(tmp_path, capsys, text, message):
     import re

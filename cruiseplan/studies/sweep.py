@@ -20,9 +20,11 @@ saying whether every chunk is in.
 
 from __future__ import annotations
 
+import contextlib
 import functools
 import itertools
 import os
+import signal
 import warnings
 from pathlib import Path
 
@@ -240,6 +242,9 @@ def check_axes(study: Study):
         ``STUDY: [axes] NAME: VALUE: what is wrong``.
     """
     af, mission = _base(study.kind, study.base, ())
+    if mission is not None and getattr(mission, "survey", None) is not None:
+        raise CruiseplanError(f"{study.source}: [study] mission: {study.base} is a survey, "
+                              "planned in packs; a study plans route missions")
     if study.forecast is not None:
         _weather(study.forecast)  # a bad forecast file is one error, before anything runs
     field_axes = [a for a in study.axes if a.name.startswith(AIRFRAME_FIELD)]
@@ -578,10 +583,31 @@ def _execute(study, todo, store, client, scheduler, workers, progress, total):
         return out
     # dask's local cluster: one single-threaded worker process per core (planning is
     # Python-bound, so threads would share one core), on loopback only.
-    with LocalCluster(n_workers=min(workers, len(todo)), threads_per_worker=1,
-                      processes=True, host="127.0.0.1", dashboard_address=None,
-                      silence_logs=40) as cluster, Client(cluster) as client:
+    with _workers_ignore_ctrl_c():
+        cluster = LocalCluster(n_workers=min(workers, len(todo)), threads_per_worker=1,
+                               processes=True, host="127.0.0.1",
+                               dashboard_address="127.0.0.1:0", silence_logs=40)
+    with cluster, Client(cluster) as client:
         return _on_cluster(client, study, todo, store, progress, total)
+
+
+@contextlib.contextmanager
+def _workers_ignore_ctrl_c():
+    """Start processes with SIGINT ignored, so that Ctrl-C stops only this one.
+
+    Ctrl-C reaches the terminal's whole process group; the workers leave it to this
+    process, which stops them cleanly (Python keeps an inherited SIG_IGN instead of
+    raising KeyboardInterrupt).
+    """
+    try:
+        previous = signal.signal(signal.SIGINT, signal.SIG_IGN)
+    except ValueError:  # not the main thread: signals are not ours to set
+        yield
+        return
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGINT, previous)
 
 
 #: Chunks in flight per worker: enough to keep each busy, few enough that the driver's
