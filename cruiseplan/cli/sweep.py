@@ -4,10 +4,14 @@ from __future__ import annotations
 
 import sys
 import time
+from datetime import datetime, timezone
+
+import numpy as np
 
 from cruiseplan.cautions import CAUTIONS
 from cruiseplan.cli.progress import progress_bar
 from cruiseplan.errors import CruiseplanError
+from cruiseplan.io.bundled import shown_path
 from cruiseplan.io.study_file import load_study
 from cruiseplan.model.study import BAD_INPUT, GO, NO_GO, NOT_RUN
 from cruiseplan.studies.sweep import run_study
@@ -74,6 +78,13 @@ def cmd_sweep(args):
     sys.stdout.write(summary(study, ds, args.output, time.perf_counter() - t0))
 
 
+def _value_text(axis, value) -> str:
+    if axis.name == "departure":
+        return datetime.fromtimestamp(value, timezone.utc).strftime("%Y-%m-%dT%H:%MZ")
+    unit = "" if axis.unit in ("1", "amount") else f" {axis.unit}"
+    return f"{value:g}{unit}" if isinstance(value, float) else f"{value}{unit}"
+
+
 def summary(study, ds, output: str, seconds: float) -> str:
     """A text summary of a finished study store.
 
@@ -95,20 +106,27 @@ def summary(study, ds, output: str, seconds: float) -> str:
     """
     verdict = ds["verdict"].values
     lines = [f"Study {study.name}: {study.description}".rstrip(": "),
-             f"Base {study.kind}: {study.base}",
+             f"Base {study.kind}: {shown_path(study.base)}"
+             + (f"; forecast {study.forecast}" if study.forecast else ""),
              f"{study.size} points in {len(study.all_blocks())} chunks, "
              f"{seconds:.1f} s; written to {output}", "", "Axes:"]
     for axis in study.axes:
-        vals = ", ".join(f"{v:g}" if isinstance(v, float) else str(v) for v in axis.values[:6])
+        vals = ", ".join(_value_text(axis, v) for v in axis.values[:6])
         more = f", ... ({len(axis)} values)" if len(axis) > 6 else ""
-        unit = "" if axis.unit in ("1", "amount") else f" [{axis.unit}]"
-        lines.append(f"  {axis.dim}{unit}: {vals}{more}")
+        lines.append(f"  {axis.dim}: {vals}{more}")
     lines += ["", "Verdicts:"]
     for code, word in ((GO, "GO"), (NO_GO, "NO-GO"), (BAD_INPUT, "not planned (bad input)"),
                        (NOT_RUN, "not run")):
         count = int((verdict == code).sum())
         if count or code in (GO, NO_GO):
             lines.append(f"  {word:24s} {count}")
+    if "used" in ds and (verdict == GO).any():
+        used = np.where(verdict == GO, ds["used"].values, np.inf)
+        at = np.unravel_index(int(np.argmin(used)), used.shape)
+        where = ", ".join(f"{a.dim} {_value_text(a, a.values[i])}"
+                          for a, i in zip(study.axes, at))
+        lines += ["", f"Least used among GO points: {used[at]:.4g} "
+                      f"{ds['used'].attrs['units']} at {where}"]
     lines += ["", f"Read it with xarray.open_zarr({output!r}); SI units in each "
                   "variable's attributes.", "", "CAUTION:"]
     lines += [f"  * {c}" for c in CAUTIONS]
