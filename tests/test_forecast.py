@@ -32,9 +32,9 @@ from cruiseplan.physics.atmosphere import (  # noqa: E402
     isa_temperature_pressure,
     pressure_altitude_from_pressure,
 )
-from cruiseplan.physics.forecast import GriddedWeather, wind_from  # noqa: E402
+from cruiseplan.physics.forecast import GriddedWeather  # noqa: E402
 from cruiseplan.physics.geo import destination_point  # noqa: E402
-from cruiseplan.physics.winds import WindProfile  # noqa: E402
+from cruiseplan.physics.winds import WindProfile, wind_from  # noqa: E402
 from cruiseplan.planning.forecast import (  # noqa: E402
     leg_midpoint,
     leg_times,

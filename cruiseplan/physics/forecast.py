@@ -44,7 +44,7 @@ import numpy as np
 
 from cruiseplan.errors import ForecastFileError
 from cruiseplan.physics.atmosphere import check_altitude, isa_temperature_pressure
-from cruiseplan.physics.winds import WindProfile
+from cruiseplan.physics.winds import WindProfile, wind_from
 
 #: Slack on the grid's edges [deg, s]: a point this close outside is taken as on the edge.
 EDGE_SLACK = 1e-9
@@ -85,31 +85,6 @@ def point_text(lat, lon) -> str:
         lon = (lon + 180.0) % 360.0 - 180.0
     return (f"{abs(lat):.4f} {'S' if lat < 0 else 'N'} "
             f"{abs(lon):.4f} {'W' if lon < 0 else 'E'}")
-
-
-def wind_from(u, v):
-    """Direction the wind blows from [deg true] and its speed, from its components.
-
-    Parameters
-    ----------
-    u : array_like
-        Eastward wind [m/s].
-    v : array_like
-        Northward wind [m/s].
-
-    Returns
-    -------
-    direction : numpy.ndarray
-        Direction the wind blows from [deg true], in [0, 360).
-    speed : numpy.ndarray
-        Wind speed [m/s].
-
-    References
-    ----------
-    .. [2] WMO-No. 306: direction = atan2(-u, -v), the meteorological convention.
-    """
-    u, v = np.asarray(u, dtype=float), np.asarray(v, dtype=float)
-    return np.mod(np.degrees(np.arctan2(-u, -v)), 360.0), np.hypot(u, v)
 
 
 def _axis(name, values, source) -> np.ndarray:

@@ -22,6 +22,32 @@ from cruiseplan.errors import CruiseplanError
 from cruiseplan.physics.airspeed import wind_components
 
 
+def wind_from(u, v):
+    """Direction the wind blows from [deg true] and its speed, from its components.
+
+    Parameters
+    ----------
+    u : array_like
+        Eastward wind [m/s].
+    v : array_like
+        Northward wind [m/s].
+
+    Returns
+    -------
+    direction : numpy.ndarray
+        Direction the wind blows from [deg true], in [0, 360).
+    speed : numpy.ndarray
+        Wind speed [m/s].
+
+    References
+    ----------
+    .. [1] WMO-No. 306, *Manual on Codes*: wind direction is where it blows from,
+       direction = atan2(-u, -v) for eastward u and northward v.
+    """
+    u, v = np.asarray(u, dtype=float), np.asarray(v, dtype=float)
+    return np.mod(np.degrees(np.arctan2(-u, -v)), 360.0), np.hypot(u, v)
+
+
 @dataclass(frozen=True)
 class WindProfile:
     """Winds at several altitudes (SI).
@@ -94,9 +120,7 @@ class WindProfile:
             Wind speed [m/s].
         """
         north, east = self.vector(altitude)
-        speed = np.hypot(north, east)
-        direction = np.mod(np.degrees(np.arctan2(-east, -north)), 360.0)
-        return direction, speed
+        return wind_from(east, north)
 
     def components(self, course_deg, altitude):
         """Headwind and crosswind from the right [m/s] on a true course at altitudes [m].
