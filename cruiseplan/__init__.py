@@ -57,6 +57,9 @@ _PUBLIC = {
     ),
     "cruiseplan.planning.reserve": ("ReserveAmount", "reserve_required"),
     "cruiseplan.planning.survey": ("SurveyPlan", "plan_survey"),
+    "cruiseplan.io.study_file": ("load_study", "read_study"),
+    "cruiseplan.model.study": ("Study",),
+    "cruiseplan.studies.sweep": ("run_study",),
 }
 _API = {name: module for module, names in _PUBLIC.items() for name in names}
 
