@@ -158,3 +158,42 @@ def test_the_checker_finds_faults():
     assert any("overlaps" in f for f in faults)
     assert any("runs off the canvas" in f for f in faults)
     assert any(f.startswith("offset text") for f in faults)
+
+
+def test_speed_axis_spans_the_flyable_region():
+    """On a hot day the speed axis ends just past the fastest level speed the power
+    allows, not at a multiple of the stall speed (issue 16: 185 kt for a 110-kt aircraft)."""
+    import cruiseplan as cp
+    from cruiseplan.physics.atmosphere import air_state
+    from cruiseplan.planning.optimise import speed_schedule
+    from cruiseplan.planning.performance import resolve_loading
+
+    af = cp.load_airframe("demo-trainer")
+    h = np.arange(0.0, 12001.0, 500.0) * 0.3048
+    for dev in (-20.0, 0.0, 20.0):
+        v = plots.speed_span(af, h, isa_dev=dev)
+        load = resolve_loading(af, None, None, None)
+        sched = speed_schedule(af, load.mass, air_state(h, dev), load.store,
+                               stall_margin=1.0)
+        fastest = np.nanmax(sched.window_hi)
+        assert v[-1] == pytest.approx(1.1 * fastest, rel=1e-12)
+        assert v[0] < np.min(af.stall_speed(load.mass, air_state(h, dev).density))
+
+
+def test_profile_ground_band_lies_under_the_path(tmp_path, caught, capsys):
+    """The highest-ground band of each leg is drawn only where the path is above it, and
+    the altitude axis does not run down to sea level for a flight high above it."""
+    from matplotlib.collections import PolyCollection
+
+    assert cli.main(["plan", "demo-quad-inspection", "--plot", str(tmp_path / "f.png")]) == 0
+    capsys.readouterr()
+    ax = caught.pop().axes[0]
+    path = ax.get_lines()[0]
+    x, h = path.get_xdata(), path.get_ydata()
+    bands = [c for c in ax.collections if isinstance(c, PolyCollection)]
+    assert bands
+    for band in bands:
+        for poly in band.get_paths():
+            vx, vy = poly.vertices.T
+            assert np.all(np.interp(vx, x, h) >= vy.max() - 1e-6)
+    assert ax.get_ylim()[0] > 0.5 * np.min(h)
