@@ -435,6 +435,14 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     if np.any(clipped):
         note += (" Where the polar's minimum-power point lies beyond CLmax, the star "
                  "sits at the stall speed.")
+    if h.size > 1:
+        # A drone's few hundred metres barely change its curves: say so, since their
+        # lines and marks then lie on top of one another.
+        with np.errstate(invalid="ignore", divide="ignore"):
+            spread = np.nanmax(np.abs(required / required[:1] - 1.0), initial=np.nan)
+        if np.isfinite(spread) and spread < 0.05:
+            note += (f" The curves of all {h.size} altitudes lie within "
+                     f"{max(spread * 100, 0.1):.1f} % of each other: their marks overlap.")
     fig.text(0.71, 0.2, textwrap.fill(note, 40), fontsize=MIN_FONT + 0.5, va="bottom",
              ha="left")
     footer(fig, figure_context(airframe, grid.mass, grid.store, dev, units))
