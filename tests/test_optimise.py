@@ -295,3 +295,28 @@ def test_best_cruise_rejects_bad_input(trainer):
         best_cruise(trainer, [0.0], wind=WindProfile.calm())
     with pytest.raises(cp.CruiseplanError, match="increasing"):
         best_cruise(trainer, [1000.0, 0.0])
+
+
+def test_equally_good_altitudes_band_the_best(trainer):
+    """Constant BSFC and propeller efficiency: best range does not change with altitude
+    (Breguet, Anderson sec. 5.7), so every flyable altitude is in the 0.5 % band; the
+    chosen one stays the largest figure (exact ties: the highest)."""
+    h = np.arange(0.0, 8001.0, 2000.0) * 0.3048
+    best = cp.best_cruise(trainer, h)
+    band = best.equally_good()
+    assert band.dtype == bool and band.all()
+    assert best.best_index == h.size - 1
+    # The band is the values within the tolerance of the best, and nothing else.
+    drone = cp.load_airframe("demo-survey-drone")
+    answer = cp.best_cruise(drone, [0.0, 1000.0, 2000.0, 3000.0])
+    v = answer.value
+    for tolerance in (0.0, 0.005, 0.05):
+        expected = v >= v[answer.best_index] * (1.0 - tolerance)
+        assert np.array_equal(answer.equally_good(tolerance), expected)
+    assert answer.equally_good(0.0)[answer.best_index]
+
+
+def test_nothing_flyable_has_no_equally_good_band(trainer):
+    best = cp.best_cruise(trainer, [9000.0, 10000.0])  # above the ceiling
+    assert best.best_index == -1
+    assert not best.equally_good().any()

@@ -194,7 +194,7 @@ def test_card_is_one_kneeboard_page(trainer_card):
     sizes = []
     pages[0].extract_text(visitor_text=lambda text, cm, tm, font, size:
                           sizes.append(size * tm[0]) if text.strip() else None)
-    assert sizes and min(sizes) >= 7.0
+    assert sizes and min(sizes) >= 9.0  # kneeboard body text (issue 16)
 
 
 def test_card_text_holds_cautions_and_table_values(trainer_card):
@@ -284,11 +284,76 @@ def test_parse_reserve_errors(trainer, drone):
         card.card_content(trainer, reserve="200L")
 
 
-def test_card_too_long_for_one_page(trainer):
-    content = card.card_content(trainer, altitudes=np.arange(0.0, 3001.0, 150.0),
+def card_pdf_text(path):
+    """Text and font sizes [pt] of every page of a card's PDF."""
+    texts, sizes = [], []
+    for page in pdf_pages(path):
+        texts.append(page.extract_text(visitor_text=lambda text, cm, tm, font, size:
+                                       sizes.append(size * tm[0]) if text.strip() else None))
+    return texts, sizes
+
+
+def test_long_card_goes_onto_more_pages(capsys, tmp_path):
+    """21 altitudes x 3 settings: three A5 pages, every row on one, heads repeated."""
+    out = tmp_path / "card.pdf"
+    rc, _, err = run(["card", "demo-trainer", "-o", str(out), "--altitudes",
+                      "0:10000ft:500ft", "--power", "50,60,70"], capsys)
+    assert (rc, err) == (0, "")
+    pages = pdf_pages(out)
+    assert 2 <= len(pages) <= 4
+    assert all((round(float(p.mediabox[2])), round(float(p.mediabox[3]))) == (420, 595)
+               for p in pages)
+    texts, sizes = card_pdf_text(out)
+    assert min(sizes) >= 9.0
+    text = squash(" ".join(texts))
+    markdown = (tmp_path / "card.md").read_text(encoding="utf-8")
+    rows = [line for line in markdown.splitlines() if re.match(r"^\| [-\d]", line)]
+    assert len(rows) == 21 * 3 + 21
+    for line in rows:  # every table row, whole, on some page
+        assert " ".join(c.strip() for c in line.strip("|").split("|")) in text
+    for caution in cp.CAUTIONS:
+        assert caution in text
+    assert "(continued)" in texts[1] and f"page 1 of {len(pages)}" in squash(texts[0])
+    # Each page that carries the cruise table repeats its column heads.
+    assert sum("[US gal/h]" in t for t in texts) >= 2
+
+
+def test_card_on_a4_only_when_asked(capsys, tmp_path):
+    out = tmp_path / "card.pdf"
+    rc, _, _ = run(["card", "demo-trainer", "-o", str(out), "--page", "a4"], capsys)
+    assert rc == 0
+    page = pdf_pages(out)[0]
+    assert (round(float(page.mediabox[2])), round(float(page.mediabox[3]))) == (595, 842)
+
+
+def test_card_too_long_for_its_pages(trainer):
+    content = card.card_content(trainer, altitudes=np.arange(0.0, 3001.0, 25.0),
                                 power_settings=[0.5, 0.6, 0.7])
-    with pytest.raises(CruiseplanError, match="card's 84 table rows do not fit one A4 page"):
-        plots.card_figure(content)
+    with pytest.raises(CruiseplanError, match="does not fit 4 pages at a legible size"):
+        plots.card_pages(content)
+    with pytest.raises(CruiseplanError, match="page 'B5' is not one of A5, A4"):
+        plots.card_pages(content, "B5")
+
+
+def test_card_status_only_where_not_ok(trainer):
+    content = card.card_content(trainer, altitudes=np.array([0.0, 8000.0]) * FT,
+                                power_settings=[0.55, 0.75], isa_dev=10.0)
+    table = content.blocks[0]
+    assert table.columns[-1][0] == "status"
+    status = [row[-1] for row in table.rows]
+    assert status == ["", "", "", "POWER"]  # 8000 ft, 75 %: beyond full throttle
+    assert "| ok |" not in content.markdown()
+
+
+def test_electric_card_speaks_its_units(drone):
+    """Minutes throughout, m/s for the service ceiling rate, no ceiling far above."""
+    content = card.card_content(drone)
+    md = content.markdown()
+    table = content.blocks[0]
+    assert [u for n, u, _ in table.columns if n.startswith("endur.")] == ["min", "min"]
+    assert "h:mm" not in md and "ft/min" not in md and "ft" not in md.split()
+    assert "Absolute ceiling" not in md and "not searched higher" not in md
+    assert "0.5 m/s of climb left at every altitude of this card" in md
 
 
 # --- bad calls leave no file ----------------------------------------------------------------
@@ -310,8 +375,8 @@ def test_card_too_long_for_one_page(trainer):
      "is not less than the fuel on board"),
     (["card", "demo-trainer", "-o", "{d}/out.pdf", "--power", "55,120"],
      "--power: '55,120' must be percentages of rated power"),
-    (["card", "demo-trainer", "-o", "{d}/out.pdf", "--altitudes", "0:30000ft:1000ft"],
-     "do not fit one A4 page"),
+    (["card", "demo-trainer", "-o", "{d}/out.pdf", "--altitudes", "0:9000ft:50ft"],
+     "does not fit 4 pages at a legible size"),
 ])
 def test_bad_calls_exit_2_and_leave_no_file(capsys, tmp_path, argv, message):
     argv = [a.format(d=tmp_path) for a in argv]

@@ -51,8 +51,8 @@ def register(sub):
     options.add_pack_temperature(p)
     p.set_defaults(run=cmd_plot)
 
-    p = sub.add_parser("card", help="one-page cruise card FILE.pdf and its markdown twin "
-                                    "FILE.md")
+    p = sub.add_parser("card", help="kneeboard cruise card FILE.pdf (A5, more pages when "
+                                    "the tables need them) and its markdown twin FILE.md")
     common(p, "FILE.pdf; the markdown twin FILE.md is written beside it")
     p.add_argument("--altitudes", help="pressure altitudes (default 0:8000ft:2000ft; drones "
                                        "0:400m:100m)")
@@ -63,6 +63,8 @@ def register(sub):
                                      "'25%%' of the usable capacity, or '10L', '7kg', "
                                      "'120Wh' (default: piston 45min, electric 25%%; local "
                                      "rules decide)")
+    p.add_argument("--page", choices=("A5", "A4"), default="A5", type=str.upper,
+                   help="paper size of the card (default A5, a kneeboard page)")
     options.add_pack_temperature(p)
     options.add_monte_carlo(p)
     p.set_defaults(run=cmd_card)
@@ -138,13 +140,13 @@ def cmd_plot(args):
 
 
 def cmd_card(args):
-    """Write the one-page cruise card FILE.pdf and its markdown twin FILE.md.
+    """Write the cruise card FILE.pdf (A5 pages unless asked) and its markdown twin FILE.md.
 
     Parameters
     ----------
     args : argparse.Namespace
         Parsed ``card`` options: airframe, output, altitudes [ft when bare], power
-        [percent when bare], reserve, loading, units and Monte Carlo.
+        [percent when bare], reserve, page size, loading, units and Monte Carlo.
 
     Raises
     ------
@@ -164,13 +166,14 @@ def cmd_card(args):
 
     n = options.monte_carlo_n(args)
     with monte_carlo_progress(n) as progress:
-        markdown, fig = plots.cruise_card(af, altitudes=h, power_settings=frac,
-                                          isa_dev=dev, reserve=reserve,
-                                          units=options.read_units(args, af),
-                                          stall_margin=args.stall_margin,
-                                          monte_carlo=n, seed=args.seed, progress=progress,
-                                          **options.read_loading(af, args))
-    pdf = plots.figure_bytes(fig, "pdf")
+        markdown, pages = plots.cruise_card(af, altitudes=h, power_settings=frac,
+                                            isa_dev=dev, reserve=reserve,
+                                            units=options.read_units(args, af),
+                                            stall_margin=args.stall_margin,
+                                            monte_carlo=n, seed=args.seed,
+                                            progress=progress, page=args.page,
+                                            **options.read_loading(af, args))
+    pdf = plots.pages_pdf(pages)
     twin = out.with_suffix(".md")
     write_bytes_atomic(out, pdf)
     try:

@@ -65,6 +65,10 @@ SERVICE_CEILING_RATE = 100 * FT_PER_MIN
 OBJECTIVES = ("range", "endurance", "economy")
 #: Relative difference below which two altitudes' objectives count as equal.
 TIE_TOLERANCE = 1e-9
+#: Relative difference within which altitudes count as equally good to a crew [-]: 0.5 %,
+#: finer than the model's inputs (BSFC, polar, winds) are known (common practice, no
+#: source). Figures and tables show this band beside the chosen altitude.
+EQUAL_TOLERANCE = 0.005
 #: Altitude searched for ceilings [m].
 CEILING_SEARCH_TOP = 20000.0
 
@@ -450,6 +454,30 @@ class BestCruise:
     def feasible(self) -> np.ndarray:
         """Altitudes with a flyable speed inside the band."""
         return self.schedule.feasible & (self.out_of_band == 0)
+
+    def equally_good(self, tolerance: float = EQUAL_TOLERANCE) -> np.ndarray:
+        """Flyable in-band altitudes whose objective is within ``tolerance`` of the best's.
+
+        The chosen altitude (:attr:`best_index`) stays the one of the largest value
+        (exact ties: the highest, the faster); this is the band a crew may pick from for
+        other reasons (terrain, cloud, traffic) at no practical cost.
+
+        Parameters
+        ----------
+        tolerance : float, optional
+            Relative shortfall from the best value still counted equal [-];
+            :data:`EQUAL_TOLERANCE` (0.5 %) by default.
+
+        Returns
+        -------
+        numpy.ndarray
+            Boolean by altitude; all False when no altitude is flyable.
+        """
+        if self.best_index < 0:
+            return np.zeros(self.value.shape, dtype=bool)
+        ok = self.feasible & np.isfinite(self.value)
+        best = self.value[self.best_index]
+        return ok & (np.where(ok, self.value, -np.inf) >= best * (1.0 - tolerance))
 
     def reason(self, i: int) -> str:
         """Why altitude ``i`` is not flyable, or what binds its speed.

@@ -21,7 +21,7 @@ References
    (power required and available), 5.7 (range and endurance).
 """
 
-from cruiseplan.plots.cardpage import CARD_FONTS, card_figure, cruise_card
+from cruiseplan.plots.cardpage import CARD_FONTS, CARD_MIN_FONT, card_pages, cruise_card
 from cruiseplan.plots.cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
 from cruiseplan.plots.profile import mission_profile
 from cruiseplan.plots.residuals import fit_residuals
@@ -35,13 +35,15 @@ from cruiseplan.plots.style import (
     PLOT_SIZE,
     SERIES_STYLES,
     figure_bytes,
+    pages_pdf,
     speed_span,
 )
 from cruiseplan.plots.survey import survey_plan_view
 
 __all__ = [
-    "CARD_FONTS", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES", "MIN_FONT",
+    "CARD_FONTS", "CARD_MIN_FONT", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES",
+    "MIN_FONT",
     "OBJECTIVE_STYLES", "OKABE_ITO", "PLOT_SIZE", "SERIES_STYLES", "altitude_profile",
-    "card_figure", "cruise_card", "figure_bytes", "fit_residuals", "mission_profile",
-    "power_curves", "specific_range_map", "speed_span", "survey_plan_view",
+    "card_pages", "cruise_card", "figure_bytes", "fit_residuals", "mission_profile",
+    "pages_pdf", "power_curves", "specific_range_map", "speed_span", "survey_plan_view",
 ]

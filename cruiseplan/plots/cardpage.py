@@ -1,4 +1,12 @@
-"""The cruise card's page: text and tables laid out on one portrait page."""
+"""The cruise card's pages: text and tables laid out top-down on portrait kneeboard pages.
+
+Sizes (:data:`CARD_FONTS`): body text, tables, notes, cautions and footer 9 pt, headings
+10.5 pt, title 13 pt, none below :data:`CARD_MIN_FONT` (9 pt) on A5. Tables fill the text
+width (spare width shared between the columns); a table longer than the page goes on over
+the next page with its column heads repeated, and the rows of one altitude stay together.
+Text is measured from the font's metrics (FreeType, unhinted, as the PDF draws it), not
+from glyph outlines: the same widths at a small part of the cost.
+"""
 
 from __future__ import annotations
 
@@ -6,102 +14,165 @@ import functools
 
 import numpy as np
 from matplotlib.figure import Figure
-from matplotlib.font_manager import FontProperties
+from matplotlib.font_manager import FontProperties, findfont, get_font
+from matplotlib.ft2font import LoadFlags
 from matplotlib.lines import Line2D
 from matplotlib.patches import Rectangle
-from matplotlib.textpath import TextPath
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.plots.style import (
-    CARD_PAGES,
-)
+from cruiseplan.plots.style import CARD_PAGES
 from cruiseplan.report.card import card_content
 
-# --- cruise-card page ---------------------------------------------------------------------
+# --- cruise-card pages ----------------------------------------------------------------------
 
-#: Font sizes of the card [pt]: all at least MIN_FONT.
-CARD_FONTS = {"title": 12.0, "meta": 7.5, "heading": 9.0, "table": 8.0, "text": 7.5,
-              "caution": 7.5, "footer": 7.0}
-_CARD_MARGIN = 0.3  # [in]
+#: Font sizes of the card [pt]: all at least CARD_MIN_FONT.
+CARD_FONTS = {"title": 13.0, "meta": 9.0, "heading": 10.5, "table": 9.0, "text": 9.0,
+              "caution": 9.0, "footer": 9.0}
+#: Smallest font of the card [pt]: legible on a kneeboard in turbulence.
+CARD_MIN_FONT = 9.0
+#: Most pages a card may take [-]; more is no longer a card.
+CARD_MAX_PAGES = 4
+_CARD_MARGIN = 0.25  # [in]
 _LEADING = 1.18  # line pitch over font size, text
 _ROW_LEADING = 1.3  # line pitch over font size, table rows
+_PAD = 0.035  # cell padding [in]
+_FOOTER_Y = 0.16  # footer baseline [in]
+_BOTTOM = _FOOTER_Y + 0.2  # lowest baseline of the content [in]
+
+
+@functools.lru_cache(maxsize=2)
+def _font(bold: bool):
+    return get_font(findfont(FontProperties(weight="bold" if bold else "normal")))
 
 
 @functools.lru_cache(maxsize=4096)
 def _text_width(text: str, size: float, bold: bool) -> float:
-    prop = FontProperties(size=size, weight="bold" if bold else "normal")
-    return TextPath((0, 0), text, size=size, prop=prop).get_extents().x1 / 72.0
+    """Ink width of one line of ``text`` at ``size`` [pt], in inches (unhinted metrics)."""
+    font = _font(bold)
+    font.set_size(size, 72.0)  # 1 pixel = 1 pt; FreeType gives 1/64 pixel
+    font.set_text(text, 0.0, flags=LoadFlags.NO_HINTING)
+    return font.get_width_height()[0] / 64.0 / 72.0
 
 
-class _Page:
-    """Top-down text layout on a figure, in inches; remembers whether everything fitted."""
+def _wrap(text: str, size: float, width: float, bold: bool = False) -> list:
+    """Lines of ``text`` no wider than ``width`` [in] (a word longer than that on its own)."""
+    space = _text_width("a a", size, bold) - 2 * _text_width("a", size, bold)
+    lines, line, used = [], [], 0.0
+    for word in text.split():
+        w = _text_width(word, size, bold)
+        if line and used + space + w > width:
+            lines.append(" ".join(line))
+            line, used = [word], w
+        else:
+            used += (space if line else 0.0) + w
+            line.append(word)
+    return lines + ([" ".join(line)] if line else [])
 
-    def __init__(self, fig: Figure):
-        self.fig = fig
-        self.width, self.height = fig.get_size_inches()
+
+class _Pages:
+    """Top-down text layout over as many pages as needed, in inches."""
+
+    def __init__(self, size, title: str):
+        self.size = size
+        self.title = title
+        self.figures = []
         self.left = _CARD_MARGIN
-        self.text_width = self.width - 2 * _CARD_MARGIN
-        self.y = self.height - _CARD_MARGIN
+        self.text_width = size[0] - 2 * _CARD_MARGIN
+        self.new_page()
 
-    @staticmethod
-    def measure(text: str, size: float, bold: bool = False) -> float:
-        """Advance width of ``text`` [in], from the unhinted glyph outlines (as in PDF)."""
-        return _text_width(text, size, bold)
+    def new_page(self):
+        if len(self.figures) == CARD_MAX_PAGES:
+            raise CruiseplanError(
+                f"the cruise card does not fit {CARD_MAX_PAGES} pages at a legible size: "
+                "give fewer altitudes or power settings")
+        self.fig = Figure(figsize=self.size)
+        self.figures.append(self.fig)
+        self.y = self.size[1] - _CARD_MARGIN
+        if len(self.figures) > 1:
+            self.down(CARD_FONTS["heading"], 0.8)
+            self.text(self.left, f"{self.title} (continued)", CARD_FONTS["heading"],
+                      bold=True)
+            self.y -= 0.06
 
-    def wrap(self, text: str, size: float, width: float) -> list:
-        space = _text_width("a a", size, False) - 2 * _text_width("a", size, False)
-        lines, line, used = [], [], 0.0
-        for word in text.split():
-            w = _text_width(word, size, False)
-            if line and used + space + w > width:
-                lines.append(" ".join(line))
-                line, used = [word], w
-            else:
-                used += (space if line else 0.0) + w
-                line.append(word)
-        return lines + ([" ".join(line)] if line else [])
+    def room(self, height: float) -> bool:
+        """Whether ``height`` [in] more fits above the footer."""
+        return self.y - height >= _BOTTOM
+
+    def need(self, height: float):
+        """Start a new page unless ``height`` [in] fits on this one."""
+        if not self.room(height):
+            self.new_page()
 
     def text(self, x: float, text: str, size: float, *, bold=False, ha="left", **kw):
         self.fig.text(x, self.y, text, fontsize=size, ha=ha, va="baseline",
                       weight="bold" if bold else "normal",
                       transform=self.fig.dpi_scale_trans, **kw)
 
+    def line(self, y: float):
+        self.fig.add_artist(Line2D([self.left, self.left + self.text_width], [y, y],
+                                   color="black", linewidth=0.8,
+                                   transform=self.fig.dpi_scale_trans))
+
     def down(self, size: float, lines: float = 1.0, leading: float = _LEADING):
         self.y -= lines * size * leading / 72.0
 
-    def paragraph(self, text: str, size: float, *, indent: float = 0.0, bullet: str = ""):
-        for k, line in enumerate(self.wrap(text, size, self.text_width - indent)):
+    def paragraph(self, text: str, size: float, *, indent: float = 0.0, bullet: str = "",
+                  bold: bool = False):
+        lines = _wrap(text, size, self.text_width - indent, bold)
+        pitch = size * _LEADING / 72.0
+        # A short paragraph is not split; a long one may go on over the page.
+        self.need(pitch * min(len(lines), 3))
+        for k, line in enumerate(lines):
+            self.need(pitch)
             self.down(size)
             if bullet and k == 0:
-                self.fig.text(self.left, self.y, bullet, fontsize=size,
-                              transform=self.fig.dpi_scale_trans)
-            self.fig.text(self.left + indent, self.y, line, fontsize=size,
-                          transform=self.fig.dpi_scale_trans)
+                self.text(self.left, bullet, size)
+            self.text(self.left + indent, line, size, bold=bold)
 
-    def table(self, table) -> bool:
+    def heading(self, text: str, following: float):
+        """A block heading, kept on one page with ``following`` [in] of its block."""
+        size = CARD_FONTS["heading"]
+        self.need(0.06 + size * _LEADING / 72.0 + following)
+        self.y -= 0.06
+        self.down(size)
+        self.text(self.left, text, size, bold=True)
+
+    # --- tables ---
+
+    def _widths(self, table) -> tuple:
+        """Column widths [in] filling the text width, and each row's cells as lines."""
         size = CARD_FONTS["table"]
-        pad = 0.05
-        cells = [[c for c in row] for row in table.rows]
         names = [name.split("\n") for name, _, _ in table.columns]
-        widths = []
-        for j, (_, unit, _) in enumerate(table.columns):
-            w = max([self.measure(n, size, bold=True) for n in names[j]]
-                    + [self.measure(f"[{unit}]", size)]
-                    + [self.measure(r[j], size) for r in cells])
-            widths.append(w + 2 * pad)
-        total = sum(widths)
-        if total > self.text_width:
-            return False
-        widths = [w + (self.text_width - total) / len(widths) for w in widths]
-        edges = np.concatenate([[self.left], self.left + np.cumsum(widths)])
-        row_h = size * _ROW_LEADING / 72.0
+        head = [max([_text_width(n, size, True) for n in names[j]]
+                    + [_text_width(f"[{unit}]", size, False)]) + 2 * _PAD
+                for j, (_, unit, _) in enumerate(table.columns)]
+        body = [max([_text_width(r[j], size, False) for r in table.rows], default=0.0)
+                + 2 * _PAD for j in range(len(table.columns))]
+        widths = [max(a, b) for a, b in zip(head, body)]
+        # Left-aligned text columns (status, "held by") wrap when the table is too wide.
+        wrap = [j for j, (_, _, align) in enumerate(table.columns) if align == "left"]
+        spare = self.text_width - sum(widths)
+        if spare < 0 and wrap:
+            fixed = sum(w for j, w in enumerate(widths) if j not in wrap)
+            share = (self.text_width - fixed) / len(wrap)
+            for j in wrap:
+                longest = max([_text_width(w, size, False) for r in table.rows
+                               for w in r[j].split()], default=0.0) + 2 * _PAD
+                widths[j] = max(min(widths[j], share), head[j], longest)
+            spare = self.text_width - sum(widths)
+        if spare < -1e-9:
+            raise CruiseplanError(
+                f"the card's table {table.heading!r} is {sum(widths):.2f} in wide at "
+                f"{size:g} pt and the page's text {self.text_width:.2f} in: give the card a "
+                "larger page (--page A4)")
+        widths = [w + spare / len(widths) for w in widths]
+        cells = [[_wrap(text, size, widths[j] - 2 * _PAD) if j in wrap else [text]
+                  for j, text in enumerate(row)] for row in table.rows]
+        return widths, names, cells
 
-        def put(j, text, bold=False):
-            align = table.columns[j][2]
-            x = edges[j] + pad if align == "left" else edges[j + 1] - pad
-            self.text(x, text, size, bold=bold, ha="left" if align == "left" else "right")
-
+    def _head(self, table, edges, names):
+        size = CARD_FONTS["table"]
         depth = max(len(n) for n in names)
         for k in range(depth):
             self.down(size)
@@ -109,95 +180,125 @@ class _Page:
                 # Names sit on the line just above the units.
                 line = k - (depth - len(lines))
                 if line >= 0:
-                    put(j, lines[line], bold=True)
+                    self._put(table, edges, j, lines[line], bold=True)
         self.down(size)
         for j, (_, unit, _) in enumerate(table.columns):
-            put(j, f"[{unit}]" if unit else "")
-        rule = self.y - 0.3 * row_h
-        self.fig.add_artist(Line2D([self.left, self.left + self.text_width], [rule, rule],
-                                   color="black", linewidth=0.8,
-                                   transform=self.fig.dpi_scale_trans))
+            if unit:
+                self._put(table, edges, j, f"[{unit}]")
+        row_h = size * _ROW_LEADING / 72.0
+        self.line(self.y - 0.3 * row_h)
         self.y -= 0.25 * row_h
-        for row, group in zip(cells, table.groups):
-            self.down(size, leading=_ROW_LEADING)
+
+    def _put(self, table, edges, j, text, bold=False):
+        left = table.columns[j][2] == "left"
+        x = edges[j] + _PAD if left else edges[j + 1] - _PAD
+        self.text(x, text, CARD_FONTS["table"], bold=bold, ha="left" if left else "right")
+
+    def table(self, table, following: float):
+        """Draw ``table``; heading and ``following`` [in] are kept with its head."""
+        size = CARD_FONTS["table"]
+        widths, names, cells = self._widths(table)
+        edges = np.concatenate([[self.left], self.left + np.cumsum(widths)])
+        row_h = size * _ROW_LEADING / 72.0
+        head_h = (max(len(n) for n in names) + 1) * size * _LEADING / 72.0 + 0.25 * row_h
+        heights = [max(len(c) for c in row) * row_h for row in cells]
+        groups = np.asarray(table.groups)
+        group_h = {g: sum(h for h, k in zip(heights, groups) if k == g) for g in set(groups)}
+        first = group_h[groups[0]] if len(groups) else 0.0
+        self.heading(table.heading, head_h + first)
+        self._head(table, edges, names)
+        for r, (row, group) in enumerate(zip(cells, groups)):
+            starts = r == 0 or groups[r - 1] != group
+            if not self.room(heights[r] + 0.3 * row_h) or (
+                    starts and not self.room(group_h[group] + 0.3 * row_h)
+                    and group_h[group] + head_h < self.size[1] / 2):
+                self.y -= 0.3 * row_h
+                self.line(self.y)
+                self.new_page()
+                self.down(size)
+                self.text(self.left, f"{table.heading} (continued)", size, bold=True)
+                self._head(table, edges, names)
+            top = self.y
             if group % 2:
                 self.fig.add_artist(Rectangle(
-                    (self.left, self.y - 0.3 * row_h), self.text_width, row_h,
-                    facecolor="0.88", edgecolor="none", zorder=0,
-                    transform=self.fig.dpi_scale_trans))
-            for j, text in enumerate(row):
-                put(j, text)
+                    (self.left, top - heights[r] - 0.3 * row_h),
+                    self.text_width, heights[r], facecolor="0.88", edgecolor="none",
+                    zorder=0, transform=self.fig.dpi_scale_trans))
+            for k in range(max(len(c) for c in row)):
+                self.down(size, leading=_ROW_LEADING)
+                for j, lines in enumerate(row):
+                    if k < len(lines) and lines[k]:
+                        self._put(table, edges, j, lines[k])
+            self.y = top - heights[r]
         self.y -= 0.3 * row_h
-        self.fig.add_artist(Line2D([self.left, self.left + self.text_width],
-                                   [self.y, self.y], color="black", linewidth=0.8,
-                                   transform=self.fig.dpi_scale_trans))
-        return True
+        self.line(self.y)
 
 
-def _draw_card(fig: Figure, content) -> bool:
-    """Draw the card on ``fig``; False when it does not fit the page."""
-    page = _Page(fig)
+def _draw_card(content, size) -> list:
+    """The card's pages on paper of ``size`` [in], as figures."""
     f = CARD_FONTS
-    page.down(f["title"], 0.8)
-    page.text(page.left, content.title, f["title"], bold=True)
-    page.y -= 0.04
+    pages = _Pages(size, content.title)
+    pages.down(f["title"], 0.8)
+    pages.text(pages.left, content.title, f["title"], bold=True)
+    pages.y -= 0.04
     for line in content.meta:
-        page.paragraph(line, f["meta"])
+        pages.paragraph(line, f["meta"])
+    text_line = f["text"] * _LEADING / 72.0
     for block in content.blocks:
-        page.y -= 0.06
-        page.down(f["heading"])
-        page.text(page.left, block.heading, f["heading"], bold=True)
         if hasattr(block, "columns"):
-            if not page.table(block):
-                return False
+            pages.table(block, 0.0)
             for note in block.notes:
-                page.paragraph(note, f["text"])
+                pages.paragraph(note, f["text"])
         else:
+            pages.heading(block.heading, 2 * text_line)
             for line in block.lines:
-                page.paragraph(line, f["text"])
-    page.y -= 0.06
-    page.down(f["heading"])
-    page.text(page.left, "Cautions", f["heading"], bold=True)
+                pages.paragraph(line, f["text"])
+    pages.heading("Cautions", 2 * f["caution"] * _LEADING / 72.0)
     for caution in content.cautions:
-        page.paragraph(caution, f["caution"], indent=0.12, bullet="\u2022")
-    footer_y = 0.14
-    fig.text(page.left, footer_y, content.footer, fontsize=f["footer"], style="italic",
-             transform=fig.dpi_scale_trans)
-    return page.y > footer_y + 0.16
+        pages.paragraph(caution, f["caution"], indent=0.14, bullet="\u2022")
+    n = len(pages.figures)
+    for k, fig in enumerate(pages.figures):
+        footer = content.footer + (f" \u2014 page {k + 1} of {n}" if n > 1 else "")
+        for j, line in enumerate(reversed(_wrap(footer, f["footer"], pages.text_width))):
+            fig.text(pages.left, _FOOTER_Y + j * f["footer"] * _LEADING / 72.0, line,
+                     fontsize=f["footer"], transform=fig.dpi_scale_trans)
+    return pages.figures
 
 
-def card_figure(content) -> Figure:
-    """Draw a cruise card on one portrait page (A5, or A4 when A5 is too small).
+def card_pages(content, page: str = "A5") -> list:
+    """Draw a cruise card on portrait pages (A5 unless asked), over as many as it takes.
 
     Parameters
     ----------
     content : cruiseplan.report.card.CardContent
         Title, header lines, tables and text blocks, cautions and footer.
+    page : {"A5", "A4"}, optional
+        Paper size (:data:`~cruiseplan.plots.style.CARD_PAGES`).
 
     Returns
     -------
-    matplotlib.figure.Figure
-        One page; no font is smaller than :data:`MIN_FONT`.
+    list of matplotlib.figure.Figure
+        One figure a page, at most :data:`CARD_MAX_PAGES`; no font is smaller than
+        :data:`CARD_MIN_FONT` [pt]. Save them with
+        :func:`cruiseplan.plots.pages_pdf`.
 
     Raises
     ------
     CruiseplanError
-        When the content does not fit one A4 page at legible size.
+        For an unknown page size, a table wider than the page at legible size, or a card
+        longer than :data:`CARD_MAX_PAGES` pages.
     """
-    for size in CARD_PAGES.values():
-        fig = Figure(figsize=size)
-        if _draw_card(fig, content):
-            return fig
-    rows = sum(len(getattr(b, "rows", ())) for b in content.blocks)
-    raise CruiseplanError(f"the cruise card's {rows} table rows do not fit one A4 page at a "
-                          f"legible size: give fewer altitudes or power settings")
+    key = str(page).upper()
+    if key not in CARD_PAGES:
+        raise CruiseplanError(f"page {page!r} is not one of {', '.join(CARD_PAGES)}")
+    return _draw_card(content, CARD_PAGES[key])
 
 
 def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
                 payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
                 stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
-                seed: int = 0, progress=None):
-    """The cruise card as markdown and as a one-page figure.
+                seed: int = 0, progress=None, page: str = "A5"):
+    """The cruise card as markdown and as kneeboard pages.
 
     Parameters
     ----------
@@ -224,20 +325,21 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
         Seed of the Monte Carlo [-].
     progress : callable, optional
         Called as ``progress(done, total)`` [-, -] after each chunk of the Monte Carlo.
+    page : {"A5", "A4"}, optional
+        Paper size of the pages.
 
     Returns
     -------
     markdown : str
         The card in markdown.
-    figure : matplotlib.figure.Figure
-        The same card on one portrait page (A5, or A4 when A5 is too small); save it with
-        :func:`cruiseplan.plots.figure_bytes`.
+    pages : list of matplotlib.figure.Figure
+        The same card on portrait pages (:func:`card_pages`); save them with
+        :func:`cruiseplan.plots.pages_pdf`.
 
     Raises
     ------
     CruiseplanError
-        As :func:`cruiseplan.report.card.card_content`, or when the card's tables do not
-        fit one A4 page at a legible size.
+        As :func:`cruiseplan.report.card.card_content` and :func:`card_pages`.
 
     References
     ----------
@@ -247,4 +349,4 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
                            mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,
                            reserve=reserve, units=units, stall_margin=stall_margin,
                            monte_carlo=monte_carlo, seed=seed, progress=progress)
-    return content.markdown(), card_figure(content)
+    return content.markdown(), card_pages(content, page)

@@ -15,7 +15,7 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_CODE, LIMIT_DTYPE, LIMIT_TEXT, UNFLYABLE, Limit, describe
 from cruiseplan.physics.atmosphere import air_state, check_altitude
-from cruiseplan.planning.optimise import OBJECTIVES
+from cruiseplan.planning.optimise import EQUAL_TOLERANCE, OBJECTIVES
 from cruiseplan.planning.performance import (
     CruisePoints,
     cruise_grid,
@@ -95,6 +95,7 @@ def _shade_limits(ax, x, y, regions: list) -> list:
         ax.contourf(x, y, field, levels=[0.0, max(float(np.nanmax(field)), 0.0) + 1.0],
                     colors=["0.88"], zorder=3)
     taken = np.zeros(x.shape, dtype=bool)
+    fig_w, fig_h = ax.figure.get_size_inches()
     n0, n1 = x.shape
     ii, jj = np.meshgrid(np.arange(n0) / max(n0 - 1, 1), np.arange(n1) / max(n1 - 1, 1),
                          indexing="ij")
@@ -110,13 +111,23 @@ def _shade_limits(ax, x, y, regions: list) -> list:
         # In axes fractions, kept far enough from the frame for the box to stay inside.
         fx = np.clip((x[i, j] - x.min()) / np.ptp(x), 0.1, 0.9)
         fy = np.clip((y[i, j] - y.min()) / np.ptp(y), 0.08, 0.92)
-        ax.text(fx, fy, textwrap.fill(f"{LIMIT_CODE[flag]}: {LIMIT_TEXT[flag]}", 22),
-                transform=ax.transAxes, fontsize=MIN_FONT + 0.5, ha="center", va="center",
-                zorder=6,
-                bbox=dict(boxstyle="round,pad=0.25", fc="white", ec="0.3", alpha=0.92))
-        taken |= np.hypot(ii - ii[i, j], jj - jj[i, j]) < 0.22
+        text = textwrap.fill(f"{LIMIT_CODE[flag]}: {LIMIT_TEXT[flag]}", 22)
+        # The box's half size in axes fractions (DejaVu Sans averages ~0.55 em a
+        # character): written only where the region holds it whole, so that it covers
+        # no contour label or best-speed line; the legend names the region otherwise.
+        width, height = ax.get_position().width * fig_w, ax.get_position().height * fig_h
+        size = (MIN_FONT + 0.5) / 72.0
+        half_x = (0.55 * size * max(map(len, text.splitlines())) / 2 + 0.06) / width
+        half_y = (1.25 * size * (text.count("\n") + 1) / 2 + 0.06) / height
+        box = (np.abs(jj - fx) <= half_x) & (np.abs(ii - fy) <= half_y)
         handles.append(Patch(facecolor="0.88", edgecolor="0.2", hatch=hatch,
                              label=f"{LIMIT_CODE[flag]}: {LIMIT_TEXT[flag]}"))
+        if not mask[box].all():
+            continue
+        ax.text(fx, fy, text, transform=ax.transAxes, fontsize=MIN_FONT + 0.5, ha="center",
+                va="center", zorder=6,
+                bbox=dict(boxstyle="round,pad=0.25", fc="white", ec="0.3", alpha=0.92))
+        taken |= np.hypot(ii - ii[i, j], jj - jj[i, j]) < 0.22
     return handles
 
 
@@ -229,8 +240,8 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str | 
     ok = (limits == 0) & np.isfinite(sr)  # levels and labels from flyable points only
 
     fig = Figure(figsize=PLOT_SIZE)
-    ax = fig.add_axes((0.085, 0.33, 0.70, 0.59))
-    cax = fig.add_axes((0.80, 0.33, 0.022, 0.59))
+    ax = fig.add_axes((0.085, 0.33, 0.70, 0.56))
+    cax = fig.add_axes((0.80, 0.33, 0.022, 0.56))
     ax.set_facecolor("0.88")
     kind = "ground" if ground else "air"
     if ok.any():
@@ -265,9 +276,12 @@ def specific_range_map(airframe, grid: CruisePoints, best=None, *, units: str | 
     ax.set_xlabel(f"true airspeed, TAS [{ls}]", fontsize=9.5)
     ax.set_ylabel(f"pressure altitude [{la}]", fontsize=9.5)
     ax.tick_params(labelsize=8.5)
-    ax.set_title(textwrap.fill(f"{kind.capitalize()} specific range \u2014 {airframe.name} "
-                               f"({'wind ' + wind_text if ground else 'calm air'})", 80),
-                 fontsize=11, pad=12)
+    # Title and the wind on lines of their own above the axes: a long wind text wraps
+    # within the figure's width instead of running off its top.
+    fig.text(0.5, 0.985, f"{kind.capitalize()} specific range \u2014 {airframe.name}",
+             fontsize=11, ha="center", va="top")
+    fig.text(0.5, 0.942, textwrap.fill(f"wind {wind_text}" if ground else "calm air", 110),
+             fontsize=MIN_FONT + 1, ha="center", va="top")
     line_handles, _ = ax.get_legend_handles_labels()
     if line_handles or handles:
         ax.legend(handles=line_handles + handles, loc="upper center",
@@ -365,23 +379,29 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     fig = Figure(figsize=PLOT_SIZE)
     ax = fig.add_axes((0.085, 0.2, 0.60, 0.7))
     one_available = np.allclose(available, available[0])
+    every = marker_every(v.size)
     for i, (colour, style, marker) in enumerate(SERIES_STYLES[:h.size]):
+        # Markers staggered along the curves, so curves that nearly coincide (a drone's
+        # few hundred metres) still show each series' marker apart from the others'.
         ax.plot(v, required[i], color=colour, linestyle=style, marker=marker, markersize=4.5,
-                markevery=marker_every(v.size), linewidth=1.8,
+                markevery=(i * every // h.size, every), linewidth=1.8,
                 label=f"required at {h[i] * fa:.0f} {la}")
         if not one_available:
             ax.plot(v, np.full(v.shape, available[i]), color=colour, linestyle=style,
                     linewidth=1.0)
-            ax.text(v[-1], available[i], f"full throttle {h[i] * fa:.0f} {la}",
-                    fontsize=MIN_FONT, ha="right", va="bottom", color=colour,
+            # At the slow end, where power required lies well below full throttle: no
+            # curve crosses the label there.
+            ax.text(v[0] + 0.01 * np.ptp(v), available[i], f"full throttle {h[i] * fa:.0f} {la}",
+                    fontsize=MIN_FONT, ha="left", va="bottom", color=colour,
                     path_effects=HALO)
         for key, style_kw in marks.items():
             ax.plot(special[key][i] * fs, special_power[key][i] * fp, linestyle="none",
                     markerfacecolor=colour, zorder=5, **style_kw)
     if one_available:
         ax.axhline(available[0], color="black", linewidth=1.2)
-        ax.text(v[-1], available[0], "maximum continuous shaft power (all altitudes)",
-                fontsize=MIN_FONT + 0.5, ha="right", va="bottom", path_effects=HALO)
+        ax.text(v[0] + 0.01 * np.ptp(v), available[0],
+                "maximum continuous shaft power (all altitudes)",
+                fontsize=MIN_FONT + 0.5, ha="left", va="bottom", path_effects=HALO)
     top = max(np.nanmax(available), np.nanmax(required[np.isfinite(required)], initial=0.0))
     ax.set_ylim(0.0, 1.12 * min(top, 1.6 * np.nanmax(available)))
     ax.set_xlim(v[0], v[-1])
@@ -415,6 +435,14 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
     if np.any(clipped):
         note += (" Where the polar's minimum-power point lies beyond CLmax, the star "
                  "sits at the stall speed.")
+    if h.size > 1:
+        # A drone's few hundred metres barely change its curves: say so, since their
+        # lines and marks then lie on top of one another.
+        with np.errstate(invalid="ignore", divide="ignore"):
+            spread = np.nanmax(np.abs(required / required[:1] - 1.0), initial=np.nan)
+        if np.isfinite(spread) and spread < 0.05:
+            note += (f" The curves of all {h.size} altitudes lie within "
+                     f"{max(spread * 100, 0.1):.1f} % of each other: their marks overlap.")
     fig.text(0.71, 0.2, textwrap.fill(note, 40), fontsize=MIN_FONT + 0.5, va="bottom",
              ha="left")
     footer(fig, figure_context(airframe, grid.mass, grid.store, dev, units))
@@ -422,6 +450,12 @@ def power_curves(airframe, altitudes, *, tas=None, mass=None, fuel=None, payload
 
 
 # --- (c) altitude profile -----------------------------------------------------------------
+
+def _runs(mask: np.ndarray) -> list:
+    """(first, last) index of each run of True in a boolean vector."""
+    edges = np.diff(np.concatenate([[0], mask.astype(int), [0]]))
+    return list(zip(np.flatnonzero(edges == 1), np.flatnonzero(edges == -1) - 1))
+
 
 def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
                      wind_text: str = "wind") -> Figure:
@@ -481,12 +515,22 @@ def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
             ax_sr.plot(sr[i], h[i], marker="*", markersize=16, linestyle="none", zorder=6,
                        markerfacecolor=OKABE_ITO["orange"] if filled else "white",
                        markeredgecolor="black", clip_on=False)
+            band = best.equally_good()
+            for lo_k, hi_k in _runs(band):  # each run of equally good altitudes
+                pad = 0.5 * (np.diff(h).min() if h.size > 1 else 1.0)
+                ax_sr.axhspan(h[lo_k] - pad, h[hi_k] + pad, color=OKABE_ITO["orange"],
+                              alpha=0.18 if filled else 0.0, hatch=None if filled else "//",
+                              linewidth=0, zorder=0)
+            tied = h[band]
+            within = (f"; within {EQUAL_TOLERANCE * 100:g} %: {tied.min():.0f}-"
+                      f"{tied.max():.0f} {la}" if tied.size > 1 else "")
             best_lines.append(f"{case}: {h[i]:.0f} {la}, {sr[i]:.3g} {sr_label} at "
-                              f"{best.points.tas[i] * fs:.0f} {ls} TAS")
+                              f"{best.points.tas[i] * fs:.0f} {ls} TAS{within}")
         else:
             best_lines.append(f"{case}: no flyable altitude")
     objective = calm.objective
-    fig.text(0.62, 0.235, f"Best altitude for {objective}:\n" + "\n".join(best_lines),
+    fig.text(0.62, 0.235, f"Best altitude for {objective} (exact ties: the highest):\n"
+             + "\n".join(textwrap.fill(t, 52, subsequent_indent="  ") for t in best_lines),
              fontsize=MIN_FONT + 1, va="top", ha="left",
              bbox=dict(boxstyle="round,pad=0.4", fc="white", ec="0.4"))
     ax_v.set_xlabel(f"best true airspeed, TAS [{ls}]", fontsize=9.5)
@@ -496,10 +540,16 @@ def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
     ax_sr.tick_params(labelleft=False)
     # Where specific range barely changes with altitude (drones over a few hundred metres),
     # autoscaling zooms into noise and crowds offset tick labels: show at least +-5 %.
-    lo, hi = ax_sr.get_xlim()
-    mid, half = (lo + hi) / 2, (hi - lo) / 2
-    if np.isfinite(mid) and mid > 0 and half < 0.05 * mid:
-        ax_sr.set_xlim(mid * 0.95, mid * 1.05)
+    # Limits from the data with a margin, so no marker sits on the frame.
+    data = np.concatenate([line.get_xdata() for line in ax_sr.get_lines()])
+    data = data[np.isfinite(data)]
+    if data.size:
+        lo, hi = float(data.min()), float(data.max())
+        mid, half = (lo + hi) / 2, (hi - lo) / 2
+        if mid > 0 and half < 0.05 * mid:
+            ax_sr.set_xlim(mid * 0.95, mid * 1.05)
+        else:
+            ax_sr.set_xlim(lo - 0.08 * (hi - lo), hi + 0.08 * (hi - lo))
     for ax in (ax_v, ax_sr):
         ax.xaxis.get_major_formatter().set_useOffset(False)
         ax.xaxis.set_major_locator(MaxNLocator(nbins=6))
@@ -517,9 +567,11 @@ def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
                        markerfacecolor="white", label="wind: dashed, hollow"),
                 Line2D([], [], marker="*", markersize=13, linestyle="none",
                        markerfacecolor=OKABE_ITO["orange"], markeredgecolor="black",
-                       label="best altitude")]
+                       label="best altitude"),
+                Patch(facecolor=OKABE_ITO["orange"], alpha=0.18,
+                      label=f"within {EQUAL_TOLERANCE * 100:g} % of best")]
     if wind is None:
-        handles = handles[:-2] + handles[-1:]
+        handles = handles[:-3] + handles[-2:]
     fig.legend(handles=handles, loc="upper left", bbox_to_anchor=(0.06, 0.245), ncol=2,
                fontsize=MIN_FONT + 0.5, frameon=False)
     fig.suptitle(f"Best speeds and specific range by altitude \u2014 {airframe.name}",

@@ -63,12 +63,26 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     ax_h.plot(x, h, color=OKABE_ITO["blue"], linewidth=2.0, marker="o", markersize=3.5,
               label="pressure altitude flown")
 
+    # The altitude axis spans the flying and the highest ground, not down to sea level, so
+    # that the ground does not dwarf the flight; its ground is a band under that height.
+    ground = np.array([ground_elevation(mission, leg) for leg in mission.legs]) * fa
+    caps = [(ground_elevation(mission, leg) + leg.max_agl) * fa for leg in mission.legs
+            if leg.max_agl is not None]
+    lo = float(min(np.min(h), np.min(ground)))
+    hi = float(max([np.max(h), np.max(ground)] + caps))
+    bottom = max(0.0, lo - 0.25 * max(hi - lo, 1e-3 * max(abs(hi), 1.0)))
     start = 0.0
     for k, leg in enumerate(mission.legs):
         end = start + leg.distance * fd
-        g = ground_elevation(mission, leg) * fa
-        ax_h.fill_between([start, end], 0, g, color="0.75", hatch="...", edgecolor="0.45",
-                          linewidth=0.0, label="highest ground (leg)" if k == 0 else None)
+        g = ground[k]
+        # Where the path climbs from lower ground (departure) it is not yet over the leg's
+        # highest ground, which lies somewhere along the leg: the band starts where the
+        # path is above it, so the climb line never seems to cut through terrain.
+        xs = np.linspace(start, end, 200)
+        over = np.interp(xs, x, h) >= g - 1e-9
+        ax_h.fill_between(xs, bottom, g, where=over, color="0.75", hatch="...",
+                          edgecolor="0.45", linewidth=0.0,
+                          label="highest ground (leg)" if k == 0 else None)
         if leg.max_agl is not None:
             cap = (ground_elevation(mission, leg) + leg.max_agl) * fa
             ax_h.plot([start, end], [cap, cap], color=OKABE_ITO["vermillion"],
@@ -104,7 +118,7 @@ def mission_profile(plan, *, units: str | None = None) -> Figure:
     ax_h.tick_params(labelbottom=False, labelsize=8.5)
     ax_q.tick_params(labelsize=8.5)
     ax_q.set_ylim(bottom=min(0.0, float(np.min(q)) * 1.05))
-    ax_h.set_ylim(bottom=0.0)
+    ax_h.set_ylim(bottom, hi + 0.35 * (hi - bottom))  # room for the legend above the path
     for ax in (ax_h, ax_q):
         ax.grid(True, color="0.85", linewidth=0.6)
         ax.legend(loc="best", fontsize=MIN_FONT + 0.5, framealpha=0.9)

@@ -16,7 +16,8 @@ from cruiseplan.constants import MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import Limit
 from cruiseplan.physics.atmosphere import air_state, check_altitude
-from cruiseplan.planning.performance import power_setting_table, resolve_loading
+from cruiseplan.planning.optimise import speed_schedule
+from cruiseplan.planning.performance import resolve_loading
 from cruiseplan.report.tables import store_text
 from cruiseplan.units import display, temperature_difference, to_si
 
@@ -95,6 +96,34 @@ def figure_bytes(fig: Figure, fmt: str, *, dpi: float = 150.0) -> bytes:
     meta = {"Creator": "cruiseplan"} if kind == "pdf" else {"Software": "cruiseplan"}
     with matplotlib.rc_context({"pdf.fonttype": 42}):
         fig.savefig(buf, format=kind, dpi=dpi, metadata=meta)
+    return buf.getvalue()
+
+
+def pages_pdf(figures) -> bytes:
+    """Render figures as the pages of one PDF, text in subset Type 3 fonts.
+
+    The glyphs used are embedded as Type 3 procedures with a Unicode map, so the text is
+    searched and copied as with TrueType (type 42), whose subsetting (fontTools, layout
+    tables included) took twice the time of the whole card page; the card holds text and
+    rules only, and prints the same either way.
+
+    Parameters
+    ----------
+    figures : sequence of matplotlib.figure.Figure
+        The pages, in order (at least one).
+
+    Returns
+    -------
+    bytes
+        The whole file.
+    """
+    from matplotlib.backends.backend_pdf import PdfPages
+
+    buf = io.BytesIO()
+    with matplotlib.rc_context({"pdf.fonttype": 3}), \
+            PdfPages(buf, metadata={"Creator": "cruiseplan"}) as pdf:
+        for fig in figures:
+            pdf.savefig(fig)
     return buf.getvalue()
 
 
@@ -254,21 +283,22 @@ def speed_span(airframe, altitudes, *, mass=None, fuel=None, payload=None, isa_d
     Returns
     -------
     numpy.ndarray
-        ``n`` increasing TAS [m/s], from 0.85 x the lowest stall speed to 1.12 x the highest
-        full-throttle level speed (capped at the Mach model limit).
+        ``n`` increasing TAS [m/s], from 0.85 x the lowest stall speed to 1.1 x the fastest
+        level speed the power available allows at any of the altitudes (capped at the Mach
+        model limit and the kind's trusted speeds).
     """
     h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
     isa_dev = temperature_difference(isa_dev)
     loading = resolve_loading(airframe, mass, fuel, payload)
     air = air_state(h, isa_dev)
     v_stall = airframe.stall_speed(loading.mass, air.density)
-    top = power_setting_table(airframe, h, [1.0], mass=loading.mass, fuel=loading.store,
-                              isa_dev=isa_dev, stall_margin=1.0).tas
-    v_hi = np.nanmax(top) if np.any(np.isfinite(top)) else 2.5 * np.max(v_stall)
-    v_hi = min(1.12 * v_hi, MACH_LIMIT * float(np.min(air.speed_of_sound)))
+    # The flyable region's fast edge: the fastest level speed the power available allows
+    # at any of the altitudes (not full rated power, which a lapsing engine lacks aloft).
+    sched = speed_schedule(airframe, loading.mass, air, loading.store, stall_margin=1.0)
+    fast = sched.window_hi[np.isfinite(sched.window_hi)]
+    v_hi = 1.1 * float(np.max(fast)) if fast.size else 2.5 * float(np.max(v_stall))
+    v_hi = min(v_hi, MACH_LIMIT * float(np.min(air.speed_of_sound)))
     # Stay near the speeds the kind's model is trusted to (a rotor's advance ratio).
     v_hi = min(v_hi, 1.15 * airframe.model_speed_limit)
     # A multirotor has no stall speed: start just above the hover.
     return np.linspace(max(0.85 * float(np.min(v_stall)), 1.0), v_hi, n)
-
-

@@ -1,4 +1,4 @@
-"""The printed cruise card for one day: a one-page PDF and its markdown twin.
+"""The printed cruise card for one day: a kneeboard PDF (A5) and its markdown twin.
 
 The card holds, for one airframe file, mass and ISA deviation: a cruise table by altitude
 and power setting (TAS, CAS, fuel flow or battery power, endurance, and range with and
@@ -6,7 +6,7 @@ without the reserve), the best-range and best-endurance speeds at each altitude,
 absolute and service ceilings, the reserve it keeps and the cautions in full.
 
 :func:`card_content` computes the content once (no matplotlib here); the markdown and the
-page (:func:`cruiseplan.plots.card_figure`, and :func:`cruiseplan.plots.cruise_card` for
+pages (:func:`cruiseplan.plots.card_pages`, and :func:`cruiseplan.plots.cruise_card` for
 both at once) are laid out from it, so they say the same.
 
 Reserves, in the order a crew would write them (``--reserve``, read by
@@ -45,7 +45,12 @@ from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, UNFLYABLE, describe, expla
 from cruiseplan.model.mission import default_reserve
 from cruiseplan.model.tolerance import tolerances_text
 from cruiseplan.physics.airspeed import cas_from_tas
-from cruiseplan.planning.optimise import CEILING_SEARCH_TOP, best_cruise, ceilings
+from cruiseplan.planning.optimise import (
+    CEILING_SEARCH_TOP,
+    SERVICE_CEILING_RATE,
+    best_cruise,
+    ceilings,
+)
 from cruiseplan.planning.performance import power_setting_table, resolve_loading
 from cruiseplan.planning.reserve import reserve_required
 from cruiseplan.planning.uncertainty import cruise_uncertainty, quantiles
@@ -251,10 +256,10 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         hidden = (table.limits & int(UNFLYABLE)) != 0
         t_res, v_res = np.where(hidden, np.nan, t_res), np.where(hidden, np.nan, v_res)
         r_res = table.tas * t_res
-        clock = _minutes
     else:
         t_res, r_res = table.endurance * keep, table.range_air * keep
-        clock = hours_minutes
+    # Drone crews count minutes (as the tables and the hover block do); pilots h:mm.
+    clock = hours_minutes if fuel_kind else _minutes
     rows, groups = [], []
     for i in range(n_alt):
         for j in range(n_pow):
@@ -268,7 +273,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
                 _cell(table.range_air[i, j] * fd, "{:.0f}"),
                 _cell(r_res[i, j] * fd, "{:.0f}"),
                 *((_cell(amps[i, j], "{:.0f}"), _cell(v_res[i, j], "{:.1f}")) if pack else ()),
-                explain(code, short=True)))
+                explain(code, short=True) if code else ""))  # status only where not ok
             groups.append(i)
     used = int(np.bitwise_or.reduce(table.limits.ravel()))
     fp, lp = display("power" if fuel_kind else "electric_power", units)
@@ -277,7 +282,7 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
         f"total: all usable {store_name}, NO reserve; to res.: until only the reserve is "
         "left. Level flight, calm air; no allowance for taxi, climb or descent.",
     ] + [f"{code}: {LIMIT_TEXT[flag]}." for flag, code in LIMIT_CODE.items() if used & flag]
-    tu = "min" if pack else "h:mm"
+    tu = "h:mm" if fuel_kind else "min"
     columns = (("PA", la, "right"), ("power", "%", "right"), ("TAS", ls, "right"),
                ("CAS", ls, "right"), flow_col, ("endur.\ntotal", tu, "right"),
                ("endur.\nto res.", tu, "right"), ("range\ntotal", ld, "right"),
@@ -336,9 +341,25 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
             return "below sea level"
         return f"above {CEILING_SEARCH_TOP * fa:.0f} {la} (not searched higher)"
 
-    ceiling_line = (f"Absolute ceiling {ceiling_text(ceil.absolute, 'absolute')}, service "
-                    f"ceiling {ceiling_text(ceil.service, 'service')} (100 ft/min climb "
-                    f"left); pressure altitude, at this mass and ISA {dev:+.0f} K.")
+    fr, lr = display("rate", units)
+    rate = f"{SERVICE_CEILING_RATE * fr:.{0 if fr * SERVICE_CEILING_RATE >= 10 else 1}f} {lr}"
+    day = f"pressure altitude, at this mass and ISA {dev:+.0f} K."
+    if fuel_kind:
+        ceiling_line = (f"Absolute ceiling {ceiling_text(ceil.absolute, 'absolute')}, "
+                        f"service ceiling {ceiling_text(ceil.service, 'service')} ({rate} "
+                        f"climb left); {day}")
+    else:
+        # An electric motor does not lapse with altitude: its ceilings lie far above where
+        # a drone flies. Shown only where one comes into the card's altitudes.
+        top = float(np.max(h))
+        parts = [f"{name} ceiling {value * fa:.0f} {la}" for name, value in
+                 (("absolute", ceil.absolute), ("service", ceil.service))
+                 if math.isfinite(value) and value <= top]
+        text = ", ".join(parts)
+        ceiling_line = ((text[:1].upper() + text[1:] + f" ({rate} climb left at the "
+                         f"service ceiling); {day}") if parts else
+                        f"At least {rate} of climb left at every altitude of this card; "
+                        f"{day}")
     fm, lm = display("mass", units)
     meta = tuple(airframe_lines(airframe)) + (
         f"Holds for: mass {table.mass * fm:.1f} {lm}; {store_text(airframe, store, units)}; "
@@ -450,8 +471,10 @@ def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n
     fd, ld = display("distance", units)
     fs, ls = display("speed", units)
     r = " / ".join(f"{q * fd:.0f}" for q in quantiles(u.range_ground))
-    e = " / ".join(hours_minutes(q) for q in quantiles(u.endurance))
+    burns = airframe.propulsion.store.burns_mass
+    clock, tu = (hours_minutes, "h:mm") if burns else (_minutes, "min")
+    e = " / ".join(clock(q) for q in quantiles(u.endurance))
     keys = tolerances_text(airframe.tolerances, airframe.tolerance_correlation)
     return (f"Spread (Monte Carlo, {n} samples, seed {seed}; tolerances: {keys}): at "
             f"best range, {h[i] * fa:.0f} {la} and {p.tas[i] * fs:.0f} {ls} TAS, range to "
-            f"reserve P10 / P50 / P90 = {r} {ld}, endurance to reserve {e} h:mm.")
+            f"reserve P10 / P50 / P90 = {r} {ld}, endurance to reserve {e} {tu}.")
