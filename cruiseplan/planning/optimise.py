@@ -11,9 +11,9 @@ At each altitude (all altitudes at once, vectorised):
   practice): a few percent of range buys noticeably more speed.
 
 Closed forms are used where the model allows them (symmetric parabolic polar, constant
-propeller efficiency, calm air, no Peukert effect); otherwise vectorised golden-section
-searches (Brent's method and Illinois root finding run on all altitudes at once), never
-a per-altitude scalar optimiser.
+propeller efficiency, calm air, no Peukert effect); otherwise vectorised searches
+(Brent's method, successive grids and Illinois root finding run on all altitudes at once),
+never a per-altitude scalar optimiser.
 
 Constraints, each reported when it binds:
 
@@ -42,7 +42,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from cruiseplan._numerics import brent_minimise, golden_minimise, illinois_root
+from cruiseplan._numerics import brent_minimise, grid_minimise, illinois_root
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_DTYPE, Limit, describe
@@ -176,7 +176,12 @@ def _window(airframe, mass, air, lo, hi, reserve_rate):
 
 
 def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
-    """Best speeds before any constraint, for the objectives asked (economy needs range)."""
+    """Best speeds before any constraint, for the objectives asked (economy needs range).
+
+    Where both the best-range and the best-endurance speed need a search, both are found
+    in one pass: the two problems are stacked along a new first axis, so that each step
+    evaluates the level flight once for both.
+    """
     prop = airframe.propulsion
     v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
@@ -189,18 +194,37 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     def ground_range(v):
         return ground_speed(v, hw, cw) * prop.endurance(store, shaft(v))
 
-    # Brent's method needs fewer evaluations, golden section far fewer array operations
-    # per step: for a planner's modest tolerance golden section is the quicker.
-    search = golden_minimise if xtol >= 1e-7 else brent_minimise
-    if "range" in objectives or "economy" in objectives:
-        peukert = np.any(getattr(prop, "peukert_exponent", 1.0) != 1.0)
-        if _closed_form_ok(airframe, hw, cw) and not peukert:
+    # Brent's method needs the fewest evaluations; for a planner's modest tolerance on a
+    # few dozen altitudes, a few calls of successive grids on larger arrays are quicker
+    # than Brent's many array operations per step.
+    search = grid_minimise if xtol >= 1e-7 else brent_minimise
+    peukert = np.any(getattr(prop, "peukert_exponent", 1.0) != 1.0)
+    range_closed = _closed_form_ok(airframe, hw, cw) and not peukert
+    endurance_closed = _closed_form_ok(airframe, 0.0, 0.0)
+    want_range = "range" in objectives or "economy" in objectives
+    if want_range and "endurance" in objectives and not range_closed \
+            and not endurance_closed:
+        shape = np.broadcast_shapes(np.shape(lo), np.shape(hi))
+
+        def both(v):
+            # The pair's axis comes before the points' shape (a search may add its own).
+            axis = v.ndim - len(shape) - 1
+            p = shaft(v)
+            rng = ground_speed(np.take(v, 0, axis), hw, cw) * prop.endurance(
+                store, np.take(p, 0, axis))
+            return np.stack([-rng, np.take(p, 1, axis)], axis=axis)
+
+        pair = search(both, np.broadcast_to(lo, (2,) + shape),
+                      np.broadcast_to(hi, (2,) + shape), xtol_rel=xtol)
+        out["range"], out["endurance"] = pair[0], pair[1]
+    if want_range and "range" not in out:
+        if range_closed:
             out["range"] = min_drag_speed(mass, air.density, airframe.wing_area, polar.cd0,
                                           polar.k)
         else:
             out["range"] = search(lambda v: -ground_range(v), lo, hi, xtol_rel=xtol)
-    if "endurance" in objectives:
-        if _closed_form_ok(airframe, 0.0, 0.0):
+    if "endurance" in objectives and "endurance" not in out:
+        if endurance_closed:
             out["endurance"] = min_power_speed(mass, air.density, airframe.wing_area,
                                                polar.cd0, polar.k)
         else:
@@ -253,7 +277,10 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     shape = np.broadcast_shapes(np.shape(air.density), np.shape(mass))
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
-    free = _free_speeds(airframe, mass, air, store, hw, cw, (objective,), xtol)[objective]
+    # The minimum-power speed bounds the search of the short-of-power branch below: found
+    # in the same pass as the objective's, one search in all.
+    speeds = _free_speeds(airframe, mass, air, store, hw, cw, (objective, "endurance"), xtol)
+    free = speeds[objective]
     v_s = airframe.stall_speed(mass, air.density)
     v = np.maximum(free, stall_margin * v_s)
     prop = airframe.propulsion
@@ -275,8 +302,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     def deficit(x):
         return shaft_power_required(airframe, m_sub, sub, x) - avail
 
-    v_mp = _free_speeds(airframe, m_sub, sub, store, hw[short], cw[short],
-                        ("endurance",), xtol)["endurance"]
+    v_mp = np.broadcast_to(speeds["endurance"], shape)[short]
     v_lo = np.maximum(v_mp, stall_margin * v_s[short] if np.ndim(v_s) else stall_margin * v_s)
     ok = deficit(v_lo) <= 0
     v_fit = illinois_root(deficit, v_lo, np.maximum(v[short], v_lo), xtol_rel=xtol)
