@@ -46,7 +46,13 @@ from cruiseplan._numerics import brent_minimise, grid_minimise, illinois_root
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_DTYPE, Limit, describe
-from cruiseplan.physics.aerodynamics import ParabolicPolar, min_drag_speed, min_power_speed
+from cruiseplan.physics.aerodynamics import (
+    ParabolicPolar,
+    min_drag_speed,
+    min_power_speed,
+    speeds_at_drag,
+    speeds_at_thrust_power,
+)
 from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import AirState, air_state, check_altitude
 from cruiseplan.planning.performance import (
@@ -67,6 +73,9 @@ OBJECTIVES = ("range", "endurance", "economy")
 TIE_TOLERANCE = 1e-9
 #: Altitude searched for ceilings [m].
 CEILING_SEARCH_TOP = 20000.0
+#: Relative tolerance of the speeds found as roots (window edges, economy) [-]: finer
+#: than anything printed or tested.
+ROOT_XTOL = 1e-8
 
 
 @dataclass(frozen=True)
@@ -160,7 +169,22 @@ def climb_rate(airframe, mass, air: AirState, tas):
 
 
 def _window(airframe, mass, air, lo, hi, reserve_rate):
-    """Speeds where the climb rate is at least ``reserve_rate``; NaN where none."""
+    """Speeds in [lo, hi] where the climb rate is at least ``reserve_rate``; NaN where none.
+
+    With a symmetric parabolic polar and a constant propeller efficiency the edges are the
+    roots of a quartic, in closed form (:func:`speeds_at_thrust_power`); otherwise both
+    edges are found in one pass of root finding, bracketed by the speed of the greatest
+    excess power.
+    """
+    if _closed_form_ok(airframe, 0.0, 0.0):
+        prop, polar = airframe.propulsion, airframe.polar
+        thrust_power = (prop.propeller(lo) * prop.shaft_power_available(air.sigma)
+                        - np.asarray(mass, dtype=float) * G0 * reserve_rate)
+        slow, fast = speeds_at_thrust_power(mass, air.density, airframe.wing_area,
+                                            polar.cd0, polar.k, thrust_power)
+        ok = (slow <= hi) & (fast >= lo)   # False where NaN: no speed at all
+        return (np.where(ok, np.maximum(slow, lo), np.nan),
+                np.where(ok, np.minimum(fast, hi), np.nan), ok)
 
     def excess(v):
         return climb_rate(airframe, mass, air, v) - reserve_rate
@@ -168,11 +192,24 @@ def _window(airframe, mass, air, lo, hi, reserve_rate):
     # v_x only splits the bracket for the two roots: modest precision is enough.
     v_x = brent_minimise(lambda v: -excess(v), lo, hi, xtol_rel=1e-6)
     ok = excess(v_x) >= 0.0
-    e_lo, e_hi = excess(lo), excess(hi)
-    v_lo = np.where(e_lo >= 0, lo, illinois_root(excess, lo, v_x, xtol_rel=1e-11))
-    v_hi = np.where(e_hi >= 0, hi,
-                    illinois_root(lambda v: -excess(v), v_x, hi, xtol_rel=1e-11))
+    v_lo, v_hi = _two_roots(excess, lo, v_x, hi)
     return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), ok
+
+
+def _two_roots(f, lo, mid, hi):
+    """The edges of the band around ``mid`` where ``f`` >= 0, within [lo, hi].
+
+    ``f`` >= 0 at ``mid``; an end where ``f`` >= 0 is its own edge. Both roots are found in
+    one call of the root finder on the two brackets stacked (each element stops on its
+    own, so the result is that of two calls).
+    """
+    shape = np.broadcast_shapes(np.shape(lo), np.shape(mid), np.shape(hi))
+    a = np.stack([np.broadcast_to(lo, shape), np.broadcast_to(mid, shape)])
+    b = np.stack([np.broadcast_to(mid, shape), np.broadcast_to(hi, shape)])
+    sign = np.array([1.0, -1.0]).reshape((2,) + (1,) * len(shape))
+    root = illinois_root(lambda v: sign * f(v), a, b, xtol_rel=ROOT_XTOL)
+    ends = f(np.stack([a[0], b[1]])) >= 0
+    return np.where(ends[0], a[0], root[0]), np.where(ends[1], b[1], root[1])
 
 
 def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
@@ -230,9 +267,17 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
         else:
             out["endurance"] = search(shaft, lo, hi, xtol_rel=xtol)
     if "economy" in objectives:
-        best = ground_range(out["range"])
-        out["economy"] = illinois_root(lambda v: ECONOMY_FRACTION * best - ground_range(v),
-                                       out["range"], hi, xtol_rel=0.1 * xtol)
+        if range_closed and getattr(prop, "circuit", None) is None:
+            # Range goes as 1 / drag when the store rate is proportional to shaft power:
+            # economy is the fast speed of drag = minimum drag / ECONOMY_FRACTION.
+            d_min = 2.0 * np.asarray(mass, dtype=float) * G0 * np.sqrt(polar.k * polar.cd0)
+            out["economy"] = speeds_at_drag(mass, air.density, airframe.wing_area, polar.cd0,
+                                            polar.k, d_min / ECONOMY_FRACTION)[1]
+        else:
+            best = ground_range(out["range"])
+            out["economy"] = illinois_root(
+                lambda v: ECONOMY_FRACTION * best - ground_range(v), out["range"], hi,
+                xtol_rel=max(0.1 * xtol, ROOT_XTOL))
     return out
 
 
@@ -429,9 +474,7 @@ def _pack_window(airframe, mass, air, store, lo, hi, v_mp):
         return shaft_power_required(airframe, mass, air, v) - cap
 
     ok = over(v_mp) <= 0
-    v_lo = np.where(over(lo) <= 0, lo, illinois_root(over, lo, v_mp, xtol_rel=1e-11))
-    v_hi = np.where(over(hi) <= 0, hi,
-                    illinois_root(lambda v: -over(v), v_mp, hi, xtol_rel=1e-11))
+    v_lo, v_hi = _two_roots(lambda v: -over(v), lo, v_mp, hi)
     return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), bit
 
 
