@@ -537,17 +537,20 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     air_steps = fl.air(h_steps)
     head_steps, cross_steps = fl.wind(leg, h_steps)
     idle = profile.idle_power * fl.prop.rated_power
+    # What does not depend on the mass, for every step at once: TAS and climb power.
+    v_steps = tas_from_eas(v_eas, air_steps.density)
+    p_up_steps = profile.climb_power * fl.prop.shaft_power_available(air_steps.sigma)
+    prop = fl.prop.propeller
     for j in range(CLIMB_STEPS):
         air = air_steps.row(j)
-        v = tas_from_eas(v_eas, air.density)
-        prop = fl.prop.propeller
+        v = v_steps[j]
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
         weight = m * G0
         # Climb: set power, rate from the excess thrust power (capped by a set rate, and
         # kept below 0.9 x TAS where the shallow-climb formula holds). With a propeller
         # diameter the thrust comes from momentum theory and is finite at low speed.
-        p_up = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
+        p_up = p_up_steps[j]
         roc = prop.excess_thrust_power(v, air.density, p_up, p_level, drag) / weight
         if profile.climb_rate is not None:
             capped = roc > profile.climb_rate
