@@ -181,6 +181,8 @@ class PropellerEfficiency:
             x = np.asarray(self.tas, dtype=float)
             y = np.asarray(self.efficiency, dtype=float)
             object.__setattr__(self, "_x", x)
+            # Interior knots: the count at or below a speed is its interval's index.
+            object.__setattr__(self, "_inner", np.ascontiguousarray(x[1:-1]))
             d = monotone_slopes(x, y)
             # Per-interval polynomial in the local coordinate t in [0, 1], evaluated by
             # Horner's rule: this is called thousands of times inside speed searches.
@@ -206,8 +208,8 @@ class PropellerEfficiency:
 
     def _cubic(self, tas):
         x = self._x
-        v = np.minimum(np.maximum(tas, x[0]), x[-1])
-        i = np.minimum(np.searchsorted(x, v, side="right") - 1, x.size - 2)
+        v = np.clip(tas, x[0], x[-1])
+        i = np.searchsorted(self._inner, v, side="right")
         x0, inv_h, c3, c2, c1, c0 = (c.take(i) for c in self._coefs)
         t = (v - x0) * inv_h
         return ((c3 * t + c2) * t + c1) * t + c0
