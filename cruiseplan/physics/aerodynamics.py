@@ -468,7 +468,8 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     resolvent cubic :math:`m^3 - q m - p^2 / 8 = 0` and :math:`s = \sqrt{2 m}`, the
     quartic factors as :math:`(V^2 - s V + m + p / (2 s))(V^2 + s V + m - p / (2 s))`,
     whose first factor holds the two positive roots. The slow root is taken from their
-    product, and two Newton steps on the quartic polish both to rounding.
+    product, and two Newton steps on the quartic polish both to rounding (the closed form
+    alone may lose digits to cancellation, to about 1e-6 relative).
 
     Parameters
     ----------
@@ -515,14 +516,11 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
         fast = 0.5 * (s + np.sqrt(-2.0 * m - 2.0 * p / s))
         slow = (m + p / (2.0 * s)) / fast
     with np.errstate(invalid="ignore", divide="ignore"):
+        # Both roots at once. At a double root (the thrust power just meets the least drag
+        # power) the slope vanishes: keep the value there.
+        v = np.stack(np.broadcast_arrays(slow, fast))
         for _ in range(2):
-            # At a double root (the thrust power just meets the least drag power) the
-            # slope vanishes: keep the closed form's value there.
-            for name, v in (("slow", slow), ("fast", fast)):
-                step = (v ** 4 + p * v + q) / (4.0 * v ** 3 + p)
-                polished = np.where(np.isfinite(step), v - step, v)
-                if name == "slow":
-                    slow = polished
-                else:
-                    fast = polished
-    return slow, fast
+            v3 = v * v * v
+            step = (v3 * v + p * v + q) / (4.0 * v3 + p)
+            v = np.where(np.isfinite(step), v - step, v)
+    return v[0], v[1]

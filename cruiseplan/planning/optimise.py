@@ -776,9 +776,12 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
     v_free = sched.tas_unconstrained[objective]
-    gs_free = ground_speed(v_free, hw, cw)
-    free = cruise_points(airframe, loading.mass, air, v_free, loading.store,
-                         ground_speed=gs_free, keep_unflyable=True)  # flyable or not
+    if np.array_equal(v_free, v):
+        free = pts   # no constraint binds anywhere: the same points (values kept above)
+    else:
+        gs_free = ground_speed(v_free, hw, cw)
+        free = cruise_points(airframe, loading.mass, air, v_free, loading.store,
+                             ground_speed=gs_free, keep_unflyable=True)  # flyable or not
     value_free = free.endurance if objective == "endurance" else free.range_ground
     band = _band(h, *(None if x is None else to_si(x, "m", what=name) for x, name in
                       ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),
