@@ -30,7 +30,7 @@ from cruiseplan.physics.propulsion import PropellerEfficiency
 from cruiseplan.planning.optimise import best_cruise
 
 #: Timed runs of each side.
-RUNS = 5
+RUNS = 15
 
 
 def scipy_loop(h, mass, S, cd0, k, eta, bsfc, cl_max):
