@@ -20,6 +20,7 @@ from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
+from figures import figure
 
 import cruiseplan as cp
 from cruiseplan.io.mission_file import read_mission
@@ -57,9 +58,9 @@ def main():
     t_today, t_circuit = interleaved(lambda: cp.cruise_grid(today, h, v),
                                      lambda: cp.cruise_grid(circuit, h, v))
     n = h.size * v.size
-    print(f"cruise grid 300x300, per point: today's energy model {t_today / n * 1e9:.0f} ns, "
-          f"equivalent circuit {t_circuit / n * 1e9:.0f} ns, ratio "
-          f"{t_circuit / t_today:.2f} (target <= 2)")
+    figure("cruise grid 300x300, equivalent circuit / today's energy model",
+           t_circuit / t_today, 2.0, detail=f"{t_today / n * 1e9:.0f} ns and "
+           f"{t_circuit / n * 1e9:.0f} ns per point")
 
     here = Path(__file__).resolve().parent.parent
     text = (here / "missions" / "demo-survey-run.toml").read_text(encoding="utf-8")

@@ -1,44 +1,66 @@
-"""Issue 4 benchmark: a 200-leg mission with `best` altitudes and speeds.
+"""Issue 17 benchmark: a long mission file loaded and planned, and the time per leg.
 
-Reports the planning time and its ratio to one 1000 x 1000 cruise-grid call (target:
-under 1 s on this machine).
+Figures (no timed assertions; medians of interleaved runs):
+
+1. **200-leg mission, load + plan** [s]: ``load_mission`` of a 200-leg mission file for
+   ``demo-tourer`` (legs of 5-60 nm, random courses, winds aloft, ``best`` altitudes and
+   speeds) then ``plan_mission``, timed together, median of ``RUNS`` (target <= 0.3 s).
+   The first run is a warm-up (imports, the bundled airframe's file read), not timed; every
+   timed run loads the file again.
+2. **Time per leg, 1000 legs / 10 legs** [-]: the median load + plan time per leg of the
+   first 1000 legs of the same route over that of its first 10 legs, the two mission sizes
+   timed in turn (10, 1000, 10, 1000, ...) (target <= 1.25: flat).
 """
 
 from __future__ import annotations
 
-import time
+import tempfile
+from pathlib import Path
 
 import numpy as np
+from figures import figure, interleaved
 
-import cruiseplan as cp
-from cruiseplan.io.text import parse_wind_profile
-from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+from cruiseplan.io.mission_file import load_mission
 from cruiseplan.planning.mission import plan_mission
+
+#: Timed runs of each side.
+RUNS = 7
+
+
+def mission_text(n_legs: int) -> str:
+    """A mission file of ``n_legs`` legs (the same route for every size, cut at n)."""
+    rng = np.random.default_rng(7)
+    dist, course = rng.uniform(5, 60, 1000), rng.uniform(0, 360, 1000)
+    lines = ['[mission]', 'description = "benchmark route"', 'airframe = "demo-tourer"',
+             'takeoff_mass = "1100 kg"', '[day]', 'isa_dev = "+10 K"', '[profile]',
+             'departure_elevation = "150 m"', 'arrival_elevation = "300 m"',
+             '[allowances]', 'start_taxi_takeoff = "3 kg"', '[reserve]', 'time = "45 min"']
+    for i in range(n_legs):
+        lines += ['[[legs]]', f'name = "leg {i}"', f'distance = "{dist[i]:.3f} nm"',
+                  f'course = {course[i]:.2f}', 'altitude = "best"', 'speed = "best"',
+                  'wind = "250/15kt@2000ft,260/30kt@6000ft,270/40kt@10000ft"']
+    return "\n".join(lines) + "\n"
 
 
 def main():
-    af = cp.load_airframe("demo-tourer")
-    rng = np.random.default_rng(7)
-    wind = parse_wind_profile("250/15kt@2000ft,260/30kt@6000ft,270/40kt@10000ft")
-    legs = tuple(Leg(f"leg {i}", float(d) * 1852.0, course=float(c), wind=wind)
-                 for i, (d, c) in enumerate(zip(rng.uniform(5, 60, 200),
-                                                rng.uniform(0, 360, 200))))
-    mission = Mission("bench", af, legs, Reserve("time", 45 * 60.0),
-                      Profile(departure_elevation=150.0, arrival_elevation=300.0),
-                      isa_dev=10.0, mass=1100.0, allowance=3.0)
-    # A long route on one tank: the point is the planning time, not the verdict.
-    t0 = time.perf_counter()
-    plan = plan_mission(mission)
-    t_plan = time.perf_counter() - t0
-    h = np.linspace(0.0, 4000.0, 1000)
-    v = np.linspace(30.0, 80.0, 1000)
-    cp.cruise_grid(af, h, v)
-    t0 = time.perf_counter()
-    cp.cruise_grid(af, h, v)
-    t_grid = time.perf_counter() - t0
-    print(f"200-leg mission with best altitudes and speeds: {t_plan * 1e3:.0f} ms "
-          f"(target < 1000 ms), {len(plan.segments)} segments; one 1000x1000 cruise grid "
-          f"{t_grid * 1e3:.1f} ms; ratio {t_plan / t_grid:.1f}")
+    with tempfile.TemporaryDirectory() as tmp:
+        paths = {}
+        for n in (10, 200, 1000):
+            paths[n] = Path(tmp) / f"route-{n}.toml"
+            paths[n].write_text(mission_text(n))
+
+        def load_and_plan(n):
+            return lambda: plan_mission(load_mission(paths[n]))
+
+        plan = plan_mission(load_mission(paths[200]))
+        t200 = interleaved({"200": load_and_plan(200)}, RUNS)["200"]
+        figure("200-leg mission file, load + plan", t200, 0.3, fmt=".3f", unit=" s",
+               detail=f"{len(plan.segments)} segments, {t200 / 200 * 1e3:.2f} ms per leg")
+        t = interleaved({10: load_and_plan(10), 1000: load_and_plan(1000)}, 3)
+        per10, per1000 = t[10] / 10, t[1000] / 1000
+        figure("time per leg, 1000 legs / 10 legs", per1000 / per10, 1.25,
+               detail=f"{per10 * 1e3:.2f} ms per leg at 10 legs, {per1000 * 1e3:.2f} ms at "
+                      f"1000 (load + plan, medians of 3 interleaved)")
 
 
 if __name__ == "__main__":

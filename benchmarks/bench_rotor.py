@@ -11,6 +11,7 @@ from __future__ import annotations
 import time
 
 import numpy as np
+from figures import figure
 
 import cruiseplan as cp
 
@@ -35,8 +36,8 @@ def main():
     t_wing = per_point(wing, h, np.linspace(30.0, 80.0, 500))
     t_quad = per_point(quad, h, np.linspace(1.0, 25.0, 500))
     t_built = per_point(built, h, np.linspace(12.0, 35.0, 500))
-    print(f"cruise grid 500x500, per point: fixed-wing {t_wing * 1e9:.0f} ns, multirotor "
-          f"{t_quad * 1e9:.0f} ns, ratio {t_quad / t_wing:.2f} (target <= 3)")
+    figure("cruise grid 500x500 per point, multirotor / fixed-wing", t_quad / t_wing, 3.0,
+           detail=f"fixed-wing {t_wing * 1e9:.0f} ns, multirotor {t_quad * 1e9:.0f} ns")
     print(f"build-up polar (Reynolds-dependent CD0) {t_built * 1e9:.0f} ns per point, "
           f"ratio to the fixed polar {t_built / t_wing:.2f}")
 

@@ -28,6 +28,8 @@ import sys
 import time
 from pathlib import Path
 
+from figures import figure
+
 #: Runs of each command (interleaved); the median of each side is reported.
 RUNS = 15
 #: (label, arguments after `cruiseplan`, target ratio to `import numpy`) of issue 13.
@@ -61,10 +63,8 @@ def main():
     print(f"`python -c 'import numpy'` {base * 1e3:.0f} ms (median of {RUNS}, interleaved)")
     for label, args, target in COMMANDS:
         m = statistics.median(times[label])
-        ratio = m / base
-        flag = "" if ratio <= target else "  MISSES TARGET"
-        print(f"`cruiseplan {' '.join(args)}` {m * 1e3:.0f} ms, ratio {ratio:.2f} "
-              f"(target <= {target:g}){flag}")
+        figure(f"`cruiseplan {' '.join(args)}` / `import numpy`", m / base, target,
+               detail=f"{m * 1e3:.0f} ms")
 
 
 if __name__ == "__main__":

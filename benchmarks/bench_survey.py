@@ -13,6 +13,7 @@ from __future__ import annotations
 import time
 
 import numpy as np
+from figures import figure
 
 import cruiseplan as cp
 from cruiseplan.io.text import parse_wind_profile
@@ -65,9 +66,9 @@ def main():
         for direction, how in ((0.0, "direction given"), (None, "direction searched")):
             m = mission(airframe, width, length, spacing, tas, turn, direction)
             t, sp = best_of(lambda m=m: plan_survey(m))
-            print(f"{airframe}, {len(sp.layout.lines)} lines, {how}: {t * 1e3:.0f} ms "
-                  f"(target < 500 ms), {sp.planner_calls} planner calls, "
-                  f"{len(sp.packs)} packs, {sp.verdict}")
+            figure(f"survey {airframe}, {len(sp.layout.lines)} lines, {how}", t * 1e3,
+                   500.0, fmt=".0f", unit=" ms", detail=f"{sp.planner_calls} planner calls, "
+                   f"{len(sp.packs)} packs, {sp.verdict}")
         pack = sp.packs[0]
         for grouped in (True, False):
             pm = pack_mission(m, sp.layout, pack.first, pack.last, grouped=grouped)

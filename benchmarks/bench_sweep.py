@@ -36,6 +36,7 @@ import time
 from pathlib import Path
 
 import numpy as np
+from figures import figure
 
 #: Interleaved repetitions of the rate comparison.
 RUNS = 3
@@ -116,10 +117,9 @@ def rate(folder: Path):
         print(f"{k:8s} {n / t:7.1f} points/s ({t:.2f} s for {n} points of a 10-leg mission)")
     r1, r2, scale = med["loop"] / med["sweep 1"], med["loop"] / med["sweep 2"], \
         med["sweep 1"] / med["sweep 2"]
-    print(f"sweep 1 / loop {r1:.2f}, sweep 2 / loop {r2:.2f} (target >= {RATE_TARGET:g})"
-          f"{'' if r2 >= RATE_TARGET else '  MISSES TARGET'}")
-    print(f"2 workers / 1 worker {scale:.2f} (target >= {SCALE_TARGET:g})"
-          f"{'' if scale >= SCALE_TARGET else '  MISSES TARGET'}")
+    figure("sweep 2 workers / loop", r2, RATE_TARGET, at_most=False,
+           detail=f"sweep 1 worker / loop {r1:.2f}")
+    figure("sweep 2 workers / 1 worker", scale, SCALE_TARGET, at_most=False)
 
 
 MEMORY_CHILD = """
@@ -163,8 +163,7 @@ def memory(folder: Path):
         print(f"{points:>9d} points ({study.size} in the study, 4 chunks of "
               f"{study.chunk} computed): peak RSS {peaks[points]:.0f} MB")
     growth = peaks[1_000_000] / peaks[10_000]
-    print(f"1e6 / 1e4 peak memory {growth:.2f} (target: flat, <= 1.10)"
-          f"{'' if growth <= 1.10 else '  MISSES TARGET'}")
+    figure("sweep peak memory 1e6 / 1e4 points (flat)", growth, 1.10)
 
 
 def main():

@@ -10,6 +10,7 @@ from __future__ import annotations
 import time
 
 import numpy as np
+from figures import figure
 
 import cruiseplan as cp
 from cruiseplan.io.text import parse_wind_profile
@@ -38,10 +39,10 @@ def main():
     u = plan_uncertainty(plan, 10_000, seed=0)
     t_mc = time.perf_counter() - t0
     s = u.summary()
-    print(f"10-leg mission: plan {t_plan * 1e3:.0f} ms; 10,000-sample Monte Carlo "
-          f"{t_mc * 1e3:.0f} ms (target < 2000 ms); fuel at landing P10/P50/P90 "
-          + " / ".join(f"{q / 0.72:.1f}" for q in s["remaining"])
-          + f" L; reserve holds in {s['reserve_probability'] * 100:.1f} % of samples")
+    figure("10-leg mission, 10,000-sample Monte Carlo", t_mc * 1e3, 2000.0, fmt=".0f",
+           unit=" ms", detail=f"plan {t_plan * 1e3:.0f} ms; fuel at landing P10/P50/P90 "
+           + " / ".join(f"{q / 0.72:.1f}" for q in s["remaining"])
+           + f" L; reserve holds in {s['reserve_probability'] * 100:.1f} % of samples")
 
 
 if __name__ == "__main__":

@@ -8,31 +8,50 @@ from __future__ import annotations
 
 import numpy as np
 
-_INV_PHI = (np.sqrt(5.0) - 1.0) / 2.0
 
+def grid_minimise(f, lo, hi, *, xtol_rel=1e-10, points=17, max_iter=100):
+    """Minimise a unimodal ``f`` on [lo, hi] element-wise by successive uniform grids.
 
-def golden_minimise(f, lo, hi, *, xtol_rel=1e-10, max_iter=200):
-    """Minimise a unimodal ``f`` on [lo, hi] element-wise by golden-section search.
+    Each step evaluates ``f`` at ``points`` equally spaced abscissae of every element's
+    bracket in one call and keeps the two grid intervals around the least value, so the
+    bracket shrinks by (points - 1) / 2 per call: 8 for 17 points, against 1.6 for
+    golden-section search. For a modest tolerance that takes a few calls on larger arrays instead of
+    thirty on small ones. NaN values count as worse. An element's bracket stops changing
+    once it meets the tolerance, so its result does not depend on the other elements.
 
-    ``f`` maps an array of abscissae (the broadcast shape of ``lo`` and ``hi``) to an array
-    of the same shape. Returns the abscissa of the minimum, to ``xtol_rel`` relative.
+    Parameters
+    ----------
+    f : callable
+        Maps abscissae of shape ``(points,) + shape`` (``shape`` the broadcast shape of
+        ``lo`` and ``hi``) to values of the same shape.
+    lo, hi : array_like
+        Bracket ends.
+    xtol_rel : float, optional
+        Relative width of the final bracket [-]: it ends within
+        ``xtol_rel * (|lo| + |hi|)`` of the bracket's ends.
+    points : int, optional
+        Abscissae per step, at least 3.
+    max_iter : int, optional
+        Most steps.
+
+    Returns
+    -------
+    numpy.ndarray
+        The middle of the final bracket, of shape ``shape``.
     """
     a, b = np.broadcast_arrays(np.asarray(lo, dtype=float), np.asarray(hi, dtype=float))
     a, b = a.copy(), b.copy()
-    c = b - _INV_PHI * (b - a)
-    d = a + _INV_PHI * (b - a)
-    fc, fd = f(c), f(d)
+    t = np.linspace(0.0, 1.0, points).reshape((points,) + (1,) * a.ndim)
+    last = points - 1
     for _ in range(max_iter):
-        if np.all(np.abs(b - a) <= xtol_rel * np.maximum(np.abs(a) + np.abs(b), 1e-300)):
+        width = b - a
+        done = np.abs(width) <= xtol_rel * np.maximum(np.abs(a) + np.abs(b), 1e-300)
+        if np.all(done):
             break
-        # Treat NaN on either side as "worse", so the search walks away from it.
-        left = (fc < fd) | np.isnan(fd)
-        b = np.where(left, d, b)
-        a = np.where(left, a, c)
-        new = np.where(left, b - _INV_PHI * (b - a), a + _INV_PHI * (b - a))
-        fnew = f(new)
-        c, d, fc, fd = (np.where(left, new, d), np.where(left, c, new),
-                        np.where(left, fnew, fd), np.where(left, fc, fnew))
+        i = np.argmin(_finite(f(a + t * width)), axis=0)
+        step = width / last
+        a, b = (np.where(done, a, a + np.maximum(i - 1, 0) * step),
+                np.where(done, b, a + np.minimum(i + 1, last) * step))
     return 0.5 * (a + b)
 
 

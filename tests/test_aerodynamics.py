@@ -215,3 +215,30 @@ def test_parasite_dominated_drag_falls_with_speed_squared(trainer):
     fuel_per_distance = 1.0 / pts.specific_range_air
     assert float(fuel_per_distance[0, 1] / fuel_per_distance[0, 0]) == \
         pytest.approx((55 / 60) ** 2, rel=1e-3)
+
+
+def test_speeds_at_thrust_power_meet_the_drag_power():
+    # D V = a V^3 + b / V for a symmetric parabolic polar; both roots of the quartic must
+    # give back the thrust power, and below the least drag power there is no speed.
+    mass, rho, area, cd0, k = 740.0, np.array([1.225, 1.0, 0.8]), 11.2, 0.032, 0.05
+    a = 0.5 * rho * area * cd0
+    b = 2 * k * (mass * 9.80665) ** 2 / (rho * area)
+    power = np.array([45e3, 40e3, 35e3])
+    slow, fast = aero.speeds_at_thrust_power(mass, rho, area, cd0, k, power)
+    for v in (slow, fast):
+        assert np.allclose(a * v**3 + b / v, power, rtol=1e-13, atol=0)
+    assert np.all(slow < aero.min_power_speed(mass, rho, area, cd0, k)) and np.all(fast > slow)
+    least = (a * (v := aero.min_power_speed(mass, rho, area, cd0, k)) ** 3 + b / v)
+    none = aero.speeds_at_thrust_power(mass, rho, area, cd0, k, 0.99 * least)
+    assert np.all(np.isnan(none[0])) and np.all(np.isnan(none[1]))
+
+
+def test_speeds_at_drag_meet_the_drag():
+    mass, rho, area, cd0, k = 740.0, 1.1, 11.2, 0.032, 0.05
+    d_min = 2 * mass * 9.80665 * np.sqrt(k * cd0)     # Anderson eq. 5.31 (common form)
+    slow, fast = aero.speeds_at_drag(mass, rho, area, cd0, k, d_min / 0.99)
+    for v in (slow, fast):
+        drag = 0.5 * rho * v**2 * area * cd0 + 2 * k * (mass * 9.80665) ** 2 / (rho * v**2 * area)
+        assert drag == pytest.approx(d_min / 0.99, rel=1e-13)
+    v_md = aero.min_drag_speed(mass, rho, area, cd0, k)
+    assert slow < v_md < fast

@@ -320,3 +320,20 @@ def test_nothing_flyable_has_no_equally_good_band(trainer):
     best = cp.best_cruise(trainer, [9000.0, 10000.0])  # above the ceiling
     assert best.best_index == -1
     assert not best.equally_good().any()
+
+
+def test_closed_form_window_and_economy_equal_the_searched_ones(trainer):
+    # The same constant efficiency as a flat table takes the searching path: its window
+    # edges (roots to 1e-8 relative) and economy speed must agree with the closed forms.
+    flat = replace(trainer, propulsion=replace(trainer.propulsion, propeller=PropellerEfficiency(
+        (0.0, 100.0), (0.72, 0.72))))
+    h = np.linspace(0.0, 4500.0, 10)
+    closed = cp.best_cruise(trainer, h, climb_reserve=1.0).schedule
+    searched = cp.best_cruise(flat, h, climb_reserve=1.0).schedule
+    # Up high the 1 m/s climb reserve leaves no window: both paths must say so alike.
+    assert 0 < np.isnan(closed.window_hi).sum() < h.size
+    for name in ("window_lo", "window_hi"):
+        assert np.allclose(getattr(closed, name), getattr(searched, name), rtol=3e-8, atol=0,
+                           equal_nan=True)
+    assert np.allclose(closed.tas_unconstrained["economy"],
+                       searched.tas_unconstrained["economy"], rtol=3e-8, atol=0)

@@ -417,3 +417,110 @@ def min_power_speed(mass, density, wing_area, cd0, k):
     """
     return speed_for_lift_coefficient(mass, density, wing_area,
                                       min_power_lift_coefficient(cd0, k))
+
+
+def speeds_at_drag(mass, density, wing_area, cd0, k, drag):
+    r"""The slow and fast TAS at which level-flight drag equals ``drag`` [m/s].
+
+    With a symmetric parabolic polar, :math:`D = a V^2 + b / V^2`,
+    :math:`a = \tfrac12 \rho S C_{D0}`, :math:`b = 2 k W^2 / (\rho S)`, a quadratic in
+    :math:`V^2`: :math:`V^2 = (D \pm \sqrt{D^2 - 4ab}) / (2a)`; the slow root is taken
+    from the product of the roots, :math:`b / a`, so that it keeps its digits.
+
+    Parameters
+    ----------
+    mass : array_like
+        Mass [kg].
+    density : array_like
+        Air density [kg/m^3].
+    wing_area : float
+        Wing area [m^2].
+    cd0, k : float
+        Polar coefficients [-].
+    drag : array_like
+        Drag [N], at least the minimum drag :math:`2 W \sqrt{k C_{D0}}`.
+
+    Returns
+    -------
+    slow, fast : numpy.ndarray
+        TAS [m/s]; NaN where ``drag`` is below the minimum drag.
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.3-5.4 (drag of a parabolic
+       polar in level flight, its minimum).
+    """
+    weight = np.asarray(mass, dtype=float) * G0
+    a = 0.5 * density * wing_area * cd0
+    b = 2.0 * k * weight * weight / (density * wing_area)
+    with np.errstate(invalid="ignore"):
+        fast2 = (drag + np.sqrt(drag * drag - 4.0 * a * b)) / (2.0 * a)
+    return np.sqrt(b / (a * fast2)), np.sqrt(fast2)
+
+
+def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
+    r"""The slow and fast TAS at which the drag power :math:`D V` equals ``thrust_power``.
+
+    With a symmetric parabolic polar, :math:`D V = a V^3 + b / V`
+    (:math:`a = \tfrac12 \rho S C_{D0}`, :math:`b = 2 k W^2 / (\rho S)`), so the speeds
+    are the positive roots of the quartic :math:`V^4 + p V + q = 0`, :math:`p = -P / a`,
+    :math:`q = b / a`. Ferrari's method: with :math:`m` the largest real root of the
+    resolvent cubic :math:`m^3 - q m - p^2 / 8 = 0` and :math:`s = \sqrt{2 m}`, the
+    quartic factors as :math:`(V^2 - s V + m + p / (2 s))(V^2 + s V + m - p / (2 s))`,
+    whose first factor holds the two positive roots. The slow root is taken from their
+    product, and two Newton steps on the quartic polish both to rounding (the closed form
+    alone may lose digits to cancellation, to about 1e-6 relative).
+
+    Parameters
+    ----------
+    mass : array_like
+        Mass [kg].
+    density : array_like
+        Air density [kg/m^3].
+    wing_area : float
+        Wing area [m^2].
+    cd0, k : float
+        Polar coefficients [-].
+    thrust_power : array_like
+        Thrust power [W] (efficiency x shaft power available, less any power kept for a
+        climb).
+
+    Returns
+    -------
+    slow, fast : numpy.ndarray
+        TAS [m/s]; NaN where the thrust power is below the least drag power (no speed).
+
+    References
+    ----------
+    .. [1] M. Abramowitz and I. A. Stegun, *Handbook of Mathematical Functions*, 1964,
+       3.8.2 (cubic) and 3.8.3 (quartic, resolvent cubic).
+    .. [2] Anderson, *Aircraft Performance and Design*, sec. 5.4 (power required and
+       available; maximum speed where they meet).
+    """
+    weight = np.asarray(mass, dtype=float) * G0
+    a = 0.5 * density * wing_area * cd0
+    b = 2.0 * k * weight * weight / (density * wing_area)
+    p = -np.asarray(thrust_power, dtype=float) / a
+    q = b / a
+    # Largest real root of m^3 - q m - p^2 / 8 = 0 (q > 0): trigonometric form for three
+    # real roots, Cardano's otherwise.
+    half = p * p / 16.0
+    disc = half * half - q * q * q / 27.0
+    with np.errstate(invalid="ignore", divide="ignore"):
+        r = np.sqrt(np.maximum(disc, 0.0))
+        cardano = np.cbrt(half + r) + np.cbrt(half - r)
+        scale = 2.0 * np.sqrt(q / 3.0)
+        angle = np.arccos(np.clip(half / (q / 3.0) ** 1.5, -1.0, 1.0)) / 3.0
+        m = np.where(disc >= 0, cardano, scale * np.cos(angle))
+        s = np.sqrt(2.0 * m)
+        fast = 0.5 * (s + np.sqrt(-2.0 * m - 2.0 * p / s))
+        slow = (m + p / (2.0 * s)) / fast
+    with np.errstate(invalid="ignore", divide="ignore"):
+        # Both roots at once. At a double root (the thrust power just meets the least drag
+        # power) the slope vanishes: keep the value there.
+        v = np.stack(np.broadcast_arrays(slow, fast))
+        for _ in range(2):
+            v3 = v * v * v
+            step = (v3 * v + p * v + q) / (4.0 * v3 + p)
+            v = np.where(np.isfinite(step), v - step, v)
+    return v[0], v[1]

@@ -68,6 +68,31 @@ def _ambiance():
     return ambiance
 
 
+@functools.lru_cache(maxsize=1)
+def _atmosphere_class():
+    """The ``Atmosphere`` class of ambiance, its layer parameters and temperature kept per call.
+
+    ambiance works out each point's layer parameters again for every quantity read
+    (temperature, and pressure, which reads the temperature again); here they are worked
+    out once per call. The same arithmetic on the same arrays: the figures are ambiance's.
+    """
+    base = _ambiance().Atmosphere
+
+    class Atmosphere(base):
+        def _get_layer_params(self):
+            if "_layer_params" not in self.__dict__:
+                self.__dict__["_layer_params"] = super()._get_layer_params()
+            return self.__dict__["_layer_params"]
+
+        @property
+        def temperature(self):
+            if "_temperature" not in self.__dict__:
+                self.__dict__["_temperature"] = base.temperature.fget(self)
+            return self.__dict__["_temperature"]
+
+    return Atmosphere
+
+
 def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
     """Return ``pressure_altitude`` as a float array, or raise if any lies out of range.
 
@@ -122,7 +147,7 @@ def isa_temperature_pressure(pressure_altitude):
     amb = _ambiance()
     flat = H.ravel()
     h_geometric = amb.Atmosphere.geop2geom_height(flat)
-    atm = amb.Atmosphere(h_geometric)
+    atm = _atmosphere_class()(h_geometric)
     return atm.temperature.reshape(H.shape), atm.pressure.reshape(H.shape)
 
 

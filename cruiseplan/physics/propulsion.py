@@ -181,6 +181,8 @@ class PropellerEfficiency:
             x = np.asarray(self.tas, dtype=float)
             y = np.asarray(self.efficiency, dtype=float)
             object.__setattr__(self, "_x", x)
+            # Interior knots: the count at or below a speed is its interval's index.
+            object.__setattr__(self, "_inner", np.ascontiguousarray(x[1:-1]))
             d = monotone_slopes(x, y)
             # Per-interval polynomial in the local coordinate t in [0, 1], evaluated by
             # Horner's rule: this is called thousands of times inside speed searches.
@@ -188,9 +190,10 @@ class PropellerEfficiency:
             c0, c1 = y[:-1], h * d[:-1]
             c2 = 3 * (y[1:] - y[:-1]) - h * (2 * d[:-1] + d[1:])
             c3 = 2 * (y[:-1] - y[1:]) + h * (d[:-1] + d[1:])
-            # One row per interval, gathered in one indexing operation per call.
-            object.__setattr__(self, "_rows", np.stack([x[:-1], 1.0 / h, c3, c2, c1, c0],
-                                                       axis=-1))
+            # One array per coefficient, each gathered by np.take (quicker than gathering
+            # rows of a table on the speed searches' larger arrays).
+            object.__setattr__(self, "_coefs", tuple(np.ascontiguousarray(c) for c in
+                                                     (x[:-1], 1.0 / h, c3, c2, c1, c0)))
 
     @property
     def is_constant(self) -> bool:
@@ -205,10 +208,11 @@ class PropellerEfficiency:
 
     def _cubic(self, tas):
         x = self._x
-        v = np.minimum(np.maximum(tas, x[0]), x[-1])
-        row = self._rows[np.minimum(np.searchsorted(x, v, side="right") - 1, x.size - 2)]
-        t = (v - row[..., 0]) * row[..., 1]
-        return ((row[..., 2] * t + row[..., 3]) * t + row[..., 4]) * t + row[..., 5]
+        v = np.clip(tas, x[0], x[-1])
+        i = np.searchsorted(self._inner, v, side="right")
+        x0, inv_h, c3, c2, c1, c0 = (c.take(i) for c in self._coefs)
+        t = (v - x0) * inv_h
+        return ((c3 * t + c2) * t + c1) * t + c0
 
     def scaled(self, factor):
         """The same efficiency multiplied by ``factor`` [-] (uncertainty samples)."""

@@ -65,7 +65,7 @@ from cruiseplan.physics.airspeed import (
     wind_components,
     wind_correction_angle,
 )
-from cruiseplan.physics.atmosphere import air_state
+from cruiseplan.physics.atmosphere import AirState, air_state
 from cruiseplan.planning.levels import leg_candidates
 from cruiseplan.planning.optimise import max_climb_rate, objective_speed
 from cruiseplan.planning.performance import shaft_power_required, speed_for_min_power
@@ -301,9 +301,16 @@ class Flight:
         # Past an empty tank the plan goes on counting the fuel it would need (to say by
         # how much it falls short), but the mass stops at the zero-fuel mass.
         self.zero_fuel_mass = load.mass - load.store if self.burns_mass else load.mass
+        # The air at each distinct set of altitudes, computed once per plan: the candidate
+        # altitudes of most legs are the same, and so are many of the climbs between them.
+        self._air = {}
 
     def air(self, h):
         """Air at pressure altitudes ``h`` [m] on the day.
+
+        The standard atmosphere is evaluated once per distinct array of altitudes this
+        flight model is asked for; the same array again returns the same (read-only)
+        state, so the figures are those of a fresh evaluation.
 
         Parameters
         ----------
@@ -315,7 +322,17 @@ class Flight:
         AirState
             Air at ``h`` with the mission's ISA deviation [K].
         """
-        return air_state(np.asarray(h, dtype=float), self.dev)
+        h = np.asarray(h, dtype=float)
+        key = (h.shape, h.tobytes())
+        air = self._air.get(key)
+        if air is None:
+            air = air_state(h, self.dev)
+            for f in AirState.__dataclass_fields__:
+                value = getattr(air, f)
+                if isinstance(value, np.ndarray) and value.flags.writeable:
+                    value.flags.writeable = False
+            self._air[key] = air
+        return air
 
     def shaft(self, m, air, v):
         """Shaft power [W] in level flight at mass ``m``, TAS ``v``.
@@ -409,10 +426,12 @@ class Flight:
             speed = np.maximum(speed + self.wind_error[0], 0)
         return speed
 
-    def ground(self, v, leg, h, gamma_rate=0.0, wind=None):
+    def ground(self, v, leg, h, gamma_rate=0.0, wind=None, heading=True):
         """Ground speed and heading for TAS ``v`` (horizontal part when climbing).
 
-        ``wind`` may carry the (headwind, crosswind) already found at ``h``.
+        ``wind`` may carry the (headwind, crosswind) already found at ``h``; with
+        ``heading`` false the heading is not worked out (None), for the integrations'
+        inner steps.
 
         Parameters
         ----------
@@ -426,14 +445,16 @@ class Flight:
             Vertical speed [m/s]; the horizontal TAS is sqrt(v^2 - gamma_rate^2).
         wind : tuple of array_like, optional
             Headwind and crosswind at ``h`` [m/s], when already known.
+        heading : bool, optional
+            Whether to work out the heading.
 
         Returns
         -------
         gs : numpy.ndarray
             Ground speed along the course [m/s]; where the course cannot be held, minus
             the headwind.
-        heading : numpy.ndarray
-            True heading [deg], in [0, 360).
+        heading : numpy.ndarray or None
+            True heading [deg], in [0, 360) (None unless asked for).
         held : numpy.ndarray of bool
             Where the crosswind is weaker than the horizontal TAS [-].
 
@@ -447,9 +468,10 @@ class Flight:
         # Where the course cannot be held the aircraft points into the crosswind: it
         # makes no way across it and drifts with the headwind component.
         gs = np.where(held, ground_speed(vh, head, cross), -head)
+        if not heading:
+            return gs, None, held
         wca = np.where(held, wind_correction_angle(vh, cross), 90.0 * np.sign(cross))
-        heading = np.mod(leg.course + wca, 360.0)
-        return gs, heading, held
+        return gs, np.mod(leg.course + wca, 360.0), held
 
 
 class _PackWatch:
@@ -515,17 +537,20 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     air_steps = fl.air(h_steps)
     head_steps, cross_steps = fl.wind(leg, h_steps)
     idle = profile.idle_power * fl.prop.rated_power
+    # What does not depend on the mass, for every step at once: TAS and climb power.
+    v_steps = tas_from_eas(v_eas, air_steps.density)
+    p_up_steps = profile.climb_power * fl.prop.shaft_power_available(air_steps.sigma)
+    prop = fl.prop.propeller
     for j in range(CLIMB_STEPS):
         air = air_steps.row(j)
-        v = tas_from_eas(v_eas, air.density)
-        prop = fl.prop.propeller
+        v = v_steps[j]
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
         weight = m * G0
         # Climb: set power, rate from the excess thrust power (capped by a set rate, and
         # kept below 0.9 x TAS where the shallow-climb formula holds). With a propeller
         # diameter the thrust comes from momentum theory and is finite at low speed.
-        p_up = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
+        p_up = p_up_steps[j]
         roc = prop.excess_thrust_power(v, air.density, p_up, p_level, drag) / weight
         if profile.climb_rate is not None:
             capped = roc > profile.climb_rate
@@ -542,7 +567,10 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         vz = np.where(climbing, np.where(bad, MIN_CLIMB_RATE, roc), profile.descent_rate)
         p = np.where(climbing, p_up, p_down)
         dt = np.where(moving, np.abs(dh) / vz, 0.0)
-        gs, heading, _ = fl.ground(v, leg, h_steps[j], vz, (head_steps[j], cross_steps[j]))
+        # The segment's heading is the last step's.
+        gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz, (head_steps[j], cross_steps[j]),
+                               heading=j == CLIMB_STEPS - 1)
+        heading = heading if hdg is None else hdg
         # Candidates that do not move contribute nothing (not NaN x 0).
         soc = fl.soc(None if store0 is None else store0 - used)
         watch.see(p, soc, moving)
@@ -610,10 +638,11 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
 
     def deriv(m, e=0.0):
         v = speed(m)
-        gs, _, _ = fl.ground(v, leg, h, wind=wind)
+        gs, _, _ = fl.ground(v, leg, h, wind=wind, heading=False)
         # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
-        # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest.
-        gs = np.maximum(np.nan_to_num(gs, nan=GS_FLOOR), GS_FLOOR)
+        # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest
+        # (fmax takes the floor where gs is NaN).
+        gs = np.fmax(gs, GS_FLOOR)
         shaft = fl.shaft(m, air, v)
         soc = fl.soc(None if store0 is None else store0 - e)
         watch.see(shaft, soc, dx > 0)

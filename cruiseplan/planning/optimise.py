@@ -11,9 +11,9 @@ At each altitude (all altitudes at once, vectorised):
   practice): a few percent of range buys noticeably more speed.
 
 Closed forms are used where the model allows them (symmetric parabolic polar, constant
-propeller efficiency, calm air, no Peukert effect); otherwise vectorised golden-section
-searches (Brent's method and Illinois root finding run on all altitudes at once), never
-a per-altitude scalar optimiser.
+propeller efficiency, calm air, no Peukert effect); otherwise vectorised searches
+(Brent's method, successive grids and Illinois root finding run on all altitudes at once),
+never a per-altitude scalar optimiser.
 
 Constraints, each reported when it binds:
 
@@ -42,11 +42,17 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from cruiseplan._numerics import brent_minimise, golden_minimise, illinois_root
+from cruiseplan._numerics import brent_minimise, grid_minimise, illinois_root
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_DTYPE, Limit, describe
-from cruiseplan.physics.aerodynamics import ParabolicPolar, min_drag_speed, min_power_speed
+from cruiseplan.physics.aerodynamics import (
+    ParabolicPolar,
+    min_drag_speed,
+    min_power_speed,
+    speeds_at_drag,
+    speeds_at_thrust_power,
+)
 from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import AirState, air_state, check_altitude
 from cruiseplan.planning.performance import (
@@ -71,6 +77,9 @@ TIE_TOLERANCE = 1e-9
 EQUAL_TOLERANCE = 0.005
 #: Altitude searched for ceilings [m].
 CEILING_SEARCH_TOP = 20000.0
+#: Relative tolerance of the speeds found as roots (window edges, economy) [-]: finer
+#: than anything printed or tested.
+ROOT_XTOL = 1e-8
 
 
 @dataclass(frozen=True)
@@ -164,7 +173,22 @@ def climb_rate(airframe, mass, air: AirState, tas):
 
 
 def _window(airframe, mass, air, lo, hi, reserve_rate):
-    """Speeds where the climb rate is at least ``reserve_rate``; NaN where none."""
+    """Speeds in [lo, hi] where the climb rate is at least ``reserve_rate``; NaN where none.
+
+    With a symmetric parabolic polar and a constant propeller efficiency the edges are the
+    roots of a quartic, in closed form (:func:`speeds_at_thrust_power`); otherwise both
+    edges are found in one pass of root finding, bracketed by the speed of the greatest
+    excess power.
+    """
+    if _closed_form_ok(airframe, 0.0, 0.0):
+        prop, polar = airframe.propulsion, airframe.polar
+        thrust_power = (prop.propeller(lo) * prop.shaft_power_available(air.sigma)
+                        - np.asarray(mass, dtype=float) * G0 * reserve_rate)
+        slow, fast = speeds_at_thrust_power(mass, air.density, airframe.wing_area,
+                                            polar.cd0, polar.k, thrust_power)
+        ok = (slow <= hi) & (fast >= lo)   # False where NaN: no speed at all
+        return (np.where(ok, np.maximum(slow, lo), np.nan),
+                np.where(ok, np.minimum(fast, hi), np.nan), ok)
 
     def excess(v):
         return climb_rate(airframe, mass, air, v) - reserve_rate
@@ -172,15 +196,33 @@ def _window(airframe, mass, air, lo, hi, reserve_rate):
     # v_x only splits the bracket for the two roots: modest precision is enough.
     v_x = brent_minimise(lambda v: -excess(v), lo, hi, xtol_rel=1e-6)
     ok = excess(v_x) >= 0.0
-    e_lo, e_hi = excess(lo), excess(hi)
-    v_lo = np.where(e_lo >= 0, lo, illinois_root(excess, lo, v_x, xtol_rel=1e-11))
-    v_hi = np.where(e_hi >= 0, hi,
-                    illinois_root(lambda v: -excess(v), v_x, hi, xtol_rel=1e-11))
+    v_lo, v_hi = _two_roots(excess, lo, v_x, hi)
     return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), ok
 
 
+def _two_roots(f, lo, mid, hi):
+    """The edges of the band around ``mid`` where ``f`` >= 0, within [lo, hi].
+
+    ``f`` >= 0 at ``mid``; an end where ``f`` >= 0 is its own edge. Both roots are found in
+    one call of the root finder on the two brackets stacked (each element stops on its
+    own, so the result is that of two calls).
+    """
+    shape = np.broadcast_shapes(np.shape(lo), np.shape(mid), np.shape(hi))
+    a = np.stack([np.broadcast_to(lo, shape), np.broadcast_to(mid, shape)])
+    b = np.stack([np.broadcast_to(mid, shape), np.broadcast_to(hi, shape)])
+    sign = np.array([1.0, -1.0]).reshape((2,) + (1,) * len(shape))
+    root = illinois_root(lambda v: sign * f(v), a, b, xtol_rel=ROOT_XTOL)
+    ends = f(np.stack([a[0], b[1]])) >= 0
+    return np.where(ends[0], a[0], root[0]), np.where(ends[1], b[1], root[1])
+
+
 def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
-    """Best speeds before any constraint, for the objectives asked (economy needs range)."""
+    """Best speeds before any constraint, for the objectives asked (economy needs range).
+
+    Where both the best-range and the best-endurance speed need a search, both are found
+    in one pass: the two problems are stacked along a new first axis, so that each step
+    evaluates the level flight once for both.
+    """
     prop = airframe.propulsion
     v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
@@ -193,26 +235,53 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     def ground_range(v):
         return ground_speed(v, hw, cw) * prop.endurance(store, shaft(v))
 
-    # Brent's method needs fewer evaluations, golden section far fewer array operations
-    # per step: for a planner's modest tolerance golden section is the quicker.
-    search = golden_minimise if xtol >= 1e-7 else brent_minimise
-    if "range" in objectives or "economy" in objectives:
-        peukert = np.any(getattr(prop, "peukert_exponent", 1.0) != 1.0)
-        if _closed_form_ok(airframe, hw, cw) and not peukert:
+    # Brent's method needs the fewest evaluations; for a planner's modest tolerance on a
+    # few dozen altitudes, a few calls of successive grids on larger arrays are quicker
+    # than Brent's many array operations per step.
+    search = grid_minimise if xtol >= 1e-7 else brent_minimise
+    peukert = np.any(getattr(prop, "peukert_exponent", 1.0) != 1.0)
+    range_closed = _closed_form_ok(airframe, hw, cw) and not peukert
+    endurance_closed = _closed_form_ok(airframe, 0.0, 0.0)
+    want_range = "range" in objectives or "economy" in objectives
+    if want_range and "endurance" in objectives and not range_closed \
+            and not endurance_closed:
+        shape = np.broadcast_shapes(np.shape(lo), np.shape(hi))
+
+        def both(v):
+            # The pair's axis comes before the points' shape (a search may add its own).
+            axis = v.ndim - len(shape) - 1
+            p = shaft(v)
+            rng = ground_speed(np.take(v, 0, axis), hw, cw) * prop.endurance(
+                store, np.take(p, 0, axis))
+            return np.stack([-rng, np.take(p, 1, axis)], axis=axis)
+
+        pair = search(both, np.broadcast_to(lo, (2,) + shape),
+                      np.broadcast_to(hi, (2,) + shape), xtol_rel=xtol)
+        out["range"], out["endurance"] = pair[0], pair[1]
+    if want_range and "range" not in out:
+        if range_closed:
             out["range"] = min_drag_speed(mass, air.density, airframe.wing_area, polar.cd0,
                                           polar.k)
         else:
             out["range"] = search(lambda v: -ground_range(v), lo, hi, xtol_rel=xtol)
-    if "endurance" in objectives:
-        if _closed_form_ok(airframe, 0.0, 0.0):
+    if "endurance" in objectives and "endurance" not in out:
+        if endurance_closed:
             out["endurance"] = min_power_speed(mass, air.density, airframe.wing_area,
                                                polar.cd0, polar.k)
         else:
             out["endurance"] = search(shaft, lo, hi, xtol_rel=xtol)
     if "economy" in objectives:
-        best = ground_range(out["range"])
-        out["economy"] = illinois_root(lambda v: ECONOMY_FRACTION * best - ground_range(v),
-                                       out["range"], hi, xtol_rel=0.1 * xtol)
+        if range_closed and getattr(prop, "circuit", None) is None:
+            # Range goes as 1 / drag when the store rate is proportional to shaft power:
+            # economy is the fast speed of drag = minimum drag / ECONOMY_FRACTION.
+            d_min = 2.0 * np.asarray(mass, dtype=float) * G0 * np.sqrt(polar.k * polar.cd0)
+            out["economy"] = speeds_at_drag(mass, air.density, airframe.wing_area, polar.cd0,
+                                            polar.k, d_min / ECONOMY_FRACTION)[1]
+        else:
+            best = ground_range(out["range"])
+            out["economy"] = illinois_root(
+                lambda v: ECONOMY_FRACTION * best - ground_range(v), out["range"], hi,
+                xtol_rel=max(0.1 * xtol, ROOT_XTOL))
     return out
 
 
@@ -257,7 +326,10 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     shape = np.broadcast_shapes(np.shape(air.density), np.shape(mass))
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
-    free = _free_speeds(airframe, mass, air, store, hw, cw, (objective,), xtol)[objective]
+    # The minimum-power speed bounds the search of the short-of-power branch below: found
+    # in the same pass as the objective's, one search in all.
+    speeds = _free_speeds(airframe, mass, air, store, hw, cw, (objective, "endurance"), xtol)
+    free = speeds[objective]
     v_s = airframe.stall_speed(mass, air.density)
     v = np.maximum(free, stall_margin * v_s)
     prop = airframe.propulsion
@@ -279,8 +351,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     def deficit(x):
         return shaft_power_required(airframe, m_sub, sub, x) - avail
 
-    v_mp = _free_speeds(airframe, m_sub, sub, store, hw[short], cw[short],
-                        ("endurance",), xtol)["endurance"]
+    v_mp = np.broadcast_to(speeds["endurance"], shape)[short]
     v_lo = np.maximum(v_mp, stall_margin * v_s[short] if np.ndim(v_s) else stall_margin * v_s)
     ok = deficit(v_lo) <= 0
     v_fit = illinois_root(deficit, v_lo, np.maximum(v[short], v_lo), xtol_rel=xtol)
@@ -407,9 +478,7 @@ def _pack_window(airframe, mass, air, store, lo, hi, v_mp):
         return shaft_power_required(airframe, mass, air, v) - cap
 
     ok = over(v_mp) <= 0
-    v_lo = np.where(over(lo) <= 0, lo, illinois_root(over, lo, v_mp, xtol_rel=1e-11))
-    v_hi = np.where(over(hi) <= 0, hi,
-                    illinois_root(lambda v: -over(v), v_mp, hi, xtol_rel=1e-11))
+    v_lo, v_hi = _two_roots(lambda v: -over(v), lo, v_mp, hi)
     return np.where(ok, v_lo, np.nan), np.where(ok, v_hi, np.nan), bit
 
 
@@ -735,9 +804,12 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
     v_free = sched.tas_unconstrained[objective]
-    gs_free = ground_speed(v_free, hw, cw)
-    free = cruise_points(airframe, loading.mass, air, v_free, loading.store,
-                         ground_speed=gs_free, keep_unflyable=True)  # flyable or not
+    if np.array_equal(v_free, v):
+        free = pts   # no constraint binds anywhere: the same points (values kept above)
+    else:
+        gs_free = ground_speed(v_free, hw, cw)
+        free = cruise_points(airframe, loading.mass, air, v_free, loading.store,
+                             ground_speed=gs_free, keep_unflyable=True)  # flyable or not
     value_free = free.endurance if objective == "endurance" else free.range_ground
     band = _band(h, *(None if x is None else to_si(x, "m", what=name) for x, name in
                       ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),

@@ -1,0 +1,50 @@
+"""Shared by the benchmark scripts: interleaved medians, and figures checked on targets.
+
+Every figure a script reports goes through :func:`figure`, which prints it with its target
+and marks it ``MISSES TARGET`` when it misses; ``run.py`` lists the misses at the end and
+exits 1 if there are any. No benchmark softens a target or a baseline to pass.
+"""
+
+from __future__ import annotations
+
+import statistics
+import time
+
+#: Figures that missed their targets in this process: (label, text) pairs.
+MISSES = []
+
+
+def interleaved(sides: dict, runs: int, warm: int = 1) -> dict:
+    """Median wall time [s] of each side, the sides run in turn (a, b, a, b, ...).
+
+    Running the sides in turn within one run lets a change of machine load touch every
+    side alike; each side is called ``warm`` times first (imports, caches).
+    """
+    times = {name: [] for name in sides}
+    for fn in sides.values():
+        for _ in range(warm):
+            fn()
+    for _ in range(runs):
+        for name, fn in sides.items():
+            t0 = time.perf_counter()
+            fn()
+            times[name].append(time.perf_counter() - t0)
+    return {name: statistics.median(t) for name, t in times.items()}
+
+
+def figure(label: str, value: float, target: float, *, at_most: bool = True,
+           fmt: str = ".2f", unit: str = "", detail: str = "") -> bool:
+    """Print one figure with its target; record and flag it when it misses.
+
+    ``at_most`` is true for a figure that must not exceed the target (times, ratios of
+    the API to a baseline), false for one that must reach it (speed-ups). Returns whether
+    the target is met.
+    """
+    ok = value <= target if at_most else value >= target
+    sign = "<=" if at_most else ">="
+    text = (f"{label}: {value:{fmt}}{unit} (target {sign} {target:{fmt}}{unit})"
+            + (f"; {detail}" if detail else ""))
+    if not ok:
+        MISSES.append((label, text))
+    print(text + ("" if ok else "  MISSES TARGET"))
+    return ok
