@@ -544,7 +544,7 @@ def _airframe(r: SchemaReader, path: Path, checksum: str) -> Airframe:
         r.fail("[masses] payload", f"empty + payload = {zero_fuel:.1f} kg exceeds max_takeoff "
                                    f"{masses['max_takeoff']:.1f} kg")
     common = dict(name=str(head.get("name", path.stem)),
-                  description=str(head.get("description", "")),
+                  description=_description(r.source, head.get("description", "")),
                   empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
                   payload=masses["payload"], propulsion=_propulsion(r, kind),
                   source=str(path), checksum=checksum, tolerances=_tolerances(r, kind))
@@ -673,6 +673,14 @@ def bundled_airframes() -> dict:
         Name to :class:`pathlib.Path`.
     """
     return bundled_files("airframe")
+
+
+def _description(source, value) -> str:
+    """The ``[airframe] description``: text, not a number, list or table."""
+    if not isinstance(value, str):
+        raise AirframeFileError(f"{source}: [airframe] description: {value!r} is not text; "
+                                "e.g. description = 'Two-seat trainer'")
+    return value
 
 
 def find_airframe(name_or_path) -> Path:

@@ -51,6 +51,7 @@ import numpy as np
 from cruiseplan.constants import FT_PER_MIN, G0
 from cruiseplan.errors import AirframeFileError, CruiseplanError, CruiseplanWarning, LogFileError
 from cruiseplan.io.airframe_file import read_airframe_text
+from cruiseplan.io.schema import read_regular_file
 from cruiseplan.physics.airspeed import tas_from_cas
 from cruiseplan.physics.atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, air_state
 from cruiseplan.units import normalise_unit, registry
@@ -261,6 +262,10 @@ def _number_table(path: Path, header_cells, rows, columns: dict):
     return lines, table
 
 
+#: Largest flight log read [bytes] (about a million rows).
+MAX_LOG_BYTES = 64 * 2**20
+
+
 def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
     """Read a level-flight log (CSV with units in the header) into SI arrays.
 
@@ -295,10 +300,7 @@ def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
     .. [2] Anderson, *Introduction to Flight*, sec. 4.12.
     """
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        raise LogFileError(f"{path}: cannot read the flight log ({exc.strerror})") from None
+    raw = read_regular_file(path, LogFileError, "flight log", MAX_LOG_BYTES)
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError:

@@ -61,6 +61,7 @@ from cruiseplan.model.tolerance import WindTolerance
 from cruiseplan.physics.atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
 from cruiseplan.physics.geo import great_circle
 from cruiseplan.physics.winds import WindProfile
+from cruiseplan.ranges import RANGES, check_range
 from cruiseplan.units import parse_quantity, temperature_difference, to_si
 
 _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty",
@@ -189,7 +190,8 @@ def _wind(r, leg, where):
                                    example="'3000 ft'"))
             dirs.append(r.quantity(row, "direction", "", w, lo=0.0, hi=360.0, required=True,
                                    default_unit="", example="270"))
-            speeds.append(r.quantity(row, "speed", "m/s", w, lo=0.0, required=True,
+            speeds.append(r.quantity(row, "speed", "m/s", w, lo=0.0, hi=RANGES["headwind"][1],
+                                     required=True,
                                      example="'25 kt'"))
         order = sorted(range(len(alts)), key=alts.__getitem__)
         try:
@@ -255,14 +257,16 @@ def _leg(r, raw, where, to_pa):
                                       "from/to waypoints)")
         course = 0.0
 
-    def best_or(key, unit, example):
+    def best_or(key, unit, example, hi):
         raw_v = leg.get(key, "best")
         if raw_v == "best":
             return None
-        return r.quantity(leg, key, unit, where, lo=0.0, example=example)
+        return r.quantity(leg, key, unit, where, lo=0.0, hi=hi, example=example)
 
-    altitude = best_or("altitude", "m", "'5500 ft' or 'best'")
-    speed = best_or("speed", "m/s", "'105 kt' or 'best'")
+    # The physical ranges of cruiseplan.ranges: the atmosphere model's altitudes and the
+    # speeds a propeller aircraft can fly.
+    altitude = best_or("altitude", "m", "'5500 ft' or 'best'", RANGES["altitude"][1])
+    speed = best_or("speed", "m/s", "'105 kt' or 'best'", RANGES["speed"][1])
     if speed is not None and speed <= 0:
         r.fail(f"{where} speed", "must be positive")
     objective = leg.get("objective")
@@ -560,10 +564,10 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
     else:
         try:
             isa_dev = temperature_difference(day.get("isa_dev", 0.0), what="isa_dev")
-        except UnitError:
+        except (UnitError, TypeError, ValueError):
             r.fail("[day] isa_dev", f"{day.get('isa_dev')!r} is not a temperature difference, "
                                     "e.g. '+15 K' or '+15 degC'")
-        if not -60 <= isa_dev <= 60:
+        if not (isinstance(isa_dev, (int, float)) and -60 <= isa_dev <= 60):
             r.fail("[day] isa_dev", f"{day['isa_dev']!r} is out of range (-60 to 60 K)")
     # A pack given as a circuit holds less and sags more when cold: it is set to the stated
     # pack temperature, or the day's at the departure field, before any amount is read.
@@ -872,6 +876,7 @@ def _loading_overrides(mission, fuel, payload, names, words) -> dict:
         if not 0.0 <= pl < math.inf:
             raise UnitError(f"{names['payload']}: {payload!r} must be a finite mass, not "
                             "negative")
+        check_range(pl, "payload", names["payload"])
         words.append(f"payload {payload.strip() if isinstance(payload, str) else f'{pl:g} kg'}")
     try:
         with warnings.catch_warnings():

@@ -55,6 +55,9 @@ from cruiseplan.units import display, temperature_difference, to_si
 from cruiseplan.version import __version__
 
 #: Default power settings [fraction of rated power] by store.
+#: Most table rows one A4 page could hold: 11.69 in x 72 pt/in over a row pitch of 7 pt
+#: (the smallest legible font) x 1.3; a card asking more is refused before computing.
+MAX_CARD_ROWS = int(11.69 * 72 / (7.0 * 1.3))
 DEFAULT_POWER = {"fuel": (0.55, 0.65, 0.75), "energy": (0.20, 0.30, 0.40)}
 #: Default card altitudes [m] by store: 0-8000 ft by 2000 ft; 0-400 m by 100 m.
 DEFAULT_ALTITUDES = {"fuel": tuple(np.arange(0.0, 8001.0, 2000.0) * FT),
@@ -194,6 +197,13 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
                             else altitudes, "m", what="altitudes"))
     frac = np.atleast_1d(np.asarray(DEFAULT_POWER[store_name] if power_settings is None
                                     else power_settings, dtype=float))
+    rows = h.size * frac.size + h.size
+    if rows > MAX_CARD_ROWS:
+        # Checked before any row is computed: no page could hold them.
+        raise CruiseplanError(f"the cruise card's {rows} table rows ({h.size} altitudes x "
+                              f"{frac.size} power settings, and a row of speeds per "
+                              f"altitude) do not fit one A4 page at a legible size (at most "
+                              f"{MAX_CARD_ROWS}): give fewer altitudes or power settings")
     if isinstance(reserve, str):
         reserve = parse_reserve(reserve, prop, what="reserve")
     reserve = reserve or default_reserve(prop)
