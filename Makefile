@@ -3,7 +3,7 @@ PYTHON ?= python3
 VENV := .venv
 BIN := $(VENV)/bin
 
-.PHONY: demo test lint bench coverage notebooks clean
+.PHONY: demo test lint bench coverage notebooks sweeps clean
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -41,6 +41,19 @@ bench: $(VENV)/.installed-test
 $(VENV)/.installed-notebooks: pyproject.toml | $(BIN)/python
 	$(BIN)/python -m pip install -q -e ".[notebooks]"
 	touch $@ $(VENV)/.installed
+
+$(VENV)/.installed-sweeps: pyproject.toml | $(BIN)/python
+	$(BIN)/python -m pip install -q -e ".[sweeps]"
+	touch $@ $(VENV)/.installed
+
+# Installs the sweeps extra (dask, distributed, xarray, zarr) and runs the demo study into
+# out/ (completing it if an earlier run was interrupted).
+SWEEP_OUT := out/demo-hot-day-loads.zarr
+sweeps: $(VENV)/.installed-sweeps
+	mkdir -p out
+	if [ -d $(SWEEP_OUT) ]; then \
+	  $(BIN)/cruiseplan sweep demo-hot-day-loads -o $(SWEEP_OUT) --resume; \
+	else $(BIN)/cruiseplan sweep demo-hot-day-loads -o $(SWEEP_OUT); fi
 
 # Opens the notebooks in JupyterLab (a local server; stop it with Ctrl-C).
 notebooks: $(VENV)/.installed-notebooks

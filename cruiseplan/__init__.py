@@ -26,21 +26,26 @@ _PUBLIC = {
     "cruiseplan.cautions": ("CAUTION_LINE", "CAUTIONS"),
     "cruiseplan.errors": (
         "AirframeFileError", "AtmosphereRangeError", "CruiseplanError", "CruiseplanWarning",
-        "LogFileError", "MissionFileError", "UnitError",
+        "ForecastFileError", "LogFileError", "MissionFileError", "UnitError",
     ),
     "cruiseplan.io.airframe_file": ("bundled_airframes", "load_airframe", "read_airframe"),
+    "cruiseplan.io.forecast_file": ("read_forecast",),
     "cruiseplan.io.mission_file": (
         "apply_overrides", "bundled_missions", "load_mission", "read_mission",
     ),
-    "cruiseplan.io.text": ("parse_wind_profile",),
+    "cruiseplan.io.text": ("parse_utc_time", "parse_wind_profile"),
     "cruiseplan.kinds": (
         "KINDS", "Airframe", "FixedWing", "LevelFlight", "Loading", "Multirotor",
     ),
     "cruiseplan.limits": ("Limit", "describe", "explain"),
     "cruiseplan.model.mission": ("Leg", "Mission", "Profile", "Reserve"),
     "cruiseplan.model.survey": ("Survey",),
-    "cruiseplan.physics.atmosphere": ("AirState", "air_state", "density_altitude"),
+    "cruiseplan.physics.atmosphere": (
+        "AirState", "air_state", "density_altitude", "pressure_altitude_from_pressure",
+    ),
+    "cruiseplan.physics.forecast": ("GriddedWeather",),
     "cruiseplan.physics.winds": ("WindProfile",),
+    "cruiseplan.planning.forecast": ("plan_with_forecast",),
     "cruiseplan.planning.mission": ("Plan", "Segment", "plan_mission"),
     "cruiseplan.planning.nogo": ("Remedies", "what_would_make_it_go"),
     "cruiseplan.planning.optimise": (

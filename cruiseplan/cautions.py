@@ -11,3 +11,7 @@ CAUTIONS = (
 
 #: Short caution in the footer of every card and figure.
 CAUTION_LINE = "Planning aid only \u2014 the flight manual and local rules come first"
+
+#: Caution on every plan whose winds and temperatures come from a gridded forecast.
+FORECAST_CAUTION = ("a forecast is a forecast: official weather briefings and the flight "
+                    "manual come first")

@@ -34,6 +34,10 @@ class LogFileError(CruiseplanError):
     """A flight-log file is malformed."""
 
 
+class ForecastFileError(CruiseplanError):
+    """A gridded forecast file is unreadable, malformed, or does not cover the route."""
+
+
 class CruiseplanWarning(UserWarning):
     """Odd but possible input, e.g. a mass above the maximum take-off mass."""
 

@@ -13,7 +13,12 @@ from hypothesis import assume, example, given
 from hypothesis import strategies as st
 
 import cruiseplan as cp
-from cruiseplan.physics.atmosphere import check_altitude
+from cruiseplan.errors import CruiseplanError
+from cruiseplan.physics.atmosphere import (
+    check_altitude,
+    isa_temperature_pressure,
+    pressure_altitude_from_pressure,
+)
 
 FT = 0.3048  # international foot [m], exact by definition
 R0_1976 = 6356766.0  # Earth radius of the 1976 standard for geopotential height [m]
@@ -282,3 +287,29 @@ def test_air_state_scalar_and_column():
     assert col.density[2, 0] == pytest.approx(float(air.density), rel=1e-14)
     # A column broadcasts against a row of speeds (the grid convention).
     assert (col.density * np.ones((1, 7))).shape == (3, 7)
+
+
+# --- pressure altitude of a pressure ----------------------------------------------------------
+
+def test_pressure_altitude_from_pressure_inverts_the_isa():
+    H = np.linspace(-5000.0, 80000.0, 1701)
+    p = isa_temperature_pressure(H)[1]
+    err = np.abs(pressure_altitude_from_pressure(p) - H)
+    # Exact to rounding within each layer; ambiance's layer base pressures are rounded to
+    # six digits, so at the 20, 32 and 47 km boundaries its two curves differ by a few cm.
+    boundary = np.isin(H, [20000.0, 32000.0, 47000.0])
+    assert err[~boundary].max() < 1e-6
+    assert err[boundary].max() < 0.05
+
+
+@pytest.mark.parametrize("hpa, metres", [(850.0, 1457.0), (700.0, 3012.0), (500.0, 5574.0),
+                                         (300.0, 9164.0), (200.0, 11784.0)])
+def test_standard_heights_of_pressure_levels(hpa, metres):
+    # ISA heights of the standard pressure levels (ICAO Doc 7488/3 tables; from memory,
+    # to the metre).
+    assert abs(float(pressure_altitude_from_pressure(hpa * 100.0)) - metres) < 1.0
+
+
+def test_pressure_outside_the_model_is_an_error():
+    with pytest.raises(CruiseplanError, match=r"pressure 200000 Pa is outside"):
+        pressure_altitude_from_pressure([90000.0, 2e5])

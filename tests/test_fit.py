@@ -398,6 +398,10 @@ def test_fitted_text_keeps_everything_else_byte_for_byte(trainer):
     old_lines, new_lines = text.splitlines(keepends=True), new.splitlines(keepends=True)
     assert new_lines[5].startswith("# cd0 and k fitted from flight.csv on 2026-05-04")
     assert new_lines[5].endswith(")\r\n")
+    # The fit's tolerances are added at the end (tests/test_correlated_tolerances.py).
+    body, _, added = new.partition("\r\n# cd0 and oswald_e: the fit's")
+    assert added.count("[uncertainty]\r\n") == 1
+    new_lines = body.splitlines(keepends=True)
     kept = [ln for ln in new_lines if not ln.startswith(("# cd0 and", "cd0 =", "k ="))]
     assert kept == [ln for ln in old_lines if not ln.startswith(("cd0 =", "k ="))]
     with pytest.raises(CruiseplanError, match="has no 'cd0 = ...' and 'oswald_e = ...'"):
@@ -436,8 +440,12 @@ def test_cli_fit_demo_log_writes_airframe_and_plot(capsys, tmp_path):
         float(m["oswald_e"].group(1)), abs=1e-4)
     old_doc = tomllib.loads((cp.bundled_airframes()["demo-trainer"]).read_text())
     new_doc = tomllib.loads(new.read_text())
-    assert {k: v for k, v in new_doc.items() if k != "polar"} == \
-           {k: v for k, v in old_doc.items() if k != "polar"}
+    assert {k: v for k, v in new_doc.items() if k not in ("polar", "uncertainty")} == \
+           {k: v for k, v in old_doc.items() if k not in ("polar", "uncertainty")}
+    # The polar's tolerances are the fit's (tests/test_correlated_tolerances.py), the
+    # others the file's.
+    for key in ("propeller_efficiency", "bsfc"):
+        assert new_doc["uncertainty"][key] == old_doc["uncertainty"][key]
     assert new_doc["polar"]["kind"] == "parabolic"
     assert fitted.propulsion == original.propulsion and fitted.wing_area == original.wing_area
     assert png.read_bytes().startswith(b"\x89PNG\r\n\x1a\n") and png.stat().st_size > 20000

@@ -16,7 +16,8 @@ import pytest
 
 NOTEBOOKS = Path(__file__).resolve().parent.parent / "notebooks"
 PATHS = sorted(NOTEBOOKS.glob("*.ipynb"))
-EXPECTED = ("tourer-hot-day-altitude", "survey-drone-battery", "polar-from-flight-log")
+EXPECTED = ("tourer-hot-day-altitude", "survey-drone-battery", "polar-from-flight-log",
+            "best-departure-hour")
 
 
 def code_of(cell) -> str:

@@ -1,6 +1,7 @@
 """Multirotors (momentum theory) and the parasite-drag build-up with Reynolds effects."""
 
 from dataclasses import replace
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -9,11 +10,15 @@ from scipy.optimize import brentq
 import cruiseplan as cp
 from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
 from cruiseplan.physics.dragbuildup import (
+    CORRELATIONS,
+    DEFAULT_BODY_CORRELATION,
     AttachedBody,
     BodyDrag,
     BuildUpPolar,
     Component,
+    body_correlations,
     cd_cylinder,
+    cd_sphere_clift_gauvin,
     cd_sphere_morrison,
     cf_laminar,
     cf_mixed,
@@ -168,6 +173,14 @@ def test_flat_plate_friction():
     a = 5e5 * (cf_turbulent(5e5) - cf_laminar(5e5))
     assert a == pytest.approx(1614.0, abs=0.5)
     assert a == pytest.approx(1700, rel=0.06)   # from memory
+    # Derived so, the friction is continuous at transition (with 1700 it would fall 9 %
+    # there); against the 1700 form it is 3.1 % higher at Re 1e6, 0.3 % at 1e7 (the
+    # difference the docstring states: 86/Re).
+    below, above = cf_mixed(np.nextafter(5e5, 0.0)), cf_mixed(5e5)
+    assert above == pytest.approx(below, rel=1e-12)
+    for re, diff in ((1e6, 0.031), (1e7, 0.003)):
+        assert cf_mixed(re) / (cf_turbulent(re) - 1700 / re) - 1 == pytest.approx(diff,
+                                                                             abs=5e-4)
 
 
 @pytest.mark.parametrize("re, cd", [(200.0, 0.76773)])
@@ -191,21 +204,110 @@ def test_stokes_law_at_low_reynolds():
         assert cd_sphere_morrison(re) == pytest.approx(24.0 / re, rel=1e-4)
 
 
+def standard_curve():
+    """Re and CD of tests/data/sphere_standard_curve.csv (Clift, Grace and Weber, 1978,
+    Table 5.2: the standard drag curve of a smooth sphere)."""
+    path = Path(__file__).parent / "data" / "sphere_standard_curve.csv"
+    rows = [ln.split(",") for ln in path.read_text().splitlines()
+            if ln and not ln.startswith("#")][1:]
+    return np.array([[float(a), float(b)] for a, b in rows]).T
+
+
+def test_standard_curve_table_matches_an_independent_implementation():
+    # The table's values (computed from Clift, Grace and Weber's Table 5.2 equations)
+    # against the fluids library's implementation of the same table (fluids.drag.Clift):
+    # half a unit of the 4th decimal printed.
+    from fluids.drag import Clift
+
+    for re, cd in zip(*standard_curve()):
+        assert Clift(re) == pytest.approx(cd, abs=5e-5)
+
+
+def test_default_sphere_correlation_follows_the_standard_curve():
+    # Source: the standard drag curve of a smooth sphere, Clift, Grace and Weber (1978),
+    # Table 5.2, at 9 Reynolds numbers from 1e3 to 3e5 (tests/data/sphere_standard_curve.csv).
+    # Clift and Gauvin's correlation follows it within 4.5 % over the drone range
+    # (measured 4.3 %, at Re 2e3); Morrison's runs up to 17 % under it below 2e5 and is
+    # in the drag crisis by 3e5 (65 % under): the default is the nearer one.
+    re, cd = standard_curve()
+    drone = re >= 1e3
+    body = AttachedBody("ball", "sphere", 0.1)
+    assert body.correlation == "clift-gauvin"
+    default = CORRELATIONS[body.correlation](re[drone])
+    np.testing.assert_allclose(default, cd[drone], rtol=0.045)
+    worst = {name: np.max(np.abs(c(re[drone]) / cd[drone] - 1.0))
+             for name, c in body_correlations("sphere").items()}
+    assert min(worst, key=worst.get) == DEFAULT_BODY_CORRELATION["sphere"]
+    assert worst["morrison"] > 0.5 and worst["clift-gauvin"] < 0.045
+    # Below the drone range Morrison's is the nearer (Re 300: +1.5 % against +5.9 %).
+    assert cd_sphere_morrison(300.0) == pytest.approx(0.6527, rel=0.02)
+    assert cd_sphere_clift_gauvin(300.0) == pytest.approx(0.6527, rel=0.06)
+
+
+@pytest.mark.parametrize("re, cd", [(1e3, 0.4662), (1e4, 0.4167), (1e5, 0.4918)])
+def test_clift_gauvin_computed_values(re, cd):
+    # Computed ([calc]) from Clift and Gauvin's equation (Clift, Grace and Weber, 1978,
+    # ch. 5), e.g. at Re 1e4: 0.15 x 1e4^0.687 = 83.964, 24e-4 x 84.964 = 0.20391;
+    # 4.25e4 x 1e4^-1.16 = 0.97362, 0.42 / 1.97362 = 0.21281; sum 0.41672. Printed to 4
+    # decimals: half a unit.
+    assert cd_sphere_clift_gauvin(re) == pytest.approx(cd, abs=5e-5)
+    # Stokes' law at small Re (24/Re; its other terms add 0.15 Re^0.687 of it: 6.5e-3 at
+    # Re 1e-3 and less below).
+    assert cd_sphere_clift_gauvin(1e-5) == pytest.approx(24e5, rel=2e-4)
+
+
 def test_sphere_in_air_two_term_resistance():
     # Common practice, no source: the resistance of a sphere in air at 1 atm,
-    # F = C1 R v + C2 R^2 v^2, C1 ~ 3.1e-4 kg/(m s), C2 ~ 0.87 kg/m^3. Each term against
-    # the model in its own regime, within 15 %: the rule's round constants are that rough
-    # (measured +10 % and -10 %; Stokes alone gives C1 = 6 pi mu = 3.4e-4 at 20 degC).
-    air = cp.air_state(0.0, oat=293.15)
+    # F = C1 R v + C2 R^2 v^2, C1 ~ 3.1e-4 kg/(m s), C2 ~ 0.87 kg/m^3; within 10 % (the
+    # issue's figure), in sea-level ISA air (15 degC). Each term in its own regime:
+    # the viscous one is Stokes' 6 pi mu = 3.38e-4 (measured +9.0 %); the quadratic one
+    # over Re 1e3 to 2e5, the drone range (measured -7.8 % to +8.8 %; Morrison's
+    # correlation gives -13 % at Re 1e4).
+    air = cp.air_state(0.0)
 
-    def force(radius, speed):
-        body = AttachedBody("ball", "sphere", 2 * radius)
+    def force(radius, speed, correlation=""):
+        body = AttachedBody("ball", "sphere", 2 * radius, correlation=correlation)
         return float(BodyDrag(0.0, (body,)).drag(speed, air))
 
     r, v = 10e-6, 1e-3     # a mist droplet drifting: Re ~ 1e-3, viscous
-    assert force(r, v) / (r * v) == pytest.approx(3.1e-4, rel=0.15)
-    r, v = 0.05, 10.0      # a ball in a breeze: Re ~ 7e4, quadratic
-    assert force(r, v) / (r * r * v * v) == pytest.approx(0.87, rel=0.15)
+    assert force(r, v) / (r * v) == pytest.approx(3.1e-4, rel=0.10)
+    nu = float(air.viscosity / air.density)
+    for re in (1e3, 1e4, 5e4, 1e5, 2e5):
+        r = 0.05
+        v = re * nu / (2 * r)
+        assert force(r, v) / (r * r * v * v) == pytest.approx(0.87, rel=0.10)
+    v = 1e4 * nu / 0.1
+    assert force(0.05, v, "morrison") / (0.05**2 * v * v) < 0.87 * 0.9
+
+
+def test_sphere_correlation_chosen_in_the_airframe_file(tmp_path):
+    src = open(cp.load_airframe("demo-sensor-wing").source).read()
+    assert 'shape = "sphere"' in src
+    p = tmp_path / "wing.toml"
+    p.write_text(src.replace('shape = "sphere"', 'shape = "sphere"\ncorrelation = "morrison"'))
+    ball = cp.read_airframe(p).polar.bodies[0]
+    assert ball.correlation == "morrison"
+    # Morrison's is below Clift and Gauvin's at the ball's Reynolds number, and so is the
+    # parasite drag (measured: CD0 -4.2 % at 300 m and 20 m/s).
+    air = cp.air_state(300.0)
+    assert (cp.read_airframe(p).polar.cd0(20.0, air)
+            < cp.load_airframe("demo-sensor-wing").polar.cd0(20.0, air))
+    p.write_text(src.replace('shape = "sphere"', 'shape = "sphere"\ncorrelation = "white"'))
+    with pytest.raises(cp.AirframeFileError,
+                       match=r"\[polar.bodies\[1\]\] correlation: 'white' is not one of "
+                             r"clift-gauvin, morrison"):
+        cp.read_airframe(p)
+
+
+def test_clift_gauvin_beyond_its_range_is_flagged():
+    # Clift and Gauvin's correlation has no drag crisis; past Re 3e5 the point is flagged
+    # (the limit bit RE), Morrison's is good to 1e6.
+    air = cp.air_state(0.0)
+    ball = BodyDrag(0.0, (AttachedBody("pod", "sphere", 0.3),))
+    _, outside = ball.area_and_range(np.array([10.0, 20.0]), air)   # Re 2.1e5, 4.1e5
+    assert outside.tolist() == [False, True]
+    morrison = BodyDrag(0.0, (AttachedBody("pod", "sphere", 0.3, correlation="morrison"),))
+    assert not morrison.area_and_range(np.array([10.0, 20.0]), air)[1].any()
 
 
 def test_cylinder_regimes():

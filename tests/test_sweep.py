@@ -26,6 +26,9 @@ from cruiseplan.planning.mission import plan_mission  # noqa: E402
 from cruiseplan.planning.optimise import best_cruise  # noqa: E402
 from cruiseplan.studies import run_study  # noqa: E402
 
+# The 200 kg payload is over the maximum take-off mass: a NO-GO the plans state themselves.
+pytestmark = pytest.mark.filterwarnings("ignore::cruiseplan.errors.CruiseplanWarning")
+
 MISSION_STUDY = """
 [study]
 name = "small"
@@ -95,14 +98,19 @@ def test_sweep_points_equal_single_plans_on_a_distributed_cluster(tmp_path):
     distributed = pytest.importorskip("distributed")
     study = read_study(write(tmp_path, MISSION_STUDY))
     with distributed.LocalCluster(n_workers=2, threads_per_worker=1, processes=True,
-                                  host="127.0.0.1", dashboard_address=None) as cluster, \
+                                  host="127.0.0.1", dashboard_address="127.0.0.1:0") as cluster, \
             distributed.Client(cluster) as client:
         assert len(client.scheduler_info()["workers"]) == 2
         ds = run_study(study, tmp_path / "out.zarr", client=client)
         assert_points_equal_single_plans(ds.load())
         # In memory, without a store, on the same cluster.
         mem = run_study(study, client=client)
+        # The command line, given the cluster's scheduler address.
+        assert main(["sweep", str(tmp_path / "study.toml"), "-o", str(tmp_path / "cli.zarr"),
+                     "--scheduler", cluster.scheduler_address]) == 0
     assert_points_equal_single_plans(mem)
+    assert_points_equal_single_plans(xr.open_zarr(tmp_path / "cli.zarr",
+                                                  consolidated=False).load())
 
 
 def test_in_memory_run_equals_the_store(tmp_path):
@@ -287,6 +295,8 @@ def test_ctrl_c_says_how_to_resume(tmp_path):
     ("[study]\nmission = 'demo-cross-country'\n[axes]\nisa_dev = '0:1e9:1 K'\n",
      r"isa_dev"),
     ("[study\n", r"study\.toml"),
+    ("[study]\nmission = 'demo-field-survey'\n[axes]\npayload = ['0.1 kg']\n",
+     r"is a survey, planned in packs"),
 ])
 def test_bad_study_files_exit_2_and_write_nothing(tmp_path, capsys, text, message):
     import re
@@ -318,3 +328,111 @@ def test_an_existing_store_is_never_overwritten_and_only_its_own_study_resumes(
     assert "not a study store" in capsys.readouterr().err
     # A resume of a complete store has nothing to do and succeeds.
     assert main(["sweep", str(study_file), "-o", str(out), "--resume"]) == 0
+
+
+# --- departure times through a gridded forecast ------------------------------------------
+
+FORECAST_MISSION = """
+[mission]
+airframe = "demo-trainer"
+fuel = "100 %"
+payload = "165 kg"
+[profile]
+departure_elevation = "500 ft"
+arrival_elevation = "500 ft"
+[reserve]
+time = "45 min"
+[[legs]]
+name = "out"
+from = [45.0, 7.0]
+to = [45.6, 7.8]
+altitude = "best"
+speed = "best"
+[[legs]]
+name = "back"
+from = [45.6, 7.8]
+to = [45.0, 7.0]
+altitude = "best"
+speed = "best"
+"""
+
+
+def forecast_file(path):
+    """A wind from the south-west strengthening through the day, ISA +5 K (invented)."""
+    hours = np.arange(0.0, 25.0, 3.0)
+    levels = np.array([0.0, 1500.0, 3000.0, 4500.0])
+    lats, lons = np.array([44.0, 46.0]), np.array([6.0, 9.0])
+    t, z, _, _ = np.meshgrid(hours, levels, lats, lons, indexing="ij")
+    speed = 5.0 + 0.8 * t + 0.004 * z
+    u, v = speed * np.sin(np.radians(225.0)) * -1, speed * np.cos(np.radians(225.0)) * -1
+    from cruiseplan.physics.atmosphere import isa_temperature_pressure
+
+    ta = isa_temperature_pressure(z)[0] + 5.0
+    dims = ("time", "altitude", "lat", "lon")
+    ds = xr.Dataset(
+        {"u": (dims, u, {"standard_name": "eastward_wind", "units": "m s-1"}),
+         "v": (dims, v, {"standard_name": "northward_wind", "units": "m s-1"}),
+         "ta": (dims, ta, {"standard_name": "air_temperature", "units": "K"})},
+        coords={"time": ("time", hours, {"standard_name": "time",
+                                         "units": "hours since 2026-12-03 00:00:00"}),
+                "altitude": ("altitude", levels, {"standard_name": "altitude", "units": "m"}),
+                "lat": ("lat", lats, {"standard_name": "latitude",
+                                      "units": "degrees_north"}),
+                "lon": ("lon", lons, {"standard_name": "longitude",
+                                      "units": "degrees_east"})})
+    ds.to_netcdf(path, engine="h5netcdf")
+    return path
+
+
+def test_departure_axis_equals_single_forecast_plans(tmp_path):
+    from cruiseplan.io.forecast_file import read_forecast
+    from cruiseplan.io.text import parse_utc_time
+    from cruiseplan.planning.forecast import plan_with_forecast
+
+    (tmp_path / "trip.toml").write_text(FORECAST_MISSION)
+    forecast_file(tmp_path / "winds.nc")
+    study = read_study(write(tmp_path, """
+[study]
+mission = "trip.toml"
+forecast = "winds.nc"
+record = ["verdict", "used", "time", "leg_altitude"]
+[axes]
+departure = { from = "2026-12-03T02:00Z", to = "2026-12-03T20:00Z", step = "6 h" }
+payload = ["100 kg", "165 kg"]
+"""))
+    assert study.shape == (4, 2)
+    ds = run_study(study, workers=1)
+    assert ds["departure"].dtype.kind == "M"
+    weather = read_forecast(tmp_path / "winds.nc")
+    mission = read_mission(tmp_path / "trip.toml")
+    used = []
+    for i, hour in enumerate((2, 8, 14, 20)):
+        t = parse_utc_time(f"2026-12-03T{hour:02d}:00Z")
+        for j, payload in enumerate((100.0, 165.0)):
+            plan = plan_with_forecast(apply_overrides(mission, payload=payload), weather, t)
+            assert ds["used"].values[i, j] == plan.used
+            assert list(ds["leg_altitude"].values[i, j]) == list(plan.leg_altitudes)
+        used.append(ds["used"].values[i, 1])
+    # The wind strengthens through the day: the out-and-back burns more later.
+    assert used[-1] > used[0]
+
+
+def test_forecast_study_errors(tmp_path, capsys):
+    (tmp_path / "trip.toml").write_text(FORECAST_MISSION)
+    forecast_file(tmp_path / "winds.nc")
+    cases = [
+        ("forecast = 'winds.nc'\n[axes]\nisa_dev = ['0 K']\n",
+         "the forecast gives the winds and the day's temperature"),
+        ("[axes]\ndeparture = ['2026-12-03T06:00Z']\n", "needs [study] forecast"),
+        ("forecast = 'none.nc'\n[axes]\npayload = ['100 kg']\n", "no such file"),
+        ("forecast = 'winds.nc'\n[axes]\ndeparture = ['2026-12-05T06:00Z']\n",
+         "[axes] departure"),
+        ("forecast = 'winds.nc'\n[axes]\ndeparture = ['06:00']\n", "[axes] departure"),
+    ]
+    for text, message in cases:
+        study_file = write(tmp_path, "[study]\nmission = 'trip.toml'\n" + text)
+        out = tmp_path / "out.zarr"
+        assert main(["sweep", str(study_file), "-o", str(out)]) == 2, text
+        err = capsys.readouterr().err
+        assert message in err and len(err.strip().splitlines()) == 1, err
+        assert not out.exists()

@@ -31,7 +31,9 @@ def register(sub):
                    help="bundled airframe name or path to an airframe TOML file")
     p.add_argument("--output", "-o", metavar="NEW.toml",
                    help="write a copy of the airframe file with the fitted cd0 and oswald_e "
-                        "(or k); everything else is kept")
+                        "(or k), and their standard errors and correlation as the "
+                        "[uncertainty] tolerances of cd0 and oswald_e; everything else is "
+                        "kept")
     p.add_argument("--plot", metavar="RESIDUALS.png",
                    help="draw the reduced points, the fitted curve and the residuals "
                         "(.png or .pdf)")

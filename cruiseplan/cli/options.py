@@ -3,7 +3,7 @@
 Each option is read once here: the loading (``--weight | --fuel``, ``--payload``,
 ``--isa-dev``, ``--stall-margin``), the output (``--format``, ``--output``, ``--units``),
 the Monte Carlo (``--monte-carlo``, ``--seed``), the wind (``--wind``/``--course`` or
-``--headwind``) and ``--power``.
+``--headwind``), the forecast (``--forecast``, ``--departure``) and ``--power``.
 """
 
 from __future__ import annotations
@@ -19,7 +19,7 @@ from cruiseplan.amounts import parse_amount
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.settings import read_settings
-from cruiseplan.io.text import parse_wind_profile
+from cruiseplan.io.text import parse_utc_time, parse_wind_profile
 from cruiseplan.physics.atmosphere import isa_temperature_pressure
 from cruiseplan.ranges import RANGES, check_range
 from cruiseplan.report.output import (
@@ -302,6 +302,73 @@ def add_wind(p):
                                          "(negative: tailwind)")
     p.add_argument("--course", type=number("course"),
                    help="true course [deg], 0 to 360, for --wind")
+
+
+def add_forecast(p):
+    """Add ``--forecast FILE`` and ``--departure TIME`` to a command.
+
+    Parameters
+    ----------
+    p : argparse.ArgumentParser
+        The command's parser.
+    """
+    g = p.add_argument_group("forecast", "winds and temperatures from a gridded forecast "
+                                         "(CF netCDF), sampled along the route at the legs' "
+                                         "planned times; they replace the file's winds and "
+                                         "day temperature")
+    g.add_argument("--forecast", metavar="FILE", help="CF-convention netCDF file of "
+                                                      "eastward_wind, northward_wind and "
+                                                      "air_temperature (default: the "
+                                                      "mission file's [day] forecast)")
+    g.add_argument("--departure", metavar="TIME", help="engine start, ISO 8601 UTC, e.g. "
+                                                       "'2026-12-03T06:00Z' (default: the "
+                                                       "mission file's)")
+
+
+def read_forecast_request(args, mission, conflicts=()):
+    """The forecast file and departure time to plan with, or (None, None).
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        Parsed options with ``forecast`` and ``departure`` (text or None).
+    mission : Mission
+        The mission; its ``forecast`` [path] and ``departure`` [s] are the defaults.
+    conflicts : iterable of (str, object)
+        Options that cannot go with a forecast, as (option, value); a value not None is
+        an error (``("--wind", args.wind)``).
+
+    Returns
+    -------
+    path : str or None
+        The forecast file.
+    departure : float or None
+        Engine start [s since the Unix epoch].
+
+    Raises
+    ------
+    CruiseplanError
+        For a departure without a forecast, a forecast without a departure, or a
+        conflicting option.
+    """
+    path = args.forecast or mission.forecast
+    departure = mission.departure
+    if args.departure is not None:
+        departure = parse_utc_time(args.departure, what="--departure")
+    if path is None:
+        if args.departure is not None:
+            raise CruiseplanError("--departure: goes with a forecast (--forecast FILE or "
+                                  "[day] forecast in the mission file)")
+        return None, None
+    which = "--forecast" if args.forecast else "[day] forecast"
+    for option, value in conflicts:
+        if value is not None:
+            raise CruiseplanError(f"{option}: a forecast ({which}) gives the winds and "
+                                  "temperatures; give one or the other")
+    if departure is None:
+        raise CruiseplanError(f"{which}: needs the departure time, --departure "
+                              "'2026-12-03T06:00Z' (ISO 8601 UTC)")
+    return path, departure
 
 
 def monte_carlo_n(args):

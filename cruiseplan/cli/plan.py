@@ -5,7 +5,9 @@ from __future__ import annotations
 from cruiseplan.cli import options
 from cruiseplan.cli.progress import monte_carlo_progress
 from cruiseplan.errors import CruiseplanError
+from cruiseplan.io.forecast_file import read_forecast
 from cruiseplan.io.mission_file import apply_overrides, load_mission
+from cruiseplan.planning.forecast import plan_with_forecast
 from cruiseplan.planning.mission import plan_mission
 from cruiseplan.planning.nogo import what_would_make_it_go
 from cruiseplan.planning.survey import plan_survey
@@ -29,6 +31,7 @@ def register(sub):
     options.add_monte_carlo(p)
     options.add_output(p, formats=("text", "json", "csv", "markdown"))
     _add_what_if(p)
+    options.add_forecast(p)
     p.set_defaults(run=cmd_plan)
 
 
@@ -64,15 +67,15 @@ def cmd_plan(args):
     Parameters
     ----------
     args : argparse.Namespace
-        Parsed ``plan`` options: mission, plot, Monte Carlo, format, output, units and
-        the what-if overrides.
+        Parsed ``plan`` options: mission, plot, Monte Carlo, format, output, units, the
+        what-if overrides and the forecast.
 
     Raises
     ------
     CruiseplanError
         For a plot file not ending in .png or .pdf, a Monte Carlo count out of range, a
-        what-if value that cannot be read or is out of range, or any error of the mission
-        file.
+        what-if value that cannot be read or is out of range, a forecast file that cannot
+        be read or does not cover the route, or any error of the mission file.
     """
     if args.plot:
         options.figure_path(args.plot, (".png", ".pdf"), "--plot")
@@ -80,11 +83,20 @@ def cmd_plan(args):
     n = options.monte_carlo_n(args)
     what_if = {k: getattr(args, k) for k in WHAT_IF_OPTIONS}
     mission = apply_overrides(load_mission(args.mission), **what_if, names=WHAT_IF_OPTIONS)
+    forecast, departure = options.read_forecast_request(
+        args, mission, [(WHAT_IF_OPTIONS[k], getattr(args, k)) for k in ("wind", "isa_dev",
+                                                                         "oat")])
     args.units = options.read_units(args, mission.airframe)
     if mission.survey is not None:
+        if forecast is not None:
+            raise CruiseplanError("--forecast: a survey mission is planned without a "
+                                  "forecast (not available for surveys yet)")
         _plan_survey(args, mission, n)
         return
-    plan = plan_mission(mission)
+    if forecast is None:
+        plan = plan_mission(mission)
+    else:
+        plan = plan_with_forecast(mission, read_forecast(forecast), departure)
     with monte_carlo_progress(n) as progress:
         spread = plan_uncertainty(plan, n, args.seed, progress=progress) if n else None
     remedies = None if plan.go else what_would_make_it_go(plan)

@@ -23,7 +23,7 @@ from cruiseplan.io.schema import SchemaReader, parse_toml, read_toml
 from cruiseplan.io.schema import number as _num
 from cruiseplan.io.schema import quantity as _dim
 from cruiseplan.kinds import KINDS, Airframe, FixedWing, Multirotor
-from cruiseplan.model.tolerance import Tolerance
+from cruiseplan.model.tolerance import Tolerance, ToleranceCorrelation, correlation_problem
 from cruiseplan.physics.aerodynamics import (
     POLAR_KINDS,
     ParabolicPolar,
@@ -38,11 +38,13 @@ from cruiseplan.physics.battery import (
 )
 from cruiseplan.physics.dragbuildup import (
     BODY_SHAPES,
+    DEFAULT_BODY_CORRELATION,
     FRICTION_LAWS,
     AttachedBody,
     BodyDrag,
     BuildUpPolar,
     Component,
+    body_correlations,
     body_form_factor,
     wing_form_factor,
 )
@@ -88,7 +90,7 @@ _COMPONENT_SCHEMA = {
     "fineness": _num(1.0, 50.0, required=False, example="6"),
 }
 _BODY_SCHEMA = {
-    "name": None, "shape": None,
+    "name": None, "shape": None, "correlation": None,
     "diameter": _dim("m", example="'0.12 m'"),
     "length": _dim("m", required=False, example="'0.25 m'"),
     "count": _num(1.0, 64.0, required=False, example="2"),
@@ -163,8 +165,10 @@ def _bodies(r: SchemaReader, sec: dict, where: str):
         count = b["count"] or 1.0
         if count != int(count):
             r.fail(f"[{b['_where']}] count", f"{count:g} is not a whole number")
+        law = r.choice(f"[{b['_where']}]", b, "correlation", body_correlations(shape),
+                       default=DEFAULT_BODY_CORRELATION[shape])
         out.append(AttachedBody(str(b.get("name", b["_where"])), shape, b["diameter"],
-                                b["length"] or 0.0, int(count)))
+                                b["length"] or 0.0, int(count), law))
     return tuple(out)
 
 
@@ -547,7 +551,8 @@ def _airframe(r: SchemaReader, path: Path, checksum: str) -> Airframe:
                   description=_description(r.source, head.get("description", "")),
                   empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
                   payload=masses["payload"], propulsion=_propulsion(r, kind),
-                  source=str(path), checksum=checksum, tolerances=_tolerances(r, kind))
+                  source=str(path), checksum=checksum)
+    common["tolerances"], common["tolerance_correlation"] = _tolerances(r, kind)
     return KIND_READERS[kind].read(r, common, masses)
 
 
@@ -590,16 +595,41 @@ def read_tolerance(raw, where: str, fail):
 
 
 def _tolerances(r: SchemaReader, kind: str) -> tuple:
+    """The tolerances of ``[uncertainty]`` and the correlation of ``[uncertainty.correlation]``."""
     if "uncertainty" not in r.data:
-        return ()
+        return (), None
     keys = KINDS[kind].tolerance_keys
-    sec = r.section("uncertainty", dict.fromkeys(keys))
+    sec = r.section("uncertainty", dict.fromkeys(keys + ("correlation",)))
     if "bsfc" in sec and r.data["propulsion"].get("kind") != "piston-propeller":
         r.fail("[uncertainty] bsfc", "a BSFC tolerance needs a piston-propeller engine")
     if "battery_energy" in sec and r.data["propulsion"].get("kind") == "piston-propeller":
         r.fail("[uncertainty] battery_energy", "a battery-energy tolerance needs a battery")
-    return tuple((k, read_tolerance(sec[k], f"[uncertainty] {k}", r.fail))
-                 for k in keys if k in sec)
+    tolerances = tuple((k, read_tolerance(sec[k], f"[uncertainty] {k}", r.fail))
+                       for k in keys if k in sec)
+    return tolerances, _correlation(r, sec, dict(tolerances))
+
+
+def _correlation(r: SchemaReader, sec: dict, tolerances: dict):
+    """``[uncertainty.correlation]``: ``parameters = [...]`` and a ``matrix`` of rows."""
+    if "correlation" not in sec:
+        return None
+    where = "[uncertainty.correlation]"
+    table = r.section("correlation", ("parameters", "matrix"), where=where, data=sec)
+    names = table.get("parameters")
+    if not isinstance(names, list) or not all(isinstance(p, str) for p in names):
+        r.fail(f"{where} parameters", f"{names!r}: expected a list of toleranced parameter "
+                                      "names, e.g. [\"cd0\", \"oswald_e\"]")
+    matrix = table.get("matrix")
+    if (not isinstance(matrix, list) or not all(isinstance(row, list) for row in matrix)
+            or not all(isinstance(x, (int, float)) and not isinstance(x, bool)
+                       for row in matrix for x in row)):
+        r.fail(f"{where} matrix", f"{matrix!r}: expected a list of rows of plain numbers, "
+                                  "e.g. [[1, 0.8], [0.8, 1]]")
+    problem = correlation_problem(names, matrix, tolerances)
+    if problem:
+        r.fail(f"{where} {problem[0]}", problem[1])
+    return ToleranceCorrelation(tuple(names),
+                                tuple(tuple(float(x) for x in row) for row in matrix))
 
 
 def _fixed_wing(r: SchemaReader, common: dict, masses: dict) -> FixedWing:

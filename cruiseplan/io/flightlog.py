@@ -383,11 +383,15 @@ _KEY = re.compile(r"^(?P<lead>\s*)(?P<key>[A-Za-z0-9_]+)(?P<eq>\s*=\s*)(?P<value
 
 
 def fitted_airframe_text(text: str, fit, *, log_name: str, when: date | None = None) -> str:
-    """An airframe file's text with the fitted CD0 and Oswald e (or k) in ``[polar]``.
+    """An airframe file's text with the fitted polar and what the fit knows of it.
 
-    Only the values of ``cd0`` and ``oswald_e`` (or ``k``, whichever the file uses) change,
-    and one comment line is added below the ``[polar]`` header naming the log, the date and
-    the standard errors; every other byte, comments and other sections included, is kept.
+    In ``[polar]`` only the values of ``cd0`` and ``oswald_e`` (or ``k``, whichever the
+    file uses) change, and one comment line is added below the header naming the log, the
+    date and the standard errors. In ``[uncertainty]`` (added at the end when the file has
+    none) ``cd0`` and ``oswald_e`` become the fit's relative standard errors, and the
+    ``[uncertainty.correlation]`` block the fitted correlation of the two (replacing any
+    block there was), so that Monte Carlo samples the polar as the log pins it down. Every
+    other byte, comments and other sections included, is kept.
 
     Parameters
     ----------
@@ -446,6 +450,72 @@ def fitted_airframe_text(text: str, fit, *, log_name: str, when: date | None = N
     if not lines[start].endswith(("\n", "\r")):
         lines[start] += eol
     lines.insert(start + 1, note + eol)
+    return _fitted_uncertainty(lines, fit, eol, f"{log_name}, {when.isoformat()}")
+
+
+def _section_span(lines, name):
+    """(header index, index of the next header or the end) of ``[name]``, or None."""
+    start = None
+    for i, line in enumerate(lines):
+        m = _SECTION.match(line)
+        header = m or line.lstrip().startswith("[")
+        if start is None and m and m.group(1) == name:
+            start = i
+        elif start is not None and header:
+            return start, i
+    return None if start is None else (start, len(lines))
+
+
+def _fitted_uncertainty(lines, fit, eol, provenance) -> str:
+    """Write the fit's relative standard errors and correlation into ``[uncertainty]``."""
+    sd = {key: se / value for key, se, value in (("cd0", fit.se_cd0, fit.cd0),
+                                                 ("oswald_e", fit.se_oswald_e, fit.oswald_e))
+          if math.isfinite(se)}
+    if not sd:
+        return "".join(lines)
+    new = {key: f'"{100.0 * v:.2f} %"' for key, v in sd.items()}
+    note = (f"# {' and '.join(sd)}: the fit's relative standard errors"
+            + (" and correlation" if math.isfinite(fit.correlation) else "")
+            + f" ({provenance})")
+    block = []
+    if math.isfinite(fit.correlation) and len(sd) == 2:
+        r = f"{fit.correlation:.3f}"
+        block = ["[uncertainty.correlation]", 'parameters = ["cd0", "oswald_e"]',
+                 f"matrix = [[1.0, {r}], [{r}, 1.0]]"]
+    old = _section_span(lines, "uncertainty.correlation")
+    if old is not None:
+        # The whole block is the fit's now; a correlation of other parameters with the
+        # polar's is not something the log can tell.
+        a, b = old
+        tail = [ln for ln in lines[a:b] if not ln.strip()][-1:]
+        lines[a:b] = [ln + eol for ln in block] + tail
+    span = _section_span(lines, "uncertainty")
+    if span is None:
+        if lines and not lines[-1].endswith(("\n", "\r")):
+            lines[-1] += eol
+        lines += [eol, note + eol, "[uncertainty]" + eol]
+        lines += [f"{k} = {v}{eol}" for k, v in new.items()]
+        if block:
+            lines += [eol] + [ln + eol for ln in block]
+        return "".join(lines)
+    a, b = span
+    done = set()
+    for i in range(a + 1, b):
+        m = _KEY.match(lines[i])
+        if m and m.group("key") in new:
+            key = m.group("key")
+            lines[i] = (m.group("lead") + key + m.group("eq") + new[key] + m.group("tail")
+                        + (m.group("eol") or eol))
+            done.add(key)
+    if block and old is None:
+        last = max(i for i in range(a, b) if lines[i].strip())
+        if not lines[last].endswith(("\n", "\r")):
+            lines[last] += eol
+        lines[last + 1:last + 1] = [eol] + [ln + eol for ln in block]
+    if not lines[a].endswith(("\n", "\r")):
+        lines[a] += eol
+    lines[a + 1:a + 1] = [note + eol] + [f"{k} = {v}{eol}" for k, v in new.items()
+                                         if k not in done]
     return "".join(lines)
 
 

@@ -3,7 +3,9 @@
 Layout (our own; every dimensional value is a string with its unit)::
 
     [mission]       airframe, takeoff_mass or fuel (or battery), payload, stall_margin
-    [day]           isa_dev or oat (at the departure field), altimeter (QNH, optional)
+    [day]           isa_dev or oat (at the departure field), altimeter (QNH, optional),
+                    forecast (a CF netCDF file, relative to this file) and departure
+                    (ISO 8601 UTC)
     [profile]       field elevations, climb speed/power/rate, descent rate, clearance ...
     [allowances]    start_taxi_takeoff
     [reserve]       time, fraction or quantity; altitude; [reserve.alternate] a leg
@@ -46,7 +48,12 @@ from cruiseplan.io.airframe_file import find_airframe, read_airframe
 from cruiseplan.io.bundled import bundled_files, find_file
 from cruiseplan.io.routes import read_area, read_route, route_legs
 from cruiseplan.io.schema import Field, SchemaReader, read_toml
-from cruiseplan.io.text import format_altimeter, parse_altimeter, parse_wind_profile
+from cruiseplan.io.text import (
+    format_altimeter,
+    parse_altimeter,
+    parse_utc_time,
+    parse_wind_profile,
+)
 from cruiseplan.model.levels import LevelSector, check_sectors
 from cruiseplan.model.mission import (
     LEG_KINDS,
@@ -55,6 +62,7 @@ from cruiseplan.model.mission import (
     Profile,
     Reserve,
     default_reserve,
+    place_legs,
 )
 from cruiseplan.model.survey import Survey
 from cruiseplan.model.tolerance import WindTolerance
@@ -69,7 +77,7 @@ _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "unce
 _MISSION_FIELDS = {"pack_temperature",
                    "name", "description", "airframe", "takeoff_mass", "fuel", "battery", "power",
                    "payload", "stall_margin", "variation"}
-_DAY_FIELDS = {"isa_dev", "oat", "altimeter"}
+_DAY_FIELDS = {"isa_dev", "oat", "altimeter", "forecast", "departure"}
 _PROFILE_FIELDS = {"departure_elevation", "arrival_elevation", "climb_speed", "climb_power",
                    "climb_rate", "descent_rate", "min_clearance", "altitude_step", "top"}
 _LEG_FIELDS = {"name", "kind", "duration", "bank", "power", "cas",
@@ -209,6 +217,7 @@ def _leg(r, raw, where, to_pa):
     name = str(leg.get("name", where.strip("[]")))
     kind = r.choice(where, leg, "kind", LEG_KINDS, default="cruise")
     has_points = "from" in leg or "to" in leg
+    start = end = None
     course = r.quantity(leg, "course", "", where, lo=0.0, hi=360.0, default_unit="",
                         example="45")
     if has_points:
@@ -231,6 +240,7 @@ def _leg(r, raw, where, to_pa):
         if distance <= 0:
             r.fail(f"{where} to", "the waypoints are the same point")
         course = float(gc_course) if course is None else course
+        start, end = pts
     elif kind != "cruise":
         if "distance" in leg:
             r.fail(f"{where} distance", f"a {kind} leg holds its point: give its duration, "
@@ -291,7 +301,7 @@ def _leg(r, raw, where, to_pa):
                    bank=DEFAULT_LOITER_BANK if bank is None and kind == "loiter" else bank or 0,
                    elevation=None if elevation is None else to_pa(elevation),
                    max_agl=max_agl, max_altitude=None if max_alt is None else to_pa(max_alt),
-                   variation=variation)
+                   variation=variation, start=start, end=end)
     except CruiseplanError as exc:
         r.fail(where, str(exc))
 
@@ -569,6 +579,17 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
                                     "e.g. '+15 K' or '+15 degC'")
         if not (isinstance(isa_dev, (int, float)) and -60 <= isa_dev <= 60):
             r.fail("[day] isa_dev", f"{day['isa_dev']!r} is out of range (-60 to 60 K)")
+    forecast = departure = None
+    if "forecast" in day:
+        forecast = str(_file_near(r, day, "forecast", "[day]", "winds.nc"))
+    if "departure" in day:
+        try:
+            departure = parse_utc_time(day["departure"], what="departure")
+        except UnitError as exc:
+            r.fail("[day] departure", str(exc).split(": ", 1)[-1])
+    if forecast is not None and departure is None:
+        r.fail("[day] departure", "missing; a forecast is sampled at the legs' planned "
+                                  "times: give departure = '2026-12-03T06:00Z' (UTC)")
     # A pack given as a circuit holds less and sags more when cold: it is set to the stated
     # pack temperature, or the day's at the departure field, before any amount is read.
     pack_t = r.quantity(head, "pack_temperature", "K", "[mission]", default_unit="degC",
@@ -657,6 +678,7 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
                                                    if isinstance(leg, dict) and "name" in leg
                                                    else ""), to_pa)
                          for k, leg in enumerate(legs_raw, 1))
+    legs = place_legs(legs)
     variation = _variation(r, head, "[mission]")
     if variation is not None:
         legs = tuple(leg if leg.variation is not None else replace(leg, variation=variation)
@@ -686,7 +708,7 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
         description=str(head.get("description", "")), wind_tolerance=wind_tolerance,
         pack_temperature=pack_t,
         altimeter=qnh, variation=variation or 0.0, levels=levels, overrides=what_if,
-        survey=survey)
+        survey=survey, forecast=forecast, departure=departure)
     try:
         af.loading(mass=mass, store=store, payload=payload)
     except CruiseplanError as exc:

@@ -384,7 +384,8 @@ def route_legs(route: Route, template, prefix: str = "") -> tuple:
     -------
     tuple of Leg
         One per pair of consecutive points: great-circle distance [m] and initial true
-        course [deg] (:func:`~cruiseplan.physics.geo.great_circle`).
+        course [deg] (:func:`~cruiseplan.physics.geo.great_circle`), and the two points
+        as its start and end [deg].
     """
     pts = route.points
     distance, course = great_circle(pts[:-1, 0], pts[:-1, 1], pts[1:, 0], pts[1:, 1])
@@ -395,5 +396,7 @@ def route_legs(route: Route, template, prefix: str = "") -> tuple:
         a, b = names[k], names[k + 1]
         name = f"{a} to {b}" if a and b else f"{prefix} {k + 1}"
         legs.append(replace(template, name=name, distance=float(distance[k]),
-                            course=float(course[k])))
+                            course=float(course[k]),
+                            start=(float(pts[k, 0]), float(pts[k, 1])),
+                            end=(float(pts[k + 1, 0]), float(pts[k + 1, 1]))))
     return tuple(legs)

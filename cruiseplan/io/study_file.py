@@ -16,6 +16,11 @@ A study file is TOML, with units written as strings, like the airframe and missi
     wind_direction = [270]             # degrees true, the direction it blows from
     "airframe.polar.cd0" = [0.034, 0.036, 0.040]
 
+A mission study may take ``[study] forecast = "winds.nc"`` (a CF netCDF forecast, relative
+to the study file): its points are planned with the forecast's winds and temperatures, and
+``departure = { from = "2026-12-03T00:00Z", to = "2026-12-04T00:00Z", step = "1 h" }`` (or
+a list of times) is then an axis; the wind and temperature axes are not.
+
 An airframe study also has ``[best] altitudes = "0:10000:1000 ft"`` and ``objective``.
 Every value is checked here, before anything is run: errors name the file, the field and
 what was expected.
@@ -29,16 +34,18 @@ from pathlib import Path
 from cruiseplan.errors import CruiseplanError, StudyFileError
 from cruiseplan.io.bundled import find_file
 from cruiseplan.io.schema import SchemaReader, read_toml
+from cruiseplan.io.text import parse_utc_time
 from cruiseplan.model.study import (
     AIRFRAME_AXES,
     AIRFRAME_FIELD,
     AIRFRAME_RECORDS,
+    FORECAST_REPLACES,
     MISSION_AXES,
     MISSION_RECORDS,
     Axis,
     Study,
 )
-from cruiseplan.units import parse_range, temperature_difference
+from cruiseplan.units import parse_quantity, parse_range, temperature_difference
 
 #: Most points a study may have (each is a plan; a store holds a few variables per point).
 MAX_POINTS = 10_000_000
@@ -51,7 +58,9 @@ DEFAULT_RECORDS = {
     "airframe": ("verdict", "best_altitude", "best_tas", "best_value", "range", "endurance"),
 }
 _STUDY_FIELDS = ("name", "description", "mission", "airframe", "record", "chunk",
-                 "monte_carlo", "seed")
+                 "monte_carlo", "seed", "forecast")
+#: Most departure times on one axis.
+MAX_DEPARTURES = 10_000
 _SECTIONS = {"study", "axes", "best"}
 
 
@@ -113,6 +122,34 @@ def _fuel(r: SchemaReader, raw) -> Axis:
     # Amounts with a unit are read against the airframe (a volume needs its fuel's
     # density), so they are checked when the study's base is read.
     return Axis("fuel", tuple(v.strip() for v in items), "amount")
+
+
+def _departures(r: SchemaReader, raw) -> Axis:
+    """Departure times: a list of ISO 8601 UTC times, or {from, to, step}."""
+    where = "[axes] departure"
+    try:
+        if isinstance(raw, dict):
+            r.check_fields(raw, ("from", "to", "step"), where)
+            if set(raw) != {"from", "to", "step"}:
+                r.fail(where, "expected { from = TIME, to = TIME, step = \"1 h\" }")
+            t0 = parse_utc_time(raw["from"], what=f"{where} from")
+            t1 = parse_utc_time(raw["to"], what=f"{where} to")
+            step = parse_quantity(raw["step"], "s", what=f"{where} step")
+            if not (step > 0 and t1 >= t0):
+                r.fail(where, "expected to >= from and a positive step")
+            n = int((t1 - t0) / step + 1e-9) + 1
+            if n > MAX_DEPARTURES:
+                r.fail(where, f"{n} times; at most {MAX_DEPARTURES}")
+            values = tuple(t0 + k * step for k in range(n))
+        elif isinstance(raw, list) and raw:
+            values = tuple(parse_utc_time(v, what=where) for v in raw)
+        else:
+            r.fail(where, "expected a list of ISO 8601 UTC times or { from, to, step }")
+    except CruiseplanError as exc:
+        r.fail(where, str(exc).removeprefix(f"{where}: "))
+    if len(set(values)) != len(values):
+        r.fail(where, "times repeat; each time once")
+    return Axis("departure", values, "s")
 
 
 def _airframe_field(r: SchemaReader, name: str, raw) -> Axis:
@@ -195,6 +232,8 @@ def read_study(path) -> Study:
                    f"{', '.join(allowed_axes)} or {AIRFRAME_FIELD}TABLE.FIELD")
         elif name == "fuel":
             axes.append(_fuel(r, raw))
+        elif name == "departure":
+            axes.append(_departures(r, raw))
         elif name == "isa_dev":
             axes.append(Axis(name, _values(r, name, raw, "K", temperature=True), "K"))
         elif name == "oat":
@@ -216,6 +255,19 @@ def read_study(path) -> Study:
     for a in axes:
         if a.name in ("payload", "wind_speed") and min(a.values) < 0:
             r.fail(f"[axes] {a.name}", "values must not be negative")
+    forecast = None
+    if "forecast" in head:
+        forecast = path.parent / str(head["forecast"])
+        if kind != "mission":
+            r.fail("[study] forecast", "only a mission study takes a forecast")
+        if not forecast.is_file():
+            r.fail("[study] forecast", f"no such file {forecast}")
+        clash = sorted(names & set(FORECAST_REPLACES))
+        if clash:
+            r.fail(f"[axes] {clash[0]}", "the forecast gives the winds and the day's "
+                                         "temperature; sweep departure instead")
+    elif "departure" in names:
+        r.fail("[axes] departure", "a departure axis needs [study] forecast = FILE")
     size = math.prod(len(a) for a in axes)
     if size > MAX_POINTS:
         r.fail("[axes]", f"{size} points; at most {MAX_POINTS} in one study")
@@ -250,7 +302,8 @@ def read_study(path) -> Study:
                  axes=tuple(axes), records=tuple(records),
                  chunk=_integer(r, head, "chunk", auto_chunk(size), 1, 1_000_000),
                  monte_carlo=monte_carlo, seed=_integer(r, head, "seed", 0, 0, 2**63 - 1),
-                 altitudes=altitudes, objective=objective, forecast=None,
+                 altitudes=altitudes, objective=objective,
+                 forecast=None if forecast is None else str(forecast),
                  source=str(path), checksum=checksum)
 
 

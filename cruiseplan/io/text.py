@@ -1,13 +1,16 @@
 """Text forms shared by files and the command line: winds aloft, reserves, altimeter settings.
 
 ``"270/25@3000ft,250/40@8000ft"`` (direction from, speed, altitude), ``"45min"``,
-``"25%"``, ``"10L"`` (a reserve) and ``"1009 hPa"`` or ``"29.80 inHg"`` (an altimeter
-setting) are read here, once, for files and options alike.
+``"25%"``, ``"10L"`` (a reserve), ``"1009 hPa"`` or ``"29.80 inHg"`` (an altimeter
+setting) and ``"2026-12-03T06:00Z"`` (a time in UTC) are read here, once, for files and
+options alike.
 """
 
 from __future__ import annotations
 
+import math
 import re
+from datetime import datetime, timezone
 
 from cruiseplan.amounts import examples, parse_amount
 from cruiseplan.errors import UnitError
@@ -170,3 +173,43 @@ def format_altimeter(qnh: float) -> str:
     """
     hpa = qnh / 100.0
     return f"{hpa:.0f} hPa" if abs(hpa - round(hpa)) < 0.05 else f"{hpa:.1f} hPa"
+
+
+def parse_utc_time(value, *, what: str = "departure") -> float:
+    """Read an ISO 8601 date and time in UTC, ``"2026-12-03T06:00Z"``.
+
+    Parameters
+    ----------
+    value : str or datetime.datetime
+        The time with its zone: ``Z`` or ``+00:00`` (another offset is converted to UTC).
+        A time without a zone is refused, so local time cannot pass as UTC.
+    what : str
+        How errors name the value (``"--departure"``).
+
+    Returns
+    -------
+    float
+        Seconds since 1970-01-01T00:00Z [s].
+
+    Raises
+    ------
+    UnitError
+        For text that is not an ISO 8601 date and time with a zone.
+    """
+    example = "e.g. '2026-12-03T06:00Z' (ISO 8601, UTC)"
+    if isinstance(value, datetime):
+        t = value
+    else:
+        text = str(value).strip()
+        try:
+            t = datetime.fromisoformat(text)
+        except ValueError:
+            raise UnitError(f"{what}: {value!r} is not a date and time, {example}") from None
+        if "T" not in text.upper() and " " not in text:
+            raise UnitError(f"{what}: {value!r} has no time of day, {example}")
+    if t.tzinfo is None or t.utcoffset() is None:
+        raise UnitError(f"{what}: {value!r} has no time zone; write it in UTC, {example}")
+    seconds = t.astimezone(timezone.utc).timestamp()
+    if not math.isfinite(seconds):
+        raise UnitError(f"{what}: {value!r} is not a finite time, {example}")
+    return seconds

@@ -238,6 +238,9 @@ class AirframeBase:
         SHA-256 of that file's bytes.
     tolerances : tuple
         (parameter, :class:`~cruiseplan.model.tolerance.Tolerance`) pairs for Monte Carlo.
+    tolerance_correlation : ToleranceCorrelation or None
+        Correlation of some of those parameters
+        (:class:`~cruiseplan.model.tolerance.ToleranceCorrelation`); None: independent.
     """
 
     name: str
@@ -249,6 +252,7 @@ class AirframeBase:
     source: str = ""
     checksum: str = ""
     tolerances: tuple = ()
+    tolerance_correlation: object = None
 
     def at_pack_temperature(self, celsius: float):
         """The same airframe with its battery pack at ``celsius`` [degC].

@@ -6,10 +6,12 @@ The planner (:mod:`cruiseplan.planning.mission`) flies these; the mission-file r
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+import math
+from dataclasses import dataclass, field, replace
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT
 from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.physics.geo import destination_point
 from cruiseplan.physics.winds import WindProfile
 from cruiseplan.units import is_quantity, temperature_difference, to_si, to_store
 
@@ -104,6 +106,11 @@ class Leg:
     variation : float or None
         Magnetic variation on the leg [deg], east positive (magnetic = true - variation);
         the mission's when None.
+    start, end : tuple of float or None
+        Latitude and longitude [deg] where the leg starts and ends (a hover or loiter:
+        both its point); None where the file gives no position. Filled by the mission
+        reader from waypoints and route files, and by :func:`place_legs` by dead
+        reckoning; used to sample a gridded forecast along the route.
     """
 
     name: str
@@ -122,9 +129,22 @@ class Leg:
     max_agl: float | None = None
     max_altitude: float | None = None
     variation: float | None = None
+    start: tuple | None = None
+    end: tuple | None = None
 
     def __post_init__(self):
         _convert(self, LEG_UNITS, f"leg {self.name!r} ")
+        for key in ("start", "end"):
+            p = getattr(self, key)
+            if p is None:
+                continue
+            ok = (len(p) == 2 and all(isinstance(x, (int, float)) and math.isfinite(x)
+                                      for x in p)
+                  and -90.0 <= p[0] <= 90.0 and -180.0 <= p[1] <= 360.0)
+            if not ok:
+                raise CruiseplanError(f"leg {self.name!r}: {key} {p!r} is not (latitude, "
+                                      "longitude) in degrees")
+            object.__setattr__(self, key, (float(p[0]), float(p[1])))
         if self.kind not in LEG_KINDS:
             raise CruiseplanError(f"leg {self.name!r}: kind {self.kind!r} is not one of "
                                   f"{', '.join(LEG_KINDS)}")
@@ -208,6 +228,41 @@ class Reserve:
 RESERVE_KINDS = ("time", "fraction", "amount")
 #: The kinds of leg.
 LEG_KINDS = ("cruise", "hover", "loiter")
+
+
+def place_legs(legs) -> tuple:
+    """Legs with their start and end positions filled in by dead reckoning.
+
+    A leg without a start starts where the one before ended. A cruise leg with a start
+    and no end ends at the great-circle destination of its true course and distance
+    (:func:`~cruiseplan.physics.geo.destination_point`); a hover or loiter ends where it
+    starts. Legs before the first known position keep None.
+
+    Parameters
+    ----------
+    legs : sequence of Leg
+        In flight order.
+
+    Returns
+    -------
+    tuple of Leg
+        The legs, with positions [deg] where they can be placed.
+    """
+    out, here = [], None
+    for leg in legs:
+        start = leg.start if leg.start is not None else here
+        end = leg.end
+        if end is None and start is not None:
+            if leg.kind == "cruise":
+                lat, lon = destination_point(start[0], start[1], leg.course, leg.distance)
+                end = (float(lat), float(lon))
+            else:
+                end = start
+        if (start, end) != (leg.start, leg.end):
+            leg = replace(leg, start=start, end=end)
+        out.append(leg)
+        here = end
+    return tuple(out)
 
 
 def default_reserve(propulsion) -> Reserve:
@@ -318,6 +373,14 @@ class Mission:
     #: A survey area (:class:`~cruiseplan.model.survey.Survey`) flown in packs by
     #: :func:`cruiseplan.planning.survey.plan_survey`; None for a route of legs.
     survey: object = None
+    #: A gridded forecast file (CF netCDF) the winds and temperatures are taken from
+    #: (:func:`cruiseplan.planning.forecast.plan_with_forecast`); None: the typed ones.
+    forecast: str | None = None
+    #: Departure time [s since 1970-01-01T00:00Z], UTC; None when not given.
+    departure: float | None = None
+    #: Where the winds and temperatures came from, in words, for the plan's header (a
+    #: forecast file; empty: typed in the mission file).
+    weather: tuple = ()
 
     def __post_init__(self):
         _convert(self, MISSION_UNITS, "mission ")

@@ -16,8 +16,10 @@ import numpy as np
 #: Axes of a mission study, with the unit their coordinate is held in.
 MISSION_AXES = {
     "isa_dev": "K", "oat": "K", "payload": "kg", "fuel": None,
-    "wind_speed": "m/s", "wind_direction": "deg",
+    "wind_speed": "m/s", "wind_direction": "deg", "departure": "s",
 }
+#: Axes a forecast replaces (it gives the winds and the day's temperature).
+FORECAST_REPLACES = ("isa_dev", "oat", "wind_speed", "wind_direction")
 #: Axes of an airframe (best cruise) study.
 AIRFRAME_AXES = {"isa_dev": "K", "payload": "kg", "fuel": None, "headwind": "m/s"}
 #: Prefix of an axis that replaces a field of the airframe file (``airframe.polar.cd0``).
@@ -50,7 +52,8 @@ class Axis:
     name : str
         ``"isa_dev"``, ``"payload"``, ..., or ``"airframe.TABLE.FIELD"``.
     values : tuple of float
-        The coordinate values, in ``unit``.
+        The coordinate values, in ``unit`` (``departure``: seconds since
+        1970-01-01T00:00Z).
     unit : str
         Unit of ``values``: SI for the physical axes; as written in the study file for
         ``fuel`` (``"%"``, or kg / J after conversion) and airframe fields (``"1"`` for a
@@ -100,7 +103,8 @@ class Study:
     objective : str
         Best-cruise objective of an airframe study.
     forecast : str or None
-        Path of a gridded forecast file (a ``departure`` axis needs one).
+        Path of a gridded forecast file (a ``departure`` axis needs one): each point is then
+        planned with :func:`cruiseplan.planning.forecast.plan_with_forecast`.
     source : str
         The study file.
     checksum : str

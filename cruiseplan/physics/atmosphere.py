@@ -414,3 +414,82 @@ def indicated_altitude(pressure_altitude, altimeter_setting):
     H = np.asarray(pressure_altitude, dtype=float)
     p = P0 * (1.0 - LAPSE * H / T0) ** n
     return (T0 / LAPSE) * (1.0 - (p / np.asarray(altimeter_setting, dtype=float)) ** (1.0 / n))
+
+
+#: ISA layers for the pressure inversion: (base geopotential altitude [m], lapse rate [K/m],
+#: temperature falling with height positive), from -5 km to the model's 80 km
+#: (ICAO Doc 7488/3, table A; U.S. Standard Atmosphere 1976, table 4).
+_P_LAYERS = ((-5000.0, LAPSE), (0.0, LAPSE), (11000.0, 0.0), (20000.0, -0.001),
+             (32000.0, -0.0028), (47000.0, 0.0), (51000.0, 0.0028), (71000.0, 0.002))
+
+
+@functools.lru_cache(maxsize=1)
+def _layer_bases() -> tuple:
+    """Each layer's base (altitude, temperature, pressure) on its own curve, as ambiance has it.
+
+    As for density, ambiance's layer base pressures are rounded to six digits; each layer is
+    inverted with the base pressure read at the layer's middle and carried down its own
+    curve, so the inverse matches the forward model to rounding.
+    """
+    tops = [layer[0] for layer in _P_LAYERS[1:]] + [ALTITUDE_MAX]
+    out = []
+    for (h_b, lapse), top in zip(_P_LAYERS, tops):
+        T_b = float(isa_temperature_pressure(h_b)[0])
+        h = 0.5 * (h_b + top)
+        p = float(isa_temperature_pressure(h)[1])
+        if lapse:
+            p_b = p / ((T_b - lapse * (h - h_b)) / T_b) ** (G0 / (R_AIR * lapse))
+        else:
+            p_b = p * np.exp(G0 * (h - h_b) / (R_AIR * T_b))
+        out.append((h_b, T_b, lapse, p_b))
+    return tuple(out)
+
+
+def pressure_altitude_from_pressure(pressure):
+    r"""Pressure altitude of a static pressure: the ISA altitude with that pressure (exact).
+
+    The hydrostatic ISA relation inverted in closed form, layer by layer: with base
+    :math:`(H_b, T_b, p_b)` and lapse rate :math:`L`,
+    :math:`H = H_b + (T_b/L)\,[1 - (p/p_b)^{R L/g_0}]`, and in an isothermal layer
+    :math:`H = H_b - (R T_b/g_0) \ln(p/p_b)`.
+
+    Parameters
+    ----------
+    pressure : array_like
+        Static pressure [Pa], between the ISA pressures at 80 km and -5 km.
+
+    Returns
+    -------
+    numpy.ndarray
+        Pressure (geopotential) altitude [m].
+
+    Raises
+    ------
+    AtmosphereRangeError
+        If a pressure is not finite or lies outside the ISA pressures at 80 km and -5 km.
+
+    References
+    ----------
+    .. [1] ICAO Doc 7488/3 (1993), the hydrostatic equation integrated over each layer of
+       constant lapse rate; U.S. Standard Atmosphere 1976, eqs. 33a and 33b.
+    """
+    p = np.asarray(pressure, dtype=float)
+    p_lo = float(isa_temperature_pressure(ALTITUDE_MAX)[1])
+    p_hi = float(isa_temperature_pressure(ALTITUDE_MIN)[1])
+    ok = (p >= p_lo * (1 - 1e-12)) & (p <= p_hi * (1 + 1e-12))
+    if not np.all(ok):
+        v = p[~ok].flat[0]
+        raise AtmosphereRangeError(
+            f"pressure {v:g} Pa is outside the atmosphere model's range {p_lo:.3g} to "
+            f"{p_hi:.0f} Pa (80 km to -5 km pressure altitude)")
+    bases = _layer_bases()
+    r = np.clip(p, 1e-300, None)
+    choices = []
+    for h_b, T_b, lapse, p_b in bases:
+        if lapse:
+            choices.append(h_b + (T_b / lapse) * (1.0 - (r / p_b) ** (R_AIR * lapse / G0)))
+        else:
+            choices.append(h_b - (R_AIR * T_b / G0) * np.log(r / p_b))
+    # A pressure above the next layer's base pressure lies below that layer.
+    conds = [p > b[3] for b in bases[1:]]
+    return np.select(conds, choices[:-1], choices[-1])

@@ -127,12 +127,51 @@ def local_latlon(x, y, lat0, lon0, radius=R_EARTH_MEAN):
         Latitude [deg] and longitude [deg], the latter in [-180, 180).
     """
     x, y = np.asarray(x, dtype=float), np.asarray(y, dtype=float)
-    delta = np.hypot(x, y) / radius
-    theta = np.arctan2(x, y)
-    p0 = np.radians(lat0)
+    return _destination(lat0, lon0, np.arctan2(x, y), np.hypot(x, y) / radius)
+
+
+def destination_point(lat, lon, course, distance, radius=R_EARTH_MEAN):
+    r"""The point reached along a great circle from a start, an initial course and a distance.
+
+    .. math::
+
+        \phi_2 = \arcsin(\sin\phi_1\cos\delta + \cos\phi_1\sin\delta\cos\theta), \qquad
+        \lambda_2 = \lambda_1 + \operatorname{atan2}(\sin\theta\sin\delta\cos\phi_1,\;
+            \cos\delta - \sin\phi_1\sin\phi_2)
+
+    with :math:`\delta = d / R`: dead reckoning on the sphere, the inverse of
+    :func:`great_circle` (which gives back ``distance`` and ``course``).
+
+    Parameters
+    ----------
+    lat, lon : array_like
+        Start latitude and longitude [deg].
+    course : array_like
+        Initial true course [deg].
+    distance : array_like
+        Great-circle distance flown [m].
+    radius : float, optional
+        Sphere radius [m].
+
+    Returns
+    -------
+    lat, lon : numpy.ndarray
+        Latitude [deg] and longitude [deg] reached, the latter in [-180, 180).
+
+    References
+    ----------
+    .. [2] E. Williams, *Aviation Formulary* ("lat/lon given radial and distance");
+       Snyder [3]_, eqs. 25-2 and 25-3 inverted.
+    """
+    return _destination(lat, lon, np.radians(course), np.asarray(distance, dtype=float) / radius)
+
+
+def _destination(lat, lon, theta, delta):
+    """Destination point [deg] from a start [deg], a course [rad] and an angle [rad]."""
+    p0 = np.radians(lat)
     sin_p = np.sin(p0) * np.cos(delta) + np.cos(p0) * np.sin(delta) * np.cos(theta)
     p = np.arcsin(np.clip(sin_p, -1.0, 1.0))
     dl = np.arctan2(np.sin(theta) * np.sin(delta) * np.cos(p0),
                     np.cos(delta) - np.sin(p0) * sin_p)
-    lon = np.mod(lon0 + np.degrees(dl) + 180.0, 360.0) - 180.0
-    return np.degrees(p), lon
+    lon2 = np.mod(np.asarray(lon, dtype=float) + np.degrees(dl) + 180.0, 360.0) - 180.0
+    return np.degrees(p), lon2

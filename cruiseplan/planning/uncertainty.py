@@ -3,8 +3,11 @@ r"""How sure is a plan: Monte Carlo over the airframe's and the winds' tolerance
 An airframe file may give tolerances on its drag (CD0), Oswald efficiency, propeller
 efficiency, BSFC and usable battery energy; a mission file on the wind speed and
 direction. Each tolerance is a relative standard deviation (normal) or a relative range
-(uniform). :func:`sample_airframe` draws ``n`` airframes at once: the same airframe object
-whose parameters are arrays over the samples, so the whole physics runs on them in one
+(uniform); the airframe's may be correlated (a fitted polar's CD0 and e are), sampled
+through a Gaussian copula over the Latin hypercube
+(:class:`~cruiseplan.model.tolerance.ToleranceCorrelation`, :func:`draw_factors`).
+:func:`sample_airframe` draws ``n`` airframes at once: the same airframe object whose
+parameters are arrays over the samples, so the whole physics runs on them in one
 vectorised pass.
 
 :func:`plan_uncertainty` re-flies a planned mission (its altitudes, speeds and climb speed,
@@ -121,10 +124,15 @@ def unit_samples(n: int, dims: int, seed: int):
     return qmc.LatinHypercube(d=dims, seed=np.random.default_rng(seed)).random(n)
 
 
-def draw_factors(tolerances: dict, u) -> dict:
+def draw_factors(tolerances: dict, u, correlation=None) -> dict:
     """Factors for each toleranced parameter from unit samples ``u`` (n, >= len).
 
-    Parameters take the columns in the sorted order of their names (reproducible).
+    Parameters take the columns in the sorted order of their names (reproducible). With a
+    correlation, the correlated parameters' columns become normal scores, are mixed by
+    the Cholesky factor of their score correlation (a Gaussian copula over the Latin
+    hypercube, NORTA: the first parameter named keeps its stratified margin) and are mapped to
+    each parameter's distribution; without one, or with every correlation zero, the
+    factors are those of the independent draw, bit for bit.
 
     Parameters
     ----------
@@ -132,13 +140,30 @@ def draw_factors(tolerances: dict, u) -> dict:
         Parameter name to its :class:`~cruiseplan.model.tolerance.Tolerance`.
     u : numpy.ndarray
         Unit samples in [0, 1), shape (n, >= len(tolerances)) [-].
+    correlation : ToleranceCorrelation, optional
+        Correlation of some of the parameters' factors [-].
 
     Returns
     -------
     dict
         Parameter name to an array of n multiplying factors [-].
+
+    References
+    ----------
+    .. [1] M. C. Cario and B. L. Nelson, "Modeling and generating random vectors with
+       arbitrary marginal distributions and correlation matrix", technical report,
+       Northwestern University, 1997 (NORTA: normal scores correlated through a
+       Cholesky factor, then mapped to each margin).
     """
-    return {key: tolerances[key].factors(u[:, j]) for j, key in enumerate(sorted(tolerances))}
+    keys = sorted(tolerances)
+    factors = {key: tolerances[key].factors(u[:, j]) for j, key in enumerate(keys)}
+    if correlation is None or correlation.is_zero:
+        return factors
+    cols = [keys.index(p) for p in correlation.parameters]
+    z = normal_ppf(u[:, cols]) @ correlation.score_cholesky(tolerances).T
+    for i, p in enumerate(correlation.parameters):
+        factors[p] = tolerances[p].factors_of_scores(z[:, i])
+    return factors
 
 
 def sample_airframe(airframe, factors: dict):
@@ -328,7 +353,7 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0, chunk: int | None = CH
     wt = mission.wind_tolerance
     windy = wt is not None and bool(wt.speed_sd or wt.direction_sd)
     u = unit_samples(n, len(tol) + 2 * windy, seed)
-    factors = draw_factors(tol, u)
+    factors = draw_factors(tol, u, af.tolerance_correlation)
     wind_error = None
     if windy:
         k = len(tol)
@@ -493,7 +518,8 @@ def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, s
     .. [2] McKay, Beckman and Conover (1979): Latin hypercube sampling.
     """
     tol = dict(airframe.tolerances)
-    factors = draw_factors(tol, unit_samples(n, len(tol), seed))
+    factors = draw_factors(tol, unit_samples(n, len(tol), seed),
+                           airframe.tolerance_correlation)
     ranges, endurances = [], []
     for sl in chunk_slices(n, chunk, progress):
         part = {k: v[sl] for k, v in factors.items()}

@@ -43,6 +43,7 @@ from cruiseplan.errors import CruiseplanError
 from cruiseplan.io.text import parse_reserve
 from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, UNFLYABLE, describe, explain
 from cruiseplan.model.mission import default_reserve
+from cruiseplan.model.tolerance import tolerances_text
 from cruiseplan.physics.airspeed import cas_from_tas
 from cruiseplan.planning.optimise import CEILING_SEARCH_TOP, best_cruise, ceilings
 from cruiseplan.planning.performance import power_setting_table, resolve_loading
@@ -460,7 +461,7 @@ def _spread_line(airframe, table, store, reserve, dev, h, units, stall_margin, n
     fs, ls = display("speed", units)
     r = " / ".join(f"{q * fd:.0f}" for q in quantiles(u.range_ground))
     e = " / ".join(hours_minutes(q) for q in quantiles(u.endurance))
-    keys = ", ".join(k for k, _ in airframe.tolerances) or "none given"
+    keys = tolerances_text(airframe.tolerances, airframe.tolerance_correlation)
     return (f"Spread (Monte Carlo, {n} samples, seed {seed}; tolerances: {keys}): at "
             f"best range, {h[i] * fa:.0f} {la} and {p.tas[i] * fs:.0f} {ls} TAS, range to "
             f"reserve P10 / P50 / P90 = {r} {ld}, endurance to reserve {e} h:mm.")

@@ -18,6 +18,7 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, T_ZERO_C
 from cruiseplan.io.bundled import shown_path
 from cruiseplan.io.text import format_altimeter
 from cruiseplan.limits import LIMIT_CODE, LIMIT_TEXT, PACK_LIMITS, UNFLYABLE, Limit, explain
+from cruiseplan.model.tolerance import tolerances_text
 from cruiseplan.physics.atmosphere import indicated_altitude, isa_temperature_pressure
 from cruiseplan.planning.levels import leg_variation, magnetic
 from cruiseplan.planning.mission import ground_elevation
@@ -365,7 +366,7 @@ def _spread_summary(u) -> dict:
 
 
 def _tolerance_note(airframe, n, seed, extra="") -> str:
-    keys = ", ".join(k for k, _ in airframe.tolerances) or "none given"
+    keys = tolerances_text(airframe.tolerances, airframe.tolerance_correlation)
     return (f"Uncertainty: Monte Carlo, {n} samples, seed {seed}; tolerances from the "
             f"airframe file ({keys}){extra}. P10 / P50 / P90: 10 %, 50 % and 90 % of the "
             "samples lie below.")
@@ -871,7 +872,7 @@ def _variation_text(variation: float) -> str:
 
 
 def _as_flown_lines(mission) -> list:
-    """Header lines: the battery pack, magnetic variation, the level rule, the what-ifs."""
+    """Header lines: battery pack, magnetic variation, level rule, weather, what-ifs."""
     lines = mission_pack_line(mission)
     if _is_magnetic(mission):
         per_leg = [leg_variation(mission, leg) for leg in mission.legs]
@@ -888,6 +889,8 @@ def _as_flown_lines(mission) -> list:
         rule = "; ".join(f"{s.label} {s.text}" for s in mission.levels)
         lines.append(f"Cruising levels by magnetic course (the mission file's rule, {ref}): "
                      f"{rule}")
+    if mission.weather:
+        lines.append(f"Weather: {'; '.join(mission.weather)}")
     if mission.overrides:
         lines.append(f"What-if: {', '.join(mission.overrides)} (overrides of the mission "
                      "file)")

@@ -20,9 +20,11 @@ saying whether every chunk is in.
 
 from __future__ import annotations
 
+import contextlib
 import functools
 import itertools
 import os
+import signal
 import warnings
 from pathlib import Path
 
@@ -31,6 +33,7 @@ import numpy as np
 from cruiseplan.amounts import parse_amount
 from cruiseplan.errors import CruiseplanError, CruiseplanWarning
 from cruiseplan.io.airframe_file import read_airframe
+from cruiseplan.io.forecast_file import read_forecast
 from cruiseplan.io.mission_file import apply_overrides, read_mission
 from cruiseplan.model.study import (
     AIRFRAME_FIELD,
@@ -44,6 +47,7 @@ from cruiseplan.model.study import (
     Study,
 )
 from cruiseplan.physics.winds import WindProfile
+from cruiseplan.planning.forecast import plan_with_forecast
 from cruiseplan.planning.mission import plan_mission
 from cruiseplan.planning.optimise import best_cruise
 from cruiseplan.planning.uncertainty import plan_uncertainty
@@ -95,6 +99,37 @@ def _base(kind: str, path: str, overrides: tuple):
     else:
         mission = read_mission(path)
     return mission.airframe, mission
+
+
+@functools.lru_cache(maxsize=4)
+def _weather(path: str):
+    """A study's forecast, read once per process."""
+    return read_forecast(path)
+
+
+def plan_point(study: Study, values: dict):
+    """The plan of one point of a mission study, as ``cruiseplan plan`` would make it.
+
+    Parameters
+    ----------
+    study : Study
+        A mission study.
+    values : dict
+        Axis name to value [the axis's unit].
+
+    Returns
+    -------
+    Plan
+        ``plan_mission`` of :func:`point_mission`, or with a forecast
+        ``plan_with_forecast`` at the point's departure (the mission file's when the study
+        has no departure axis).
+    """
+    mission = point_mission(study, values)
+    if study.forecast is None:
+        return plan_mission(mission)
+    departure = values.get("departure")
+    return plan_with_forecast(mission, _weather(study.forecast),
+                              None if departure is None else float(departure))
 
 
 def _fuel_text(study: Study, value):
@@ -155,7 +190,7 @@ def evaluate_point(study: Study, values: dict) -> dict:
             # The plan states what a warning would (e.g. over the maximum take-off mass).
             warnings.simplefilter("ignore", CruiseplanWarning)
             if study.kind == "mission":
-                return _plan_records(study, plan_mission(point_mission(study, values)))
+                return _plan_records(study, plan_point(study, values))
             return _best_records(study, values)
     except CruiseplanError:
         return {"verdict": BAD_INPUT}
@@ -207,13 +242,25 @@ def check_axes(study: Study):
         ``STUDY: [axes] NAME: VALUE: what is wrong``.
     """
     af, mission = _base(study.kind, study.base, ())
+    if mission is not None and getattr(mission, "survey", None) is not None:
+        raise CruiseplanError(f"{study.source}: [study] mission: {study.base} is a survey, "
+                              "planned in packs; a study plans route missions")
+    if study.forecast is not None:
+        _weather(study.forecast)  # a bad forecast file is one error, before anything runs
     field_axes = [a for a in study.axes if a.name.startswith(AIRFRAME_FIELD)]
     for axis in study.axes:
         for value in axis.values:
             try:
                 with warnings.catch_warnings():
                     warnings.simplefilter("ignore", CruiseplanWarning)
-                    if axis in field_axes:
+                    if axis.name == "departure":
+                        # Planning is slow next to reading: the first and last times
+                        # stand for the span (a time outside the forecast fails there).
+                        if value in (axis.values[0], axis.values[-1]) and not field_axes:
+                            values = {a.name: a.values[0] for a in study.axes}
+                            values["departure"] = value
+                            plan_point(study, values)
+                    elif axis in field_axes:
                         _base(study.kind, study.base, _airframe_overrides(
                             study, {axis.name: value}))
                     elif field_axes:
@@ -327,6 +374,9 @@ def _coords(study: Study) -> dict:
         attrs = {"units": axis.unit if axis.unit != "amount" else "",
                  "long_name": _LONG_NAMES.get(axis.name, f"airframe field {axis.name[9:]}")}
         values = np.asarray(axis.values)
+        if axis.name == "departure":
+            values = (values * 1e9).astype("datetime64[ns]")
+            attrs = {"long_name": "departure time (UTC)"}
         coords[axis.dim] = (axis.dim, values, attrs)
     if study.kind == "mission":
         legs = _base("mission", study.base, ())[1].legs
@@ -533,10 +583,31 @@ def _execute(study, todo, store, client, scheduler, workers, progress, total):
         return out
     # dask's local cluster: one single-threaded worker process per core (planning is
     # Python-bound, so threads would share one core), on loopback only.
-    with LocalCluster(n_workers=min(workers, len(todo)), threads_per_worker=1,
-                      processes=True, host="127.0.0.1", dashboard_address=None,
-                      silence_logs=40) as cluster, Client(cluster) as client:
+    with _workers_ignore_ctrl_c():
+        cluster = LocalCluster(n_workers=min(workers, len(todo)), threads_per_worker=1,
+                               processes=True, host="127.0.0.1",
+                               dashboard_address="127.0.0.1:0", silence_logs=40)
+    with cluster, Client(cluster) as client:
         return _on_cluster(client, study, todo, store, progress, total)
+
+
+@contextlib.contextmanager
+def _workers_ignore_ctrl_c():
+    """Start processes with SIGINT ignored, so that Ctrl-C stops only this one.
+
+    Ctrl-C reaches the terminal's whole process group; the workers leave it to this
+    process, which stops them cleanly (Python keeps an inherited SIG_IGN instead of
+    raising KeyboardInterrupt).
+    """
+    try:
+        previous = signal.signal(signal.SIGINT, signal.SIG_IGN)
+    except ValueError:  # not the main thread: signals are not ours to set
+        yield
+        return
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGINT, previous)
 
 
 #: Chunks in flight per worker: enough to keep each busy, few enough that the driver's
