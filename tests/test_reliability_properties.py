@@ -286,3 +286,20 @@ def test_special_file_output_is_streamed_not_replaced(capsys, folder):
     assert status == 0
     assert not Path("/dev/null").is_file()
     assert not Path("/dev/null.meta.txt").exists()
+
+
+@FAST
+@given(pool=st.lists(st.one_of(st.floats(-1e7, 1e7), st.just(math.nan), st.just(math.inf),
+                               st.sampled_from([-0.04, -0.0, 0.0, 0.05, -0.05, 1.25])),
+                     min_size=1, max_size=30),
+       picks=st.lists(st.integers(0, 10**6), min_size=0, max_size=400),
+       fmt=st.sampled_from(["{:.0f}", "{:.1f}", "{:.2f}", "{:.4e}", "{:+.1f}", "{}"]))
+def test_column_wise_formatting_equals_cell_by_cell(pool, picks, fmt):
+    # The column-wise text and CSV cells (formatting each distinct value once) are the
+    # cell-by-cell ones, NaN, infinities, repeats and values rounding to zero included.
+    from cruiseplan.report.output import Column, _csv_cell
+
+    vals = [pool[i % len(pool)] for i in picks]
+    col = Column("x", "", vals, fmt)
+    assert col.cells() == [col.cell(i) for i in range(len(vals))]
+    assert col.machine_cells() == [_csv_cell(col.machine(i)) for i in range(len(vals))]

@@ -130,15 +130,14 @@ class Column:
         if isinstance(vals, np.ndarray) and vals.dtype.kind == "f":
             vals = vals.tolist()
         m = _FIXED.match(self.fmt)
-        if m and vals and set(map(type, vals)) == {float}:
+        if m and not m.group(1) and vals and set(map(type, vals)) == {float}:
             arr = np.asarray(vals, dtype=float)
             finite = np.isfinite(arr)
             digits = int(m.group(2))
             # A value that rounds to zero prints without a sign.
             half = 0.5 * 10.0 ** -digits
             arr = np.where(finite & (np.abs(arr) < half), 0.0, arr) + 0.0
-            spec = self.fmt[2:-1]
-            return _per_distinct(arr, lambda v: format(v, spec), "-")
+            return _per_distinct(arr, self.fmt.format, "-")
         return [self.cell(i) for i in range(len(vals))]
 
     def cell(self, i: int) -> str:
@@ -280,20 +279,25 @@ def _per_distinct(arr, text, missing: str) -> list:
 
     A grid repeats each altitude's figures for every speed (and each speed's for every
     altitude): formatting the distinct values only, then spreading them, is the
-    column-wise part that makes a 1e6-point table quick.
+    column-wise part that makes a 1e6-point table quick. A column of mostly distinct
+    values (judged on a sample) is formatted straight through.
     """
+    arr = np.asarray(arr, dtype=float).ravel()
     finite = np.isfinite(arr)
-    values = np.where(finite, arr, 0.0)
-    distinct, inverse = np.unique(values, return_inverse=True)
-    if distinct.size > 0.7 * arr.size:  # mostly distinct: no gain from sorting
+    values = arr[finite]
+    sample = values[:20000]
+    if values.size < 64 or np.unique(sample).size > 0.5 * sample.size:
         words = list(map(text, values.tolist()))
     else:
-        words = np.array([text(v) for v in distinct.tolist()], dtype=object)[
+        distinct, inverse = np.unique(values, return_inverse=True)
+        words = np.array(list(map(text, distinct.tolist())), dtype=object)[
             inverse.ravel()].tolist()
-    if not finite.all():
-        for i in np.flatnonzero(~finite).tolist():
-            words[i] = missing
-    return words
+    if finite.all():
+        return words
+    out = [missing] * arr.size
+    for i, w in zip(np.flatnonzero(finite).tolist(), words):
+        out[i] = w
+    return out
 
 
 def hours_minutes(seconds) -> str:
