@@ -93,7 +93,9 @@ def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
     if np.any(bad):
         v = h[bad].flat[0]
         raise AtmosphereRangeError(
-            f"{what} {v:.0f} m ({v / FT:.0f} ft) is outside the atmosphere model's range "
+            f"{what} {v:.{0 if abs(v) < 1e12 else 3}{'f' if abs(v) < 1e12 else 'g'}} m "
+            f"({v / FT:.{0 if abs(v) < 1e12 else 3}{'f' if abs(v) < 1e12 else 'g'}} ft) "
+            "is outside the atmosphere model's range "
             f"{ALTITUDE_MIN:.0f} to {ALTITUDE_MAX:.0f} m pressure altitude")
     return h
 
