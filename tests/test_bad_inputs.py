@@ -117,8 +117,9 @@ OUT_OF_RANGE = [
     ("plan", "--monte-carlo", ["0", "3000000"]),
     ("plan", "--seed", ["-3"]),
     ("plan", "--wind", ["270", "270/20", "abc@def", "400/20@3000ft", "270/-20@3000ft",
-                        "270/nan@3000ft", "270/inf@0ft"]),
-    ("fit", "--reference-mass", ["-5 kg", "0", "10 m", "x"]),
+                        "270/nan@3000ft", "270/inf@0ft", "270/20@1e308ft",
+                        "270/20@-1e308ft", "270/20@500km"]),
+    ("fit", "--reference-mass", ["-5 kg", "0", "10 m", "x", "1e308", "1e6 kg"]),
 ]
 for command, opt, values in OUT_OF_RANGE:
     base = NUMERIC[command][0]

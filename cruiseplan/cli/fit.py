@@ -10,6 +10,7 @@ from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.airframe_file import find_airframe, read_airframe
 from cruiseplan.io.flightlog import check_airframe_text, fitted_airframe_text, read_flight_log
 from cruiseplan.planning.fit import fit_flight_log
+from cruiseplan.ranges import check_range
 from cruiseplan.report.fit_report import fit_report
 from cruiseplan.report.output import write_files_atomic
 from cruiseplan.units import parse_quantity
@@ -81,6 +82,8 @@ def cmd_fit(args):
                            what="--reference-mass") if args.reference_mass else None)
     if mass is not None and mass <= 0:
         raise UnitError(f"--reference-mass {args.reference_mass!r} must be positive")
+    if mass is not None:
+        check_range(mass, "mass", "--reference-mass")
     log = read_flight_log(args.log)
     fit = fit_flight_log(af, log, reference_mass=mass)
     if args.output and getattr(af.polar, "kind", None) != "parabolic":

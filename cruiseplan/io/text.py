@@ -63,6 +63,9 @@ def parse_wind_profile(text: str) -> WindProfile:
             raise UnitError(f"wind {item.strip()!r}: speed {speed:.0f} m/s is out of range "
                             f"(0 to {WIND_MAX:.0f} m/s, about 290 kt)")
         alt = parse_quantity(m.group(3), "m", default_unit="ft", what="wind altitude")
+        if not -5000.0 <= alt <= 80000.0:  # the atmosphere model's pressure altitudes
+            raise UnitError(f"wind {item.strip()!r}: altitude {alt:.3g} m is out of range "
+                            "(-5000 to 80000 m)")
         entries.append((alt, direction, speed))
     entries.sort()
     alts = [e[0] for e in entries]

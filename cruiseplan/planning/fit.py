@@ -61,6 +61,7 @@ import numpy as np
 
 from cruiseplan.constants import G0, RHO0
 from cruiseplan.errors import CruiseplanError, lookup
+from cruiseplan.ranges import check_range
 
 #: Largest |externally studentised residual| of a point kept in the fit: None for the
 #: Bonferroni threshold of the log's size (:func:`outlier_threshold`). A fixed 3 dropped a
@@ -597,6 +598,7 @@ def fit_polar(thrust_power, tas, density, mass, *, wing_area, aspect_ratio, refe
             raise CruiseplanError(f"known {name} {known!r} must be a positive number")
     if not (reference_mass > 0 and math.isfinite(reference_mass)):
         raise CruiseplanError(f"reference mass {reference_mass!r} kg must be positive")
+    check_range(reference_mass, "mass", "reference mass")
     piw, viw = piw_viw(power, v, rho, m, reference_mass)
     if float(np.ptp(viw)) <= 1e-6 * float(np.max(viw)):
         raise CruiseplanError(f"all {n} level-flight points are at one speed (VIW "
