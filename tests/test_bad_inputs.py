@@ -346,6 +346,15 @@ MISSION_FILES = {
     "deep nesting": ("a = " + "{b = " * 3000 + "1" + "}" * 3000,
                      r"nested too deeply|not valid TOML"),
     "empty": ("", r"mission"),
+    "allowance 1e308": (_sub(MISSION, 'start_taxi_takeoff = "4 L"',
+                             'start_taxi_takeoff = "1e308 L"'), r"start_taxi_takeoff"),
+    "descent rate 1e308": (_sub(MISSION, 'descent_rate = "500 ft/min"',
+                                'descent_rate = "1e308 ft/min"'), r"descent_rate"),
+    "clearance 1e308": (_sub(MISSION, 'min_clearance = "1000 ft"',
+                             'min_clearance = "1e308 ft"'), r"min_clearance"),
+    "leg elevation 1e308": (_sub(MISSION, 'elevation = "2300 ft"', 'elevation = "1e308 ft"'),
+                            r"elevation"),
+    "reserve 1e308 min": (_sub(MISSION, 'time = "45 min"', 'time = "1e308 min"'), r"time"),
 }
 for name, (text, pattern) in MISSION_FILES.items():
     case(["plan", "bad.toml", "-o", "previous.txt"], pattern + "|bad.toml",

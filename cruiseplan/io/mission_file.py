@@ -72,6 +72,9 @@ from cruiseplan.physics.winds import WindProfile
 from cruiseplan.ranges import RANGES, check_range
 from cruiseplan.units import parse_quantity, temperature_difference, to_si
 
+#: Highest ground elevation of a mission file [m] (above the highest mountain).
+ELEVATION_MAX = 9000.0
+
 _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty",
              "levels", "route", "survey"}
 _MISSION_FIELDS = {"pack_temperature",
@@ -169,9 +172,13 @@ def _repack(mission, pack_temperature, isa_dev, names, words):
 def _store_amount(r, raw, key, where, prop):
     """Fuel or energy to SI (kg or J): a volume, mass, energy or a percentage of capacity."""
     try:
-        return parse_amount(raw, prop, what=key)
+        amount = parse_amount(raw, prop, what=key)
     except UnitError as exc:
         r.fail(f"{where} {key}", str(exc).split(": ", 1)[-1])
+    if key == "start_taxi_takeoff" and not 0.0 <= amount <= prop.store_capacity * (1 + 1e-9):
+        r.fail(f"{where} {key}", f"{raw!r} is out of range (0 to the capacity of "
+                                 f"{format_amount(prop.store_capacity, prop, 'si')})")
+    return amount
 
 
 def _wind(r, leg, where):
@@ -285,14 +292,18 @@ def _leg(r, raw, where, to_pa):
     if objective is None and leg.get("speed") == "best":
         objective = "range"
     power = r.quantity(leg, "power", "", where, lo=0.01, hi=1.0, example="'65 %'")
-    cas = r.quantity(leg, "cas", "m/s", where, lo=0.1, example="'95 kt'")
+    cas = r.quantity(leg, "cas", "m/s", where, lo=0.1, hi=RANGES["speed"][1],
+                     example="'95 kt'")
     given = [k for k in ("speed", "cas", "power") if k in leg and leg[k] != "best"]
     if len(given) > 1:
         r.fail(f"{where} {given[1]}", f"give one of speed, cas or power, not {given[0]} and "
                                       f"{given[1]}")
-    elevation = r.quantity(leg, "elevation", "m", where, lo=-500.0, example="'1500 ft'")
-    max_agl = r.quantity(leg, "max_agl", "m", where, lo=0.0, example="'120 m'")
-    max_alt = r.quantity(leg, "max_altitude", "m", where, example="'9500 ft'")
+    elevation = r.quantity(leg, "elevation", "m", where, lo=-500.0, hi=ELEVATION_MAX,
+                           example="'1500 ft'")
+    max_agl = r.quantity(leg, "max_agl", "m", where, lo=0.0, hi=ELEVATION_MAX,
+                         example="'120 m'")
+    max_alt = r.quantity(leg, "max_altitude", "m", where, hi=RANGES["altitude"][1],
+                         example="'9500 ft'")
     variation = _variation(r, leg, where)
     try:
         return Leg(name=name, distance=distance, course=course, wind=wind,
@@ -561,8 +572,10 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
 
     prof_raw = r.table(data, "profile", _PROFILE_FIELDS)
     w = "[profile]"
-    dep = r.quantity(prof_raw, "departure_elevation", "m", w, lo=-500.0, example="'450 ft'")
-    arr = r.quantity(prof_raw, "arrival_elevation", "m", w, lo=-500.0, example="'300 ft'")
+    dep = r.quantity(prof_raw, "departure_elevation", "m", w, lo=-500.0, hi=ELEVATION_MAX,
+                     example="'450 ft'")
+    arr = r.quantity(prof_raw, "arrival_elevation", "m", w, lo=-500.0, hi=ELEVATION_MAX,
+                     example="'300 ft'")
     dep = to_pa(dep or 0.0)
     arr = to_pa(arr or 0.0)
     if "isa_dev" in day and "oat" in day:
@@ -610,17 +623,21 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
 
     profile = Profile(
         departure_elevation=dep, arrival_elevation=arr,
-        climb_speed=opt("climb_speed", "m/s", 1.0, "'75 kt'"),
+        climb_speed=opt("climb_speed", "m/s", 1.0, "'75 kt'", hi=RANGES["speed"][1]),
         climb_power=opt("climb_power", "", 0.05, "'100 %'", 1.0, hi=1.0),
-        climb_rate=opt("climb_rate", "m/s", 0.1, "'3 m/s'", defaults["climb_rate"]),
+        climb_rate=opt("climb_rate", "m/s", 0.1, "'3 m/s'", defaults["climb_rate"], hi=50.0),
         descent_rate=opt("descent_rate", "m/s", 0.1, "'500 ft/min'",
-                         defaults["descent_rate"]),
-        min_clearance=opt("min_clearance", "m", 0.0, "'1000 ft'", defaults["min_clearance"]),
-        altitude_step=opt("altitude_step", "m", 1.0, "'500 ft'", defaults["altitude_step"]),
-        top=to_pa(opt("top", "m", 0.0, "'10000 ft'", defaults["top"])))
+                         defaults["descent_rate"], hi=50.0),
+        min_clearance=opt("min_clearance", "m", 0.0, "'1000 ft'", defaults["min_clearance"],
+                          hi=5000.0),
+        altitude_step=opt("altitude_step", "m", 1.0, "'500 ft'", defaults["altitude_step"],
+                          hi=5000.0),
+        top=to_pa(opt("top", "m", 0.0, "'10000 ft'", defaults["top"], hi=ELEVATION_MAX * 3)))
 
-    mass = r.quantity(head, "takeoff_mass", "kg", "[mission]", lo=0.0, example="'735 kg'")
-    payload = r.quantity(head, "payload", "kg", "[mission]", lo=0.0, example="'170 kg'")
+    mass = r.quantity(head, "takeoff_mass", "kg", "[mission]", lo=0.0, hi=RANGES["mass"][1],
+                      example="'735 kg'")
+    payload = r.quantity(head, "payload", "kg", "[mission]", lo=0.0, hi=RANGES["mass"][1],
+                         example="'170 kg'")
     store_key = "fuel" if prop.store.burns_mass else "battery"
     wrong = "battery" if store_key == "fuel" else "fuel"
     if wrong in head:
