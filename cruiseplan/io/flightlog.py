@@ -74,6 +74,16 @@ class LogColumn:
 
 
 #: The documented columns, by name.
+#: Physical span of each log column in SI (beyond it a cell is a misread, never data):
+#: temperatures -90 to 60 degC, speeds, masses and powers of a small aircraft or drone.
+LOG_SPANS = {
+    "oat": (183.15, 333.15), "isa_dev": (-60.0, 60.0), "cas": (0.0, 300.0),
+    "tas": (0.0, 300.0), "mass": (0.0, 1.0e5), "weight": (0.0, 1.0e6),
+    "electric_power": (0.0, 1.0e7), "voltage": (0.0, 1.0e4), "current": (0.0, 1.0e4),
+    "shaft_power": (0.0, 1.0e7), "fuel_flow": (0.0, 1.0), "vertical_speed": (-100.0, 100.0),
+    "time": (-1.0e9, 1.0e10),
+}
+
 LOG_COLUMNS = {
     "pressure_altitude": LogColumn(("m",), "a length (altitude)", "ft", positive=False),
     "oat": LogColumn(("K",), "a temperature", "degC"),
@@ -319,12 +329,19 @@ def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
             i = int(np.argmax(bad))
             raise LogFileError(f"{path}: line {lines[i]}, column '{header_cells[j]}': "
                                f"{table[i, j]:g} must be positive")
+        lo, hi = LOG_SPANS.get(name, (-math.inf, math.inf))
+        out = ~((si[name] >= lo) & (si[name] <= hi))
+        if np.any(out):
+            i = int(np.argmax(out))
+            raise LogFileError(f"{path}: line {lines[i]}, column '{header_cells[j]}': "
+                               f"{table[i, j]:.6g} is out of range ({lo:g} to {hi:g} "
+                               f"{kinds[name]})")
 
     h = si["pressure_altitude"]
     out = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
     if np.any(out):
         i = int(np.argmax(out))
-        raise LogFileError(f"{path}: line {lines[i]}: pressure altitude {h[i]:.0f} m is "
+        raise LogFileError(f"{path}: line {lines[i]}: pressure altitude {h[i]:.6g} m is "
                            f"outside {ALTITUDE_MIN:.0f} to {ALTITUDE_MAX:.0f} m")
 
     keep = np.ones(lines.size, dtype=bool)
