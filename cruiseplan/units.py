@@ -583,9 +583,11 @@ def parse_range(text: str, si_unit: str, *, default_unit: str | None = None,
     start, stop, step = values
     if step <= 0 or stop < start:
         raise UnitError(f"{what}: range {text!r} needs stop >= start and a positive step")
-    n = int(np.floor((stop - start) / step + 1e-9)) + 1
-    if n > 100000:
-        raise UnitError(f"{what}: range {text!r} has {n} points; at most 100000 allowed")
+    count = float(np.floor((stop - start) / step + 1e-9)) + 1.0
+    if not count <= 100000:   # also an infinite count (a tiny step over a huge span)
+        shown = f"{count:.0f}" if count < 1e15 else f"{count:.3g}"
+        raise UnitError(f"{what}: range {text!r} has {shown} points; at most 100000 allowed")
+    n = int(count)
     return start + step * np.arange(n)
 
 

@@ -422,7 +422,8 @@ def test_cli_fit_demo_log_writes_airframe_and_plot(capsys, tmp_path):
                            "demo-trainer", "-o", new, "--plot", png)
     assert status == 0, err
     assert "line 14 dropped: |vertical speed| above 100 ft/min" in err
-    assert "outliers dropped (|studentised residual| > 3): line 22" in out
+    assert re.search(r"outliers dropped \(\|studentised residual\| > 3\.\d\d, Bonferroni "
+                     r"for 27 points\): line 22", out), out
     assert "Propeller efficiency: held at the airframe's value" in out
     assert "CAUTION:" in out and all(c in out for c in cp.CAUTIONS)
     # The demo log was made from cd0 0.036, oswald_e 0.76 (logs/make_demo_log.py).

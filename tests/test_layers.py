@@ -20,7 +20,7 @@ PACKAGE = Path(__file__).resolve().parent.parent / "cruiseplan"
 #: frames (labelled arrays) reads result objects by their attributes and imports only
 #: limits from the package, so it sits in the base layer where the result classes of
 #: planning may reach it.
-BASE = {"units", "constants", "errors", "limits", "cautions", "amounts", "version",
+BASE = {"units", "constants", "errors", "limits", "cautions", "amounts", "version", "ranges",
         "_numerics", "frames"}
 #: What each layer may import from the package (its own layer always).
 ALLOWED = {

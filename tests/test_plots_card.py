@@ -327,7 +327,9 @@ def test_card_on_a4_only_when_asked(capsys, tmp_path):
 
 
 def test_card_too_long_for_its_pages(trainer):
-    content = card.card_content(trainer, altitudes=np.arange(0.0, 3001.0, 25.0),
+    # 61 altitudes x 3 settings: within what A4 pages could hold (checked before any row
+    # is computed), beyond 4 A5 pages (checked by the layout).
+    content = card.card_content(trainer, altitudes=np.arange(0.0, 3001.0, 50.0),
                                 power_settings=[0.5, 0.6, 0.7])
     with pytest.raises(CruiseplanError, match="does not fit 4 pages at a legible size"):
         plots.card_pages(content)

@@ -158,4 +158,5 @@ def test_cli_monte_carlo(tmp_path, capsys):
     assert main(["card", "demo-trainer", "-o", str(pdf), "--monte-carlo", "1000"]) == 0
     assert "range to reserve P10 / P50 / P90" in (tmp_path / "card.md").read_text()
     assert main(["plan", "demo-survey-run", "--monte-carlo", "0"]) == 2
-    assert "give 1 to 1000000 samples" in capsys.readouterr().err
+    assert "--monte-carlo: 0 samples is out of range (1 samples to 1000000 samples)" in \
+        capsys.readouterr().err

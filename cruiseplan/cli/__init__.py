@@ -64,8 +64,15 @@ def build_parser(command: str | None = None) -> options.Parser:
     return parser
 
 
+#: Warnings already shown by this run: each is shown once.
+_SHOWN = set()
+
+
 def _show_warning(message, category, filename, lineno, file=None, line=None):
-    sys.stderr.write(f"cruiseplan: warning: {message}\n")
+    text = f"cruiseplan: warning: {message}\n"
+    if text not in _SHOWN:
+        _SHOWN.add(text)
+        sys.stderr.write(text)
 
 
 def main(argv=None) -> int:
@@ -84,6 +91,7 @@ def main(argv=None) -> int:
         (exit status 1, with traceback).
     """
     warnings.showwarning = _show_warning
+    _SHOWN.clear()
     # Figures are drawn off-screen; the backend is chosen here, in the command line's own
     # process, not on importing the plotting module (which would change a notebook's).
     os.environ.setdefault("MPLBACKEND", "Agg")

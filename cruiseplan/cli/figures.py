@@ -13,11 +13,12 @@ import numpy as np
 from cruiseplan.cli import options
 from cruiseplan.cli.progress import monte_carlo_progress
 from cruiseplan.errors import CruiseplanError, UnitError
-from cruiseplan.io.airframe_file import load_airframe
+from cruiseplan.io.airframe_file import find_airframe, load_airframe
 from cruiseplan.io.text import parse_reserve
 from cruiseplan.planning.optimise import best_cruise
 from cruiseplan.planning.performance import cruise_grid
-from cruiseplan.report.output import write_atomic, write_bytes_atomic
+from cruiseplan.ranges import check_range, check_work
+from cruiseplan.report.output import write_bytes_atomic, write_files_atomic
 from cruiseplan.units import parse_range
 
 
@@ -88,6 +89,7 @@ def cmd_plot(args):
         the loading or the figure.
     """
     out = options.figure_path(args.output, (".png", ".pdf"))
+    options.guard_outputs(args, [find_airframe(args.airframe)])
     af = load_airframe(args.airframe)
     batteries = not af.propulsion.store.burns_mass
     units = options.read_units(args, af)
@@ -113,6 +115,8 @@ def cmd_plot(args):
         if v.size < 2 or (v < slowest).any() or (v[1:] <= v[:-1]).any():
             raise UnitError(f"--speeds: {args.speeds!r} must be at least two increasing "
                             "speeds, positive (0, the hover, only for a kind that hovers)")
+        check_range(v, "speed", "--speeds")
+        check_work(h.size * v.size, "--altitudes x --speeds")
 
     from cruiseplan import plots  # matplotlib, only for the figure
 
@@ -155,6 +159,8 @@ def cmd_card(args):
         the card; neither file is left behind then.
     """
     out = Path(options.figure_path(args.output, (".pdf",)))
+    twin = out.with_suffix(".md")
+    options.guard_outputs(args, [find_airframe(args.airframe)], output_markdown_twin=twin)
     af = load_airframe(args.airframe)
     h = options.read_altitudes(args.altitudes) if args.altitudes else None
     frac = options.power_settings(args.power) if args.power else None
@@ -174,11 +180,5 @@ def cmd_card(args):
                                             progress=progress, page=args.page,
                                             **options.read_loading(af, args))
     pdf = plots.pages_pdf(pages)
-    twin = out.with_suffix(".md")
-    write_bytes_atomic(out, pdf)
-    try:
-        write_atomic(twin, markdown)
-    except BaseException:
-        out.unlink(missing_ok=True)  # the pair is written whole or not at all
-        raise
+    write_files_atomic({out: pdf, twin: markdown})  # the pair whole or not at all
     sys.stdout.write(f"wrote {out} and {twin}\n")

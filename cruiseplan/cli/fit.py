@@ -10,8 +10,9 @@ from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.airframe_file import find_airframe, read_airframe
 from cruiseplan.io.flightlog import check_airframe_text, fitted_airframe_text, read_flight_log
 from cruiseplan.planning.fit import fit_flight_log
+from cruiseplan.ranges import check_range
 from cruiseplan.report.fit_report import fit_report
-from cruiseplan.report.output import write_atomic, write_bytes_atomic
+from cruiseplan.report.output import write_files_atomic
 from cruiseplan.units import parse_quantity
 
 
@@ -75,13 +76,14 @@ def cmd_fit(args):
         if Path(args.output).resolve() == path.resolve():
             raise CruiseplanError(f"--output {args.output} is the airframe file itself: write "
                                   "the fitted polar to a new file and compare")
-        if args.plot and Path(args.plot).resolve() == Path(args.output).resolve():
-            raise CruiseplanError("--output and --plot name the same file")
+    options.guard_outputs(args, [path, options.input_file(args.log)], plot=args.plot)
     af = read_airframe(path)
     mass = (parse_quantity(args.reference_mass, "kg", default_unit="kg",
                            what="--reference-mass") if args.reference_mass else None)
     if mass is not None and mass <= 0:
         raise UnitError(f"--reference-mass {args.reference_mass!r} must be positive")
+    if mass is not None:
+        check_range(mass, "mass", "--reference-mass")
     log = read_flight_log(args.log)
     fit = fit_flight_log(af, log, reference_mass=mass)
     if args.output and getattr(af.polar, "kind", None) != "parabolic":
@@ -101,16 +103,10 @@ def cmd_fit(args):
         figure = plots.figure_bytes(plots.fit_residuals(fit, af, units=units,
                                                         log_name=Path(args.log).name),
                                     args.plot)
-    written = []
-    try:
-        if toml is not None:
-            write_atomic(args.output, toml)
-            written.append(Path(args.output))
-        if figure is not None:
-            write_bytes_atomic(args.plot, figure)
-            written.append(Path(args.plot))
-    except BaseException:
-        for done in written:  # the outputs are written whole or not at all
-            done.unlink(missing_ok=True)
-        raise
+    files = {}
+    if toml is not None:
+        files[args.output] = toml
+    if figure is not None:
+        files[args.plot] = figure
+    write_files_atomic(files)  # whole or not at all; a previous file stays until then
     sys.stdout.write(text)

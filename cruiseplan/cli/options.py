@@ -9,6 +9,7 @@ the Monte Carlo (``--monte-carlo``, ``--seed``), the wind (``--wind``/``--course
 from __future__ import annotations
 
 import argparse
+import re
 import sys
 from pathlib import Path
 
@@ -20,7 +21,14 @@ from cruiseplan.errors import CruiseplanError, UnitError
 from cruiseplan.io.settings import read_settings
 from cruiseplan.io.text import parse_utc_time, parse_wind_profile
 from cruiseplan.physics.atmosphere import isa_temperature_pressure
-from cruiseplan.report.output import write_atomic, write_files_atomic
+from cruiseplan.ranges import RANGES, check_range
+from cruiseplan.report.output import (
+    check_outputs,
+    is_special,
+    sidecar_path,
+    write_atomic,
+    write_files_atomic,
+)
 from cruiseplan.units import (
     UNIT_SYSTEMS,
     check_override,
@@ -32,8 +40,22 @@ from cruiseplan.units import (
 AIRFRAME_HELP = "bundled airframe name or path to an airframe TOML file"
 
 
+#: A word that is a negative number, with or without a unit (``-20kt``, ``-500,0ft``,
+#: ``-.5``): a value, never an option.
+_NEGATIVE = re.compile(r"^-(\d|\.\d)")
+
+
 class Parser(argparse.ArgumentParser):
-    """argparse with one-line errors (a :class:`CruiseplanError`, exit status 2)."""
+    """argparse with one-line errors (a :class:`CruiseplanError`, exit status 2).
+
+    A word starting with a minus sign and a digit is a value (``--headwind -20kt``,
+    ``--oat -10degC``, ``--altitudes -500,0ft``), never an option.
+    """
+
+    def _parse_optional(self, arg_string):
+        if _NEGATIVE.match(arg_string):
+            return None
+        return super()._parse_optional(arg_string)
 
     def error(self, message):
         """Raise the message as a :class:`CruiseplanError` naming the subcommand once.
@@ -50,6 +72,39 @@ class Parser(argparse.ArgumentParser):
         """
         sub = self.prog.removeprefix("cruiseplan").strip()
         raise CruiseplanError(f"{sub}: {message}" if sub else message)
+
+
+def number(quantity: str, *, integer: bool = False):
+    """An argparse ``type``: a finite number in the physical range of ``quantity``.
+
+    Parameters
+    ----------
+    quantity : str
+        A key of :data:`cruiseplan.ranges.RANGES` (the number is in its SI unit).
+    integer : bool, optional
+        Read a whole number.
+
+    Returns
+    -------
+    callable
+        Text -> float (or int); raises :class:`argparse.ArgumentTypeError` with a one-line
+        message (argparse names the option) for text that is not a number, a non-finite
+        number or one out of range.
+    """
+    def read(text):
+        try:
+            value = int(text, 10) if integer else float(text)
+        except (TypeError, ValueError):
+            kind = "a whole number" if integer else "a number"
+            raise argparse.ArgumentTypeError(f"{text!r} is not {kind}") from None
+        try:
+            check_range(value, quantity, repr(text))
+        except CruiseplanError as exc:
+            raise argparse.ArgumentTypeError(str(exc).removeprefix(f"{text!r}: ")) from None
+        return value
+
+    read.__name__ = quantity
+    return read
 
 
 def add_output(p, formats=("text", "csv", "json", "markdown")):
@@ -142,8 +197,10 @@ def add_loading(p):
                                      "'450 Wh' or '80%%' of capacity (default full)")
     p.add_argument("--payload", help="crew and payload, e.g. '170 kg' (default from file)")
     p.add_argument("--isa-dev", default="0", help="ISA temperature deviation, e.g. '+15 K'")
-    p.add_argument("--stall-margin", type=float, default=DEFAULT_STALL_MARGIN,
-                   help=f"minimum TAS over stall speed (default {DEFAULT_STALL_MARGIN:g})")
+    lo, hi = RANGES["stall_margin"][:2]
+    p.add_argument("--stall-margin", type=number("stall_margin"), default=DEFAULT_STALL_MARGIN,
+                   help=f"minimum TAS over stall speed, {lo:g} to {hi:g} "
+                        f"(default {DEFAULT_STALL_MARGIN:g})")
 
 
 #: Help of ``--pack-temperature`` on the table commands and the card.
@@ -223,10 +280,11 @@ def add_monte_carlo(p):
     p : argparse.ArgumentParser
         The command's parser.
     """
-    p.add_argument("--monte-carlo", type=int, metavar="N",
+    p.add_argument("--monte-carlo", type=number("monte_carlo", integer=True), metavar="N",
                    help="also report P10/P50/P90 over N samples of the tolerances in the "
                         "airframe (and mission) files, e.g. 10000")
-    p.add_argument("--seed", type=int, default=0, help="seed of the Monte Carlo (default 0)")
+    p.add_argument("--seed", type=number("seed", integer=True), default=0,
+                   help="seed of the Monte Carlo, 0 to 4294967295 (default 0)")
 
 
 def add_wind(p):
@@ -242,7 +300,8 @@ def add_wind(p):
                                      "'270/25@3000ft,250/40@8000ft' (needs --course)")
     wind.add_argument("--headwind", help="headwind component at every altitude, e.g. '20kt' "
                                          "(negative: tailwind)")
-    p.add_argument("--course", type=float, help="true course [deg] for --wind")
+    p.add_argument("--course", type=number("course"),
+                   help="true course [deg], 0 to 360, for --wind")
 
 
 def add_forecast(p):
@@ -371,7 +430,8 @@ def read_isa_dev(args) -> float:
     UnitError
         When the text is not a temperature difference.
     """
-    return parse_quantity(args.isa_dev, "K", what="--isa-dev", delta_temperature=True)
+    return check_range(parse_quantity(args.isa_dev, "K", what="--isa-dev",
+                                      delta_temperature=True), "isa_dev", "--isa-dev")
 
 
 def read_altitudes(text: str) -> np.ndarray:
@@ -417,14 +477,29 @@ def read_loading(af, args) -> dict:
         For a stall margin below 1, or a value that cannot be read (a
         :class:`~cruiseplan.errors.UnitError`).
     """
-    if args.stall_margin < 1.0:
-        raise CruiseplanError(f"--stall-margin {args.stall_margin:g} must be at least 1")
-    return dict(
-        mass=parse_quantity(args.weight, "kg", default_unit="lb", what="--weight")
+    check_range(args.stall_margin, "stall_margin", "--stall-margin")
+    fuel = parse_amount(args.fuel, af.propulsion, what="--fuel") if args.fuel else None
+    if fuel is not None and not (np.isfinite(fuel) and fuel >= 0):
+        raise CruiseplanError(f"--fuel: {args.fuel!r} must be a finite amount, 0 or more")
+    loading = dict(
+        mass=check_range(parse_quantity(args.weight, "kg", default_unit="lb",
+                                        what="--weight"), "mass", "--weight")
         if args.weight else None,
-        fuel=parse_amount(args.fuel, af.propulsion, what="--fuel") if args.fuel else None,
-        payload=parse_quantity(args.payload, "kg", default_unit="kg", what="--payload")
+        fuel=fuel,
+        payload=check_range(parse_quantity(args.payload, "kg", default_unit="kg",
+                                           what="--payload"), "payload", "--payload")
         if args.payload else None)
+    given = [o for o, k in (("--weight", "mass"), ("--fuel", "fuel"), ("--payload", "payload"))
+             if loading[k] is not None]
+    if given:
+        # The loading is checked against the airframe here, so the message names the
+        # options given (a mass below empty plus payload, a fuel beyond the tanks).
+        try:
+            af.loading(mass=loading["mass"], store=loading["fuel"],
+                       payload=loading["payload"])
+        except CruiseplanError as exc:
+            raise CruiseplanError(f"{' and '.join(given)}: {exc}") from None
+    return loading
 
 
 def power_settings(text: str) -> np.ndarray:
@@ -485,9 +560,30 @@ def read_wind(args):
     if args.course is not None:
         raise CruiseplanError("--course goes with --wind")
     if args.headwind:
-        return (None, parse_quantity(args.headwind, "m/s", default_unit="kt",
-                                     what="--headwind"), f"headwind component {args.headwind}")
+        return (None, read_headwind(args.headwind), f"headwind component {args.headwind}")
     return None, None, "calm"
+
+
+def read_headwind(text: str) -> float:
+    """``--headwind`` [m/s], kt when bare; negative for a tailwind.
+
+    Parameters
+    ----------
+    text : str
+        E.g. ``"20kt"`` or ``"-20kt"``.
+
+    Returns
+    -------
+    float
+        Headwind component [m/s].
+
+    Raises
+    ------
+    CruiseplanError
+        For text that is not a speed, or a speed outside the physical range.
+    """
+    return check_range(parse_quantity(text, "m/s", default_unit="kt", what="--headwind"),
+                       "headwind", "--headwind")
 
 
 def figure_path(text: str, suffixes, option: str = "--output") -> str:
@@ -521,6 +617,56 @@ def figure_path(text: str, suffixes, option: str = "--output") -> str:
 CSV_CAUTIONS_HINT = "cautions and provenance: use --csv-header or --output"
 
 
+def guard_outputs(args, inputs=(), **more):
+    """Check every output of a command before anything is computed.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+        ``output`` (and ``format``, ``csv_header``): a report's file and, for a plain
+        CSV, its sidecar ``FILE.meta.txt``.
+    inputs : iterable of str or pathlib.Path, optional
+        The files the command reads; no output may be one of them.
+    **more : str or None
+        Other outputs by option, e.g. ``plot=args.plot`` (``--plot``).
+
+    Raises
+    ------
+    CruiseplanError
+        For an output that is a folder, in a folder that does not exist, one of the
+        inputs, or the same file as another output.
+    """
+    outputs = {}
+    out = getattr(args, "output", None)
+    if out is not None:
+        outputs["--output"] = out
+        if (getattr(args, "format", None) == "csv" and not getattr(args, "csv_header", False)
+                and out and not is_special(out)):
+            outputs["--output (its sidecar .meta.txt)"] = sidecar_path(out)
+    for name, path in more.items():
+        outputs["--" + name.replace("_", "-")] = path
+    check_outputs(outputs, inputs=[i for i in inputs if i is not None])
+
+
+def input_file(text):
+    """The file a name or path stands for, when it is a path that exists; else None.
+
+    Parameters
+    ----------
+    text : str or None
+        A command's input argument (a bundled name or a path).
+
+    Returns
+    -------
+    pathlib.Path or None
+        The path, when one exists by that name.
+    """
+    if not text:
+        return None
+    path = Path(text)
+    return path if path.exists() else None
+
+
 def emit_report(rep, args):
     """Render a report in ``args.format`` and write it whole (with a CSV's sidecar) or print it.
 
@@ -543,6 +689,11 @@ def emit_report(rep, args):
     them and one line on standard error says how to get them.
     """
     header = bool(getattr(args, "csv_header", False))
+    if args.output and is_special(args.output):
+        # A device or pipe gets the report as standard output would (no sidecar).
+        write_files_atomic({args.output: rep.files(args.format, None,
+                                                   csv_header=header)[None]})
+        return
     files = rep.files(args.format, args.output or None, csv_header=header)
     if not args.output:
         sys.stdout.write(files[None])

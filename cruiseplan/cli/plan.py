@@ -12,7 +12,7 @@ from cruiseplan.planning.mission import plan_mission
 from cruiseplan.planning.nogo import what_would_make_it_go
 from cruiseplan.planning.survey import plan_survey
 from cruiseplan.planning.uncertainty import plan_uncertainty
-from cruiseplan.report.output import write_bytes_atomic
+from cruiseplan.report.output import is_special, write_bytes_atomic, write_files_atomic
 from cruiseplan.report.tables import plan_report, survey_report
 
 
@@ -79,6 +79,7 @@ def cmd_plan(args):
     """
     if args.plot:
         options.figure_path(args.plot, (".png", ".pdf"), "--plot")
+    options.guard_outputs(args, [options.input_file(args.mission)], plot=args.plot)
     n = options.monte_carlo_n(args)
     what_if = {k: getattr(args, k) for k in WHAT_IF_OPTIONS}
     mission = apply_overrides(load_mission(args.mission), **what_if, names=WHAT_IF_OPTIONS)
@@ -104,7 +105,8 @@ def cmd_plan(args):
         from cruiseplan import plots  # matplotlib, only for the figure
 
         data = plots.figure_bytes(plots.mission_profile(plan, units=args.units), args.plot)
-        write_bytes_atomic(args.plot, data)
+        _emit_with_plot(rep, args, data)
+        return
     options.emit_report(rep, args)
 
 
@@ -119,5 +121,17 @@ def _plan_survey(args, mission, n):
         from cruiseplan import plots  # matplotlib, only for the figure
 
         data = plots.figure_bytes(plots.survey_plan_view(splan, units=args.units), args.plot)
-        write_bytes_atomic(args.plot, data)
+        _emit_with_plot(rep, args, data)
+        return
     options.emit_report(rep, args)
+
+
+def _emit_with_plot(rep, args, data: bytes):
+    """Write the report and the plot whole or not at all (the plot alone when printing)."""
+    if not args.output or is_special(args.output):
+        write_bytes_atomic(args.plot, data)
+        options.emit_report(rep, args)
+        return
+    files = rep.files(args.format, args.output, csv_header=bool(args.csv_header))
+    files[args.plot] = data
+    write_files_atomic(files)

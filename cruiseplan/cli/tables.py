@@ -10,11 +10,17 @@ import numpy as np
 from cruiseplan.cli import options
 from cruiseplan.cli.progress import monte_carlo_progress
 from cruiseplan.errors import CruiseplanError, UnitError
-from cruiseplan.io.airframe_file import bundled_airframes, load_airframe, read_airframe
+from cruiseplan.io.airframe_file import (
+    bundled_airframes,
+    find_airframe,
+    load_airframe,
+    read_airframe,
+)
 from cruiseplan.physics.atmosphere import air_state, check_altitude
 from cruiseplan.planning.optimise import best_cruise
 from cruiseplan.planning.performance import cruise_grid, power_setting_table
 from cruiseplan.planning.uncertainty import cruise_uncertainty
+from cruiseplan.ranges import check_range, check_work
 from cruiseplan.report.tables import atmosphere_report, best_report, cruise_report
 from cruiseplan.units import parse_quantity, parse_range
 
@@ -113,9 +119,11 @@ def cmd_atmosphere(args):
         For altitudes outside the atmosphere model, a value that cannot be read, or a
         temperature that is not physical.
     """
+    options.guard_outputs(args)
     h = check_altitude(options.read_altitudes(args.altitudes), "--altitudes")
     if args.oat is not None:
-        oat = parse_quantity(args.oat, "K", default_unit="degC", what="--oat")
+        oat = check_range(parse_quantity(args.oat, "K", default_unit="degC", what="--oat"),
+                          "oat", "--oat")
         air = air_state(h, oat=oat)
     else:
         air = air_state(h, options.read_isa_dev(args))
@@ -140,6 +148,7 @@ def cmd_table(args):
         :class:`~cruiseplan.errors.UnitError`), or any error of the airframe, the options
         or the table.
     """
+    options.guard_outputs(args, [find_airframe(args.airframe)])
     af = load_airframe(args.airframe)
     units = options.read_units(args, af)
     batteries = not af.propulsion.store.burns_mass
@@ -147,7 +156,7 @@ def cmd_table(args):
     h = check_altitude(options.read_altitudes(alt_text), "--altitudes")
     dev = options.read_isa_dev(args)
     af, _ = options.at_pack_temperature(af, args, float(np.min(h)), dev)
-    wind = parse_quantity(args.headwind, "m/s", default_unit="kt", what="--headwind")
+    wind = options.read_headwind(args.headwind)
     common = dict(isa_dev=dev, headwind=wind, stall_margin=args.stall_margin,
                   **options.read_loading(af, args))
     if args.speeds or (batteries and not args.power):
@@ -162,11 +171,14 @@ def cmd_table(args):
             raise UnitError("--speeds: speeds must be positive" + (
                 "" if af.hovers else f" (0, the hover, only for a kind that hovers; "
                                      f"{af.name} is a {af.kind})"))
+        check_range(v, "speed", "--speeds")
+        check_work(h.size * v.size, "--altitudes x --speeds")
         pts = cruise_grid(af, h, v, **common)
         title = "Cruise table by true airspeed"
     else:
-        pts = power_setting_table(af, h, options.power_settings(args.power or "55,65,75"),
-                                  **common)
+        frac = options.power_settings(args.power or "55,65,75")
+        check_work(h.size * frac.size, "--altitudes x --power")
+        pts = power_setting_table(af, h, frac, **common)
         title = "Cruise table by power setting"
     rep = cruise_report(af, pts, isa_dev=dev, units=units, title=title,
                         stall_margin=args.stall_margin, show_ground=wind != 0.0)
@@ -189,6 +201,7 @@ def cmd_best(args):
         For ``--elevation`` without ``--max-agl``, or any error of the airframe, the
         options or the optimiser.
     """
+    options.guard_outputs(args, [find_airframe(args.airframe)])
     af = load_airframe(args.airframe)
     units = options.read_units(args, af)
     batteries = not af.propulsion.store.burns_mass
@@ -199,21 +212,29 @@ def cmd_best(args):
     profile, headwind, wind_text = options.read_wind(args)
 
     def opt(text, what):
-        return None if text is None else parse_quantity(text, "m", default_unit="ft",
-                                                        what=what)
+        return None if text is None else check_range(
+            parse_quantity(text, "m", default_unit="ft", what=what), "altitude", what)
 
     if args.max_agl is None and args.elevation not in (None, "0"):
         raise CruiseplanError("--elevation goes with --max-agl")
+    max_agl = opt(args.max_agl, "--max-agl")
+    if max_agl is not None and max_agl <= 0:
+        raise CruiseplanError(f"--max-agl {args.max_agl}: a height above ground must be "
+                              "positive")
     best = best_cruise(
         af, h, objective=args.objective, isa_dev=dev, wind=profile, course=args.course,
         headwind=headwind, floor=opt(args.floor, "--floor"),
-        ceiling=opt(args.ceiling, "--ceiling"), max_agl=opt(args.max_agl, "--max-agl"),
+        ceiling=opt(args.ceiling, "--ceiling"), max_agl=max_agl,
         elevation=opt(args.elevation, "--elevation"),
-        climb_reserve=parse_quantity(args.climb_reserve, "m/s", default_unit="ft/min",
-                                     what="--climb-reserve"),
+        climb_reserve=check_range(parse_quantity(args.climb_reserve, "m/s",
+                                                 default_unit="ft/min",
+                                                 what="--climb-reserve"),
+                                  "climb_reserve", "--climb-reserve"),
         stall_margin=args.stall_margin, **options.read_loading(af, args))
     spread = None
     n = options.monte_carlo_n(args)
+    if n:
+        check_work(1, "--monte-carlo", n)
     if n and best.best_index >= 0:
         i = best.best_index
         p = best.points

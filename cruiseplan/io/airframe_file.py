@@ -60,18 +60,22 @@ from cruiseplan.physics.propulsion import (
     PropellerEfficiency,
 )
 from cruiseplan.physics.rotor import Rotors
+from cruiseplan.ranges import RANGES
 from cruiseplan.units import parse_quantity
+
+#: Largest mass in an airframe file [kg] (:data:`cruiseplan.ranges.RANGES`).
+MASS_MAX = RANGES["mass"][1]
 
 _SCHEMA = {
     "airframe": {"name": None, "description": None, "kind": None},
     "masses": {
-        "empty": _dim("kg", example="'520 kg'"),
-        "max_takeoff": _dim("kg", example="'760 kg'"),
-        "payload": _dim("kg", lo_open=False, example="'170 kg'"),
+        "empty": _dim("kg", hi=MASS_MAX, example="'520 kg'"),
+        "max_takeoff": _dim("kg", hi=MASS_MAX, example="'760 kg'"),
+        "payload": _dim("kg", hi=MASS_MAX, lo_open=False, example="'170 kg'"),
     },
     "wing": {
-        "area": _dim("m^2", example="'11.2 m^2'"),
-        "span": _dim("m", required=False, example="'9.6 m'"),
+        "area": _dim("m^2", hi=1000.0, example="'11.2 m^2'"),
+        "span": _dim("m", hi=200.0, required=False, example="'9.6 m'"),
         "aspect_ratio": _num(2.0, 40.0, required=False, example="8.2"),
         "cl_max": _num(0.3, 4.0, example="1.45"),
     },
@@ -83,30 +87,30 @@ _PROPELLER_DIAMETER = _dim("m", hi=6.0, required=False, example="'1.8 m'")
 
 _COMPONENT_SCHEMA = {
     "name": None, "friction": None,
-    "wetted_area": _dim("m^2", example="'2.1 m^2'"),
-    "length": _dim("m", example="'0.35 m'"),
+    "wetted_area": _dim("m^2", hi=1000.0, example="'2.1 m^2'"),
+    "length": _dim("m", hi=100.0, example="'0.35 m'"),
     "form_factor": _num(1.0, 3.0, required=False, example="1.2"),
     "thickness_ratio": _num(0.02, 0.3, required=False, example="0.12"),
     "fineness": _num(1.0, 50.0, required=False, example="6"),
 }
 _BODY_SCHEMA = {
     "name": None, "shape": None, "correlation": None,
-    "diameter": _dim("m", example="'0.12 m'"),
-    "length": _dim("m", required=False, example="'0.25 m'"),
+    "diameter": _dim("m", hi=20.0, example="'0.12 m'"),
+    "length": _dim("m", hi=100.0, required=False, example="'0.25 m'"),
     "count": _num(1.0, 64.0, required=False, example="2"),
 }
 _ROTOR_SCHEMA = {
     "count": _num(1.0, 16.0, example="4"),
     "radius": _dim("m", hi=5.0, example="'0.19 m'"),
     "blades": _num(2.0, 8.0, example="2"),
-    "chord": _dim("m", example="'0.025 m'"),
+    "chord": _dim("m", hi=5.0, example="'0.025 m'"),
     "blade_cd0": _num(0.005, 0.05, example="0.012"),
     "hover_tip_speed": _dim("m/s", hi=250.0, required=False, example="'110 m/s'"),
     "hover_rpm": _dim("1/s", required=False, example="'5500 rpm'"),
     "induced_factor": _num(1.0, 1.6, required=False, example="1.15"),
 }
 _BODY_DRAG_SCHEMA = {
-    "drag_area": _dim("m^2", lo=0.0, lo_open=False, example="'0.02 m^2'"),
+    "drag_area": _dim("m^2", lo=0.0, hi=100.0, lo_open=False, example="'0.02 m^2'"),
     "bodies": None,
 }
 
@@ -376,7 +380,7 @@ class Reader:
 
 _BATTERY_FIELDS = {
     "kind": None,
-    "battery_energy": _dim("J", example="'640 Wh'"),
+    "battery_energy": _dim("J", hi=3.6e9, example="'640 Wh'"),
     "pack_voltage": _dim("V", example="'44.4 V'"),
     "capacity": _dim("A*s", example="'16 Ah'"),
     "peukert_exponent": _num(1.0, 1.6, required=False, example="1.05"),
@@ -416,7 +420,7 @@ PROPULSION_READERS = {
         "propeller_efficiency": None,
         "propeller_diameter": _PROPELLER_DIAMETER,
         "fuel": None,
-        "fuel_capacity": _dim("m^3", example="'100 L'"),
+        "fuel_capacity": _dim("m^3", hi=20.0, example="'100 L'"),
         "fuel_density": _dim("kg/m^3", 500.0, 1000.0, required=False, example="'0.72 kg/L'"),
         "power_chart": None,
     }, _piston),
@@ -548,7 +552,7 @@ def _airframe(r: SchemaReader, path: Path, checksum: str) -> Airframe:
         r.fail("[masses] payload", f"empty + payload = {zero_fuel:.1f} kg exceeds max_takeoff "
                                    f"{masses['max_takeoff']:.1f} kg")
     common = dict(name=str(head.get("name", path.stem)),
-                  description=str(head.get("description", "")),
+                  description=_description(r.source, head.get("description", "")),
                   empty_mass=masses["empty"], max_takeoff_mass=masses["max_takeoff"],
                   payload=masses["payload"], propulsion=_propulsion(r, kind),
                   source=str(path), checksum=checksum)
@@ -703,6 +707,14 @@ def bundled_airframes() -> dict:
         Name to :class:`pathlib.Path`.
     """
     return bundled_files("airframe")
+
+
+def _description(source, value) -> str:
+    """The ``[airframe] description``: text, not a number, list or table."""
+    if not isinstance(value, str):
+        raise AirframeFileError(f"{source}: [airframe] description: {value!r} is not text; "
+                                "e.g. description = 'Two-seat trainer'")
+    return value
 
 
 def find_airframe(name_or_path) -> Path:

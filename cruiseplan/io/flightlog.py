@@ -51,6 +51,7 @@ import numpy as np
 from cruiseplan.constants import FT_PER_MIN, G0
 from cruiseplan.errors import AirframeFileError, CruiseplanError, CruiseplanWarning, LogFileError
 from cruiseplan.io.airframe_file import read_airframe_text
+from cruiseplan.io.schema import read_regular_file
 from cruiseplan.physics.airspeed import tas_from_cas
 from cruiseplan.physics.atmosphere import ALTITUDE_MAX, ALTITUDE_MIN, air_state
 from cruiseplan.units import normalise_unit, registry
@@ -73,6 +74,16 @@ class LogColumn:
 
 
 #: The documented columns, by name.
+#: Physical span of each log column in SI (beyond it a cell is a misread, never data):
+#: temperatures -90 to 60 degC, speeds, masses and powers of a small aircraft or drone.
+LOG_SPANS = {
+    "oat": (183.15, 333.15), "isa_dev": (-60.0, 60.0), "cas": (0.0, 300.0),
+    "tas": (0.0, 300.0), "mass": (0.0, 1.0e5), "weight": (0.0, 1.0e6),
+    "electric_power": (0.0, 1.0e7), "voltage": (0.0, 1.0e4), "current": (0.0, 1.0e4),
+    "shaft_power": (0.0, 1.0e7), "fuel_flow": (0.0, 1.0), "vertical_speed": (-100.0, 100.0),
+    "time": (-1.0e9, 1.0e10),
+}
+
 LOG_COLUMNS = {
     "pressure_altitude": LogColumn(("m",), "a length (altitude)", "ft", positive=False),
     "oat": LogColumn(("K",), "a temperature", "degC"),
@@ -261,6 +272,10 @@ def _number_table(path: Path, header_cells, rows, columns: dict):
     return lines, table
 
 
+#: Largest flight log read [bytes] (about a million rows).
+MAX_LOG_BYTES = 64 * 2**20
+
+
 def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
     """Read a level-flight log (CSV with units in the header) into SI arrays.
 
@@ -295,10 +310,7 @@ def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
     .. [2] Anderson, *Introduction to Flight*, sec. 4.12.
     """
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        raise LogFileError(f"{path}: cannot read the flight log ({exc.strerror})") from None
+    raw = read_regular_file(path, LogFileError, "flight log", MAX_LOG_BYTES)
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError:
@@ -317,12 +329,19 @@ def read_flight_log(path, *, level_limit: float = LEVEL_LIMIT) -> FlightLog:
             i = int(np.argmax(bad))
             raise LogFileError(f"{path}: line {lines[i]}, column '{header_cells[j]}': "
                                f"{table[i, j]:g} must be positive")
+        lo, hi = LOG_SPANS.get(name, (-math.inf, math.inf))
+        out = ~((si[name] >= lo) & (si[name] <= hi))
+        if np.any(out):
+            i = int(np.argmax(out))
+            raise LogFileError(f"{path}: line {lines[i]}, column '{header_cells[j]}': "
+                               f"{table[i, j]:.6g} is out of range ({lo:g} to {hi:g} "
+                               f"{kinds[name]})")
 
     h = si["pressure_altitude"]
     out = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
     if np.any(out):
         i = int(np.argmax(out))
-        raise LogFileError(f"{path}: line {lines[i]}: pressure altitude {h[i]:.0f} m is "
+        raise LogFileError(f"{path}: line {lines[i]}: pressure altitude {h[i]:.6g} m is "
                            f"outside {ALTITUDE_MIN:.0f} to {ALTITUDE_MAX:.0f} m")
 
     keep = np.ones(lines.size, dtype=bool)

@@ -69,7 +69,11 @@ from cruiseplan.model.tolerance import WindTolerance
 from cruiseplan.physics.atmosphere import isa_temperature_pressure, pressure_altitude_from_altimeter
 from cruiseplan.physics.geo import great_circle
 from cruiseplan.physics.winds import WindProfile
+from cruiseplan.ranges import RANGES, check_range
 from cruiseplan.units import parse_quantity, temperature_difference, to_si
+
+#: Highest ground elevation of a mission file [m] (above the highest mountain).
+ELEVATION_MAX = 9000.0
 
 _SECTIONS = {"mission", "day", "profile", "allowances", "reserve", "legs", "uncertainty",
              "levels", "route", "survey"}
@@ -168,9 +172,13 @@ def _repack(mission, pack_temperature, isa_dev, names, words):
 def _store_amount(r, raw, key, where, prop):
     """Fuel or energy to SI (kg or J): a volume, mass, energy or a percentage of capacity."""
     try:
-        return parse_amount(raw, prop, what=key)
+        amount = parse_amount(raw, prop, what=key)
     except UnitError as exc:
         r.fail(f"{where} {key}", str(exc).split(": ", 1)[-1])
+    if key == "start_taxi_takeoff" and not 0.0 <= amount <= prop.store_capacity * (1 + 1e-9):
+        r.fail(f"{where} {key}", f"{raw!r} is out of range (0 to the capacity of "
+                                 f"{format_amount(prop.store_capacity, prop, 'si')})")
+    return amount
 
 
 def _wind(r, leg, where):
@@ -197,7 +205,8 @@ def _wind(r, leg, where):
                                    example="'3000 ft'"))
             dirs.append(r.quantity(row, "direction", "", w, lo=0.0, hi=360.0, required=True,
                                    default_unit="", example="270"))
-            speeds.append(r.quantity(row, "speed", "m/s", w, lo=0.0, required=True,
+            speeds.append(r.quantity(row, "speed", "m/s", w, lo=0.0, hi=RANGES["headwind"][1],
+                                     required=True,
                                      example="'25 kt'"))
         order = sorted(range(len(alts)), key=alts.__getitem__)
         try:
@@ -265,14 +274,16 @@ def _leg(r, raw, where, to_pa):
                                       "from/to waypoints)")
         course = 0.0
 
-    def best_or(key, unit, example):
+    def best_or(key, unit, example, hi):
         raw_v = leg.get(key, "best")
         if raw_v == "best":
             return None
-        return r.quantity(leg, key, unit, where, lo=0.0, example=example)
+        return r.quantity(leg, key, unit, where, lo=0.0, hi=hi, example=example)
 
-    altitude = best_or("altitude", "m", "'5500 ft' or 'best'")
-    speed = best_or("speed", "m/s", "'105 kt' or 'best'")
+    # The physical ranges of cruiseplan.ranges: the atmosphere model's altitudes and the
+    # speeds a propeller aircraft can fly.
+    altitude = best_or("altitude", "m", "'5500 ft' or 'best'", RANGES["altitude"][1])
+    speed = best_or("speed", "m/s", "'105 kt' or 'best'", RANGES["speed"][1])
     if speed is not None and speed <= 0:
         r.fail(f"{where} speed", "must be positive")
     objective = leg.get("objective")
@@ -281,14 +292,18 @@ def _leg(r, raw, where, to_pa):
     if objective is None and leg.get("speed") == "best":
         objective = "range"
     power = r.quantity(leg, "power", "", where, lo=0.01, hi=1.0, example="'65 %'")
-    cas = r.quantity(leg, "cas", "m/s", where, lo=0.1, example="'95 kt'")
+    cas = r.quantity(leg, "cas", "m/s", where, lo=0.1, hi=RANGES["speed"][1],
+                     example="'95 kt'")
     given = [k for k in ("speed", "cas", "power") if k in leg and leg[k] != "best"]
     if len(given) > 1:
         r.fail(f"{where} {given[1]}", f"give one of speed, cas or power, not {given[0]} and "
                                       f"{given[1]}")
-    elevation = r.quantity(leg, "elevation", "m", where, lo=-500.0, example="'1500 ft'")
-    max_agl = r.quantity(leg, "max_agl", "m", where, lo=0.0, example="'120 m'")
-    max_alt = r.quantity(leg, "max_altitude", "m", where, example="'9500 ft'")
+    elevation = r.quantity(leg, "elevation", "m", where, lo=-500.0, hi=ELEVATION_MAX,
+                           example="'1500 ft'")
+    max_agl = r.quantity(leg, "max_agl", "m", where, lo=0.0, hi=ELEVATION_MAX,
+                         example="'120 m'")
+    max_alt = r.quantity(leg, "max_altitude", "m", where, hi=RANGES["altitude"][1],
+                         example="'9500 ft'")
     variation = _variation(r, leg, where)
     try:
         return Leg(name=name, distance=distance, course=course, wind=wind,
@@ -557,8 +572,10 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
 
     prof_raw = r.table(data, "profile", _PROFILE_FIELDS)
     w = "[profile]"
-    dep = r.quantity(prof_raw, "departure_elevation", "m", w, lo=-500.0, example="'450 ft'")
-    arr = r.quantity(prof_raw, "arrival_elevation", "m", w, lo=-500.0, example="'300 ft'")
+    dep = r.quantity(prof_raw, "departure_elevation", "m", w, lo=-500.0, hi=ELEVATION_MAX,
+                     example="'450 ft'")
+    arr = r.quantity(prof_raw, "arrival_elevation", "m", w, lo=-500.0, hi=ELEVATION_MAX,
+                     example="'300 ft'")
     dep = to_pa(dep or 0.0)
     arr = to_pa(arr or 0.0)
     if "isa_dev" in day and "oat" in day:
@@ -570,10 +587,10 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
     else:
         try:
             isa_dev = temperature_difference(day.get("isa_dev", 0.0), what="isa_dev")
-        except UnitError:
+        except (UnitError, TypeError, ValueError):
             r.fail("[day] isa_dev", f"{day.get('isa_dev')!r} is not a temperature difference, "
                                     "e.g. '+15 K' or '+15 degC'")
-        if not -60 <= isa_dev <= 60:
+        if not (isinstance(isa_dev, (int, float)) and -60 <= isa_dev <= 60):
             r.fail("[day] isa_dev", f"{day['isa_dev']!r} is out of range (-60 to 60 K)")
     forecast = departure = None
     if "forecast" in day:
@@ -606,17 +623,21 @@ def read_mission(path, *, altimeter=None, wind=None, airframe=None) -> Mission:
 
     profile = Profile(
         departure_elevation=dep, arrival_elevation=arr,
-        climb_speed=opt("climb_speed", "m/s", 1.0, "'75 kt'"),
+        climb_speed=opt("climb_speed", "m/s", 1.0, "'75 kt'", hi=RANGES["speed"][1]),
         climb_power=opt("climb_power", "", 0.05, "'100 %'", 1.0, hi=1.0),
-        climb_rate=opt("climb_rate", "m/s", 0.1, "'3 m/s'", defaults["climb_rate"]),
+        climb_rate=opt("climb_rate", "m/s", 0.1, "'3 m/s'", defaults["climb_rate"], hi=50.0),
         descent_rate=opt("descent_rate", "m/s", 0.1, "'500 ft/min'",
-                         defaults["descent_rate"]),
-        min_clearance=opt("min_clearance", "m", 0.0, "'1000 ft'", defaults["min_clearance"]),
-        altitude_step=opt("altitude_step", "m", 1.0, "'500 ft'", defaults["altitude_step"]),
-        top=to_pa(opt("top", "m", 0.0, "'10000 ft'", defaults["top"])))
+                         defaults["descent_rate"], hi=50.0),
+        min_clearance=opt("min_clearance", "m", 0.0, "'1000 ft'", defaults["min_clearance"],
+                          hi=5000.0),
+        altitude_step=opt("altitude_step", "m", 1.0, "'500 ft'", defaults["altitude_step"],
+                          hi=5000.0),
+        top=to_pa(opt("top", "m", 0.0, "'10000 ft'", defaults["top"], hi=ELEVATION_MAX * 3)))
 
-    mass = r.quantity(head, "takeoff_mass", "kg", "[mission]", lo=0.0, example="'735 kg'")
-    payload = r.quantity(head, "payload", "kg", "[mission]", lo=0.0, example="'170 kg'")
+    mass = r.quantity(head, "takeoff_mass", "kg", "[mission]", lo=0.0, hi=RANGES["mass"][1],
+                      example="'735 kg'")
+    payload = r.quantity(head, "payload", "kg", "[mission]", lo=0.0, hi=RANGES["mass"][1],
+                         example="'170 kg'")
     store_key = "fuel" if prop.store.burns_mass else "battery"
     wrong = "battery" if store_key == "fuel" else "fuel"
     if wrong in head:
@@ -894,6 +915,7 @@ def _loading_overrides(mission, fuel, payload, names, words) -> dict:
         if not 0.0 <= pl < math.inf:
             raise UnitError(f"{names['payload']}: {payload!r} must be a finite mass, not "
                             "negative")
+        check_range(pl, "payload", names["payload"])
         words.append(f"payload {payload.strip() if isinstance(payload, str) else f'{pl:g} kg'}")
     try:
         with warnings.catch_warnings():

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import hashlib
 import math
+import stat
 import tomllib
 from dataclasses import dataclass
 from pathlib import Path
@@ -97,6 +98,62 @@ def quantity(unit, lo=0.0, hi=math.inf, required=True, example="", lo_open=True,
     return Field(unit, lo, hi, required, example, lo_open, default_unit)
 
 
+#: Largest TOML file read [bytes]: an airframe, mission or study file is a few kB.
+MAX_TOML_BYTES = 4 * 2**20
+
+
+def read_regular_file(path, error, what: str = "file", max_bytes: int = MAX_TOML_BYTES):
+    """The bytes of a regular file of at most ``max_bytes``, or a one-line error.
+
+    A folder, a device (``/dev/zero``), a pipe or a socket is refused before it is
+    opened, so a read never hangs nor grows without bound.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The file.
+    error : type
+        The :class:`~cruiseplan.errors.CruiseplanError` subclass to raise.
+    what : str, optional
+        What the file is, for messages (``"flight log"``).
+    max_bytes : int, optional
+        Largest size accepted [bytes].
+
+    Returns
+    -------
+    bytes
+        The file's content.
+
+    Raises
+    ------
+    CruiseplanError
+        ``error``, for a missing file, one that is not a regular file, one larger than
+        ``max_bytes``, or one that cannot be read.
+    """
+    path = Path(path)
+    try:
+        st = path.stat()
+    except OSError as exc:
+        raise error(f"{path}: cannot read the {what} ({exc.strerror})") from None
+    except ValueError:  # e.g. a NUL byte in the name
+        raise error(f"{path!r}: not a valid file name") from None
+    if stat.S_ISDIR(st.st_mode):
+        raise error(f"{path}: is a folder, not a {what}")
+    if not stat.S_ISREG(st.st_mode):
+        raise error(f"{path}: not a regular file (a device, pipe or socket); give a {what}")
+    if st.st_size > max_bytes:
+        raise error(f"{path}: {st.st_size} bytes; a {what} is at most "
+                    f"{max_bytes // 2**20} MB")
+    try:
+        with path.open("rb") as fh:
+            raw = fh.read(max_bytes + 1)
+    except OSError as exc:
+        raise error(f"{path}: cannot read the {what} ({exc.strerror})") from None
+    if len(raw) > max_bytes:
+        raise error(f"{path}: larger than {max_bytes // 2**20} MB; a {what} is smaller")
+    return raw
+
+
 def read_toml(path, error) -> tuple:
     """Read a TOML file.
 
@@ -120,10 +177,7 @@ def read_toml(path, error) -> tuple:
         ``error``, when the file cannot be read or is not valid TOML.
     """
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        raise error(f"{path}: cannot read the file ({exc.strerror})") from None
+    raw = read_regular_file(path, error)
     return parse_toml(raw, path, error), hashlib.sha256(raw).hexdigest()
 
 

@@ -24,6 +24,10 @@ _HAS_UNIT = re.compile(r"\d\s*[A-Za-z]")
 _WIND = re.compile(r"^\s*(\d+(?:\.\d+)?)\s*/\s*([^@]+?)\s*@\s*(.+?)\s*$")
 
 
+#: Fastest wind accepted [m/s] (:data:`cruiseplan.ranges.RANGES`, headwind).
+WIND_MAX = 150.0
+
+
 def parse_wind_profile(text: str) -> WindProfile:
     """Read ``"270/25@3000ft,250/40@8000ft"`` into a :class:`WindProfile`.
 
@@ -55,7 +59,13 @@ def parse_wind_profile(text: str) -> WindProfile:
         speed = parse_quantity(m.group(2), "m/s", default_unit="kt", what="wind speed")
         if speed < 0:
             raise UnitError(f"wind {item.strip()!r}: speed must not be negative")
+        if speed > WIND_MAX:
+            raise UnitError(f"wind {item.strip()!r}: speed {speed:.0f} m/s is out of range "
+                            f"(0 to {WIND_MAX:.0f} m/s, about 290 kt)")
         alt = parse_quantity(m.group(3), "m", default_unit="ft", what="wind altitude")
+        if not -5000.0 <= alt <= 80000.0:  # the atmosphere model's pressure altitudes
+            raise UnitError(f"wind {item.strip()!r}: altitude {alt:.3g} m is out of range "
+                            "(-5000 to 80000 m)")
         entries.append((alt, direction, speed))
     entries.sort()
     alts = [e[0] for e in entries]

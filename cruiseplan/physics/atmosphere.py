@@ -118,7 +118,9 @@ def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
     if np.any(bad):
         v = h[bad].flat[0]
         raise AtmosphereRangeError(
-            f"{what} {v:.0f} m ({v / FT:.0f} ft) is outside the atmosphere model's range "
+            f"{what} {v:.{0 if abs(v) < 1e12 else 3}{'f' if abs(v) < 1e12 else 'g'}} m "
+            f"({v / FT:.{0 if abs(v) < 1e12 else 3}{'f' if abs(v) < 1e12 else 'g'}} ft) "
+            "is outside the atmosphere model's range "
             f"{ALTITUDE_MIN:.0f} to {ALTITUDE_MAX:.0f} m pressure altitude")
     return h
 
@@ -216,8 +218,12 @@ class AirState:
 
     @property
     def density_altitude(self):
-        """Density altitude [m] (see :func:`density_altitude`)."""
-        return density_altitude(self.density)
+        """Density altitude [m] (see :func:`density_altitude`).
+
+        NaN where the density lies outside the ISA densities at -5 and 20 km: a row never
+        aborts a table.
+        """
+        return density_altitude(self.density, strict=False)
 
     def row(self, i):
         """The state at index ``i`` of the first axis.
@@ -317,7 +323,7 @@ def _layer_base_densities() -> tuple:
     return tuple(out)
 
 
-def density_altitude(density):
+def density_altitude(density, *, strict: bool = True):
     r"""Density altitude: the ISA pressure altitude with the given density (exact).
 
     In a layer with lapse rate :math:`L` and base :math:`(H_b, T_b, \rho_b)`,
@@ -329,6 +335,8 @@ def density_altitude(density):
     ----------
     density : array_like
         Air density [kg/m^3], between the ISA values at 20 km and -5 km.
+    strict : bool, optional
+        Raise for a density outside that span (default); when False, NaN there.
 
     Returns
     -------
@@ -348,7 +356,11 @@ def density_altitude(density):
     rho = np.asarray(density, dtype=float)
     rho_lo = float(air_state(_DA_MAX).density)
     rho_hi = float(air_state(ALTITUDE_MIN).density)
-    if np.any(~((rho >= rho_lo * (1 - 1e-12)) & (rho <= rho_hi * (1 + 1e-12)))):
+    inside = (rho >= rho_lo * (1 - 1e-12)) & (rho <= rho_hi * (1 + 1e-12))
+    if not strict:
+        da = density_altitude(np.where(inside, rho, rho_hi))
+        return np.where(inside, da, np.nan)
+    if np.any(~inside):
         raise AtmosphereRangeError(
             f"density outside {rho_lo:.4f}..{rho_hi:.4f} kg/m^3: density altitude is "
             f"computed from -5000 m to {_DA_MAX:.0f} m")

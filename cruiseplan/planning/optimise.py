@@ -61,6 +61,7 @@ from cruiseplan.planning.performance import (
     resolve_loading,
     shaft_power_required,
 )
+from cruiseplan.ranges import check_range
 from cruiseplan.units import quantity_of, temperature_difference, to_si
 
 #: Fraction of the best specific range kept by the economy speed (common practice).
@@ -781,13 +782,16 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
     if wind is not None and course is None:
         raise CruiseplanError("a wind profile needs the true course to fly")
+    check_range(stall_margin, "stall_margin", "stall_margin")
     loading = resolve_loading(airframe, mass, fuel, payload)
-    air = air_state(h, temperature_difference(isa_dev))
+    air = air_state(h, check_range(temperature_difference(isa_dev), "isa_dev", "isa_dev"))
     if wind is not None:
-        hw, cw = wind.components(float(to_si(course, "deg", what="course")), h)
+        hw, cw = wind.components(check_range(float(to_si(course, "deg", what="course")),
+                                             "course", "course"), h)
     else:
         hw = np.full(h.shape, 0.0 if headwind is None
-                     else to_si(headwind, "m/s", what="headwind"))
+                     else check_range(to_si(headwind, "m/s", what="headwind"), "headwind",
+                                      "headwind"))
         cw = np.zeros(h.shape)
     sched = speed_schedule(airframe, loading.mass, air, loading.store, headwind=hw,
                            crosswind=cw, stall_margin=stall_margin,

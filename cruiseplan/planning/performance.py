@@ -44,6 +44,7 @@ from cruiseplan.physics.atmosphere import (
     air_state,
     check_altitude,
 )
+from cruiseplan.ranges import check_range
 from cruiseplan.units import fraction, quantity_of, temperature_difference, to_si, to_store
 
 #: Fields of :class:`CruisePoints` that are NaN where a point is beyond an
@@ -399,8 +400,10 @@ def _grid_inputs(airframe, altitudes, mass, fuel, payload, isa_dev, headwind):
     """Public-API inputs of a grid in SI: loading, air column, valid rows, headwind column."""
     h = np.atleast_1d(to_si(altitudes, "m", what="altitudes"))
     loading = resolve_loading(airframe, mass, fuel, payload)
-    air, valid = _air_column(h, temperature_difference(isa_dev))
-    wind = _column(to_si(headwind, "m/s", what="headwind"), h.size, "headwind")
+    air, valid = _air_column(h, check_range(temperature_difference(isa_dev), "isa_dev",
+                                            "isa_dev"))
+    wind = _column(check_range(to_si(headwind, "m/s", what="headwind"), "headwind",
+                               "headwind"), h.size, "headwind")
     return loading, air, valid, wind
 
 
@@ -471,6 +474,9 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
     if (wind is None) != (course is None):
         raise CruiseplanError("a wind profile and a course go together")
+    check_range(stall_margin, "stall_margin", "stall_margin")
+    if course is not None:
+        course = check_range(to_si(course, "deg", what="course"), "course", "course")
     loading, air, valid, head = _grid_inputs(airframe, altitudes, mass, fuel, payload,
                                              isa_dev, headwind)
     gs = None
@@ -687,6 +693,7 @@ def power_setting_table(airframe, altitudes, power_settings, *, mass=None, fuel=
         raise CruiseplanError("power settings must be fractions of rated power in (0, 1]")
     # The speed searches need real air: altitudes outside the model are an error here.
     check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
+    check_range(stall_margin, "stall_margin", "stall_margin")
     loading, air, _, wind = _grid_inputs(airframe, altitudes, mass, fuel, payload, isa_dev,
                                          headwind)
     return power_setting_points(airframe, loading.mass, air, frac[None, :], loading.store,

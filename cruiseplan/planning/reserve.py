@@ -34,6 +34,7 @@ POWER_SOURCES = {
     "plan": "the plan's cruise power",
     "mission": "the mission's cruise power setting",
     "card": "normal cruise power",
+    "beyond": "normal cruise power; the plan's cruise power is beyond the rated power",
 }
 
 
@@ -142,6 +143,10 @@ def reserve_required(airframe, reserve: Reserve, *, mass, cruise_power=None,
     if reserve.kind == "time":
         if reserve.power is not None:
             power, source = reserve.power, "reserve"
+        elif cruise_power is not None and not 0.0 < float(cruise_power) <= 1.0:
+            # A plan past physics (a leg beyond full power) gives no reserve power: the
+            # reserve is flown at normal cruise power, and says so.
+            power, source = prop.store.normal_cruise_power, "beyond"
         elif cruise_power is not None:
             power, source = float(cruise_power), power_source
         else:

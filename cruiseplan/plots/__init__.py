@@ -21,7 +21,7 @@ References
    (power required and available), 5.7 (range and endurance).
 """
 
-from cruiseplan.plots.cardpage import CARD_FONTS, CARD_MIN_FONT, card_pages, cruise_card
+from cruiseplan.plots.cardpage import CARD_FONTS, card_pages, cruise_card
 from cruiseplan.plots.cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
 from cruiseplan.plots.profile import mission_profile
 from cruiseplan.plots.residuals import fit_residuals
@@ -39,6 +39,7 @@ from cruiseplan.plots.style import (
     speed_span,
 )
 from cruiseplan.plots.survey import survey_plan_view
+from cruiseplan.report.card import CARD_MIN_FONT
 
 __all__ = [
     "CARD_FONTS", "CARD_MIN_FONT", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES",

@@ -22,17 +22,13 @@ from matplotlib.patches import Rectangle
 from cruiseplan.constants import DEFAULT_STALL_MARGIN
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.plots.style import CARD_PAGES
-from cruiseplan.report.card import card_content
+from cruiseplan.report.card import CARD_MAX_PAGES, card_content
 
 # --- cruise-card pages ----------------------------------------------------------------------
 
 #: Font sizes of the card [pt]: all at least CARD_MIN_FONT.
 CARD_FONTS = {"title": 13.0, "meta": 9.0, "heading": 10.5, "table": 9.0, "text": 9.0,
               "caution": 9.0, "footer": 9.0}
-#: Smallest font of the card [pt]: legible on a kneeboard in turbulence.
-CARD_MIN_FONT = 9.0
-#: Most pages a card may take [-]; more is no longer a card.
-CARD_MAX_PAGES = 4
 _CARD_MARGIN = 0.25  # [in]
 _LEADING = 1.18  # line pitch over font size, text
 _ROW_LEADING = 1.3  # line pitch over font size, table rows

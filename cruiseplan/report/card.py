@@ -61,6 +61,14 @@ from cruiseplan.units import display, temperature_difference, to_si
 from cruiseplan.version import __version__
 
 #: Default power settings [fraction of rated power] by store.
+#: Smallest font of the card [pt]: legible on a kneeboard in turbulence.
+CARD_MIN_FONT = 9.0
+#: Most pages a card may take [-]; more is no longer a card.
+CARD_MAX_PAGES = 4
+#: Most table rows the card's pages could ever hold: CARD_MAX_PAGES A4 pages of 11.69 in x
+#: 72 pt/in over a row pitch of CARD_MIN_FONT x 1.3. A card asking more is refused before
+#: any row is computed; the page layout then checks the real fit.
+MAX_CARD_ROWS = CARD_MAX_PAGES * int(11.69 * 72 / (CARD_MIN_FONT * 1.3))
 DEFAULT_POWER = {"fuel": (0.55, 0.65, 0.75), "energy": (0.20, 0.30, 0.40)}
 #: Default card altitudes [m] by store: 0-8000 ft by 2000 ft; 0-400 m by 100 m.
 DEFAULT_ALTITUDES = {"fuel": tuple(np.arange(0.0, 8001.0, 2000.0) * FT),
@@ -200,6 +208,14 @@ def card_content(airframe, *, altitudes=None, power_settings=None, mass=None, fu
                             else altitudes, "m", what="altitudes"))
     frac = np.atleast_1d(np.asarray(DEFAULT_POWER[store_name] if power_settings is None
                                     else power_settings, dtype=float))
+    rows = h.size * frac.size + h.size
+    if rows > MAX_CARD_ROWS:
+        # Checked before any row is computed: no page could hold them.
+        raise CruiseplanError(f"the cruise card does not fit {CARD_MAX_PAGES} pages at a "
+                              f"legible size: {rows} table rows ({h.size} altitudes x "
+                              f"{frac.size} power settings, and a row of speeds per "
+                              f"altitude), at most {MAX_CARD_ROWS} on A4; give fewer "
+                              "altitudes or power settings")
     if isinstance(reserve, str):
         reserve = parse_reserve(reserve, prop, what="reserve")
     reserve = reserve or default_reserve(prop)

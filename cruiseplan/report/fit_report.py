@@ -73,11 +73,11 @@ def fit_report(fit, log: FlightLog, airframe, *, units: str | None = None):
         f"PIW); residual degrees of freedom {fit.dof}",
         f"Points used {fit.n_used} of {fit.lines.size} level points; "
         + ("outliers dropped (|studentised residual| > "
-           f"{fit.outlier_limit:g}): "
+           f"{fit.outlier_limit:.2f}, Bonferroni for {fit.lines.size} points): "
            + ", ".join(f"line {n} ({t:+.1f} in the fit of all points)"
                        for n, t in fit.dropped)
            if fit.dropped else "no outliers (|studentised residual| > "
-           f"{fit.outlier_limit:g})"),
+           f"{fit.outlier_limit:.2f}, Bonferroni for {fit.lines.size} points)"),
     ]
     if log.not_level:
         meta.append("Not level, dropped before the fit (|vertical speed| > 100 ft/min): "

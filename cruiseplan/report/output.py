@@ -23,6 +23,8 @@ import io
 import json
 import math
 import os
+import re
+import stat
 import tempfile
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -30,6 +32,9 @@ from pathlib import Path
 import numpy as np
 
 from cruiseplan.errors import CruiseplanError, lookup
+
+#: A fixed-point format of one float, ``{:.1f}`` or ``{:+.2f}``: formatted column-wise.
+_FIXED = re.compile(r"^\{:(\+?)\.(\d+)f\}$")
 
 #: Version of the JSON document layout (``schema_version``); raised on any change that a
 #: reader could notice (fields renamed, removed or given another meaning).
@@ -93,6 +98,47 @@ class Column:
         if isinstance(v, (float, np.floating)):
             return float(v) if math.isfinite(v) else None
         return v
+
+    def machine_cells(self) -> list:
+        """Every row's CSV cell, worked out column-wise (see :meth:`machine`).
+
+        Returns
+        -------
+        list of str
+            Numbers at full precision (``repr``), words as given, ``""`` where there is
+            no value.
+        """
+        vals = self.values if self.data is None else self.data
+        if isinstance(vals, np.ndarray) and vals.dtype.kind == "f":
+            vals = vals.tolist()
+        kinds = set(map(type, vals))
+        if vals and kinds <= {float, type(None)} and float in kinds:
+            return _per_distinct(np.asarray(vals, dtype=float), float.__repr__, "")
+        if kinds == {str}:
+            return _csv_quoted(["" if v == "-" else v for v in vals])
+        return _csv_quoted([_csv_cell(self.machine(i)) for i in range(len(vals))])
+
+    def cells(self) -> list:
+        """Every row's formatted cell, worked out column-wise (see :meth:`cell`).
+
+        Returns
+        -------
+        list of str
+            As :meth:`cell` for each row.
+        """
+        vals = self.values
+        if isinstance(vals, np.ndarray) and vals.dtype.kind == "f":
+            vals = vals.tolist()
+        m = _FIXED.match(self.fmt)
+        if m and not m.group(1) and vals and set(map(type, vals)) == {float}:
+            arr = np.asarray(vals, dtype=float)
+            finite = np.isfinite(arr)
+            digits = int(m.group(2))
+            # A value that rounds to zero prints without a sign.
+            half = 0.5 * 10.0 ** -digits
+            arr = np.where(finite & (np.abs(arr) < half), 0.0, arr) + 0.0
+            return _per_distinct(arr, self.fmt.format, "-")
+        return [self.cell(i) for i in range(len(vals))]
 
     def cell(self, i: int) -> str:
         """Formatted cell ``i``; '-' for a missing value.
@@ -194,8 +240,11 @@ class Report:
                 buf.write(f"# {m}\n")
         w = csv.writer(buf, lineterminator="\n")
         w.writerow([c.machine_header for c in self.columns])
-        for i in range(self.n_rows):
-            w.writerow([_csv_cell(c.machine(i)) for c in self.columns])
+        # Column-wise: each column's cells at once, then the rows joined.
+        cols = [c.machine_cells() for c in self.columns]
+        if self.n_rows:
+            buf.write("\n".join(map(",".join, zip(*cols))))
+            buf.write("\n")
         return buf.getvalue()
 
     def files(self, fmt: str, output=None, *, csv_header: bool = False) -> dict:
@@ -225,6 +274,32 @@ class Report:
         return files
 
 
+def _per_distinct(arr, text, missing: str) -> list:
+    """``text(v)`` of each value, worked out once per distinct value; ``missing`` for NaN.
+
+    A grid repeats each altitude's figures for every speed (and each speed's for every
+    altitude): formatting the distinct values only, then spreading them, is the
+    column-wise part that makes a 1e6-point table quick. A column of mostly distinct
+    values (judged on a sample) is formatted straight through.
+    """
+    arr = np.asarray(arr, dtype=float).ravel()
+    finite = np.isfinite(arr)
+    values = arr[finite]
+    sample = values[:20000]
+    if values.size < 64 or np.unique(sample).size > 0.5 * sample.size:
+        words = list(map(text, values.tolist()))
+    else:
+        distinct, inverse = np.unique(values, return_inverse=True)
+        words = np.array(list(map(text, distinct.tolist())), dtype=object)[
+            inverse.ravel()].tolist()
+    if finite.all():
+        return words
+    out = [missing] * arr.size
+    for i, w in zip(np.flatnonzero(finite).tolist(), words):
+        out[i] = w
+    return out
+
+
 def hours_minutes(seconds) -> str:
     """Format a duration in seconds as h:mm.
 
@@ -252,9 +327,9 @@ def _text(rep: Report) -> str:
     # Two header lines, name over [unit], keep printed tables narrow.
     names = [c.name for c in rep.columns]
     units = [f"[{c.unit}]" if c.unit else "" for c in rep.columns]
-    cells = [[c.cell(i) for c in rep.columns] for i in range(rep.n_rows)]
-    widths = [max([len(n), len(u)] + [len(r[j]) for r in cells])
-              for j, (n, u) in enumerate(zip(names, units))]
+    columns = [c.cells() for c in rep.columns]
+    widths = [max([len(n), len(u)] + [len(x) for x in col])
+              for n, u, col in zip(names, units, columns)]
     left = [c.name in _TEXT_COLUMNS for c in rep.columns]
 
     def line(items):
@@ -262,10 +337,13 @@ def _text(rep: Report) -> str:
         return "  ".join(s.ljust(w) if lft else s.rjust(w)
                          for s, w, lft in zip(items, widths, left)).rstrip()
 
+    # Column-wise: each column padded at once, then the rows joined.
+    padded = [[x.ljust(w) for x in col] if lft else [x.rjust(w) for x in col]
+              for col, w, lft in zip(columns, widths, left)]
     out = [rep.title, "=" * len(rep.title)]
     out += rep.meta
     out += ["", line(names), line(units), line(["-" * w for w in widths])]
-    out += [line(r) for r in cells]
+    out += ["  ".join(r).rstrip() for r in zip(*padded)]
     if rep.notes:
         out += [""] + rep.notes
     if rep.cautions:
@@ -278,8 +356,8 @@ def _markdown(rep: Report) -> str:
     out += [f"- {m}" for m in rep.meta] + [""]
     out.append("| " + " | ".join(c.header for c in rep.columns) + " |")
     out.append("|" + "|".join("---:" for _ in rep.columns) + "|")
-    for i in range(rep.n_rows):
-        out.append("| " + " | ".join(c.cell(i) for c in rep.columns) + " |")
+    columns = [c.cells() for c in rep.columns]
+    out += ["| " + " | ".join(r) + " |" for r in zip(*columns)]
     if rep.notes:
         out += [""] + [f"{n}  " for n in rep.notes]
     if rep.cautions:
@@ -310,6 +388,14 @@ def _csv_cell(v) -> str:
     if isinstance(v, float):
         return repr(v)
     return str(v)
+
+
+def _csv_quoted(cells: list) -> list:
+    """CSV cells quoted where they hold a comma, a quote or a line break."""
+    if not any(("," in x or '"' in x or "\n" in x or "\r" in x) for x in cells):
+        return cells
+    return ['"' + x.replace('"', '""') + '"' if ("," in x or '"' in x or "\n" in x
+                                                or "\r" in x) else x for x in cells]
 
 
 def _csv(rep: Report) -> str:
@@ -343,6 +429,103 @@ def _json(rep: Report) -> str:
 RENDERERS = {"text": _text, "markdown": _markdown, "csv": _csv, "json": _json}
 
 
+def is_special(path) -> bool:
+    """Whether ``path`` is an existing file that is neither regular nor a folder.
+
+    A device (``/dev/null``, ``/dev/stdout``), a pipe or a socket: written as it is,
+    streamed, never swapped for a regular file.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        A path.
+
+    Returns
+    -------
+    bool
+        True for a special file.
+    """
+    try:
+        mode = os.stat(path).st_mode
+    except OSError:
+        return False
+    return not (stat.S_ISREG(mode) or stat.S_ISDIR(mode))
+
+
+def check_output(path, option: str = "--output", *, inputs=()) -> Path:
+    """Check, before anything is computed, that ``path`` can be written as an output.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The output file.
+    option : str, optional
+        The option that names it, for messages.
+    inputs : iterable of str or pathlib.Path, optional
+        The files this run reads: an output is never one of them.
+
+    Returns
+    -------
+    pathlib.Path
+        ``path``.
+
+    Raises
+    ------
+    CruiseplanError
+        For an empty name, a folder, a folder that does not exist, a path that is one of
+        the ``inputs``, or an existing regular file that cannot be replaced.
+    """
+    if str(path) == "":
+        raise CruiseplanError(f"{option}: empty file name")
+    path = Path(path)
+    if is_special(path):
+        return path
+    if path.is_dir():
+        raise CruiseplanError(f"{option} {path}: is a folder; give a file name")
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.is_dir():
+        raise CruiseplanError(f"{option} {path}: folder {folder} does not exist")
+    for source in inputs:
+        if source is None:
+            continue
+        try:
+            same = path.exists() and os.path.samefile(path, source)
+        except OSError:
+            same = False
+        if same or path.resolve() == Path(source).resolve():
+            raise CruiseplanError(f"{option} {path}: is an input of this command "
+                                  f"({source}); write the output to a new file")
+    if not os.access(folder, os.W_OK):
+        raise CruiseplanError(f"{option} {path}: folder {folder} is not writable")
+    return path
+
+
+def check_outputs(outputs: dict, *, inputs=()) -> None:
+    """:func:`check_output` on each output, and no two outputs the same file.
+
+    Parameters
+    ----------
+    outputs : dict
+        Option name (``"--output"``, ``"--plot"``) to path, None for one not given.
+    inputs : iterable of str or pathlib.Path, optional
+        The files this run reads.
+
+    Raises
+    ------
+    CruiseplanError
+        As :func:`check_output`, or for two options naming the same file.
+    """
+    seen = {}
+    for option, path in outputs.items():
+        if path is None:
+            continue
+        check_output(path, option, inputs=inputs)
+        key = Path(path).resolve()
+        if key in seen and not is_special(path):
+            raise CruiseplanError(f"{seen[key]} and {option} name the same file {path}")
+        seen[key] = option
+
+
 def write_atomic(path, text: str) -> None:
     """Write ``text`` to ``path`` through a temporary file, so no partial file remains.
 
@@ -358,47 +541,84 @@ def write_atomic(path, text: str) -> None:
     CruiseplanError
         If the destination folder does not exist.
     """
-    write_bytes_atomic(path, text.encode("utf-8"))
+    write_files_atomic({path: text})
+
+
+def _new_file_mode() -> int:
+    umask = os.umask(0)
+    os.umask(umask)
+    return 0o666 & ~umask
 
 
 def write_files_atomic(files: dict) -> None:
-    """Write several files whole or not at all (a CSV and its sidecar).
+    """Write several files whole or not at all (a CSV and its sidecar, a card and its twin).
 
-    Every file is first written to a temporary file beside its destination; only when all
-    are written are they renamed into place. An error before that leaves no file and no
-    temporary file behind.
+    Every regular file is first written to a temporary file beside its destination; only
+    when all are written are they renamed into place. An error before that leaves no new
+    file and no temporary file behind, and every previous file as it was; should a rename
+    fail, the files this run already replaced get their previous content back (and those
+    it created are removed). A special file (a device such as ``/dev/stdout``, a pipe) is
+    not replaced: its content is streamed into it as it is, once the regular files are
+    staged.
 
     Parameters
     ----------
     files : dict
-        Destination (str or pathlib.Path) to text.
+        Destination (str or pathlib.Path) to text (str) or bytes.
 
     Raises
     ------
     CruiseplanError
-        If a destination folder does not exist.
+        If a destination folder does not exist or a destination is a folder.
     """
-    staged = []
+    staged, special, backups, done = [], [], {}, []
     try:
-        for path, text in files.items():
+        for path, data in files.items():
             path = Path(path)
+            data = data.encode("utf-8") if isinstance(data, str) else data
+            if is_special(path):
+                special.append((path, data))
+                continue
+            if path.is_dir():
+                raise CruiseplanError(f"cannot write {path}: it is a folder")
             folder = path.parent if str(path.parent) else Path(".")
             if not folder.is_dir():
                 raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
             fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
             staged.append((tmp, path))
             with os.fdopen(fd, "wb") as fh:
-                umask = os.umask(0)
-                os.umask(umask)
-                os.fchmod(fh.fileno(), 0o666 & ~umask)
-                fh.write(text.encode("utf-8"))
+                # mkstemp makes the file private (0600); give it the usual mode.
+                os.fchmod(fh.fileno(), _new_file_mode())
+                fh.write(data)
+        for path, data in special:
+            with open(path, "wb") as fh:
+                fh.write(data)
         for tmp, path in staged:
+            if path.is_file():
+                # Keep the previous file (a hard link, no copy) until all are in place.
+                backup = tempfile.mktemp(dir=path.parent, prefix=f".{path.name}.",
+                                         suffix=".old")
+                try:
+                    os.link(path, backup)
+                    backups[path] = backup
+                except OSError:
+                    pass
             os.replace(tmp, path)
+            done.append(path)
     except BaseException:
+        for path in done:  # put back what this run replaced; remove what it created
+            if path in backups:
+                os.replace(backups.pop(path), path)
+            else:
+                path.unlink(missing_ok=True)
         for tmp, _ in staged:
             if os.path.exists(tmp):
                 os.unlink(tmp)
         raise
+    finally:
+        for backup in backups.values():
+            if os.path.exists(backup):
+                os.unlink(backup)
 
 
 def write_bytes_atomic(path, data: bytes) -> None:
@@ -407,7 +627,7 @@ def write_bytes_atomic(path, data: bytes) -> None:
     Parameters
     ----------
     path : str or pathlib.Path
-        Destination.
+        Destination (a special file such as ``/dev/stdout`` is written as it is).
     data : bytes
         Content.
 
@@ -416,20 +636,4 @@ def write_bytes_atomic(path, data: bytes) -> None:
     CruiseplanError
         If the destination folder does not exist.
     """
-    path = Path(path)
-    folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
-        raise CruiseplanError(f"cannot write {path}: folder {folder} does not exist")
-    fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
-    try:
-        # mkstemp makes the file private (0600); give it the usual mode for new files.
-        umask = os.umask(0)
-        os.umask(umask)
-        os.fchmod(fd, 0o666 & ~umask)
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
+    write_files_atomic({path: data})

@@ -242,7 +242,7 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
             Column("V/Vs", "", flat(pts.stall_speed_ratio), "{:.2f}"),
         ]
     codes = np.broadcast_to(pts.limits, shape).ravel()
-    cols.append(Column("status", "", [explain(c, short=True) for c in codes], "{}"))
+    cols.append(Column("status", "", status_words(codes), "{}"))
     fm, lm = display("mass", units)
     meta = airframe_lines(airframe) + [
         f"Mass {pts.mass * fm:.1f} {lm}; {store_text(airframe, pts.store, units)}",
@@ -253,6 +253,10 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
         f"Made {date.today().isoformat()} by cruiseplan",
     ]
     used = int(np.bitwise_or.reduce(codes)) if codes.size else 0
+    if not np.all(np.isfinite(np.asarray(cols[2].values, dtype=float))):
+        used_da = True
+    else:
+        used_da = False
     meta[3:3] = [line for line in (pack_line(airframe),) if line]
     notes = ["max: full-throttle (maximum continuous) shaft power at the altitude"]
     notes += pack_notes(airframe)
@@ -266,12 +270,33 @@ def cruise_report(airframe, pts: CruisePoints, *, isa_dev: float, units: str | N
                              if flag & UNFLYABLE and (pack or not flag & PACK_LIMITS))
         notes.append(f"-: not flyable ({codes_out}): no {prop.store_name} flow, specific "
                      "range, endurance or range")
+    if used_da:
+        notes.append("DA -: " + DA_NOTE.removeprefix("ATMOS: "))
     if airframe.hovers and np.any(np.asarray(pts.tas) == 0):
         notes.append("TAS 0: the hover (ground speed 0, range 0; endurance in the hover)")
     quantities = {"mass": (float(pts.mass), "kg"),
                   "store": (float(pts.store), prop.store.unit),
                   "isa_dev": (float(isa_dev), "K"), "reserve": (0.0, prop.store.unit)}
     return Report(title, meta, cols, notes, CAUTIONS, quantities=quantities)
+
+
+def status_words(codes) -> list:
+    """The short status word of each limit code (``"ok"``, ``"POWER+NOSOL"``).
+
+    Parameters
+    ----------
+    codes : array_like of int
+        Limit bit sets, one per row.
+
+    Returns
+    -------
+    list of str
+        :func:`~cruiseplan.limits.explain` of each, worked out once per distinct code.
+    """
+    codes = np.asarray(codes).ravel()
+    unique, inverse = np.unique(codes, return_inverse=True)
+    words = np.array([explain(c, short=True) for c in unique], dtype=object)
+    return words[inverse.ravel()].tolist()
 
 
 def atmosphere_report(air, units: str = "aviation") -> Report:
@@ -310,7 +335,17 @@ def atmosphere_report(air, units: str = "aviation") -> Report:
     ]
     meta = ["ISA (ICAO Doc 7488/3) evaluated by ambiance at pressure altitude; temperature "
             "ISA + deviation, pressure unchanged, density from the gas law"]
-    return Report("Atmosphere", meta, cols, [], CAUTIONS)
+    notes = []
+    outside = ~np.isfinite(np.ravel(air.density_altitude))
+    if np.any(outside):
+        cols.append(Column("status", "", ["ATMOS" if o else "ok" for o in outside], "{}"))
+        notes.append(DA_NOTE)
+    return Report("Atmosphere", meta, cols, notes, CAUTIONS)
+
+
+#: Note of a row whose density altitude the model cannot give.
+DA_NOTE = ("ATMOS: density outside the ISA densities at -5 km and 20 km; no density "
+           "altitude (DA -) for that row")
 
 
 def _spread_text(name, values, factor, unit, fmt="{:.0f}") -> str:
