@@ -3,7 +3,7 @@
 Reports, measured in one run (no timed assertions):
 
 1. **Rate.** A 10-leg mission (the demo tourer, best altitudes and speeds on every leg)
-   swept over ISA deviation x payload, 48 points. Baseline: the same 48 points planned by
+   swept over ISA deviation x payload, 104 points. Baseline: the same 104 points planned by
    a Python loop, each ``plan_mission(apply_overrides(mission, isa_dev=..., payload=...))``
    on the mission read once (what a script does without the sweep). Sides:
 
@@ -83,10 +83,10 @@ def rate(folder: Path):
         [study]
         mission = "{mission_file}"
         record = ["verdict", "used", "time"]
-        chunk = 4
+        chunk = 8
         [axes]
         isa_dev = "-10:25:5 K"
-        payload = "100:250:30 kg"
+        payload = "100:250:12.5 kg"
         """))
     study = read_study(study_file)
     n = study.size
