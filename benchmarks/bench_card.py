@@ -16,13 +16,11 @@ compared. The package is byte-compiled first, as `benchmarks/bench_startup.py` d
 
 from __future__ import annotations
 
-import compileall
-import statistics
-import subprocess
 import sys
 import tempfile
-import time
 from pathlib import Path
+
+from figures import byte_compile_package, command, figure, interleaved
 
 #: Runs of each command (interleaved); the median of each side is reported.
 RUNS = 11
@@ -30,32 +28,19 @@ RUNS = 11
 TARGET = 4.0
 
 
-def wall_time(cmd) -> float:
-    """Wall time of one run of ``cmd`` [s], output captured, failing on a non-zero exit."""
-    t0 = time.perf_counter()
-    subprocess.run(cmd, check=True, capture_output=True)
-    return time.perf_counter() - t0
-
-
 def main():
-    package = Path(__file__).resolve().parent.parent / "cruiseplan"
-    compileall.compile_dir(package, quiet=1)
+    byte_compile_package()
     exe = str(Path(sys.executable).parent / "cruiseplan")
     with tempfile.TemporaryDirectory() as folder:
-        cmds = {"card": [exe, "card", "demo-trainer", "-o", str(Path(folder) / "card.pdf")],
-                "table": [exe, "table", "demo-trainer"]}
-        times = {label: [] for label in cmds}
-        for cmd in cmds.values():
-            wall_time(cmd)  # warm the file system and matplotlib's font cache
-        for _ in range(RUNS):
-            for label, cmd in cmds.items():
-                times[label].append(wall_time(cmd))
-    card, table = (statistics.median(times[k]) for k in ("card", "table"))
-    ratio = card / table
-    flag = "" if ratio <= TARGET else "  MISSES TARGET"
-    print(f"`cruiseplan table demo-trainer` {table * 1e3:.0f} ms, `cruiseplan card "
-          f"demo-trainer` {card * 1e3:.0f} ms (medians of {RUNS}, interleaved): ratio "
-          f"{ratio:.2f} (target <= {TARGET:g}){flag}")
+        sides = {"card": command([exe, "card", "demo-trainer", "-o",
+                                  str(Path(folder) / "card.pdf")]),
+                 "table": command([exe, "table", "demo-trainer"])}
+        # Warm-up: the file system and matplotlib's font cache.
+        med = interleaved(sides, RUNS)
+    print(f"`cruiseplan table demo-trainer` {med['table'] * 1e3:.0f} ms, `cruiseplan card "
+          f"demo-trainer` {med['card'] * 1e3:.0f} ms (medians of {RUNS}, interleaved)")
+    figure("`cruiseplan card demo-trainer` / `cruiseplan table demo-trainer`",
+           med["card"] / med["table"], TARGET)
 
 
 if __name__ == "__main__":

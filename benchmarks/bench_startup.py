@@ -21,14 +21,10 @@ a cost no installed user pays and the baseline does not pay either.
 
 from __future__ import annotations
 
-import compileall
-import statistics
-import subprocess
 import sys
-import time
 from pathlib import Path
 
-from figures import figure
+from figures import byte_compile_package, command, figure, interleaved
 
 #: Runs of each command (interleaved); the median of each side is reported.
 RUNS = 15
@@ -40,31 +36,17 @@ COMMANDS = [
 ]
 
 
-def wall_time(cmd) -> float:
-    """Wall time of one run of ``cmd`` [s], output captured, failing on a non-zero exit."""
-    t0 = time.perf_counter()
-    subprocess.run(cmd, check=True, capture_output=True)
-    return time.perf_counter() - t0
-
-
 def main():
-    package = Path(__file__).resolve().parent.parent / "cruiseplan"
-    compileall.compile_dir(package, quiet=1)
+    byte_compile_package()
     exe = str(Path(sys.executable).parent / "cruiseplan")
-    cmds = {label: [exe, *args] for label, args, _ in COMMANDS}
-    cmds["numpy"] = [sys.executable, "-c", "import numpy"]
-    times = {label: [] for label in cmds}
-    for cmd in cmds.values():
-        wall_time(cmd)  # warm the file system (and any on-disk caches)
-    for _ in range(RUNS):
-        for label, cmd in cmds.items():
-            times[label].append(wall_time(cmd))
-    base = statistics.median(times["numpy"])
+    sides = {label: command([exe, *args]) for label, args, _ in COMMANDS}
+    sides["numpy"] = command([sys.executable, "-c", "import numpy"])
+    med = interleaved(sides, RUNS)
+    base = med["numpy"]
     print(f"`python -c 'import numpy'` {base * 1e3:.0f} ms (median of {RUNS}, interleaved)")
     for label, args, target in COMMANDS:
-        m = statistics.median(times[label])
-        figure(f"`cruiseplan {' '.join(args)}` / `import numpy`", m / base, target,
-               detail=f"{m * 1e3:.0f} ms")
+        figure(f"`cruiseplan {' '.join(args)}` / `import numpy`", med[label] / base, target,
+               detail=f"{med[label] * 1e3:.0f} ms")
 
 
 if __name__ == "__main__":

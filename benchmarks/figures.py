@@ -7,8 +7,11 @@ exits 1 if there are any. No benchmark softens a target or a baseline to pass.
 
 from __future__ import annotations
 
+import compileall
 import statistics
+import subprocess
 import time
+from pathlib import Path
 
 #: Figures that missed their targets in this process: (label, text) pairs.
 MISSES = []
@@ -30,6 +33,24 @@ def interleaved(sides: dict, runs: int, warm: int = 1) -> dict:
             fn()
             times[name].append(time.perf_counter() - t0)
     return {name: statistics.median(t) for name, t in times.items()}
+
+
+def byte_compile_package():
+    """Byte-compile the package, as ``pip install`` does for an installed copy.
+
+    Whole-command timings need it: with PYTHONDONTWRITEBYTECODE set (as on this machine)
+    an editable checkout would compile every module from source at every start, a cost no
+    installed user pays and a numpy baseline in site-packages does not pay either.
+    """
+    compileall.compile_dir(Path(__file__).resolve().parent.parent / "cruiseplan", quiet=1)
+
+
+def command(cmd) -> callable:
+    """A side for :func:`interleaved`: run ``cmd`` as a new process, output captured.
+
+    The run fails (``CalledProcessError``) on a non-zero exit status.
+    """
+    return lambda: subprocess.run(cmd, check=True, capture_output=True)
 
 
 def figure(label: str, value: float, target: float, *, at_most: bool = True,
