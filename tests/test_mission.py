@@ -3,6 +3,7 @@ bookkeeping invariants, malformed mission files and the plan command."""
 
 import json
 import re
+import warnings
 from dataclasses import replace
 
 import numpy as np
@@ -407,3 +408,38 @@ def test_plan_cli_profile_plot(tmp_path, capsys):
     assert main(["plan", "demo-cross-country", "--plot", str(bad)]) == 2
     assert not bad.exists()
     assert "must end in .png or .pdf" in capsys.readouterr().err
+
+
+def test_candidates_without_a_cruise_speed_do_not_warn(tmp_path):
+    # A leg at 65 % power with a best altitude: up high the setting gives no level speed.
+    # Those candidates are never chosen, and their arithmetic must not print numpy's
+    # divide-by-zero warnings at the user.
+    path = tmp_path / "m.toml"
+    path.write_text("""
+[mission]
+airframe = "demo-trainer"
+fuel = "100 %"
+payload = "165 kg"
+[day]
+isa_dev = "10 K"
+[profile]
+departure_elevation = "500 ft"
+arrival_elevation = "500 ft"
+[reserve]
+time = "45 min"
+[[legs]]
+name = "out"
+distance = "40 nm"
+course = 40
+altitude = "4500 ft"
+[[legs]]
+name = "on"
+distance = "30 nm"
+course = 200
+altitude = "best"
+power = "65 %"
+""")
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", RuntimeWarning)
+        plan = plan_mission(read_mission(path))
+    assert plan.go

@@ -908,7 +908,9 @@ def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
         mode, value = speed_mode(mission, leg)
         target = value * fl.prop.rated_power if mode == "power" else None
         v_cr, speed_ok = v_cruise + 0.0 * H, np.ones(H.shape, dtype=bool)
-    v_eas_cruise = eas_from_tas(np.nan_to_num(v_cr), air_H.density)
+    # Candidates without a cruise speed (speed_ok False, never chosen) still run through
+    # the arithmetic below: give them the climb speed, not zero, so nothing divides by 0.
+    v_eas_cruise = np.where(np.isfinite(v_cr), eas_from_tas(v_cr, air_H.density), v_climb)
     trans = _vertical(fl, leg, h_now, H, m, v_climb, v_eas_cruise, prof, store)
     m_cr = trans["mass_end"]
     store_cr = store - trans["used"]  # a pack's state of charge is followed from it
