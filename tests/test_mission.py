@@ -443,3 +443,18 @@ power = "65 %"
         warnings.simplefilter("error", RuntimeWarning)
         plan = plan_mission(read_mission(path))
     assert plan.go
+
+
+def test_a_plan_past_an_empty_tank_keeps_flying_best_range_speeds():
+    # 4 L is taken by the taxi allowance: the plan fails in the first climb and goes on to
+    # say by how much. Its legs still fly best-range speeds (of a nearly empty tank), not
+    # the edge of the speed range that an empty or negative store would give.
+    def speeds(fuel):
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            mission = cp.apply_overrides(load_mission("demo-cross-country"), fuel=fuel)
+            return np.array(plan_mission(mission).leg_speeds)
+
+    dry, light = speeds("4 L"), speeds("10 L")
+    assert np.allclose(dry[:2], light[:2], rtol=0.01)   # the two legs at best speed
+    assert dry[2] == light[2]                           # the leg at a set 100 kt

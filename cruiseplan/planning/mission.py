@@ -760,6 +760,10 @@ def _start_speed(fl: Flight, mission: Mission, leg, h, m, store, air=None):
     head, cross = fl.wind(leg, h)
     if leg.kind != "cruise":
         head, cross = 0.0 * head, 0.0 * cross   # an orbit or hold: no course to make good
+    # Past an empty store a failed plan goes on, to say by how much it falls short; its
+    # speeds are those of a nearly empty store, as a negative one would turn the objective
+    # (range or time per unit of store) upside down.
+    store = np.maximum(store, 1e-9 * fl.prop.store_capacity)
     # A planner needs the speed to 1e-6, not to the last digit. In a turn the best speeds
     # are those of level flight at the mass times the load factor (the same CL).
     v, ok = objective_speed(fl.af, m * n, air, store, value, headwind=head,
