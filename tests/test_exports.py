@@ -262,3 +262,16 @@ def test_csv_and_sidecar_are_written_whole_or_not_at_all(tmp_path, capsys):
                            "90kt", "--format", "csv", "-o", tmp_path / "no" / "b.csv")
     assert status == 2 and out == "" and len(err.strip().splitlines()) == 1
     assert not (tmp_path / "no").exists()
+
+
+def test_hours_minutes_column_equals_the_one_at_a_time_format():
+    import math
+
+    from cruiseplan.report.output import hours_minutes, hours_minutes_list
+    rng = np.random.default_rng(1)
+    # Half minutes round half to even in both; None, NaN and inf are missing.
+    seconds = list(rng.uniform(0.0, 40000.0, 5000)) + [
+        None, float("nan"), float("inf"), 0.0, 29.999, 30.0, 90.0, 150.0, 3570.0, 3630.0]
+    expected = [None if t is None or not math.isfinite(t) else hours_minutes(t)
+                for t in seconds]
+    assert hours_minutes_list(seconds) == expected

@@ -319,6 +319,33 @@ def hours_minutes(seconds) -> str:
     return f"{minutes // 60}:{minutes % 60:02d}"
 
 
+def hours_minutes_list(seconds) -> list:
+    """:func:`hours_minutes` of each duration, column-wise; None where there is no value.
+
+    The durations are rounded to whole minutes first, so a long column (a 1e6-point grid's
+    endurance) has few distinct values to format.
+
+    Parameters
+    ----------
+    seconds : sequence of float or None
+        Durations [s]; None or NaN for a missing value.
+
+    Returns
+    -------
+    list of str or None
+        ``"h:mm"`` each, as :func:`hours_minutes` gives it; None where missing.
+    """
+    arr = np.array([np.nan if t is None else t for t in seconds], dtype=float)
+    with np.errstate(invalid="ignore"):
+        minutes = np.round(arr / 60.0)  # half to even, as Python's round()
+    return _per_distinct(minutes, _minutes_text, None)
+
+
+def _minutes_text(minutes: float) -> str:
+    m = int(minutes)
+    return f"{m // 60}:{m % 60:02d}"
+
+
 #: Columns of words rather than numbers (left-aligned in text tables).
 _TEXT_COLUMNS = {"status", "segment", "leg", "verdict", "reason", "setting", "note"}
 

@@ -6,7 +6,6 @@ limit each point breaches, and the notes spell out each code used.
 
 from __future__ import annotations
 
-import math
 from dataclasses import replace
 from datetime import date
 
@@ -24,7 +23,7 @@ from cruiseplan.planning.levels import leg_variation, magnetic
 from cruiseplan.planning.mission import ground_elevation
 from cruiseplan.planning.performance import UNFLYABLE_FIELDS, CruisePoints
 from cruiseplan.planning.uncertainty import quantiles
-from cruiseplan.report.output import Column, Report, hours_minutes
+from cruiseplan.report.output import Column, Report, hours_minutes, hours_minutes_list
 from cruiseplan.report.pack import (
     mission_pack_line,
     pack_columns,
@@ -162,9 +161,7 @@ def endurance_column(prop, seconds) -> Column:
         empty in CSV, null in JSON). CSV and JSON give it in minutes [min] either way.
     """
     if prop.store.burns_mass:
-        return Column("endurance", "h:mm",
-                      [None if t is None or not math.isfinite(t) else hours_minutes(t)
-                       for t in seconds], "{}",
+        return Column("endurance", "h:mm", hours_minutes_list(seconds), "{}",
                       data=[None if t is None else t / 60.0 for t in seconds],
                       data_unit="min")
     return Column("endurance", "min", [None if t is None else t / 60.0 for t in seconds],
