@@ -301,6 +301,17 @@ def test_ctrl_c_says_how_to_resume(tmp_path):
     ("[study\n", r"study\.toml"),
     ("[study]\nmission = 'demo-field-survey'\n[axes]\npayload = ['0.1 kg']\n",
      r"is a survey, planned in packs"),
+    # Physical ranges, as for the command line and the other files.
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\nwind_direction = [40]\n"
+     "wind_speed = '0:1e308:1e307 kt'\n", r"\[axes\] wind_speed: .* out of range"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\nisa_dev = ['90 K']\n",
+     r"\[axes\] isa_dev: 90 K is out of range \(-60 K to 60 K\)"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\noat = ['80 degC']\n",
+     r"\[axes\] oat: 80 degC is out of range"),
+    ("[study]\nmission = 'demo-cross-country'\n[axes]\npayload = ['-5 kg']\n",
+     r"\[axes\] payload: -5 kg is out of range"),
+    ("[study]\nairframe = 'demo-trainer'\n[axes]\npayload = ['100 kg']\n[best]\n"
+     "altitudes = '0:1e6:1000 m'\n", r"\[best\] altitudes: .* out of range"),
 ])
 def test_bad_study_files_exit_2_and_write_nothing(tmp_path, capsys, text, message):
     import re

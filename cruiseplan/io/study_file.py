@@ -45,12 +45,16 @@ from cruiseplan.model.study import (
     Axis,
     Study,
 )
+from cruiseplan.ranges import check_range
 from cruiseplan.units import parse_quantity, parse_range, temperature_difference
 
 #: Most points a study may have (each is a plan; a store holds a few variables per point).
 MAX_POINTS = 10_000_000
 #: Most values on one axis.
 MAX_AXIS = 100_000
+#: Each axis's physical range (a key of :data:`cruiseplan.ranges.RANGES`).
+AXIS_RANGES = {"isa_dev": "isa_dev", "oat": "oat", "payload": "payload",
+               "wind_speed": "speed", "headwind": "headwind", "wind_direction": "course"}
 #: Records of each study kind when the file names none.
 DEFAULT_RECORDS = {
     "mission": ("verdict", "used", "remaining", "reserve_required", "reserve_margin", "time",
@@ -246,6 +250,12 @@ def read_study(path) -> Study:
         else:
             axes.append(Axis(name, _values(r, name, raw, allowed_axes[name]),
                              allowed_axes[name]))
+    for a in axes:
+        if a.name in AXIS_RANGES:
+            try:
+                check_range(a.values, AXIS_RANGES[a.name], f"[axes] {a.name}")
+            except CruiseplanError as exc:
+                r.fail(f"[axes] {a.name}", str(exc).removeprefix(f"[axes] {a.name}: "))
     names = {a.name for a in axes}
     if {"isa_dev", "oat"} <= names:
         r.fail("[axes] oat", "give isa_dev or oat, not both")
@@ -293,6 +303,10 @@ def read_study(path) -> Study:
         if "altitudes" not in best:
             r.fail("[best] altitudes", "missing; e.g. altitudes = \"0:10000:1000 ft\"")
         altitudes = _values(r, "altitudes", best["altitudes"], "m", default_unit="ft")
+        try:
+            check_range(altitudes, "altitude", "[best] altitudes")
+        except CruiseplanError as exc:
+            r.fail("[best] altitudes", str(exc).removeprefix("[best] altitudes: "))
         objective = r.choice("[best]", best, "objective",
                              {"range": 0, "endurance": 0, "economy": 0}, default="range")
     elif best:
