@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import os
+import re
 import signal
 import subprocess
 import sys
@@ -330,6 +331,11 @@ def test_an_existing_store_is_never_overwritten_and_only_its_own_study_resumes(
     study_file = write(tmp_path, MISSION_STUDY.replace("chunk = 2", "chunk = 16"))
     out = tmp_path / "out.zarr"
     assert main(["sweep", str(study_file), "-o", str(out), "--workers", "1"]) == 0
+    # The summary speaks the airframe's units (aviation for the trainer) and cautions.
+    summary = capsys.readouterr().out
+    assert "wind_speed: 0 kt, 25 kt" in summary and "payload: 264.6 lb, 440.9 lb" in summary
+    assert re.search(r"Least used among GO points: [\d.]+ US gal \([\d.]+ lb\)", summary)
+    assert "CAUTION:" in summary and "flight manual" in summary
     before = sorted(p.name for p in out.rglob("*"))
     assert main(["sweep", str(study_file), "-o", str(out)]) == 2
     assert "exists: --resume completes it" in capsys.readouterr().err

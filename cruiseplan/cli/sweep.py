@@ -8,13 +8,19 @@ from datetime import datetime, timezone
 
 import numpy as np
 
+from cruiseplan.amounts import format_amount
 from cruiseplan.cautions import CAUTIONS
+from cruiseplan.cli.options import default_units
 from cruiseplan.cli.progress import progress_bar
+from cruiseplan.constants import T_ZERO_C
 from cruiseplan.errors import CruiseplanError
+from cruiseplan.io.airframe_file import load_airframe
 from cruiseplan.io.bundled import shown_path
+from cruiseplan.io.mission_file import load_mission
 from cruiseplan.io.study_file import load_study
 from cruiseplan.model.study import BAD_INPUT, GO, NO_GO, NOT_RUN
 from cruiseplan.studies.sweep import run_study
+from cruiseplan.units import display
 
 #: Exit status after Ctrl-C (as the main command's).
 EXIT_INTERRUPTED = 130
@@ -78,11 +84,20 @@ def cmd_sweep(args):
     sys.stdout.write(summary(study, ds, args.output, time.perf_counter() - t0))
 
 
-def _value_text(axis, value) -> str:
+#: Axes shown in the base airframe's display units (the others as they are held).
+_DISPLAY_KIND = {"payload": "mass", "wind_speed": "speed", "headwind": "speed"}
+
+
+def _value_text(axis, value, units: str) -> str:
     if axis.name == "departure":
         return datetime.fromtimestamp(value, timezone.utc).strftime("%Y-%m-%dT%H:%MZ")
+    if axis.name == "oat":
+        return f"{value - T_ZERO_C:.4g} degC"
+    if axis.name in _DISPLAY_KIND:
+        factor, label = display(_DISPLAY_KIND[axis.name], units)
+        return f"{value * factor:.4g} {label}"
     unit = "" if axis.unit in ("1", "amount") else f" {axis.unit}"
-    return f"{value:g}{unit}" if isinstance(value, float) else f"{value}{unit}"
+    return f"{value:.4g}{unit}" if isinstance(value, float) else f"{value}{unit}"
 
 
 def summary(study, ds, output: str, seconds: float) -> str:
@@ -105,13 +120,16 @@ def summary(study, ds, output: str, seconds: float) -> str:
         Axes, points, verdict counts, how to read the store, and the cautions.
     """
     verdict = ds["verdict"].values
+    airframe = (load_airframe(study.base) if study.kind == "airframe"
+                else load_mission(study.base).airframe)
+    units = default_units(airframe)
     lines = [f"Study {study.name}: {study.description}".rstrip(": "),
              f"Base {study.kind}: {shown_path(study.base)}"
              + (f"; forecast {study.forecast}" if study.forecast else ""),
              f"{study.size} points in {len(study.all_blocks())} chunks, "
              f"{seconds:.1f} s; written to {output}", "", "Axes:"]
     for axis in study.axes:
-        vals = ", ".join(_value_text(axis, v) for v in axis.values[:6])
+        vals = ", ".join(_value_text(axis, v, units) for v in axis.values[:6])
         more = f", ... ({len(axis)} values)" if len(axis) > 6 else ""
         lines.append(f"  {axis.dim}: {vals}{more}")
     lines += ["", "Verdicts:"]
@@ -123,10 +141,10 @@ def summary(study, ds, output: str, seconds: float) -> str:
     if "used" in ds and (verdict == GO).any():
         used = np.where(verdict == GO, ds["used"].values, np.inf)
         at = np.unravel_index(int(np.argmin(used)), used.shape)
-        where = ", ".join(f"{a.dim} {_value_text(a, a.values[i])}"
+        where = ", ".join(f"{a.dim} {_value_text(a, a.values[i], units)}"
                           for a, i in zip(study.axes, at))
-        lines += ["", f"Least used among GO points: {used[at]:.4g} "
-                      f"{ds['used'].attrs['units']} at {where}"]
+        amount = format_amount(float(used[at]), airframe.propulsion, units)
+        lines += ["", f"Least used among GO points: {amount} at {where}"]
     lines += ["", f"Read it with xarray.open_zarr({output!r}); SI units in each "
                   "variable's attributes.", "", "CAUTION:"]
     lines += [f"  * {c}" for c in CAUTIONS]
