@@ -205,8 +205,47 @@ def quantiles(values) -> tuple:
     return tuple(float(q) for q in np.quantile(np.asarray(values, dtype=float), QUANTILES))
 
 
+class _Samples:
+    """Labelled arrays of a Monte Carlo's samples, shared by its result classes."""
+
+    def to_xarray(self, store_name: str | None = None):
+        """The samples as an xarray Dataset with dim ``sample`` (``frames`` extra).
+
+        Parameters
+        ----------
+        store_name : str, optional
+            ``"fuel"`` (amounts in kg) or ``"energy"`` (J): sets the ``units`` of store
+            amounts, which carry none without it. Times [s] and distances [m] always do.
+
+        Returns
+        -------
+        xarray.Dataset
+            One variable per sampled field (SI); attribute ``seed``.
+        """
+        from cruiseplan.frames import samples_to_xarray
+
+        return samples_to_xarray(self, store_name)
+
+    def to_dataframe(self, store_name: str | None = None):
+        """The samples as a pandas DataFrame, one row per sample (``frames`` extra).
+
+        Parameters
+        ----------
+        store_name : str, optional
+            As for :meth:`to_xarray`.
+
+        Returns
+        -------
+        pandas.DataFrame
+            One column per sampled field (SI); units in ``df.attrs["units"]``.
+        """
+        from cruiseplan.frames import samples_to_dataframe
+
+        return samples_to_dataframe(self, store_name)
+
+
 @dataclass(frozen=True)
-class PlanUncertainty:
+class PlanUncertainty(_Samples):
     """Distribution of a re-flown plan over ``n`` samples (SI arrays, one value each).
 
     Attributes
@@ -271,41 +310,6 @@ class PlanUncertainty:
         """
         return quantity_of(self, name, PLAN_UNCERTAINTY_UNITS,
                            store_unit=_store_unit(store_name))
-
-    def to_xarray(self, store_name: str | None = None):
-        """The samples as an xarray Dataset with dim ``sample`` (``frames`` extra).
-
-        Parameters
-        ----------
-        store_name : str, optional
-            ``"fuel"`` (amounts in kg) or ``"energy"`` (J): sets the ``units`` of store
-            amounts, which carry none without it. Times [s] and distances [m] always do.
-
-        Returns
-        -------
-        xarray.Dataset
-            One variable per sampled field (SI); attribute ``seed``.
-        """
-        from cruiseplan.frames import samples_to_xarray
-
-        return samples_to_xarray(self, store_name)
-
-    def to_dataframe(self, store_name: str | None = None):
-        """The samples as a pandas DataFrame, one row per sample (``frames`` extra).
-
-        Parameters
-        ----------
-        store_name : str, optional
-            As for :meth:`to_xarray`.
-
-        Returns
-        -------
-        pandas.DataFrame
-            One column per sampled field (SI); units in ``df.attrs["units"]``.
-        """
-        from cruiseplan.frames import samples_to_dataframe
-
-        return samples_to_dataframe(self, store_name)
 
 
 def plan_uncertainty(plan, n: int = 10000, seed: int = 0, chunk: int | None = CHUNK,
@@ -408,7 +412,7 @@ def _refly_plan(plan, factors, wind_error, n):
 
 
 @dataclass(frozen=True)
-class CruiseUncertainty:
+class CruiseUncertainty(_Samples):
     """Range [m] and endurance [s] over samples, cruising at one altitude and TAS."""
 
     range_ground: np.ndarray
@@ -440,41 +444,6 @@ class CruiseUncertainty:
             For a name without a unit, listing the known ones.
         """
         return quantity_of(self, name, CRUISE_UNCERTAINTY_UNITS)
-
-    def to_xarray(self, store_name: str | None = None):
-        """The samples as an xarray Dataset with dim ``sample`` (``frames`` extra).
-
-        Parameters
-        ----------
-        store_name : str, optional
-            ``"fuel"`` (amounts in kg) or ``"energy"`` (J): sets the ``units`` of store
-            amounts, which carry none without it. Times [s] and distances [m] always do.
-
-        Returns
-        -------
-        xarray.Dataset
-            One variable per sampled field (SI); attribute ``seed``.
-        """
-        from cruiseplan.frames import samples_to_xarray
-
-        return samples_to_xarray(self, store_name)
-
-    def to_dataframe(self, store_name: str | None = None):
-        """The samples as a pandas DataFrame, one row per sample (``frames`` extra).
-
-        Parameters
-        ----------
-        store_name : str, optional
-            As for :meth:`to_xarray`.
-
-        Returns
-        -------
-        pandas.DataFrame
-            One column per sampled field (SI); units in ``df.attrs["units"]``.
-        """
-        from cruiseplan.frames import samples_to_dataframe
-
-        return samples_to_dataframe(self, store_name)
 
 
 def cruise_uncertainty(airframe, mass, store, air, tas, ground_speed, n=10000, seed=0,
