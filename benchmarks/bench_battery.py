@@ -14,33 +14,15 @@ No timed assertion: the ratios are printed.
 
 from __future__ import annotations
 
-import statistics
-import time
 from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
-from figures import figure
+from figures import figure, interleaved
 
 import cruiseplan as cp
 from cruiseplan.io.mission_file import read_mission
 from cruiseplan.planning.mission import plan_mission
-
-
-def _timed(fn):
-    t0 = time.perf_counter()
-    fn()
-    return time.perf_counter() - t0
-
-
-def interleaved(a, b, repeat=9):
-    """Median times of ``a`` and ``b`` [s], run one after the other ``repeat`` times."""
-    a(), b()  # warm up both
-    ta, tb = [], []
-    for _ in range(repeat):
-        ta.append(_timed(a))
-        tb.append(_timed(b))
-    return statistics.median(ta), statistics.median(tb)
 
 
 def todays_model(af):
@@ -55,8 +37,9 @@ def main():
     today = todays_model(circuit)
     h = np.linspace(0.0, 1000.0, 300)
     v = np.linspace(14.0, 40.0, 300)
-    t_today, t_circuit = interleaved(lambda: cp.cruise_grid(today, h, v),
-                                     lambda: cp.cruise_grid(circuit, h, v))
+    med = interleaved({"today": lambda: cp.cruise_grid(today, h, v),
+                       "circuit": lambda: cp.cruise_grid(circuit, h, v)}, runs=9)
+    t_today, t_circuit = med["today"], med["circuit"]
     n = h.size * v.size
     figure("cruise grid 300x300, equivalent circuit / today's energy model",
            t_circuit / t_today, 2.0, detail=f"{t_today / n * 1e9:.0f} ns and "
@@ -69,8 +52,9 @@ def main():
                                  'airframe = "demo-survey-drone-6s"'), encoding="utf-8")
     mission = read_mission(path)
     plain = replace(mission, airframe=todays_model(mission.airframe))
-    t_plain, t_pack = interleaved(lambda: plan_mission(plain), lambda: plan_mission(mission),
-                                  repeat=5)
+    med = interleaved({"plain": lambda: plan_mission(plain),
+                       "pack": lambda: plan_mission(mission)}, runs=5)
+    t_plain, t_pack = med["plain"], med["pack"]
     print(f"plan of demo-survey-run on the 6-cell pack: today's energy model "
           f"{t_plain * 1e3:.0f} ms, equivalent circuit {t_pack * 1e3:.0f} ms, ratio "
           f"{t_pack / t_plain:.2f}")

@@ -11,30 +11,11 @@ assertion: the ratio is printed.
 
 from __future__ import annotations
 
-import statistics
-import time
-
 import numpy as np
 import xarray  # noqa: F401 - imported before timing, as in a notebook
-from figures import figure
+from figures import figure, interleaved
 
 import cruiseplan as cp
-
-
-def _timed(fn):
-    t0 = time.perf_counter()
-    fn()
-    return time.perf_counter() - t0
-
-
-def interleaved(a, b, repeat=9):
-    """Median times of ``a`` and ``b`` [s], run one after the other ``repeat`` times."""
-    a(), b()  # warm up both
-    ta, tb = [], []
-    for _ in range(repeat):
-        ta.append(_timed(a))
-        tb.append(_timed(b))
-    return statistics.median(ta), statistics.median(tb)
 
 
 def main():
@@ -46,7 +27,8 @@ def main():
     # Same figures first: the Dataset holds the grid.
     assert ds.sizes == {"altitude": 1000, "airspeed": 1000}
     np.testing.assert_array_equal(ds["range_ground"].values, grid.range_ground)
-    t_grid, t_xr = interleaved(lambda: cp.cruise_grid(af, h, v), grid.to_xarray)
+    med = interleaved({"grid": lambda: cp.cruise_grid(af, h, v), "xr": grid.to_xarray}, runs=9)
+    t_grid, t_xr = med["grid"], med["xr"]
     figure("to_xarray() / cruise_grid, 1000x1000", t_xr / t_grid, 0.2, fmt=".3f",
            detail=f"to_xarray() {t_xr * 1e3:.1f} ms, cruise_grid {t_grid * 1e3:.1f} ms")
 
