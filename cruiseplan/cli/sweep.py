@@ -14,12 +14,10 @@ from cruiseplan.cli.options import default_units
 from cruiseplan.cli.progress import progress_bar
 from cruiseplan.constants import T_ZERO_C
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.io.airframe_file import load_airframe
 from cruiseplan.io.bundled import shown_path
-from cruiseplan.io.mission_file import load_mission
 from cruiseplan.io.study_file import load_study
 from cruiseplan.model.study import BAD_INPUT, GO, NO_GO, NOT_RUN
-from cruiseplan.studies.sweep import run_study
+from cruiseplan.studies.sweep import base_airframe, run_study
 from cruiseplan.units import display
 
 #: Exit status after Ctrl-C (as the main command's).
@@ -120,8 +118,7 @@ def summary(study, ds, output: str, seconds: float) -> str:
         Axes, points, verdict counts, how to read the store, and the cautions.
     """
     verdict = ds["verdict"].values
-    airframe = (load_airframe(study.base) if study.kind == "airframe"
-                else load_mission(study.base).airframe)
+    airframe = base_airframe(study)
     units = default_units(airframe)
     lines = [f"Study {study.name}: {study.description}".rstrip(": "),
              f"Base {study.kind}: {shown_path(study.base)}"

@@ -315,8 +315,7 @@ def hours_minutes(seconds) -> str:
     """
     if seconds is None or not math.isfinite(seconds):
         return "-"
-    minutes = int(round(seconds / 60.0))
-    return f"{minutes // 60}:{minutes % 60:02d}"
+    return _minutes_text(round(seconds / 60.0))
 
 
 def hours_minutes_list(seconds) -> list:

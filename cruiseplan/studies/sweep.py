@@ -132,6 +132,22 @@ def plan_point(study: Study, values: dict):
                               None if departure is None else float(departure))
 
 
+def base_airframe(study: Study):
+    """The study's airframe as its base file gives it (no axis applied).
+
+    Parameters
+    ----------
+    study : Study
+        The study.
+
+    Returns
+    -------
+    Airframe
+        The airframe file's (airframe study) or the mission's airframe.
+    """
+    return _base(study.kind, study.base, ())[0]
+
+
 def _fuel_text(study: Study, value):
     axis = next(a for a in study.axes if a.name == "fuel")
     return f"{value!r} %" if axis.unit == "%" else value
@@ -371,8 +387,9 @@ def run_block(study: Study, index: tuple, store: str | None = None):
 def _coords(study: Study) -> dict:
     coords = {}
     for axis in study.axes:
+        field = axis.name.removeprefix(AIRFRAME_FIELD)
         attrs = {"units": axis.unit if axis.unit != "amount" else "",
-                 "long_name": _LONG_NAMES.get(axis.name, f"airframe field {axis.name[9:]}")}
+                 "long_name": _LONG_NAMES.get(axis.name, f"airframe field {field}")}
         values = np.asarray(axis.values)
         if axis.name == "departure":
             values = (values * 1e9).astype("datetime64[ns]")
