@@ -46,7 +46,7 @@ _PUBLIC = {
     "cruiseplan.physics.forecast": ("GriddedWeather",),
     "cruiseplan.physics.winds": ("WindProfile",),
     "cruiseplan.planning.forecast": ("plan_with_forecast",),
-    "cruiseplan.planning.mission": ("Plan", "Segment", "plan_mission"),
+    "cruiseplan.planning.mission": ("Plan", "Segment", "plan_mission", "plan_missions"),
     "cruiseplan.planning.nogo": ("Remedies", "what_would_make_it_go"),
     "cruiseplan.planning.optimise": (
         "BestCruise", "Climb", "best_angle_climb", "best_cruise", "best_rate_climb",

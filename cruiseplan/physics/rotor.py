@@ -146,6 +146,7 @@ def glauert_induced_velocity(v_hover, v_parallel, v_normal, iterations=30):
                  dtype=float)
     # Newton steps in place: on large grids the time goes into allocating temporaries.
     u, s2, s, f, g = (np.empty(shape) for _ in range(5))
+    active = np.ones(shape, dtype=bool)
     for k in range(iterations):
         np.add(vn, v, out=u)
         np.multiply(u, u, out=s2)
@@ -158,10 +159,15 @@ def glauert_induced_velocity(v_hover, v_parallel, v_normal, iterations=30):
         np.subtract(v, f, out=f)             # f(v) = v - v_h^2 / s
         f /= g                               # the Newton step
         np.subtract(v, f, out=g)
-        np.maximum(g, 0.5 * v, out=v)
+        np.maximum(g, 0.5 * v, out=g)
+        # An element stops once its own step is at rounding, so that its value does not
+        # depend on the other elements solved with it.
+        np.copyto(v, g, where=active)
         # From that start four steps reach rounding even at a 35 deg tilt; check from then.
-        if k >= 3 and np.max(np.abs(f) / np.maximum(v, 1e-9)) <= 1e-12:
-            break
+        if k >= 3:
+            active &= np.abs(f) / np.maximum(v, 1e-9) > 1e-12
+            if not active.any():
+                break
     return v
 
 

@@ -305,6 +305,32 @@ class Flight:
         # altitudes of most legs are the same, and so are many of the climbs between them.
         self._air = {}
 
+    @classmethod
+    def together(cls, missions, loads, headwind_offset=0.0):
+        """The flight model of missions that differ only in the day and the loading.
+
+        The ISA deviation [K] and the zero-fuel mass [kg] are arrays of shape (missions,
+        1): every array of a plan then has the missions along its first axis.
+
+        Parameters
+        ----------
+        missions : list of Mission
+            Missions sharing all but :data:`TOGETHER_FIELDS`.
+        loads : list of Loading
+            Each mission's loading (mass [kg], store [kg or J]).
+        headwind_offset : float, optional
+            Headwind added on every leg [m/s].
+
+        Returns
+        -------
+        Flight
+        """
+        fl = cls(missions[0], headwind_offset=headwind_offset)
+        fl.dev = np.array([x.isa_dev for x in missions], dtype=float)[:, None]
+        fl.zero_fuel_mass = np.array([load.mass - load.store if fl.burns_mass else load.mass
+                                      for load in loads])[:, None]
+        return fl
+
     def air(self, h):
         """Air at pressure altitudes ``h`` [m] on the day.
 
@@ -518,6 +544,10 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     h0, h1 = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float))
     shape = np.broadcast_shapes(h0.shape, np.shape(m0), np.shape(v_descent),
                                 fl.sample_shape)
+    # The steps go on a new first axis: the altitudes take every axis of the result (the
+    # day's deviation may vary along the first, over missions planned together).
+    lead = (1,) * (len(shape) - h0.ndim)
+    h0, h1 = h0.reshape(lead + h0.shape), h1.reshape(lead + h1.shape)
     m = np.broadcast_to(np.asarray(m0, float), shape).copy()
     dh = (h1 - h0) / CLIMB_STEPS
     zero = np.zeros(shape)
@@ -845,15 +875,22 @@ def climb_speed(mission: Mission) -> float:
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, sec. 5.10 (climb).
     """
-    if mission.profile.climb_speed is not None:
-        return mission.profile.climb_speed
+    load = mission.airframe.loading(mass=mission.mass, store=mission.store,
+                                    payload=mission.payload)
+    return float(_climb_speeds([mission], [load])[0])
 
-    af = mission.airframe
-    load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
-    air = air_state(mission.profile.departure_elevation, mission.isa_dev)
+
+def _climb_speeds(missions, loads):
+    """:func:`climb_speed` of missions differing only in the day and loading, at once [m/s]."""
+    mission = missions[0]
+    if mission.profile.climb_speed is not None:
+        return np.full(len(missions), mission.profile.climb_speed)
+    dev = np.array([x.isa_dev for x in missions], dtype=float)
+    air = air_state(np.full(dev.shape, mission.profile.departure_elevation), dev)
+    mass = np.array([load.mass for load in loads])
     # Never slower than the stall margin; held as EAS through the climb.
-    _, v = max_climb_rate(af, load.mass, air, stall_margin=mission.stall_margin)
-    return float(eas_from_tas(v, air.density))
+    _, v = max_climb_rate(mission.airframe, mass, air, stall_margin=mission.stall_margin)
+    return eas_from_tas(v, air.density)
 
 
 def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
@@ -978,17 +1015,21 @@ def _caps(mission, leg):
 
 
 def _choose(options, lo, top):
-    """Index of the candidate using the least store (ties: the quicker), or -1."""
+    """Each mission's candidate using the least store (ties: the quicker), or -1.
+
+    ``options`` holds arrays over (missions, candidates); returns an index per mission.
+    """
     H = options["H"]
     ok = (options["fits"] & options["trans"]["ok"] & options["speed_ok"]
           & options["cruise"]["power_ok"] & options["cruise"]["wind_ok"]
           & _pack_ok(options) & (H >= lo - 1e-6) & (H <= top + 1e-6))
-    if not np.any(ok):
-        return -1
+    ok = np.broadcast_to(ok, np.shape(options["total"]))
     cost = np.where(ok, options["total"], np.inf)
-    best = np.min(cost)
-    near = np.flatnonzero(cost <= best * (1 + 1e-9) + 1e-12)
-    return int(near[np.argmin(options["time"][near])])
+    best = np.min(cost, axis=-1, keepdims=True)
+    near = cost <= best * (1 + 1e-9) + 1e-12
+    # The first of the quickest among the near-cheapest (argmin takes the first).
+    pick = np.argmin(np.where(near, options["time"], np.inf), axis=-1)
+    return np.where(np.any(ok, axis=-1), pick, -1)
 
 
 def _pack_ok(options):
@@ -1020,12 +1061,15 @@ def _pick(d, i):
     return {k: (v[i] if np.ndim(v) else v) for k, v in d.items()}
 
 
-def _chart_text(fl: Flight, fraction: float, h: float) -> str:
-    """`` (2400 rpm, 22.1 inHg)``: the engine's setting for a power, when it has a chart."""
+def _chart_text(fl: Flight, fraction: float, h: float, isa_dev: float) -> str:
+    """`` (2400 rpm, 22.1 inHg)``: the engine's setting for a power, when it has a chart.
+
+    ``h`` is the pressure altitude [m], ``isa_dev`` the day's ISA deviation [K].
+    """
     chart = getattr(fl.prop, "power_chart", None)
     if chart is None:
         return ""
-    air = fl.air(h)
+    air = air_state(h, isa_dev)
     rpm, mp = chart.setting(fraction, air.pressure, air.temperature,
                             air.temperature - air.isa_dev)
     if not np.isfinite(rpm):
@@ -1054,111 +1098,224 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
     Plan
         A NO-GO is a result with its reasons, not an error.
 
+    See Also
+    --------
+    plan_missions : Many missions at once; each plan is the one this function makes.
+
     References
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.10-5.14.
     """
+    return plan_missions([mission], headwind_offset=headwind_offset)[0]
+
+
+#: Mission fields in which missions planned in one pass may differ: the day's ISA
+#: deviation and the loading. Every other field must be the same object (or value).
+TOGETHER_FIELDS = frozenset({"isa_dev", "mass", "store", "payload", "overrides"})
+
+
+def _together_key(mission: Mission) -> tuple:
+    return tuple(value if isinstance(value, (bool, int, float, str, type(None))) else id(value)
+                 for name in Mission.__dataclass_fields__ if name not in TOGETHER_FIELDS
+                 for value in (getattr(mission, name),))
+
+
+def plan_missions(missions, *, headwind_offset: float = 0.0) -> list:
+    """Plan many missions; those that differ only in the day and the loading at once.
+
+    Missions that share everything but their ISA deviation, take-off mass, store and
+    payload (:data:`TOGETHER_FIELDS`; e.g. what :func:`~cruiseplan.io.mission_file.
+    apply_overrides` makes of one mission with ``isa_dev``, ``fuel`` or ``payload``) are
+    flown in one pass, their candidate altitudes as arrays over the missions; the others
+    one group at a time. Every array operation acts on each mission's elements alone and
+    every search stops each element on its own, so each plan is, to the last bit, the one
+    :func:`plan_mission` makes of that mission alone.
+
+    Parameters
+    ----------
+    missions : iterable of Mission
+        The missions.
+    headwind_offset : float, optional
+        A headwind component added on every leg of every mission [m/s].
+
+    Returns
+    -------
+    list of Plan
+        The plans, in the order of ``missions``.
+    """
+    missions = list(missions)
+    groups = {}
+    for i, mission in enumerate(missions):
+        groups.setdefault(_together_key(mission), []).append(i)
+    plans = [None] * len(missions)
+    for index in groups.values():
+        group = _plan_together([missions[i] for i in index], headwind_offset)
+        for i, plan in zip(index, group):
+            plans[i] = plan
+    return plans
+
+
+def _row(options: dict, p: int, shape: tuple) -> dict:
+    """Mission ``p``'s candidates of a leg's options (arrays over the candidates)."""
+    return {k: (_row(v, p, shape) if isinstance(v, dict) else np.broadcast_to(v, shape)[p])
+            for k, v in options.items()}
+
+
+def _take(options: dict, index, shape: tuple) -> dict:
+    """The candidate ``index[p]`` of each mission ``p`` (arrays over the missions)."""
+    rows = np.arange(shape[0])
+    return {k: (_take(v, index, shape) if isinstance(v, dict)
+                else np.broadcast_to(v, shape)[rows, index]) for k, v in options.items()}
+
+
+def _at(options: dict, p: int) -> dict:
+    """Mission ``p``'s picked option (scalars) of :func:`_take`'s arrays."""
+    return {k: (_at(v, p) if isinstance(v, dict) else v[p]) for k, v in options.items()}
+
+
+def _plan_together(missions: list, headwind_offset: float) -> list:
+    """Plans of missions that differ only in the day and the loading, flown in one pass.
+
+    The state along the route (altitude, mass, store) is an array over the missions; a
+    leg's candidate altitudes are a second axis; each mission picks its own candidate.
+    """
+    mission = missions[0]
     if not mission.legs:
         raise CruiseplanError(f"mission {mission.name!r} has no legs"
                               + (": it is a survey, planned in packs by "
                                  "cruiseplan.planning.survey.plan_survey"
                                  if getattr(mission, "survey", None) is not None else ""))
     af = mission.airframe
-    fl = Flight(mission, headwind_offset=headwind_offset)
+    n_points = len(missions)
+    loads = [af.loading(mass=x.mass, store=x.store, payload=x.payload) for x in missions]
+    fl = Flight.together(missions, loads, headwind_offset)
     prof = mission.profile
-    reasons = []
-    load = af.loading(mass=mission.mass, store=mission.store, payload=mission.payload)
-    if load.mass > af.max_takeoff_mass * (1 + 1e-9):
-        reasons.append(f"take-off mass {load.mass:.1f} kg exceeds the maximum "
-                       f"{af.max_takeoff_mass:.1f} kg")
-    initial = load.store
-    m, store = load.mass, load.store
-    segments = []
-    allowance = min(mission.allowance, store)
-    store -= allowance
-    if fl.burns_mass:
-        m -= allowance
-    segments.append(Segment("departure", "start, taxi, take-off", prof.departure_elevation,
-                            prof.departure_elevation, 0.0, 0.0, 0.0, 0.0, 0.0, allowance,
-                            store, m, 0.0))
-    h = prof.departure_elevation
-    v_climb = climb_speed(mission)
+    reasons = [[] for _ in missions]
+    for r, load in zip(reasons, loads):
+        if load.mass > af.max_takeoff_mass * (1 + 1e-9):
+            r.append(f"take-off mass {load.mass:.1f} kg exceeds the maximum "
+                     f"{af.max_takeoff_mass:.1f} kg")
+    initial = np.array([load.store for load in loads])
+    mass0 = np.array([load.mass for load in loads])
+    allowance = np.minimum(mission.allowance, initial)
+    store = initial - allowance
+    m = mass0 - allowance if fl.burns_mass else mass0.copy()
+    segments = [[Segment("departure", "start, taxi, take-off", prof.departure_elevation,
+                         prof.departure_elevation, 0.0, 0.0, 0.0, 0.0, 0.0, float(allowance[p]),
+                         float(store[p]), float(m[p]), 0.0)] for p in range(n_points)]
+    h = np.full(n_points, prof.departure_elevation)
+    v_climb = _climb_speeds(missions, loads)
     leg_altitudes, leg_speeds = [], []
-    failed_at = None    # index of the first segment of a leg that cannot be flown
+    failed_at = [None] * n_points   # index of the first segment of a leg that cannot be flown
     for n, leg in enumerate(mission.legs):
-        n_reasons = len(reasons)
+        n_reasons = [len(r) for r in reasons]
         last = n == len(mission.legs) - 1
         lo, top, why = _caps(mission, leg)
+        fixed = leg.altitude is not None
         if leg.kind != "cruise" and leg.altitude is None:
             # A hover or loiter without an altitude is flown where the aircraft is, within
             # the leg's limits.
-            leg = replace(leg, altitude=float(min(max(h, lo), top)))
-        if mission.levels and leg.kind == "cruise":
+            cands, fixed = np.minimum(np.maximum(h, lo), top)[:, None], True
+        elif mission.levels and leg.kind == "cruise":
             # A cruising-level rule: its levels for the leg's magnetic course.
             cands, off_level = leg_candidates(mission, leg, lo, top)
-            reasons.extend(off_level)
+            for r in reasons:
+                r.extend(off_level)
         elif leg.altitude is None:
             cands = np.arange(lo, top + 1e-6, prof.altitude_step)
-            if lo <= h <= top:
-                cands = np.unique(np.append(cands, h))
             if cands.size == 0:
                 cands = np.array([lo])
+            else:
+                # Staying at the altitude the aircraft is at is a candidate too (a last
+                # column; where it is already a candidate or outside the limits, the
+                # column repeats the first candidate, which then wins any tie).
+                level = (lo <= h) & (h <= top) & ~np.isin(h, cands)
+                if np.any(level):
+                    cands = np.column_stack([np.broadcast_to(cands, (n_points, cands.size)),
+                                             np.where(level, h, cands[0])])
         else:
             cands = np.array([leg.altitude])
-        opts = leg_options(fl, mission, leg, h, m, store, v_climb, last, cands)
-        if leg.altitude is None:
-            i = _choose(opts, lo, top)
-            if i < 0:
-                reasons.append(f"leg {leg.name!r}: no altitude between {lo:.0f} and {top:.0f} m "
-                               f"({why}) can be flown: " + _why_not(opts, leg, lo, top))
-                i = int(np.argmin(np.where(opts["fits"], opts["total"], np.inf)))
+        opts = leg_options(fl, mission, leg, h[:, None], m[:, None], store[:, None],
+                           v_climb[:, None], last, cands)
+        shape = np.shape(opts["total"])
+        if fixed:
+            pick = np.zeros(n_points, dtype=int)
         else:
-            i = 0
-            reasons.extend(_leg_reasons(opts, leg, mission, lo, top, why))
-        H = float(opts["H"][i])
-        o = {k: (_pick(v, i) if isinstance(v, dict) else v[i]) for k, v in opts.items()}
+            pick = _choose(opts, lo, top)
+            for p in np.flatnonzero(pick < 0):
+                reasons[p].append(f"leg {leg.name!r}: no altitude between {lo:.0f} and "
+                                  f"{top:.0f} m ({why}) can be flown: "
+                                  + _why_not(_row(opts, p, shape), leg, lo, top))
+            fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
+            pick = np.where(pick < 0, fallback, pick)
+        o = _take(opts, pick, shape)
+        if fixed:
+            for p in range(n_points):
+                reasons[p].extend(_leg_reasons(_at(o, p), leg, mission, lo, top, why))
+        H = o["H"]
         leg_altitudes.append(H)
-        leg_speeds.append(float(o["v_cruise"]))
-        first_of_leg = len(segments)
-        for kind, seg in (("climb" if H > h else "descent", o["trans"]),
-                          (leg.kind, o["cruise"]),
-                          ("descent to arrival", o["final"])):
-            if seg["time"] <= 0:
-                continue
-            used = float(seg["used"])
-            store -= used
-            m = float(seg["mass_end"])
-            h_start = H if kind in ("cruise", "hover", "loiter", "descent to arrival") else h
-            h_end = prof.arrival_elevation if kind == "descent to arrival" else H
-            note = ""
-            if kind == "climb" and not seg["ok"]:
-                note = f"climb rate below {MIN_CLIMB_RATE / FT_PER_MIN:.0f} ft/min " \
-                       f"from {seg['fail_at']:.0f} m"
-            elif kind == "loiter" and leg.bank > 0:
-                note = f"orbit at {leg.bank:.0f} deg bank"
-            elif kind == "hover" and seg["tas"] > 0:
-                note = f"holding position in a {float(seg['tas']):.1f} m/s wind"
-            elif kind in ("cruise", "loiter") and o["mode"] == "power":
-                note = f"{float(seg['power']) * 100:.0f} % power set" + _chart_text(
-                    fl, float(seg["power"]), H)
-            reasons.extend(_pack_reasons(fl, leg, kind, seg))
-            segments.append(Segment(leg.name, kind, h_start, h_end, float(seg["tas"]),
-                                    float(seg["gs"]), float(seg["heading"]),
-                                    float(seg["time"]), float(seg["distance"]), used, store, m,
-                                    float(seg["power"]), note,
-                                    pack_voltage=float(seg["pack_voltage"]),
-                                    pack_current=float(seg["pack_current"])))
+        leg_speeds.append(o["v_cruise"])
+        first_of_leg = [len(s) for s in segments]
+        for key, kind in (("trans", None), ("cruise", leg.kind),
+                          ("final", "descent to arrival")):
+            seg = o[key]
+            flown = seg["time"] > 0
+            store = np.where(flown, store - seg["used"], store)
+            m = np.where(flown, seg["mass_end"], m)
+            for p in np.flatnonzero(flown):
+                s = _at(seg, p)
+                k = kind or ("climb" if H[p] > h[p] else "descent")
+                reasons[p].extend(_pack_reasons(fl, leg, k, s))
+                segments[p].append(_segment(fl, leg, k, s, o["mode"][p], float(H[p]),
+                                            float(h[p]), prof.arrival_elevation,
+                                            float(store[p]), float(m[p]), missions[p].isa_dev))
         # A leg that cannot be flown stops the plan there; a broken altitude limit makes
         # it NO-GO but the flight itself could go on.
-        if failed_at is None and any(not r.startswith(_LIMIT_REASONS)
-                                     for r in reasons[n_reasons:]):
-            failed_at = first_of_leg
-        h = H if not last else prof.arrival_elevation
-    reserve = mission_reserve(fl, mission, m, leg_altitudes,
-                              mission.cruise_power or cruise_power(segments),
-                              "mission" if mission.cruise_power else "plan")
+        for p in range(n_points):
+            if failed_at[p] is None and any(not r.startswith(_LIMIT_REASONS)
+                                            for r in reasons[p][n_reasons[p]:]):
+                failed_at[p] = first_of_leg[p]
+        h = H if not last else np.full(n_points, prof.arrival_elevation)
+    alternate = _alternate_used(fl, mission, m[:, None], leg_altitudes[-1][:, None])
+    alternate = np.broadcast_to(np.ravel(alternate), (n_points,))
+    plans = []
+    for p, x in enumerate(missions):
+        power = x.cruise_power or cruise_power(segments[p])
+        reserve = reserve_required(af, x.reserve, mass=float(m[p]), cruise_power=power,
+                                   power_source="mission" if x.cruise_power else "plan",
+                                   alternate_used=float(alternate[p]))
+        segs = _verdict(fl, segments[p], reasons[p], failed_at[p], float(store[p]), reserve)
+        plans.append(Plan(x, tuple(segs), float(initial[p]), reserve, tuple(reasons[p]),
+                          tuple(float(a[p]) for a in leg_altitudes), float(mass0[p]),
+                          tuple(float(v[p]) for v in leg_speeds), float(v_climb[p])))
+    return plans
+
+
+def _segment(fl, leg, kind, seg, mode, H, h, arrival, store, m, isa_dev) -> Segment:
+    """A flown segment of a leg (``seg``: the picked option's figures, scalars)."""
+    h_start = H if kind in ("cruise", "hover", "loiter", "descent to arrival") else h
+    h_end = arrival if kind == "descent to arrival" else H
+    note = ""
+    if kind == "climb" and not seg["ok"]:
+        note = f"climb rate below {MIN_CLIMB_RATE / FT_PER_MIN:.0f} ft/min " \
+               f"from {seg['fail_at']:.0f} m"
+    elif kind == "loiter" and leg.bank > 0:
+        note = f"orbit at {leg.bank:.0f} deg bank"
+    elif kind == "hover" and seg["tas"] > 0:
+        note = f"holding position in a {float(seg['tas']):.1f} m/s wind"
+    elif kind in ("cruise", "loiter") and mode == "power":
+        note = f"{float(seg['power']) * 100:.0f} % power set" + _chart_text(
+            fl, float(seg["power"]), H, isa_dev)
+    return Segment(leg.name, kind, h_start, h_end, float(seg["tas"]), float(seg["gs"]),
+                   float(seg["heading"]), float(seg["time"]), float(seg["distance"]),
+                   float(seg["used"]), store, m, float(seg["power"]), note,
+                   pack_voltage=float(seg["pack_voltage"]),
+                   pack_current=float(seg["pack_current"]))
+
+
+def _verdict(fl, segments, reasons, failed_at, store, reserve) -> list:
+    """A plan's segments with its store reasons added to ``reasons`` (in place)."""
     required = reserve.amount
-    reserve_text = reserve.describe(fl.prop, fl.prop.store.default_units)
     lowest = min(s.remaining for s in segments)
     if lowest < 0:
         k = next(i for i, s in enumerate(segments) if s.remaining < 0)
@@ -1168,12 +1325,12 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
                        f"{_store_text(fl, short)} short of landing with the reserve")
         failed_at = k if failed_at is None else min(failed_at, k)
     elif store < required * (1 - 1e-12):
+        reserve_text = reserve.describe(fl.prop, fl.prop.store.default_units)
         reasons.append(f"{fl.prop.store_name} below the reserve: {_store_text(fl, store)} at "
                        f"landing, {_store_text(fl, required)} required ({reserve_text})")
     if failed_at is not None:
-        segments = _not_flown(segments, failed_at, reasons)
-    return Plan(mission, tuple(segments), initial, reserve, tuple(reasons),
-                tuple(leg_altitudes), load.mass, tuple(leg_speeds), v_climb)
+        return _not_flown(segments, failed_at, reasons)
+    return segments
 
 
 #: NO-GO reasons that break a limit of the flight, not its physics.
@@ -1210,10 +1367,10 @@ def _why_not(opts, leg, lo, top) -> str:
     return "; ".join(parts) or "no candidate satisfies every limit"
 
 
-def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
-    """NO-GO reasons for a leg flown at a fixed altitude (candidate 0)."""
+def _leg_reasons(o, leg, mission, lo, top, why) -> list:
+    """NO-GO reasons for a leg flown at a fixed altitude (``o``: its option, scalars)."""
     out = []
-    H = float(opts["H"][0])
+    H = float(o["H"])
     if H > top + 1e-6:
         out.append(f"altitude above a limit: leg {leg.name!r} at {H:.0f} m is above {why} "
                    f"({top:.0f} m)")
@@ -1222,25 +1379,24 @@ def _leg_reasons(opts, leg, mission, lo, top, why) -> list:
                    f"{mission.profile.min_clearance:.0f} m clearance over "
                    f"{ground_elevation(mission, leg):.0f} m "
                    f"ground")
-    if not opts["trans"]["ok"][0]:
+    if not o["trans"]["ok"]:
         out.append(f"power insufficient: leg {leg.name!r} cannot climb to {H:.0f} m (climb "
-                   f"rate gone at {opts['trans']['fail_at'][0]:.0f} m)")
-    cr = opts["cruise"]
-    mode = opts["mode"][0]
-    if mode == "power" and not opts["speed_ok"][0]:
+                   f"rate gone at {o['trans']['fail_at']:.0f} m)")
+    cr = o["cruise"]
+    if o["mode"] == "power" and not o["speed_ok"]:
         pct = speed_mode(mission, leg)[1] * 100
         out.append(f"power setting: leg {leg.name!r} cannot hold level flight at {pct:.0f} % "
                    f"power at {H:.0f} m (beyond full throttle there, or below the least "
                    "power level flight needs)")
-    elif not cr["power_ok"][0] or not opts["speed_ok"][0]:
-        out.append(f"power insufficient: leg {leg.name!r} cruise at {cr['tas'][0]:.1f} m/s "
+    elif not cr["power_ok"] or not o["speed_ok"]:
+        out.append(f"power insufficient: leg {leg.name!r} cruise at {cr['tas']:.1f} m/s "
                    f"TAS needs more than full-throttle power at {H:.0f} m")
-    if not cr["stall_ok"][0]:
-        out.append(f"stall margin violated: leg {leg.name!r} at {cr['tas'][0]:.1f} m/s TAS is "
+    if not cr["stall_ok"]:
+        out.append(f"stall margin violated: leg {leg.name!r} at {cr['tas']:.1f} m/s TAS is "
                    f"below {mission.stall_margin:g} x stall speed")
-    if not cr["wind_ok"][0]:
+    if not cr["wind_ok"]:
         out.append(f"wind: leg {leg.name!r} cannot make good its course at {H:.0f} m")
-    if not opts["fits"][0]:
+    if not o["fits"]:
         out.append(f"leg {leg.name!r} is too short to climb to and descend from {H:.0f} m")
     return out
 
@@ -1273,19 +1429,29 @@ def mission_reserve(fl: Flight, mission: Mission, mass, leg_altitudes,
     ReserveAmount
         See :func:`cruiseplan.planning.reserve.reserve_required`.
     """
-    res = mission.reserve
     last = leg_altitudes[-1] if leg_altitudes else mission.profile.arrival_elevation
-    m = np.atleast_1d(np.asarray(mass, dtype=float))
-    alternate_used = 0.0
-    if res.alternate is not None:
-        alt = res.alternate
-        h = alt.altitude if alt.altitude is not None else last
-        v0, _, mode, target = _start_speed(fl, mission, alt, [h], m, fl.prop.store_capacity)
-        cr = _cruise(fl, alt, np.array([h]), m, np.array([alt.distance]), v0, m, None, mode,
-                     target)
-        alternate_used = cr["used"] if np.ndim(mass) else float(np.ravel(cr["used"])[0])
-    return reserve_required(fl.af, res, mass=mass, cruise_power=cruise_power,
+    alternate_used = _alternate_used(fl, mission, np.atleast_1d(np.asarray(mass, float)),
+                                     np.array([last], dtype=float))
+    if not np.ndim(mass):
+        alternate_used = float(np.ravel(alternate_used)[0])
+    return reserve_required(fl.af, mission.reserve, mass=mass, cruise_power=cruise_power,
                             power_source=power_source, alternate_used=alternate_used)
+
+
+def _alternate_used(fl: Flight, mission: Mission, m, last):
+    """Store [kg or J] the reserve's alternate leg uses (0 without one), at best range.
+
+    ``m`` is the landing mass [kg] and ``last`` the last cruise altitude [m] (where a policy
+    names none), arrays broadcasting against the flight model's (missions or samples).
+    """
+    alt = mission.reserve.alternate
+    if alt is None:
+        return 0.0
+    h = np.asarray(alt.altitude if alt.altitude is not None else last, dtype=float)
+    h = np.broadcast_to(h, np.shape(last))
+    v0, _, mode, target = _start_speed(fl, mission, alt, h, m, fl.prop.store_capacity)
+    cr = _cruise(fl, alt, h, m, np.array([alt.distance]), v0, m, None, mode, target)
+    return cr["used"]
 
 
 def cruise_power(segments) -> float | None:

@@ -81,6 +81,9 @@ CEILING_SEARCH_TOP = 20000.0
 #: Relative tolerance of the speeds found as roots (window edges, economy) [-]: finer
 #: than anything printed or tested.
 ROOT_XTOL = 1e-8
+#: Most points [-] on which :func:`objective_speed` searches the minimum-power speed in the
+#: same pass as the objective's speed, whether needed or not (on more, only where needed).
+STACKED_SEARCH_POINTS = 64
 
 
 @dataclass(frozen=True)
@@ -327,9 +330,13 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     shape = np.broadcast_shapes(np.shape(air.density), np.shape(mass))
     hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
     cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
-    # The minimum-power speed bounds the search of the short-of-power branch below: found
-    # in the same pass as the objective's, one search in all.
-    speeds = _free_speeds(airframe, mass, air, store, hw, cw, (objective, "endurance"), xtol)
+    # The minimum-power speed bounds the search of the short-of-power branch below. On a
+    # few points it is found in the same pass as the objective's (one search: the cost is
+    # per call); on many (missions planned together) only where it is needed, as the cost
+    # is then per point. Each element's search is its own, so both give the same speeds.
+    stacked = int(np.prod(shape)) <= STACKED_SEARCH_POINTS
+    speeds = _free_speeds(airframe, mass, air, store, hw, cw,
+                          (objective, "endurance") if stacked else (objective,), xtol)
     free = speeds[objective]
     v_s = airframe.stall_speed(mass, air.density)
     v = np.maximum(free, stall_margin * v_s)
@@ -352,7 +359,11 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     def deficit(x):
         return shaft_power_required(airframe, m_sub, sub, x) - avail
 
-    v_mp = np.broadcast_to(speeds["endurance"], shape)[short]
+    if stacked:
+        v_mp = np.broadcast_to(speeds["endurance"], shape)[short]
+    else:
+        v_mp = _free_speeds(airframe, m_sub, sub, np.broadcast_to(store, shape)[short],
+                            hw[short], cw[short], ("endurance",), xtol)["endurance"]
     v_lo = np.maximum(v_mp, stall_margin * v_s[short] if np.ndim(v_s) else stall_margin * v_s)
     ok = deficit(v_lo) <= 0
     v_fit = illinois_root(deficit, v_lo, np.maximum(v[short], v_lo), xtol_rel=xtol)

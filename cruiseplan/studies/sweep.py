@@ -4,7 +4,9 @@ Each point is planned exactly as one ``cruiseplan plan`` (mission studies) or ``
 (airframe studies) with the point's values: the mission file read (again, with the
 airframe fields replaced when the study sweeps them), :func:`apply_overrides` with the
 point's ISA deviation or OAT, payload, fuel and wind, then :func:`plan_mission`. So a point
-equals the single plan bit for bit, wherever it runs.
+equals the single plan bit for bit, wherever it runs. The points of a chunk that differ only
+in ISA deviation, payload and fuel are planned together (:func:`plan_missions`), which
+gives each the plan it would get alone.
 
 Points are grouped in chunks (:meth:`Study.block_shape`), the unit of work. Chunks run as
 dask tasks: on the local machine's processes by default, or on a dask.distributed cluster
@@ -48,7 +50,7 @@ from cruiseplan.model.study import (
 )
 from cruiseplan.physics.winds import WindProfile
 from cruiseplan.planning.forecast import plan_with_forecast
-from cruiseplan.planning.mission import plan_mission
+from cruiseplan.planning.mission import plan_mission, plan_missions
 from cruiseplan.planning.optimise import best_cruise
 from cruiseplan.planning.uncertainty import plan_uncertainty
 
@@ -212,6 +214,54 @@ def evaluate_point(study: Study, values: dict) -> dict:
         return {"verdict": BAD_INPUT}
 
 
+def evaluate_points(study: Study, points: list) -> list:
+    """Records of many points; a mission study's points planned together.
+
+    The points' missions (:func:`point_mission`) that differ only in ISA deviation and
+    loading are planned in one pass by :func:`~cruiseplan.planning.mission.plan_missions`,
+    whose every plan is the one :func:`plan_mission` makes of that mission alone; the
+    records are then those of :func:`evaluate_point`, point by point.
+
+    Parameters
+    ----------
+    study : Study
+        The study.
+    points : list of dict
+        Each point's axis values, by axis name [the axis's unit].
+
+    Returns
+    -------
+    list of dict
+        Each point's records (see :func:`evaluate_point`).
+    """
+    if study.kind != "mission" or study.forecast is not None:
+        return [evaluate_point(study, values) for values in points]
+    with warnings.catch_warnings():
+        # The plan states what a warning would (e.g. over the maximum take-off mass).
+        warnings.simplefilter("ignore", CruiseplanWarning)
+        missions = []
+        for values in points:
+            try:
+                missions.append(point_mission(study, values))
+            except CruiseplanError:
+                missions.append(None)
+        try:
+            plans = iter(plan_missions([m for m in missions if m is not None]))
+        except CruiseplanError:
+            # Bad input found only in planning: each point on its own says which.
+            return [evaluate_point(study, values) for values in points]
+        out = []
+        for values, mission in zip(points, missions):
+            if mission is None:
+                out.append({"verdict": BAD_INPUT})
+                continue
+            try:
+                out.append(_plan_records(study, next(plans)))
+            except CruiseplanError:
+                out.append({"verdict": BAD_INPUT})
+        return out
+
+
 def _plan_records(study: Study, plan) -> dict:
     rec = {"verdict": GO if plan.go else NO_GO, "used": plan.used,
            "remaining": plan.remaining, "reserve_required": plan.reserve_required,
@@ -364,12 +414,12 @@ def run_block(study: Study, index: tuple, store: str | None = None):
     shape = tuple(s.stop - s.start for s in slices)
     arrays = {name: np.full(shape + extra, NOT_RUN if name == "verdict" else np.nan,
                             dtype=dtype) for name, (dtype, extra, _) in layout.items()}
-    for local in np.ndindex(*shape):
-        point = tuple(s.start + i for s, i in zip(slices, local))
-        rec = evaluate_point(study, study.point(point))
+    local = list(np.ndindex(*shape))
+    points = [study.point(tuple(s.start + i for s, i in zip(slices, ix))) for ix in local]
+    for ix, rec in zip(local, evaluate_points(study, points)):
         for name, value in rec.items():
             if name in arrays:
-                arrays[name][local] = value
+                arrays[name][ix] = value
     if store is None:
         return index, arrays
     import zarr
