@@ -1161,11 +1161,24 @@ def _row(options: dict, p: int, shape: tuple) -> dict:
             for k, v in options.items()}
 
 
-def _take(options: dict, index, shape: tuple) -> dict:
-    """The candidate ``index[p]`` of each mission ``p`` (arrays over the missions)."""
-    rows = np.arange(shape[0])
-    return {k: (_take(v, index, shape) if isinstance(v, dict)
-                else np.broadcast_to(v, shape)[rows, index]) for k, v in options.items()}
+def _take(options: dict, index, rows) -> dict:
+    """The candidate ``index[p]`` of each mission ``p`` (arrays over the missions).
+
+    ``rows`` is ``arange(missions)``; an array of the options has the missions' and the
+    candidates' axes, or only the candidates' (the same for every mission), or length 1
+    along either.
+    """
+    first = np.zeros_like(rows)
+    out = {}
+    for k, v in options.items():
+        if isinstance(v, dict):
+            out[k] = _take(v, index, rows)
+            continue
+        v = np.asarray(v)
+        if v.ndim == 1:
+            v = v[None, :]
+        out[k] = v[rows if v.shape[0] > 1 else first, index if v.shape[1] > 1 else first]
+    return out
 
 
 def _at(options: dict, p: int) -> dict:
@@ -1204,6 +1217,7 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
                          prof.departure_elevation, 0.0, 0.0, 0.0, 0.0, 0.0, float(allowance[p]),
                          float(store[p]), float(m[p]), 0.0)] for p in range(n_points)]
     h = np.full(n_points, prof.departure_elevation)
+    rows = np.arange(n_points)
     v_climb = _climb_speeds(missions, loads)
     leg_altitudes, leg_speeds = [], []
     failed_at = [None] * n_points   # index of the first segment of a leg that cannot be flown
@@ -1229,7 +1243,7 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
                 # Staying at the altitude the aircraft is at is a candidate too (a last
                 # column; where it is already a candidate or outside the limits, the
                 # column repeats the first candidate, which then wins any tie).
-                level = (lo <= h) & (h <= top) & ~np.isin(h, cands)
+                level = (lo <= h) & (h <= top) & ~np.any(h[:, None] == cands, axis=1)
                 if np.any(level):
                     cands = np.column_stack([np.broadcast_to(cands, (n_points, cands.size)),
                                              np.where(level, h, cands[0])])
@@ -1248,7 +1262,7 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
                                   + _why_not(_row(opts, p, shape), leg, lo, top))
             fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
             pick = np.where(pick < 0, fallback, pick)
-        o = _take(opts, pick, shape)
+        o = _take(opts, pick, rows)
         if fixed:
             for p in range(n_points):
                 reasons[p].extend(_leg_reasons(_at(o, p), leg, mission, lo, top, why))
