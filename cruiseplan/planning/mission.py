@@ -66,6 +66,7 @@ from cruiseplan.physics.airspeed import (
     wind_correction_angle,
 )
 from cruiseplan.physics.atmosphere import AirState, air_state
+from cruiseplan.physics.winds import wind_from
 from cruiseplan.planning.levels import leg_candidates
 from cruiseplan.planning.optimise import max_climb_rate, objective_speed
 from cruiseplan.planning.performance import shaft_power_required, speed_for_min_power
@@ -304,6 +305,9 @@ class Flight:
         # The air at each distinct set of altitudes, computed once per plan: the candidate
         # altitudes of most legs are the same, and so are many of the climbs between them.
         self._air = {}
+        # Winds that differ between missions planned together, by the leg's id (see
+        # :meth:`together`); other legs use their own profile.
+        self._winds = {}
 
     @classmethod
     def together(cls, missions, loads, headwind_offset=0.0):
@@ -329,7 +333,34 @@ class Flight:
         fl.dev = np.array([x.isa_dev for x in missions], dtype=float)[:, None]
         fl.zero_fuel_mass = np.array([load.mass - load.store if fl.burns_mass else load.mass
                                       for load in loads])[:, None]
+        first = missions[0]
+        alternates = [x.reserve.alternate for x in missions]
+        for n, leg in enumerate(first.legs):
+            fl._spread_winds(leg, [x.legs[n].wind for x in missions])
+        if alternates[0] is not None:
+            fl._spread_winds(alternates[0], [a.wind for a in alternates])
         return fl
+
+    def _spread_winds(self, leg, winds):
+        """Give ``leg`` (the first mission's) one uniform wind per mission, if they differ.
+
+        Kept as the north and east components of the air's velocity, shape (missions, 1),
+        computed as :meth:`WindProfile.vector` computes them.
+        """
+        if all(w == winds[0] for w in winds):
+            return
+        d = np.radians(np.array([w.directions[0] for w in winds], dtype=float))
+        s = np.array([w.speeds[0] for w in winds], dtype=float)
+        self._winds[id(leg)] = ((-s * np.cos(d))[:, None], (-s * np.sin(d))[:, None])
+
+    def _wind_at(self, leg, h):
+        """Direction from [deg] and speed [m/s] of the leg's wind at altitudes ``h``."""
+        spread = self._winds.get(id(leg))
+        if spread is None:
+            return leg.wind.at(h)
+        north, east = spread
+        shape = np.broadcast_shapes(np.shape(h), north.shape)
+        return wind_from(np.broadcast_to(east, shape), np.broadcast_to(north, shape))
 
     def air(self, h):
         """Air at pressure altitudes ``h`` [m] on the day.
@@ -436,8 +467,10 @@ class Flight:
         crosswind : numpy.ndarray
             Component from the right of the course [m/s].
         """
-        if self.wind_error is None:
+        if self.wind_error is None and id(leg) not in self._winds:
             head, cross = leg.wind.components(leg.course, h)
+        elif self.wind_error is None:
+            head, cross = wind_components(leg.course, *self._wind_at(leg, h))
         else:
             direction, speed = leg.wind.at(h)
             d_speed, d_dir = self.wind_error
@@ -447,7 +480,7 @@ class Flight:
 
     def wind_speed(self, leg, h):
         """Wind speed [m/s] on the leg at altitudes ``h`` (with the samples' errors)."""
-        direction, speed = leg.wind.at(h)
+        direction, speed = self._wind_at(leg, h)
         if self.wind_error is not None:
             speed = np.maximum(speed + self.wind_error[0], 0)
         return speed
@@ -778,7 +811,9 @@ def _start_speed(fl: Flight, mission: Mission, leg, h, m, store, air=None):
     ones = np.ones(h.shape, dtype=bool)
     if mode == "hover":
         # Holding position over the ground, the airspeed is the wind speed.
-        return np.broadcast_to(fl.wind_speed(leg, h), h.shape).copy(), ones, mode, None
+        v = fl.wind_speed(leg, h)
+        return np.broadcast_to(v, np.broadcast_shapes(np.shape(v), h.shape)).copy(), ones, \
+            mode, None
     if mode == "tas":
         return np.full(h.shape, value), ones, mode, None
     if mode == "cas":
@@ -1110,14 +1145,43 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
 
 
 #: Mission fields in which missions planned in one pass may differ: the day's ISA
-#: deviation and the loading. Every other field must be the same object (or value).
+#: deviation and the loading. The legs (and the reserve's alternate) may differ in their
+#: wind too, where each is uniform (one level, as a what-if wind is). Every other field
+#: must be equal.
 TOGETHER_FIELDS = frozenset({"isa_dev", "mass", "store", "payload", "overrides"})
 
 
+def _value_key(value):
+    """``value`` itself where it can be a dict key (compared by value), else its id."""
+    try:
+        hash(value)
+    except TypeError:
+        return id(value)
+    return value
+
+
+def _leg_key(leg) -> tuple:
+    """A leg's fields by value, its wind left out when uniform (planned as an array)."""
+    if leg is None:
+        return None
+    return tuple(_value_key(None if name == "wind" and len(value.altitudes) == 1 else value)
+                 for name in leg.__dataclass_fields__ for value in (getattr(leg, name),))
+
+
 def _together_key(mission: Mission) -> tuple:
-    return tuple(value if isinstance(value, (bool, int, float, str, type(None))) else id(value)
-                 for name in Mission.__dataclass_fields__ if name not in TOGETHER_FIELDS
-                 for value in (getattr(mission, name),))
+    key = []
+    for name in Mission.__dataclass_fields__:
+        if name in TOGETHER_FIELDS:
+            continue
+        value = getattr(mission, name)
+        if name == "legs":
+            key.append(tuple(_leg_key(leg) for leg in value))
+        elif name == "reserve":
+            key.append((_value_key(replace(value, alternate=None)),
+                        _leg_key(value.alternate)))
+        else:
+            key.append(_value_key(value))
+    return tuple(key)
 
 
 def plan_missions(missions, *, headwind_offset: float = 0.0) -> list:

@@ -5,7 +5,7 @@ Each point is planned exactly as one ``cruiseplan plan`` (mission studies) or ``
 airframe fields replaced when the study sweeps them), :func:`apply_overrides` with the
 point's ISA deviation or OAT, payload, fuel and wind, then :func:`plan_mission`. So a point
 equals the single plan bit for bit, wherever it runs. The points of a chunk that differ only
-in ISA deviation, payload and fuel are planned together (:func:`plan_missions`), which
+in ISA deviation, payload, fuel and wind are planned together (:func:`plan_missions`), which
 gives each the plan it would get alone.
 
 Points are grouped in chunks (:meth:`Study.block_shape`), the unit of work. Chunks run as
