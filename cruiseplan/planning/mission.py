@@ -829,10 +829,11 @@ def _start_speed(fl: Flight, mission: Mission, leg, h, m, store, air=None):
     # speeds are those of a nearly empty store, as a negative one would turn the objective
     # (range or time per unit of store) upside down.
     store = np.maximum(store, 1e-9 * fl.prop.store_capacity)
-    # A planner needs the speed to 1e-6, not to the last digit. In a turn the best speeds
+    # A planner needs the speed to 1e-4 (0.02 kt at 100 kt, far finer than it is flown;
+    # the fuel is flat there, ~1e-8), not to the last digit. In a turn the best speeds
     # are those of level flight at the mass times the load factor (the same CL).
     v, ok = objective_speed(fl.af, m * n, air, store, value, headwind=head,
-                            crosswind=cross, stall_margin=fl.margin, xtol=1e-6)
+                            crosswind=cross, stall_margin=fl.margin, xtol=1e-4)
     return v, ok, mode, None
 
 
