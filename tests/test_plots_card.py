@@ -7,6 +7,7 @@ pixel by pixel. Grids are small so the file runs in a few seconds.
 
 from __future__ import annotations
 
+import io
 import re
 import subprocess
 import sys
@@ -335,6 +336,61 @@ def test_card_too_long_for_its_pages(trainer):
         plots.card_pages(content)
     with pytest.raises(CruiseplanError, match="page 'B5' is not one of A5, A4"):
         plots.card_pages(content, "B5")
+
+
+def drawn_texts(pdf_page) -> list:
+    """(text, x [pt], y [pt], size [pt], font) of each text a PDF page shows, in order."""
+    drawn = []
+    pdf_page.extract_text(visitor_text=lambda text, cm, tm, font, size: drawn.append(
+        (text, tm[4], tm[5], size * tm[0], font)) if text.strip() else None)
+    return drawn
+
+
+def test_card_pdf_draws_the_layout_in_subset_fonts(trainer):
+    """Every laid-out text is in the PDF, whole, where the layout put it (right-aligned
+    ones ending at their column's edge), at its size, in embedded subset fonts that hold
+    only the glyphs drawn."""
+    from pypdf import PdfReader
+
+    from cruiseplan.plots.textpdf import text_width
+
+    content = card.card_content(trainer, altitudes=np.array([0.0, 8000.0]) * FT,
+                                power_settings=[0.55, 0.75], isa_dev=10.0)
+    pages = plots.card_layout(content)
+    reader = PdfReader(io.BytesIO(plots.card_pdf(pages)))
+    assert len(reader.pages) == len(pages)
+    used = {False: set(), True: set()}
+    for page, pdf_page in zip(pages, reader.pages):
+        drawn = drawn_texts(pdf_page)
+        assert [d[0] for d in drawn] == [t.text for t in page.texts]
+        for t, (_, x, y, size, font) in zip(page.texts, drawn):
+            left = t.x - (text_width(t.text, t.size, t.bold) if t.ha == "right" else 0.0)
+            assert (x, y, size) == pytest.approx((left * 72, t.y * 72, t.size), abs=1e-3)
+            assert font["/Subtype"] == "/Type3" and "/ToUnicode" in font
+            assert font["/BaseFont"].endswith("DejaVuSans-Bold" if t.bold else "DejaVuSans")
+            used[t.bold] |= set(t.text)
+    fonts = {f.get_object()["/BaseFont"]: f.get_object()
+             for f in reader.pages[0]["/Resources"]["/Font"].values()}
+    assert len(fonts) == 2
+    for name, font in fonts.items():
+        assert re.fullmatch(r"/[A-Z]{6}\+DejaVuSans(-Bold)?", name)  # a subset's tag
+        assert len(font["/CharProcs"]) == len(used[name.endswith("Bold")])
+
+
+def test_pdf_text_outside_latin_1_over_several_fonts():
+    """More characters outside Latin-1 than one font's spare codes: the text goes on in a
+    second font of the same face and reads back whole."""
+    from pypdf import PdfReader
+
+    from cruiseplan.plots.textpdf import PageText, TextPage, write_pdf
+
+    greek = "".join(chr(c) for c in range(0x3B1, 0x3CA))
+    cyrillic = "".join(chr(c) for c in range(0x410, 0x450))
+    line = f"a {greek} {cyrillic} \u2014 z"
+    page = TextPage((4.0, 2.0), [PageText(0.2, 1.0, line, 9.0)])
+    pdf_page = PdfReader(io.BytesIO(write_pdf([page]))).pages[0]
+    assert len(pdf_page["/Resources"]["/Font"]) == 2
+    assert pdf_page.extract_text() == line
 
 
 def test_card_status_only_where_not_ok(trainer):
