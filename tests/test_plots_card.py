@@ -19,6 +19,7 @@ from matplotlib.text import Text
 import cruiseplan as cp
 from cruiseplan import cli, plots
 from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.io.bundled import bundled_files
 from cruiseplan.io.text import parse_reserve
 from cruiseplan.planning.optimise import best_cruise
 from cruiseplan.report import card
@@ -375,6 +376,18 @@ def test_card_pdf_draws_the_layout_in_subset_fonts(trainer):
     for name, font in fonts.items():
         assert re.fullmatch(r"/[A-Z]{6}\+DejaVuSans(-Bold)?", name)  # a subset's tag
         assert len(font["/CharProcs"]) == len(used[name.endswith("Bold")])
+
+
+@pytest.mark.parametrize("airframe", sorted(bundled_files("airframe")))
+def test_card_text_blocks_stay_with_their_heading(airframe):
+    """A short text block (ceilings and reserve, the cautions) is on one page with its
+    heading: a reserve line or a caution is not read apart from what it belongs to."""
+    content = card.card_content(cp.load_airframe(airframe))
+    pages = [" ".join(t.text for t in page.texts) for page in plots.card_layout(content)]
+    blocks = [(b.heading, b.lines) for b in content.blocks if not hasattr(b, "columns")]
+    for heading, lines in blocks + [("Cautions", content.cautions)]:
+        page = next(p for p in pages if heading in p)
+        assert all(line in page for line in lines), (airframe, heading)
 
 
 def test_pdf_text_outside_latin_1_over_several_fonts():

@@ -107,6 +107,16 @@ class _Pages:
                 self.text(self.left, bullet, size)
             self.text(self.left + indent, line, size, bold=bold)
 
+    def keep(self, paragraphs, size: float, indent: float = 0.0) -> float:
+        """Height [in] of a text block to keep on one page with its heading.
+
+        The whole block when it takes less than half a page (a reserve line or the
+        cautions read apart from their heading otherwise), else its first two lines.
+        """
+        pitch = size * _LEADING / 72.0
+        lines = sum(len(_wrap(p, size, self.text_width - indent)) for p in paragraphs)
+        return lines * pitch if lines * pitch < self.size[1] / 2 else 2 * pitch
+
     def heading(self, text: str, following: float):
         """A block heading, kept on one page with ``following`` [in] of its block."""
         size = CARD_FONTS["heading"]
@@ -218,17 +228,16 @@ def _lay_out(content, size) -> list:
     pages.y -= 0.04
     for line in content.meta:
         pages.paragraph(line, f["meta"])
-    text_line = f["text"] * _LEADING / 72.0
     for block in content.blocks:
         if hasattr(block, "columns"):
             pages.table(block, 0.0)
             for note in block.notes:
                 pages.paragraph(note, f["text"])
         else:
-            pages.heading(block.heading, 2 * text_line)
+            pages.heading(block.heading, pages.keep(block.lines, f["text"]))
             for line in block.lines:
                 pages.paragraph(line, f["text"])
-    pages.heading("Cautions", 2 * f["caution"] * _LEADING / 72.0)
+    pages.heading("Cautions", pages.keep(content.cautions, f["caution"], indent=0.14))
     for caution in content.cautions:
         pages.paragraph(caution, f["caution"], indent=0.14, bullet="\u2022")
     n = len(pages.pages)
