@@ -18,7 +18,15 @@ import numpy as np
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.plots.textpdf import PageBand, PageRule, PageText, TextPage, text_width, write_pdf
+from cruiseplan.plots.textpdf import (
+    PageBand,
+    PageRule,
+    PageText,
+    TextPage,
+    font_path,
+    text_width,
+    write_pdf,
+)
 from cruiseplan.report.card import CARD_MAX_PAGES, card_content
 
 # --- cruise-card pages ----------------------------------------------------------------------
@@ -305,13 +313,16 @@ def page_figure(page):
     Returns
     -------
     matplotlib.figure.Figure
-        The page's size [in], its texts (matplotlib's default sans-serif, as the PDF),
-        rules and grey bands at the same places.
+        The page's size [in], its texts (in the PDF's font files,
+        :func:`~cruiseplan.plots.textpdf.font_path`), rules and grey bands at the same
+        places.
     """
     from matplotlib.figure import Figure
+    from matplotlib.font_manager import FontProperties
     from matplotlib.lines import Line2D
     from matplotlib.patches import Rectangle
 
+    fonts = {bold: font_path(bold) for bold in (False, True)}
     fig = Figure(figsize=page.size)
     inches = fig.dpi_scale_trans
     for b in page.bands:
@@ -321,8 +332,8 @@ def page_figure(page):
         fig.add_artist(Line2D([r.x0, r.x1], [r.y, r.y], color="black", linewidth=r.width,
                               transform=inches))
     for t in page.texts:
-        fig.text(t.x, t.y, t.text, fontsize=t.size, ha=t.ha, va="baseline",
-                 weight="bold" if t.bold else "normal", transform=inches)
+        fig.text(t.x, t.y, t.text, ha=t.ha, va="baseline", transform=inches,
+                 fontproperties=FontProperties(fname=fonts[t.bold], size=t.size))
     return fig
 
 

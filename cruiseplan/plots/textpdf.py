@@ -2,9 +2,9 @@
 
 The cruise card is text and straight lines only, so it needs no figure and no drawing
 backend: this module measures text from the font's advance widths and writes the PDF
-itself. Only :mod:`matplotlib.font_manager` and :mod:`matplotlib.ft2font` are imported
-(the same font files and FreeType outlines a figure would use); the figure machinery and
-its PDF backend took most of the card's time.
+itself, reading the font file with fontTools. matplotlib is not imported (its figure
+machinery and PDF backend took most of the card's time); the font is the DejaVu Sans that
+comes with it, which :func:`cruiseplan.plots.cardpage.page_figure` draws with too.
 
 Each glyph used is embedded once, as a Type 3 procedure drawn from its TrueType outline
 (quadratic segments raised to cubic ones, exactly); the fonts carry a ``ToUnicode`` map,
@@ -21,14 +21,16 @@ from __future__ import annotations
 
 import functools
 import hashlib
+import importlib.util
 import math
+import os
 import re
 import zlib
 from dataclasses import dataclass, field
 from typing import NamedTuple
 
-from matplotlib.font_manager import FontProperties, findfont, get_font
-from matplotlib.ft2font import LoadFlags
+from fontTools.pens.basePen import BasePen
+from fontTools.ttLib import TTFont
 
 _PT = 72.0  # points per inch
 #: Codes given to characters outside Latin-1 (Latin-1 ones keep their own code, so a
@@ -83,69 +85,101 @@ class TextPage:
 
 # --- fonts ---------------------------------------------------------------------------------
 
+#: The card's typeface, DejaVu Sans (matplotlib's default sans-serif, shipped with it).
+FONT_FILES = {False: "DejaVuSans.ttf", True: "DejaVuSans-Bold.ttf"}
+
+
+def font_path(bold: bool = False) -> str:
+    """Path of the font file of normal or bold text.
+
+    The files that come with matplotlib, found without importing it (its import alone
+    took longer than laying out and writing the whole card).
+    """
+    package = importlib.util.find_spec("matplotlib").submodule_search_locations[0]
+    return os.path.join(package, "mpl-data", "fonts", "ttf", FONT_FILES[bold])
+
+
+class _Outline(BasePen):
+    """A glyph's outline as PDF path operators in glyph space of 1000 units to the em.
+
+    The pen's base class raises TrueType's quadratic segments to cubic ones, exactly.
+    """
+
+    def __init__(self, glyphs, scale: float):
+        super().__init__(glyphs)
+        self.scale = scale
+        self.ops = []
+        self.xs, self.ys = [], []
+
+    def _put(self, points, op):
+        text = []
+        for x, y in points:
+            x, y = x * self.scale, y * self.scale
+            self.xs.append(x)
+            self.ys.append(y)
+            text += [_num(x), _num(y)]
+        self.ops.append(" ".join(text) + " " + op)
+
+    def _moveTo(self, pt):
+        self._put([pt], "m")
+
+    def _lineTo(self, pt):
+        self._put([pt], "l")
+
+    def _curveToOne(self, pt1, pt2, pt3):
+        self._put([pt1, pt2, pt3], "c")
+
+    def _closePath(self):
+        self.ops.append("h")
+
+
 class _Face:
-    """A font file: glyph indices and advance widths [font units] of the characters used."""
+    """A font file: glyph names and advance widths [font units] of the characters used."""
 
     def __init__(self, bold: bool):
-        self.font = get_font(findfont(FontProperties(weight="bold" if bold else "normal")))
-        self.units = self.font.units_per_EM
-        self.name = self.font.postscript_name
+        self.font = TTFont(font_path(bold), lazy=True)
+        head = self.font["head"]
+        self.units = head.unitsPerEm
+        self.bbox = (head.xMin, head.yMin, head.xMax, head.yMax)  # [font units]
+        # The PostScript name, as the file is named (reading the name table would import
+        # fontTools' OpenType layout tables, a tenth of the card's time).
+        self.name = os.path.splitext(FONT_FILES[bold])[0]
+        self._cmap = self.font.getBestCmap()
+        self._metrics = self.font["hmtx"]
+        self._missing = self.font.getGlyphOrder()[0]  # .notdef
         self._glyphs = {}
+        self._outlines = None  # the glyph set, read when the first outline is drawn
 
     def glyph(self, char: str) -> tuple:
-        """(glyph index, advance width [font units]) of ``char``."""
+        """(glyph name, advance width [font units]) of ``char``."""
         g = self._glyphs.get(char)
         if g is None:
-            index = self.font.get_char_index(ord(char))
-            g = self._glyphs[char] = (
-                index, self.font.load_glyph(index, LoadFlags.NO_SCALE).horiAdvance)
+            name = self._cmap.get(ord(char), self._missing)
+            g = self._glyphs[char] = (name, self._metrics[name][0])
         return g
 
-    def procedure(self, index: int) -> tuple:
-        """Glyph name and Type 3 procedure (``d1`` and the filled outline) of a glyph.
+    def procedure(self, name: str) -> tuple:
+        """PDF name and Type 3 procedure (``d1`` and the filled outline) of a glyph.
 
         In glyph space of 1000 units to the em, the usual one, which text extractors
         assume when they look for the gaps between words.
         """
-        g = self.font.load_glyph(index, LoadFlags.NO_SCALE)
-        name = self.font.get_glyph_name(index)
-        if not _NAME_OK.fullmatch(name):
-            name = f"g{index}"
         k = 1000.0 / self.units
-        vertices, codes = self.font.get_path()
-        vertices = vertices * 64.0 * k  # font units (FreeType's 1/64) to glyph space
-        x0, y0, x1, y1 = g.bbox
-        ops = [f"{_num(g.horiAdvance * k)} 0 {math.floor(x0 * k)} {math.floor(y0 * k)} "
-               f"{math.ceil(x1 * k)} {math.ceil(y1 * k)} d1"]
-        i, here = 0, (0.0, 0.0)
-        while i < len(codes):
-            code = codes[i]
-            if code == 1 or code == 2:  # move to, line to
-                here = tuple(vertices[i])
-                ops.append(f"{_num(here[0])} {_num(here[1])} {'m' if code == 1 else 'l'}")
-                i += 1
-            elif code == 3:  # quadratic: the same curve as a cubic, control points 2/3 in
-                (qx, qy), (x, y) = vertices[i], vertices[i + 1]
-                c = (here[0] + 2 * (qx - here[0]) / 3, here[1] + 2 * (qy - here[1]) / 3,
-                     x + 2 * (qx - x) / 3, y + 2 * (qy - y) / 3, x, y)
-                ops.append(" ".join(_num(v) for v in c) + " c")
-                here = (x, y)
-                i += 2
-            elif code == 4:  # cubic
-                ops.append(" ".join(_num(v) for v in vertices[i:i + 3].ravel()) + " c")
-                here = tuple(vertices[i + 2])
-                i += 3
-            else:  # close
-                ops.append("h")
-                i += 1
-        if len(ops) > 1:
-            ops.append("f")
-        return name, "\n".join(ops).encode("ascii")
+        if self._outlines is None:
+            self._outlines = self.font.getGlyphSet()
+        pen = _Outline(self._outlines, k)
+        self._outlines[name].draw(pen)
+        box = ((math.floor(min(pen.xs)), math.floor(min(pen.ys)), math.ceil(max(pen.xs)),
+                math.ceil(max(pen.ys))) if pen.xs else (0, 0, 0, 0))
+        ops = [f"{_num(self._metrics[name][0] * k)} 0 {' '.join(map(str, box))} d1"]
+        ops += pen.ops + (["f"] if pen.ops else [])
+        pdf_name = name if _NAME_OK.fullmatch(name) else f"g{self.font.getGlyphID(name)}"
+        return pdf_name, "\n".join(ops).encode("ascii")
 
 
 @functools.cache
 def face(bold: bool = False) -> _Face:
-    """The font of normal or bold text (matplotlib's default sans-serif family)."""
+    """The font of normal or bold text (:data:`FONT_FILES`)."""
     return _Face(bold)
 
 
@@ -300,17 +334,16 @@ def _to_unicode(codes: dict) -> bytes:
 
 
 def _write_font(objects: _Objects, sub: _Subset, ref: int):
+    """The Type 3 font of a subset: its glyphs' procedures, codes, widths, Unicode map."""
     f = sub.face
     by_code = {code: char for char, code in sub.codes.items()}
     first, last = min(by_code), max(by_code)
-    procs, names = {}, {}
-    for code, char in by_code.items():
-        index, _ = f.glyph(char)
-        if index not in names:
-            name, proc = f.procedure(index)
-            while name in procs:  # two glyphs of one name: keep both
-                name += "_"
-            names[index] = name
+    procs, names = {}, {}  # PDF name: procedure; glyph name: PDF name
+    for char in by_code.values():
+        glyph = f.glyph(char)[0]
+        if glyph not in names:
+            name, proc = f.procedure(glyph)
+            names[glyph] = name
             procs[name] = objects.stream(proc)
     diffs = " ".join(f"{code} /{names[f.glyph(by_code[code])[0]]}" for code in sorted(by_code))
     k = 1000.0 / f.units
@@ -320,7 +353,7 @@ def _write_font(objects: _Objects, sub: _Subset, ref: int):
     tag = "".join(chr(65 + b % 26) for b in hashlib.sha256(
         "".join(sorted(sub.codes)).encode("utf-8")).digest()[:6])
     bbox = " ".join(str(math.floor(v * k) if j < 2 else math.ceil(v * k))
-                    for j, v in enumerate(f.font.bbox))
+                    for j, v in enumerate(f.bbox))
     objects.put(ref, (
         f"<< /Type /Font /Subtype /Type3 /Name /{sub.resource} "
         f"/BaseFont /{tag}+{f.name} /FontBBox [{bbox}] "
