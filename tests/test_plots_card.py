@@ -470,3 +470,19 @@ def test_matplotlib_is_imported_only_by_the_figure_commands():
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                           check=True)
     assert done.stdout.split() == ["False", "False", "False"]
+
+
+def test_card_is_written_without_matplotlib(tmp_path):
+    """The card needs fonts, not figures: writing one imports neither matplotlib nor the
+    plot modules (their import was most of the card's time, issue 16)."""
+    out = str(tmp_path / "c.pdf")
+    code = ("import sys, io, contextlib; import cruiseplan.cli\n"
+            "with contextlib.redirect_stdout(io.StringIO()):\n"
+            f"    cruiseplan.cli.main(['card', 'demo-trainer', '-o', {out!r}])\n"
+            "print(sorted(m for m in sys.modules if m.startswith(('matplotlib', "
+            "'cruiseplan.plots'))))")
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                          check=True)
+    assert done.stdout.strip() == str(["cruiseplan.plots", "cruiseplan.plots.cardpage",
+                                       "cruiseplan.plots.textpdf"])
+    assert (tmp_path / "c.pdf").read_bytes().startswith(MAGIC["pdf"])
