@@ -255,6 +255,7 @@ class _Fonts:
 # --- the file ------------------------------------------------------------------------------
 
 def _num(v: float) -> str:
+    """A number for the PDF: at most three decimals, no trailing zeros, no "-0"."""
     text = f"{v:.3f}".rstrip("0").rstrip(".")
     return "0" if text in ("", "-0") else text
 
@@ -274,11 +275,11 @@ class _Objects:
         self.bodies[ref] = body.encode("latin-1") if isinstance(body, str) else body
         return ref
 
-    def stream(self, data: bytes, extra: str = "", ref: int | None = None) -> int:
+    def stream(self, data: bytes) -> int:
+        """A new compressed stream object holding ``data``; its number."""
         packed = zlib.compress(data, 6)
-        return self.put(ref or self.ref(),
-                        f"<< {extra}/Length {len(packed)} /Filter /FlateDecode >>\n"
-                        "stream\n".encode("ascii") + packed + b"\nendstream")
+        return self.put(self.ref(), f"<< /Length {len(packed)} /Filter /FlateDecode >>\n"
+                                    "stream\n".encode("ascii") + packed + b"\nendstream")
 
     def file(self, root: int, info: int) -> bytes:
         out = bytearray(b"%PDF-1.4\n%\xe2\xe3\xcf\xd3\n")
