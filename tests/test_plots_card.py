@@ -390,6 +390,20 @@ def test_card_text_blocks_stay_with_their_heading(airframe):
         assert all(line in page for line in lines), (airframe, heading)
 
 
+def test_status_of_several_limits_breaks_after_its_plus(trainer):
+    """A status joining limit codes (POWER+NOSOL) may go over two lines after its "+", so
+    a hot-day card up to 20000 ft fits A5 (it was refused as too wide)."""
+    content = card.card_content(trainer, altitudes=np.arange(0.0, 20001.0, 4000.0) * FT,
+                                power_settings=[0.45, 0.65, 0.85], isa_dev=20.0)
+    status = [row[-1] for row in content.blocks[0].rows]
+    assert "POWER+NOSOL" in status
+    texts = [t.text for page in plots.card_layout(content) for t in page.texts]
+    assert "POWER+NOSOL" not in texts
+    k = texts.index("POWER+")
+    assert texts[k + 1] == "NOSOL"
+    assert "ISA +20 K" in " ".join(texts)  # a "+" elsewhere stays with what follows it
+
+
 def test_pdf_text_outside_latin_1_over_several_fonts():
     """More characters outside Latin-1 than one font's spare codes: the text goes on in a
     second font of the same face and reads back whole."""

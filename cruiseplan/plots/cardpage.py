@@ -14,6 +14,8 @@ notebook, and for the layout tests, which check them with matplotlib's renderer)
 
 from __future__ import annotations
 
+import re
+
 import numpy as np
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN
@@ -44,19 +46,33 @@ _FOOTER_Y = 0.16  # footer baseline [in]
 _BOTTOM = _FOOTER_Y + 0.2  # lowest baseline of the content [in]
 
 
+#: Where a word may break without a space: after the "+" joining limit codes in a status
+#: (STALL+CLMAX), so a status column stays narrow enough for A5.
+_BREAK = re.compile(r"(?<=[A-Z]\+)(?=[A-Z])")
+
+
+def _pieces(word: str) -> list:
+    """The parts of ``word`` a line may not break inside."""
+    return _BREAK.split(word)
+
+
 def _wrap(text: str, size: float, width: float, bold: bool = False) -> list:
-    """Lines of ``text`` no wider than ``width`` [in] (a word longer than that on its own)."""
+    """Lines of ``text`` no wider than ``width`` [in] (a word longer than that on its own).
+
+    Lines break at spaces, and after the "+" between limit codes (:data:`_BREAK`).
+    """
     space = text_width(" ", size, bold)
-    lines, line, used = [], [], 0.0
+    lines, line, used = [], "", 0.0
     for word in text.split():
-        w = text_width(word, size, bold)
-        if line and used + space + w > width:
-            lines.append(" ".join(line))
-            line, used = [word], w
-        else:
-            used += (space if line else 0.0) + w
-            line.append(word)
-    return lines + ([" ".join(line)] if line else [])
+        for k, piece in enumerate(_pieces(word)):
+            gap, sep = (space, " ") if k == 0 and line else (0.0, "")
+            w = text_width(piece, size, bold)
+            if line and used + gap + w > width:
+                lines.append(line)
+                line, used = piece, w
+            else:
+                line, used = line + sep + piece, used + gap + w
+    return lines + ([line] if line else [])
 
 
 class _Pages:
@@ -152,8 +168,9 @@ class _Pages:
             fixed = sum(w for j, w in enumerate(widths) if j not in wrap)
             share = (self.text_width - fixed) / len(wrap)
             for j in wrap:
-                longest = max([text_width(w, size, False) for r in table.rows
-                               for w in r[j].split()], default=0.0) + 2 * _PAD
+                longest = max([text_width(p, size, False) for r in table.rows
+                               for w in r[j].split() for p in _pieces(w)],
+                              default=0.0) + 2 * _PAD
                 widths[j] = max(min(widths[j], share), head[j], longest)
             spare = self.text_width - sum(widths)
         if spare < -1e-9:
