@@ -500,3 +500,12 @@ def test_card_is_written_without_matplotlib(tmp_path):
     assert done.stdout.strip() == str(["cruiseplan.plots", "cruiseplan.plots.cardpage",
                                        "cruiseplan.plots.textpdf"])
     assert (tmp_path / "c.pdf").read_bytes().startswith(MAGIC["pdf"])
+
+
+def test_every_public_name_of_plots_resolves():
+    """cruiseplan.plots imports its modules on first use: each name it lists is there."""
+    assert plots.__all__ and set(plots.__all__) <= set(dir(plots))
+    for name in plots.__all__:
+        assert getattr(plots, name) is not None, name
+    with pytest.raises(AttributeError, match="has no attribute 'nothing_here'"):
+        plots.nothing_here  # noqa: B018
