@@ -91,11 +91,13 @@ def caught(monkeypatch):
         return b""
 
     def catch_pages(pages):
-        figures.extend(pages)
+        # The card is written without a figure; its pages are drawn as figures at the
+        # places the PDF puts them, for matplotlib's renderer to measure.
+        figures.extend(plots.page_figure(page) for page in pages)
         return b""
 
     monkeypatch.setattr(plots, "figure_bytes", catch_one)
-    monkeypatch.setattr(plots, "pages_pdf", catch_pages)
+    monkeypatch.setattr(plots, "card_pdf", catch_pages)
     return figures
 
 

@@ -7,6 +7,7 @@ pixel by pixel. Grids are small so the file runs in a few seconds.
 
 from __future__ import annotations
 
+import io
 import re
 import subprocess
 import sys
@@ -18,6 +19,7 @@ from matplotlib.text import Text
 import cruiseplan as cp
 from cruiseplan import cli, plots
 from cruiseplan.errors import CruiseplanError, UnitError
+from cruiseplan.io.bundled import bundled_files
 from cruiseplan.io.text import parse_reserve
 from cruiseplan.planning.optimise import best_cruise
 from cruiseplan.report import card
@@ -337,6 +339,87 @@ def test_card_too_long_for_its_pages(trainer):
         plots.card_pages(content, "B5")
 
 
+def drawn_texts(pdf_page) -> list:
+    """(text, x [pt], y [pt], size [pt], font) of each text a PDF page shows, in order."""
+    drawn = []
+    pdf_page.extract_text(visitor_text=lambda text, cm, tm, font, size: drawn.append(
+        (text, tm[4], tm[5], size * tm[0], font)) if text.strip() else None)
+    return drawn
+
+
+def test_card_pdf_draws_the_layout_in_subset_fonts(trainer):
+    """Every laid-out text is in the PDF, whole, where the layout put it (right-aligned
+    ones ending at their column's edge), at its size, in embedded subset fonts that hold
+    only the glyphs drawn."""
+    from pypdf import PdfReader
+
+    from cruiseplan.plots.textpdf import text_width
+
+    content = card.card_content(trainer, altitudes=np.array([0.0, 8000.0]) * FT,
+                                power_settings=[0.55, 0.75], isa_dev=10.0)
+    pages = plots.card_layout(content)
+    reader = PdfReader(io.BytesIO(plots.card_pdf(pages)))
+    assert len(reader.pages) == len(pages)
+    used = {False: set(), True: set()}
+    for page, pdf_page in zip(pages, reader.pages):
+        drawn = drawn_texts(pdf_page)
+        assert [d[0] for d in drawn] == [t.text for t in page.texts]
+        for t, (_, x, y, size, font) in zip(page.texts, drawn):
+            left = t.x - (text_width(t.text, t.size, t.bold) if t.ha == "right" else 0.0)
+            assert (x, y, size) == pytest.approx((left * 72, t.y * 72, t.size), abs=1e-3)
+            assert font["/Subtype"] == "/Type3" and "/ToUnicode" in font
+            assert font["/BaseFont"].endswith("DejaVuSans-Bold" if t.bold else "DejaVuSans")
+            used[t.bold] |= set(t.text)
+    fonts = {f.get_object()["/BaseFont"]: f.get_object()
+             for f in reader.pages[0]["/Resources"]["/Font"].values()}
+    assert len(fonts) == 2
+    for name, font in fonts.items():
+        assert re.fullmatch(r"/[A-Z]{6}\+DejaVuSans(-Bold)?", name)  # a subset's tag
+        assert len(font["/CharProcs"]) == len(used[name.endswith("Bold")])
+
+
+@pytest.mark.parametrize("airframe", sorted(bundled_files("airframe")))
+def test_card_text_blocks_stay_with_their_heading(airframe):
+    """A short text block (ceilings and reserve, the cautions) is on one page with its
+    heading: a reserve line or a caution is not read apart from what it belongs to."""
+    content = card.card_content(cp.load_airframe(airframe))
+    pages = [" ".join(t.text for t in page.texts) for page in plots.card_layout(content)]
+    blocks = [(b.heading, b.lines) for b in content.blocks if not hasattr(b, "columns")]
+    for heading, lines in blocks + [("Cautions", content.cautions)]:
+        page = next(p for p in pages if heading in p)
+        assert all(line in page for line in lines), (airframe, heading)
+
+
+def test_status_of_several_limits_breaks_after_its_plus(trainer):
+    """A status joining limit codes (POWER+NOSOL) may go over two lines after its "+", so
+    a hot-day card up to 20000 ft fits A5 (it was refused as too wide)."""
+    content = card.card_content(trainer, altitudes=np.arange(0.0, 20001.0, 4000.0) * FT,
+                                power_settings=[0.45, 0.65, 0.85], isa_dev=20.0)
+    status = [row[-1] for row in content.blocks[0].rows]
+    assert "POWER+NOSOL" in status
+    texts = [t.text for page in plots.card_layout(content) for t in page.texts]
+    assert "POWER+NOSOL" not in texts
+    k = texts.index("POWER+")
+    assert texts[k + 1] == "NOSOL"
+    assert "ISA +20 K" in " ".join(texts)  # a "+" elsewhere stays with what follows it
+
+
+def test_pdf_text_outside_latin_1_over_several_fonts():
+    """More characters outside Latin-1 than one font's spare codes: the text goes on in a
+    second font of the same face and reads back whole."""
+    from pypdf import PdfReader
+
+    from cruiseplan.plots.textpdf import PageText, TextPage, write_pdf
+
+    greek = "".join(chr(c) for c in range(0x3B1, 0x3CA))
+    cyrillic = "".join(chr(c) for c in range(0x410, 0x450))
+    line = f"a {greek} {cyrillic} \u2014 z"
+    page = TextPage((4.0, 2.0), [PageText(0.2, 1.0, line, 9.0)])
+    pdf_page = PdfReader(io.BytesIO(write_pdf([page]))).pages[0]
+    assert len(pdf_page["/Resources"]["/Font"]) == 2
+    assert pdf_page.extract_text() == line
+
+
 def test_card_status_only_where_not_ok(trainer):
     content = card.card_content(trainer, altitudes=np.array([0.0, 8000.0]) * FT,
                                 power_settings=[0.55, 0.75], isa_dev=10.0)
@@ -401,3 +484,28 @@ def test_matplotlib_is_imported_only_by_the_figure_commands():
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                           check=True)
     assert done.stdout.split() == ["False", "False", "False"]
+
+
+def test_card_is_written_without_matplotlib(tmp_path):
+    """The card needs fonts, not figures: writing one imports neither matplotlib nor the
+    plot modules (their import was most of the card's time, issue 16)."""
+    out = str(tmp_path / "c.pdf")
+    code = ("import sys, io, contextlib; import cruiseplan.cli\n"
+            "with contextlib.redirect_stdout(io.StringIO()):\n"
+            f"    cruiseplan.cli.main(['card', 'demo-trainer', '-o', {out!r}])\n"
+            "print(sorted(m for m in sys.modules if m.startswith(('matplotlib', "
+            "'cruiseplan.plots'))))")
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                          check=True)
+    assert done.stdout.strip() == str(["cruiseplan.plots", "cruiseplan.plots.cardpage",
+                                       "cruiseplan.plots.textpdf"])
+    assert (tmp_path / "c.pdf").read_bytes().startswith(MAGIC["pdf"])
+
+
+def test_every_public_name_of_plots_resolves():
+    """cruiseplan.plots imports its modules on first use: each name it lists is there."""
+    assert plots.__all__ and set(plots.__all__) <= set(dir(plots))
+    for name in plots.__all__:
+        assert getattr(plots, name) is not None, name
+    with pytest.raises(AttributeError, match="has no attribute 'nothing_here'"):
+        plots.nothing_here  # noqa: B018

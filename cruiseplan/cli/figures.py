@@ -168,7 +168,7 @@ def cmd_card(args):
     af, _ = options.at_pack_temperature(af, args, 0.0 if h is None else float(np.min(h)), dev)
     reserve = parse_reserve(args.reserve, af.propulsion) if args.reserve else None
 
-    from cruiseplan import plots  # matplotlib, only for the figure
+    from cruiseplan import plots  # matplotlib's fonts, only for the card
 
     n = options.monte_carlo_n(args)
     with monte_carlo_progress(n) as progress:
@@ -179,6 +179,6 @@ def cmd_card(args):
                                             monte_carlo=n, seed=args.seed,
                                             progress=progress, page=args.page,
                                             **options.read_loading(af, args))
-    pdf = plots.pages_pdf(pages)
+    pdf = plots.card_pdf(pages)
     write_files_atomic({out: pdf, twin: markdown})  # the pair whole or not at all
     sys.stdout.write(f"wrote {out} and {twin}\n")

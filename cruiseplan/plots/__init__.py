@@ -4,7 +4,9 @@ The only part of cruiseplan that imports matplotlib, one module per kind of figu
 imports it at package import, and the CLI imports it only in the commands that draw.
 Figures are drawn into :class:`matplotlib.figure.Figure` objects (no pyplot state, so a
 notebook's backend is left alone; the CLI renders off-screen on Agg) and turned into PNG or
-PDF bytes by :func:`figure_bytes`, so a failed drawing never leaves a partial file.
+PDF bytes by :func:`figure_bytes`, so a failed drawing never leaves a partial file. The
+cruise card is laid out as text and written to PDF without a figure (:func:`card_layout`,
+:func:`card_pdf`); each module is imported when one of its names is first used.
 
 Made to be printed: lines use the Okabe-Ito colour-blind-safe palette [1]_ and filled
 contours the cividis colour map [2]_; each series also differs in line style and marker so a
@@ -21,30 +23,37 @@ References
    (power required and available), 5.7 (range and endurance).
 """
 
-from cruiseplan.plots.cardpage import CARD_FONTS, card_pages, cruise_card
-from cruiseplan.plots.cruise import LIMIT_FIELDS, altitude_profile, power_curves, specific_range_map
-from cruiseplan.plots.profile import mission_profile
-from cruiseplan.plots.residuals import fit_residuals
-from cruiseplan.plots.style import (
-    CARD_PAGES,
-    FORMATS,
-    LIMIT_HATCHES,
-    MIN_FONT,
-    OBJECTIVE_STYLES,
-    OKABE_ITO,
-    PLOT_SIZE,
-    SERIES_STYLES,
-    figure_bytes,
-    pages_pdf,
-    speed_span,
-)
-from cruiseplan.plots.survey import survey_plan_view
-from cruiseplan.report.card import CARD_MIN_FONT
+import importlib
 
-__all__ = [
-    "CARD_FONTS", "CARD_MIN_FONT", "CARD_PAGES", "FORMATS", "LIMIT_FIELDS", "LIMIT_HATCHES",
-    "MIN_FONT",
-    "OBJECTIVE_STYLES", "OKABE_ITO", "PLOT_SIZE", "SERIES_STYLES", "altitude_profile",
-    "card_pages", "cruise_card", "figure_bytes", "fit_residuals", "mission_profile",
-    "pages_pdf", "power_curves", "specific_range_map", "speed_span", "survey_plan_view",
-]
+#: Where each public name lives. The modules are imported when a name is first used
+#: (PEP 562), so the card, which needs only the font files, does not load the figure
+#: machinery the plots need.
+_HOMES = {
+    "cruiseplan.plots.cardpage": ("CARD_FONTS", "CARD_PAGES", "card_layout", "card_pages",
+                                  "card_pdf", "cruise_card", "page_figure"),
+    "cruiseplan.plots.cruise": ("LIMIT_FIELDS", "altitude_profile", "power_curves",
+                                "specific_range_map"),
+    "cruiseplan.plots.profile": ("mission_profile",),
+    "cruiseplan.plots.residuals": ("fit_residuals",),
+    "cruiseplan.plots.style": ("FORMATS", "LIMIT_HATCHES", "MIN_FONT", "OBJECTIVE_STYLES",
+                               "OKABE_ITO", "PLOT_SIZE", "SERIES_STYLES", "figure_bytes",
+                               "speed_span"),
+    "cruiseplan.plots.survey": ("survey_plan_view",),
+    "cruiseplan.report.card": ("CARD_MIN_FONT",),
+}
+_HOME_OF = {name: module for module, names in _HOMES.items() for name in names}
+
+__all__ = sorted(_HOME_OF)
+
+
+def __getattr__(name):
+    module = _HOME_OF.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(importlib.import_module(module), name)
+    globals()[name] = value  # found directly from now on
+    return value
+
+
+def __dir__():
+    return sorted(set(globals()) | set(__all__))

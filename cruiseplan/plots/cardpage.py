@@ -4,24 +4,31 @@ Sizes (:data:`CARD_FONTS`): body text, tables, notes, cautions and footer 9 pt, 
 10.5 pt, title 13 pt, none below :data:`CARD_MIN_FONT` (9 pt) on A5. Tables fill the text
 width (spare width shared between the columns); a table longer than the page goes on over
 the next page with its column heads repeated, and the rows of one altitude stay together.
-Text is measured from the font's metrics (FreeType, unhinted, as the PDF draws it), not
-from glyph outlines: the same widths at a small part of the cost.
+
+The layout (:func:`card_layout`) gives pages of positioned text, rules and bands
+(:class:`~cruiseplan.plots.textpdf.TextPage`), measured from the font's advance widths;
+:func:`card_pdf` writes them straight to PDF (:mod:`cruiseplan.plots.textpdf`), with no
+figure made, and :func:`card_pages` draws the same pages as matplotlib figures (for a
+notebook, and for the layout tests, which check them with matplotlib's renderer).
 """
 
 from __future__ import annotations
 
-import functools
+import re
 
 import numpy as np
-from matplotlib.figure import Figure
-from matplotlib.font_manager import FontProperties, findfont, get_font
-from matplotlib.ft2font import LoadFlags
-from matplotlib.lines import Line2D
-from matplotlib.patches import Rectangle
 
 from cruiseplan.constants import DEFAULT_STALL_MARGIN
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.plots.style import CARD_PAGES
+from cruiseplan.plots.textpdf import (
+    PageBand,
+    PageRule,
+    PageText,
+    TextPage,
+    font_path,
+    text_width,
+    write_pdf,
+)
 from cruiseplan.report.card import CARD_MAX_PAGES, card_content
 
 # --- cruise-card pages ----------------------------------------------------------------------
@@ -29,6 +36,8 @@ from cruiseplan.report.card import CARD_MAX_PAGES, card_content
 #: Font sizes of the card [pt]: all at least CARD_MIN_FONT.
 CARD_FONTS = {"title": 13.0, "meta": 9.0, "heading": 10.5, "table": 9.0, "text": 9.0,
               "caution": 9.0, "footer": 9.0}
+#: Card pages, portrait [in].
+CARD_PAGES = {"A5": (5.83, 8.27), "A4": (8.27, 11.69)}
 _CARD_MARGIN = 0.25  # [in]
 _LEADING = 1.18  # line pitch over font size, text
 _ROW_LEADING = 1.3  # line pitch over font size, table rows
@@ -37,33 +46,33 @@ _FOOTER_Y = 0.16  # footer baseline [in]
 _BOTTOM = _FOOTER_Y + 0.2  # lowest baseline of the content [in]
 
 
-@functools.lru_cache(maxsize=2)
-def _font(bold: bool):
-    return get_font(findfont(FontProperties(weight="bold" if bold else "normal")))
+#: Where a word may break without a space: after the "+" joining limit codes in a status
+#: (STALL+CLMAX), so a status column stays narrow enough for A5.
+_BREAK = re.compile(r"(?<=[A-Z]\+)(?=[A-Z])")
 
 
-@functools.lru_cache(maxsize=4096)
-def _text_width(text: str, size: float, bold: bool) -> float:
-    """Ink width of one line of ``text`` at ``size`` [pt], in inches (unhinted metrics)."""
-    font = _font(bold)
-    font.set_size(size, 72.0)  # 1 pixel = 1 pt; FreeType gives 1/64 pixel
-    font.set_text(text, 0.0, flags=LoadFlags.NO_HINTING)
-    return font.get_width_height()[0] / 64.0 / 72.0
+def _pieces(word: str) -> list:
+    """The parts of ``word`` a line may not break inside."""
+    return _BREAK.split(word)
 
 
 def _wrap(text: str, size: float, width: float, bold: bool = False) -> list:
-    """Lines of ``text`` no wider than ``width`` [in] (a word longer than that on its own)."""
-    space = _text_width("a a", size, bold) - 2 * _text_width("a", size, bold)
-    lines, line, used = [], [], 0.0
+    """Lines of ``text`` no wider than ``width`` [in] (a word longer than that on its own).
+
+    Lines break at spaces, and after the "+" between limit codes (:data:`_BREAK`).
+    """
+    space = text_width(" ", size, bold)
+    lines, line, used = [], "", 0.0
     for word in text.split():
-        w = _text_width(word, size, bold)
-        if line and used + space + w > width:
-            lines.append(" ".join(line))
-            line, used = [word], w
-        else:
-            used += (space if line else 0.0) + w
-            line.append(word)
-    return lines + ([" ".join(line)] if line else [])
+        for k, piece in enumerate(_pieces(word)):
+            gap, sep = (space, " ") if k == 0 and line else (0.0, "")
+            w = text_width(piece, size, bold)
+            if line and used + gap + w > width:
+                lines.append(line)
+                line, used = piece, w
+            else:
+                line, used = line + sep + piece, used + gap + w
+    return lines + ([line] if line else [])
 
 
 class _Pages:
@@ -72,20 +81,20 @@ class _Pages:
     def __init__(self, size, title: str):
         self.size = size
         self.title = title
-        self.figures = []
+        self.pages = []
         self.left = _CARD_MARGIN
         self.text_width = size[0] - 2 * _CARD_MARGIN
         self.new_page()
 
     def new_page(self):
-        if len(self.figures) == CARD_MAX_PAGES:
+        if len(self.pages) == CARD_MAX_PAGES:
             raise CruiseplanError(
                 f"the cruise card does not fit {CARD_MAX_PAGES} pages at a legible size: "
                 "give fewer altitudes or power settings")
-        self.fig = Figure(figsize=self.size)
-        self.figures.append(self.fig)
+        self.page = TextPage(self.size)
+        self.pages.append(self.page)
         self.y = self.size[1] - _CARD_MARGIN
-        if len(self.figures) > 1:
+        if len(self.pages) > 1:
             self.down(CARD_FONTS["heading"], 0.8)
             self.text(self.left, f"{self.title} (continued)", CARD_FONTS["heading"],
                       bold=True)
@@ -100,15 +109,11 @@ class _Pages:
         if not self.room(height):
             self.new_page()
 
-    def text(self, x: float, text: str, size: float, *, bold=False, ha="left", **kw):
-        self.fig.text(x, self.y, text, fontsize=size, ha=ha, va="baseline",
-                      weight="bold" if bold else "normal",
-                      transform=self.fig.dpi_scale_trans, **kw)
+    def text(self, x: float, text: str, size: float, *, bold=False, ha="left"):
+        self.page.texts.append(PageText(x, self.y, text, size, bold, ha))
 
     def line(self, y: float):
-        self.fig.add_artist(Line2D([self.left, self.left + self.text_width], [y, y],
-                                   color="black", linewidth=0.8,
-                                   transform=self.fig.dpi_scale_trans))
+        self.page.rules.append(PageRule(self.left, self.left + self.text_width, y))
 
     def down(self, size: float, lines: float = 1.0, leading: float = _LEADING):
         self.y -= lines * size * leading / 72.0
@@ -126,6 +131,16 @@ class _Pages:
                 self.text(self.left, bullet, size)
             self.text(self.left + indent, line, size, bold=bold)
 
+    def keep(self, paragraphs, size: float, indent: float = 0.0) -> float:
+        """Height [in] of a text block to keep on one page with its heading.
+
+        The whole block when it takes less than half a page (a reserve line or the
+        cautions read apart from their heading otherwise), else its first two lines.
+        """
+        pitch = size * _LEADING / 72.0
+        lines = sum(len(_wrap(p, size, self.text_width - indent)) for p in paragraphs)
+        return lines * pitch if lines * pitch < self.size[1] / 2 else 2 * pitch
+
     def heading(self, text: str, following: float):
         """A block heading, kept on one page with ``following`` [in] of its block."""
         size = CARD_FONTS["heading"]
@@ -140,10 +155,10 @@ class _Pages:
         """Column widths [in] filling the text width, and each row's cells as lines."""
         size = CARD_FONTS["table"]
         names = [name.split("\n") for name, _, _ in table.columns]
-        head = [max([_text_width(n, size, True) for n in names[j]]
-                    + [_text_width(f"[{unit}]", size, False)]) + 2 * _PAD
+        head = [max([text_width(n, size, True) for n in names[j]]
+                    + [text_width(f"[{unit}]", size, False)]) + 2 * _PAD
                 for j, (_, unit, _) in enumerate(table.columns)]
-        body = [max([_text_width(r[j], size, False) for r in table.rows], default=0.0)
+        body = [max([text_width(r[j], size, False) for r in table.rows], default=0.0)
                 + 2 * _PAD for j in range(len(table.columns))]
         widths = [max(a, b) for a, b in zip(head, body)]
         # Left-aligned text columns (status, "held by") wrap when the table is too wide.
@@ -153,8 +168,9 @@ class _Pages:
             fixed = sum(w for j, w in enumerate(widths) if j not in wrap)
             share = (self.text_width - fixed) / len(wrap)
             for j in wrap:
-                longest = max([_text_width(w, size, False) for r in table.rows
-                               for w in r[j].split()], default=0.0) + 2 * _PAD
+                longest = max([text_width(p, size, False) for r in table.rows
+                               for w in r[j].split() for p in _pieces(w)],
+                              default=0.0) + 2 * _PAD
                 widths[j] = max(min(widths[j], share), head[j], longest)
             spare = self.text_width - sum(widths)
         if spare < -1e-9:
@@ -216,10 +232,8 @@ class _Pages:
                 self._head(table, edges, names)
             top = self.y
             if group % 2:
-                self.fig.add_artist(Rectangle(
-                    (self.left, top - heights[r] - 0.3 * row_h),
-                    self.text_width, heights[r], facecolor="0.88", edgecolor="none",
-                    zorder=0, transform=self.fig.dpi_scale_trans))
+                self.page.bands.append(PageBand(self.left, top - heights[r] - 0.3 * row_h,
+                                                self.text_width, heights[r]))
             for k in range(max(len(c) for c in row)):
                 self.down(size, leading=_ROW_LEADING)
                 for j, lines in enumerate(row):
@@ -230,8 +244,8 @@ class _Pages:
         self.line(self.y)
 
 
-def _draw_card(content, size) -> list:
-    """The card's pages on paper of ``size`` [in], as figures."""
+def _lay_out(content, size) -> list:
+    """The card's pages on paper of ``size`` [in]."""
     f = CARD_FONTS
     pages = _Pages(size, content.title)
     pages.down(f["title"], 0.8)
@@ -239,44 +253,43 @@ def _draw_card(content, size) -> list:
     pages.y -= 0.04
     for line in content.meta:
         pages.paragraph(line, f["meta"])
-    text_line = f["text"] * _LEADING / 72.0
     for block in content.blocks:
         if hasattr(block, "columns"):
             pages.table(block, 0.0)
             for note in block.notes:
                 pages.paragraph(note, f["text"])
         else:
-            pages.heading(block.heading, 2 * text_line)
+            pages.heading(block.heading, pages.keep(block.lines, f["text"]))
             for line in block.lines:
                 pages.paragraph(line, f["text"])
-    pages.heading("Cautions", 2 * f["caution"] * _LEADING / 72.0)
+    pages.heading("Cautions", pages.keep(content.cautions, f["caution"], indent=0.14))
     for caution in content.cautions:
         pages.paragraph(caution, f["caution"], indent=0.14, bullet="\u2022")
-    n = len(pages.figures)
-    for k, fig in enumerate(pages.figures):
+    n = len(pages.pages)
+    for k, page in enumerate(pages.pages):
         footer = content.footer + (f" \u2014 page {k + 1} of {n}" if n > 1 else "")
         for j, line in enumerate(reversed(_wrap(footer, f["footer"], pages.text_width))):
-            fig.text(pages.left, _FOOTER_Y + j * f["footer"] * _LEADING / 72.0, line,
-                     fontsize=f["footer"], transform=fig.dpi_scale_trans)
-    return pages.figures
+            page.texts.append(PageText(pages.left, _FOOTER_Y + j * f["footer"] * _LEADING
+                                       / 72.0, line, f["footer"]))
+    return pages.pages
 
 
-def card_pages(content, page: str = "A5") -> list:
-    """Draw a cruise card on portrait pages (A5 unless asked), over as many as it takes.
+def card_layout(content, page: str = "A5") -> list:
+    """Lay a cruise card out on portrait pages (A5 unless asked), over as many as it takes.
 
     Parameters
     ----------
     content : cruiseplan.report.card.CardContent
         Title, header lines, tables and text blocks, cautions and footer.
     page : {"A5", "A4"}, optional
-        Paper size (:data:`~cruiseplan.plots.style.CARD_PAGES`).
+        Paper size (:data:`CARD_PAGES`).
 
     Returns
     -------
-    list of matplotlib.figure.Figure
-        One figure a page, at most :data:`CARD_MAX_PAGES`; no font is smaller than
-        :data:`CARD_MIN_FONT` [pt]. Save them with
-        :func:`cruiseplan.plots.pages_pdf`.
+    list of cruiseplan.plots.textpdf.TextPage
+        One a page, at most :data:`CARD_MAX_PAGES`: texts, rules and bands placed in
+        inches; no font is smaller than :data:`CARD_MIN_FONT` [pt]. Write them with
+        :func:`card_pdf`, or draw them with :func:`page_figure`.
 
     Raises
     ------
@@ -287,14 +300,89 @@ def card_pages(content, page: str = "A5") -> list:
     key = str(page).upper()
     if key not in CARD_PAGES:
         raise CruiseplanError(f"page {page!r} is not one of {', '.join(CARD_PAGES)}")
-    return _draw_card(content, CARD_PAGES[key])
+    return _lay_out(content, CARD_PAGES[key])
+
+
+def card_pdf(pages) -> bytes:
+    """The card's pages as one PDF, text in subset Type 3 fonts with a Unicode map.
+
+    Parameters
+    ----------
+    pages : sequence of cruiseplan.plots.textpdf.TextPage
+        The pages of :func:`card_layout`.
+
+    Returns
+    -------
+    bytes
+        The whole file (:func:`cruiseplan.plots.textpdf.write_pdf`; no figure is made).
+    """
+    return write_pdf(pages)
+
+
+def page_figure(page):
+    """Draw one laid-out page as a matplotlib figure, as the PDF draws it.
+
+    Parameters
+    ----------
+    page : cruiseplan.plots.textpdf.TextPage
+        A page of :func:`card_layout`.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        The page's size [in], its texts (in the PDF's font files,
+        :func:`~cruiseplan.plots.textpdf.font_path`), rules and grey bands at the same
+        places.
+    """
+    from matplotlib.figure import Figure
+    from matplotlib.font_manager import FontProperties
+    from matplotlib.lines import Line2D
+    from matplotlib.patches import Rectangle
+
+    fonts = {bold: font_path(bold) for bold in (False, True)}
+    fig = Figure(figsize=page.size)
+    inches = fig.dpi_scale_trans
+    for b in page.bands:
+        fig.add_artist(Rectangle((b.x, b.y), b.width, b.height, facecolor=str(b.grey),
+                                 edgecolor="none", zorder=0, transform=inches))
+    for r in page.rules:
+        fig.add_artist(Line2D([r.x0, r.x1], [r.y, r.y], color="black", linewidth=r.width,
+                              transform=inches))
+    for t in page.texts:
+        fig.text(t.x, t.y, t.text, ha=t.ha, va="baseline", transform=inches,
+                 fontproperties=FontProperties(fname=fonts[t.bold], size=t.size))
+    return fig
+
+
+def card_pages(content, page: str = "A5") -> list:
+    """Draw a cruise card on portrait pages (A5 unless asked), as matplotlib figures.
+
+    Parameters
+    ----------
+    content : cruiseplan.report.card.CardContent
+        Title, header lines, tables and text blocks, cautions and footer.
+    page : {"A5", "A4"}, optional
+        Paper size (:data:`CARD_PAGES`).
+
+    Returns
+    -------
+    list of matplotlib.figure.Figure
+        :func:`page_figure` of each page of :func:`card_layout`. A PDF of the card is
+        written faster from the layout itself, with :func:`card_pdf`.
+
+    Raises
+    ------
+    CruiseplanError
+        As :func:`card_layout`.
+    """
+    return [page_figure(p) for p in card_layout(content, page)]
 
 
 def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fuel=None,
                 payload=None, isa_dev=0.0, reserve=None, units: str | None = None,
                 stall_margin: float = DEFAULT_STALL_MARGIN, monte_carlo: int | None = None,
                 seed: int = 0, progress=None, page: str = "A5"):
-    """The cruise card as markdown and as kneeboard pages.
+    """The cruise card as markdown and laid out on kneeboard pages.
 
     Parameters
     ----------
@@ -328,14 +416,14 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
     -------
     markdown : str
         The card in markdown.
-    pages : list of matplotlib.figure.Figure
-        The same card on portrait pages (:func:`card_pages`); save them with
-        :func:`cruiseplan.plots.pages_pdf`.
+    pages : list of cruiseplan.plots.textpdf.TextPage
+        The same card on portrait pages (:func:`card_layout`); write them with
+        :func:`card_pdf`, draw them with :func:`page_figure`.
 
     Raises
     ------
     CruiseplanError
-        As :func:`cruiseplan.report.card.card_content` and :func:`card_pages`.
+        As :func:`cruiseplan.report.card.card_content` and :func:`card_layout`.
 
     References
     ----------
@@ -345,4 +433,4 @@ def cruise_card(airframe, *, altitudes=None, power_settings=None, mass=None, fue
                            mass=mass, fuel=fuel, payload=payload, isa_dev=isa_dev,
                            reserve=reserve, units=units, stall_margin=stall_margin,
                            monte_carlo=monte_carlo, seed=seed, progress=progress)
-    return content.markdown(), card_pages(content, page)
+    return content.markdown(), card_layout(content, page)

@@ -55,8 +55,6 @@ FORMATS = ("png", "pdf")
 PLOT_SIZE = (8.27, 5.83)
 #: Smallest font on any figure [pt] (kneeboard-legible).
 MIN_FONT = 7.0
-#: Card pages tried in turn, portrait [in].
-CARD_PAGES = {"A5": (5.83, 8.27), "A4": (8.27, 11.69)}
 
 HALO = [patheffects.withStroke(linewidth=3.5, foreground="white")]
 
@@ -96,34 +94,6 @@ def figure_bytes(fig: Figure, fmt: str, *, dpi: float = 150.0) -> bytes:
     meta = {"Creator": "cruiseplan"} if kind == "pdf" else {"Software": "cruiseplan"}
     with matplotlib.rc_context({"pdf.fonttype": 42}):
         fig.savefig(buf, format=kind, dpi=dpi, metadata=meta)
-    return buf.getvalue()
-
-
-def pages_pdf(figures) -> bytes:
-    """Render figures as the pages of one PDF, text in subset Type 3 fonts.
-
-    The glyphs used are embedded as Type 3 procedures with a Unicode map, so the text is
-    searched and copied as with TrueType (type 42), whose subsetting (fontTools, layout
-    tables included) took twice the time of the whole card page; the card holds text and
-    rules only, and prints the same either way.
-
-    Parameters
-    ----------
-    figures : sequence of matplotlib.figure.Figure
-        The pages, in order (at least one).
-
-    Returns
-    -------
-    bytes
-        The whole file.
-    """
-    from matplotlib.backends.backend_pdf import PdfPages
-
-    buf = io.BytesIO()
-    with matplotlib.rc_context({"pdf.fonttype": 3}), \
-            PdfPages(buf, metadata={"Creator": "cruiseplan"}) as pdf:
-        for fig in figures:
-            pdf.savefig(fig)
     return buf.getvalue()
 
 
