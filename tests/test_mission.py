@@ -212,10 +212,13 @@ def test_short_leg_is_not_flown_high(trainer):
         return plan_mission(m).leg_altitudes[0]
 
     short, long = plan_for(12 * NM), plan_for(300 * NM)
-    # Cruise alone is best high up (the strongest tailwind, 8000 ft) ...
-    cruise_only = cp.planning.optimise.best_cruise(trainer, np.arange(1000, 9001, 500) * FT,
-                                          wind=tail, course=90.0).best()["altitude"]
+    # Cruise alone is best high up (the strongest tailwind, 8000 ft; the card's pick, the
+    # quickest within 0.5 % of it, is at or above it) ...
+    best = cp.planning.optimise.best_cruise(trainer, np.arange(1000, 9001, 500) * FT,
+                                            wind=tail, course=90.0)
+    cruise_only = float(best.altitudes[best.peak_index])
     assert cruise_only == pytest.approx(8000 * FT)
+    assert best.best()["altitude"] >= cruise_only
     # ... the long leg goes there, the short one stays well below it.
     assert long == pytest.approx(cruise_only)
     assert short < cruise_only - 1000.0

@@ -218,9 +218,12 @@ def test_ceiling_binds(trainer):
 
 
 def test_floor_binds():
+    # A headwind that grows fast with height: the best range would be lower than the
+    # floor, and the altitudes above it are worse by more than 0.5 %.
     drone = cp.load_airframe("demo-survey-drone")
-    b = best_cruise(drone, np.arange(0, 451, 50.0), floor=100.0)
-    assert b.best()["altitude"] == 100.0
+    wind = cp.parse_wind_profile("090/0@0m,090/40kt@450m")
+    b = best_cruise(drone, np.arange(0, 451, 50.0), floor=100.0, wind=wind, course=90.0)
+    assert b.best()["altitude"] == 100.0 and b.peak_index == b.best_index
     assert b.binding & Limit.FLOOR
     assert "floor" in b.best()["binding"]
 
@@ -300,20 +303,47 @@ def test_best_cruise_rejects_bad_input(trainer):
 def test_equally_good_altitudes_band_the_best(trainer):
     """Constant BSFC and propeller efficiency: best range does not change with altitude
     (Breguet, Anderson sec. 5.7), so every flyable altitude is in the 0.5 % band; the
-    chosen one stays the largest figure (exact ties: the highest)."""
+    chosen one is the quickest of them, the highest (TAS grows with height at the best
+    lift coefficient)."""
     h = np.arange(0.0, 8001.0, 2000.0) * 0.3048
     best = cp.best_cruise(trainer, h)
     band = best.equally_good()
     assert band.dtype == bool and band.all()
     assert best.best_index == h.size - 1
-    # The band is the values within the tolerance of the best, and nothing else.
+    # The band is the values within the tolerance of the largest, and nothing else; the
+    # pick lies in it.
     drone = cp.load_airframe("demo-survey-drone")
     answer = cp.best_cruise(drone, [0.0, 1000.0, 2000.0, 3000.0])
     v = answer.value
+    assert v[answer.peak_index] == np.nanmax(v)
     for tolerance in (0.0, 0.005, 0.05):
-        expected = v >= v[answer.best_index] * (1.0 - tolerance)
+        expected = v >= v[answer.peak_index] * (1.0 - tolerance)
         assert np.array_equal(answer.equally_good(tolerance), expected)
-    assert answer.equally_good(0.0)[answer.best_index]
+    assert answer.equally_good(0.0)[answer.peak_index]
+    assert answer.equally_good()[answer.best_index]
+
+
+def test_the_pick_within_the_band_is_the_quickest_for_range_and_the_lowest_for_endurance(
+        trainer):
+    """The secondary rule among equally good altitudes (within 0.5 % of the largest
+    value): range and economy take the highest ground speed, endurance the lowest
+    altitude."""
+    h = np.arange(0.0, 12001.0, 1000.0) * 0.3048
+    for objective in ("range", "economy"):
+        best = cp.best_cruise(trainer, h, objective=objective)
+        band = best.equally_good()
+        gs = best.points.ground_speed
+        assert band[best.best_index]
+        assert gs[best.best_index] == np.max(gs[band])
+    best = cp.best_cruise(trainer, h, objective="endurance")
+    band = best.equally_good()
+    assert best.best_index == np.flatnonzero(band)[0]
+    # With a strong headwind aloft the quickest of the band is a low one.
+    wind = cp.parse_wind_profile("270/0kt@0ft,270/60kt@12000ft")
+    best = cp.best_cruise(trainer, h, wind=wind, course=270.0)
+    gs = best.points.ground_speed
+    band = best.equally_good()
+    assert gs[best.best_index] == np.max(gs[band]) and best.best_index < h.size - 1
 
 
 def test_nothing_flyable_has_no_equally_good_band(trainer):

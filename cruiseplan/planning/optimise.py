@@ -513,9 +513,13 @@ class BestCruise:
         :class:`~cruiseplan.limits.Limit` bits (CEILING, FLOOR, HEIGHT_AGL) for altitudes
         outside the band.
     best_index : int
-        Index of the best altitude, -1 when no altitude is flyable.
+        Index of the chosen altitude, -1 when no altitude is flyable: among the altitudes
+        within :data:`EQUAL_TOLERANCE` of the largest value, the quickest (highest ground
+        speed) for range and economy, the lowest for endurance (:func:`choose_altitude`).
     binding : int
         :class:`~cruiseplan.limits.Limit` bits binding the chosen answer (0: unconstrained optimum).
+    peak_index : int
+        Index of the largest value (exact ties: the highest), -1 when none is flyable.
     """
 
     objective: str
@@ -525,6 +529,7 @@ class BestCruise:
     out_of_band: np.ndarray
     best_index: int
     binding: int
+    peak_index: int = -1
 
     @property
     def altitudes(self) -> np.ndarray:
@@ -539,9 +544,9 @@ class BestCruise:
     def equally_good(self, tolerance: float = EQUAL_TOLERANCE) -> np.ndarray:
         """Flyable in-band altitudes whose objective is within ``tolerance`` of the best's.
 
-        The chosen altitude (:attr:`best_index`) stays the one of the largest value
-        (exact ties: the highest, the faster); this is the band a crew may pick from for
-        other reasons (terrain, cloud, traffic) at no practical cost.
+        The band the chosen altitude (:attr:`best_index`) is picked from by the secondary
+        rule, and a crew may pick from for other reasons (terrain, cloud, traffic) at no
+        practical cost.
 
         Parameters
         ----------
@@ -557,7 +562,7 @@ class BestCruise:
         if self.best_index < 0:
             return np.zeros(self.value.shape, dtype=bool)
         ok = self.feasible & np.isfinite(self.value)
-        best = self.value[self.best_index]
+        best = self.value[self.peak_index if self.peak_index >= 0 else self.best_index]
         return ok & (np.where(ok, self.value, -np.inf) >= best * (1.0 - tolerance))
 
     def reason(self, i: int) -> str:
@@ -679,13 +684,36 @@ def _pick(score) -> int:
     return int(np.flatnonzero(score >= np.max(score) * (1 - TIE_TOLERANCE))[-1])
 
 
+def pick_rule(objective: str) -> str:
+    """The secondary rule that picks among equally good altitudes, in words.
+
+    Parameters
+    ----------
+    objective : {"range", "endurance", "economy"}
+        The objective.
+
+    Returns
+    -------
+    str
+        E.g. ``"the quickest within 0.5 % of the best"``.
+    """
+    which = "the lowest" if objective == "endurance" else "the quickest"
+    return f"{which} within {EQUAL_TOLERANCE * 100:g} % of the best"
+
+
 def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
-                    out_of_band) -> tuple:
+                    out_of_band, ground_speed=None) -> tuple:
     """Pick the best flyable in-band altitude and the constraints that bind the choice.
+
+    The altitude of the largest value is the peak. Altitudes within
+    :data:`EQUAL_TOLERANCE` (0.5 %) of it are equally good to a crew, and the pick among
+    them follows a secondary rule: for range and economy the quickest (highest ground
+    speed; ties: the highest), as the planner breaks its ties; for endurance the lowest
+    (least climb).
 
     A constraint binds when relaxing it would give a better answer: the best altitude
     *without* any constraint (``value_free``, the objective at the unconstrained speed) is
-    compared with the chosen one, and what stops us there is reported, together with what
+    compared with the peak, and what stops us there is reported, together with what
     limits the chosen altitude's speed.
 
     Parameters
@@ -701,21 +729,37 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
         Objective per altitude at the unconstrained speed, flyable or not [as ``value``].
     out_of_band : numpy.ndarray
         Band constraint bits per altitude [-].
+    ground_speed : numpy.ndarray, optional
+        Ground speed at the objective's speed per altitude [m/s]; None: the peak is
+        chosen (range and economy).
 
     Returns
     -------
     best_index : int
-        -1 when nothing is flyable.
+        The chosen altitude; -1 when nothing is flyable.
     binding : int
         :class:`~cruiseplan.limits.Limit` bits.
+    peak_index : int
+        The altitude of the largest value; -1 when nothing is flyable.
     """
     feasible = schedule.feasible
     speed_binding = schedule.binding[objective]
     usable = feasible & (out_of_band == 0) & np.isfinite(value)
     if not np.any(usable):
         codes = np.bitwise_or.reduce(schedule.infeasible | out_of_band) if value.size else 0
-        return -1, int(codes)
+        return -1, int(codes), -1
     i = _pick(np.where(usable, value, -np.inf))
+    equal = usable & (np.where(usable, value, -np.inf) >= value[i] * (1.0 - EQUAL_TOLERANCE))
+    if objective == "endurance":
+        pick = int(np.flatnonzero(equal)[0])
+    elif ground_speed is not None:
+        pick = _pick(np.where(equal, ground_speed, -np.inf))
+    else:
+        pick = i
+    if pick != i:
+        # Picked by the secondary rule, not held back by a limit: only what limits its
+        # speed binds.
+        return pick, int(speed_binding[pick]), i
     binding = int(speed_binding[i])
     free = np.where(np.isfinite(value_free), value_free, -np.inf)
     k = _pick(free)
@@ -728,7 +772,7 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
         binding |= int(out_of_band[j]) | int(schedule.infeasible[j]) | int(speed_binding[j])
     if i == value.size - 1 and i > 0 and value[i] >= value[i - 1] * (1 - TIE_TOLERANCE):
         binding |= int(Limit.CEILING)  # the top of the altitudes searched
-    return i, binding
+    return i, binding, i
 
 
 def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None, payload=None,
@@ -829,9 +873,9 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     band = _band(h, *(None if x is None else to_si(x, "m", what=name) for x, name in
                       ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),
                  to_si(elevation, "m", what="elevation"))
-    i, binding = choose_altitude(sched, objective, value, value_free, band)
+    i, binding, peak = choose_altitude(sched, objective, value, value_free, band, gs)
     return BestCruise(objective, sched, pts, np.where(band == 0, value, np.nan), band, i,
-                      binding)
+                      binding, peak)
 
 
 # --- Climb and ceilings ----------------------------------------------------------------

@@ -15,7 +15,7 @@ from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_CODE, LIMIT_DTYPE, LIMIT_TEXT, UNFLYABLE, Limit, describe
 from cruiseplan.physics.atmosphere import air_state, check_altitude
-from cruiseplan.planning.optimise import EQUAL_TOLERANCE, OBJECTIVES
+from cruiseplan.planning.optimise import EQUAL_TOLERANCE, OBJECTIVES, pick_rule
 from cruiseplan.planning.performance import (
     CruisePoints,
     cruise_grid,
@@ -529,7 +529,7 @@ def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
         else:
             best_lines.append(f"{case}: no flyable altitude")
     objective = calm.objective
-    fig.text(0.62, 0.235, f"Best altitude for {objective} (exact ties: the highest):\n"
+    fig.text(0.62, 0.235, f"Best altitude for {objective} ({pick_rule(objective)}):\n"
              + "\n".join(textwrap.fill(t, 52, subsequent_indent="  ") for t in best_lines),
              fontsize=MIN_FONT + 1, va="top", ha="left",
              bbox=dict(boxstyle="round,pad=0.4", fc="white", ec="0.4"))

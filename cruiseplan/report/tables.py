@@ -21,6 +21,7 @@ from cruiseplan.model.tolerance import tolerances_text
 from cruiseplan.physics.atmosphere import indicated_altitude, isa_temperature_pressure
 from cruiseplan.planning.levels import leg_variation, magnetic
 from cruiseplan.planning.mission import ground_elevation
+from cruiseplan.planning.optimise import pick_rule
 from cruiseplan.planning.performance import UNFLYABLE_FIELDS, CruisePoints
 from cruiseplan.planning.uncertainty import quantiles
 from cruiseplan.report.output import Column, Report, hours_minutes, hours_minutes_list
@@ -438,7 +439,10 @@ def best_report(airframe, best, *, isa_dev: float, units: str | None = None,
     fm, lm = display("mass", units)
     if b["feasible"]:
         i = best.best_index
-        head = (f"Best altitude for {obj}: {b['altitude'] * fa:.0f} {la} at "
+        band = best.altitudes[best.equally_good()] * fa
+        alike = (f" ({pick_rule(best.objective)}: {band.min():.0f}-{band.max():.0f} {la})"
+                 if band.size > 1 else "")
+        head = (f"Best altitude for {obj}: {b['altitude'] * fa:.0f} {la}{alike} at "
                 f"{b['tas'] * fs:.0f} {ls} TAS ({pts.cas()[i] * fs:.0f} {ls} CAS), "
                 f"ground speed {b['ground_speed'] * fs:.0f} {ls}, "
                 f"{b['power_fraction'] * 100:.0f} % power; binding: {b['binding']}")
