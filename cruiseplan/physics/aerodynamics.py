@@ -18,9 +18,11 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
+from typing import ClassVar
 
 import numpy as np
 
+from cruiseplan._numerics import owned
 from cruiseplan.constants import G0
 from cruiseplan.physics.dragbuildup import BuildUpPolar
 
@@ -53,7 +55,16 @@ def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
     .. [1] Anderson, *Aircraft Performance and Design*, eq. 5.2.
     """
     tas = np.asarray(tas, dtype=float)
-    return 2.0 * load_factor * mass * G0 / (density * tas * tas * wing_area)
+    den = density * tas
+    if np.ndim(wing_area) == 0 and owned(den, np.shape(den)):
+        # A large grid: the same operations in the same order, in place.
+        den *= tas
+        den *= wing_area
+        num = 2.0 * load_factor * mass * G0
+        if np.ndim(num) == 0:
+            return np.divide(num, den, out=den)
+        return num / den
+    return 2.0 * load_factor * mass * G0 / (den * tas * wing_area)
 
 
 def induced_drag_factor(oswald_e, aspect_ratio):
@@ -100,6 +111,8 @@ class ParabolicPolar:
     k: float
     cl_min_drag: float = 0.0
     kind: str = field(default="parabolic", init=False)
+    #: A parabola holds at every CL: no POLAR_RANGE limit.
+    bounded: ClassVar[bool] = False
 
     def drag_coefficient(self, cl, tas=None, air=None):
         """Drag coefficient [-] at lift coefficient ``cl`` [-].
@@ -122,7 +135,15 @@ class ParabolicPolar:
         ----------
         .. [1] Anderson, *Aircraft Performance and Design*, sec. 2.9.
         """
-        d = np.asarray(cl, dtype=float) - self.cl_min_drag
+        cl = np.asarray(cl, dtype=float)
+        if (self.cl_min_drag == 0 and np.ndim(self.k) == 0 and np.ndim(self.cd0) == 0
+                and owned(cl, cl.shape)):
+            # A large grid: cd0 + k cl cl in one new array (cl - 0 is cl).
+            cd = self.k * cl
+            cd *= cl
+            cd += self.cd0
+            return cd
+        d = cl - self.cl_min_drag
         return self.cd0 + self.k * d * d
 
     def outside(self, cl):
@@ -136,9 +157,9 @@ class ParabolicPolar:
         Returns
         -------
         numpy.ndarray of bool
-            All False, shape of ``cl`` [-].
+            All False, shape of ``cl`` [-] (a read-only view of one False).
         """
-        return np.zeros(np.shape(cl), dtype=bool)
+        return np.broadcast_to(False, np.shape(cl))
 
     def reference_cd0(self):
         """Zero-lift-like parasite drag coefficient used in summaries [-]."""
@@ -178,6 +199,8 @@ class TabulatedPolar:
     cl: tuple
     cd: tuple
     kind: str = field(default="tabulated", init=False)
+    #: Beyond the table's CL range the point is flagged POLAR_RANGE.
+    bounded: ClassVar[bool] = True
 
     def __post_init__(self):
         cl = np.asarray(self.cl, dtype=float)

@@ -146,6 +146,30 @@ def isa_temperature_pressure(pressure_altitude):
        ``ambiance`` package.
     """
     H = check_altitude(pressure_altitude)
+    if H.size > _ISA_CACHE_SIZE:
+        return _isa_from_ambiance(H)
+    # The same altitudes come back call after call (a table's rows, a plan's legs, a
+    # search's air): ambiance evaluates each distinct set once.
+    key = (H.shape, H.tobytes())
+    found = _ISA_CACHE.get(key)
+    if found is None:
+        found = _isa_from_ambiance(H)
+        for a in found:
+            a.flags.writeable = False  # shared between callers
+        if len(_ISA_CACHE) >= _ISA_CACHE_ENTRIES:
+            _ISA_CACHE.pop(next(iter(_ISA_CACHE)))
+        _ISA_CACHE[key] = found
+    return found
+
+
+#: Most altitudes in one cached set, and most sets kept (the oldest dropped first).
+_ISA_CACHE_SIZE = 65536
+_ISA_CACHE_ENTRIES = 256
+_ISA_CACHE: dict = {}
+
+
+def _isa_from_ambiance(H):
+    """ISA temperature [K] and pressure [Pa] at geopotential altitudes ``H`` [m]."""
     amb = _ambiance()
     flat = H.ravel()
     h_geometric = amb.Atmosphere.geop2geom_height(flat)
@@ -287,10 +311,11 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
     else:
         dT = np.asarray(isa_dev, dtype=float) + 0.0 * T_isa
         T = T_isa + dT
-    if np.any(T <= 0):
+    if (T <= 0).any():
         raise CruiseplanError(f"temperature {np.min(T):.1f} K is not physical: "
                               "check the ISA deviation or OAT")
-    p = np.broadcast_to(p, T.shape)
+    if np.shape(p) != T.shape:
+        p = np.broadcast_to(p, T.shape)
     rho = p / (R_AIR * T)
     return AirState(np.broadcast_to(H, T.shape), dT, T, p, rho,
                     np.sqrt(GAMMA * R_AIR * T), sutherland_viscosity(T))

@@ -49,7 +49,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from cruiseplan._numerics import monotone_slopes
+from cruiseplan._numerics import fits, monotone_slopes, owned
 from cruiseplan.errors import CruiseplanError, lookup
 from cruiseplan.limits import LIMIT_DTYPE
 from cruiseplan.physics.battery import EquivalentCircuit, PackLoad
@@ -235,7 +235,12 @@ class PropellerEfficiency:
         numpy.ndarray
             Shaft power [W].
         """
-        return thrust * tas / self(tas)
+        power = thrust * tas
+        eta = self(tas)
+        if owned(power, np.shape(power)) and fits(eta, power.shape):
+            power /= eta  # a large grid: in place
+            return power
+        return power / eta
 
     def thrust_available(self, tas, density, power):
         r"""Thrust [N] at shaft power ``power``: :math:`\eta_p(V) P / V` (unbounded as V -> 0).
@@ -757,6 +762,10 @@ class PowerChart:
         return rpm, mp
 
 
+#: The pack limits of a propulsion without a battery circuit: none, at every point.
+_NO_PACK_LIMITS = LIMIT_DTYPE(0)
+
+
 @dataclass(frozen=True)
 class PistonPropeller(_Propeller):
     """Piston engine driving a propeller.
@@ -908,10 +917,10 @@ class PistonPropeller(_Propeller):
 
         Returns
         -------
-        numpy.ndarray
-            Zeros of :data:`~cruiseplan.limits.LIMIT_DTYPE`, shape of ``shaft_power``.
+        numpy.uint32
+            A :data:`~cruiseplan.limits.LIMIT_DTYPE` zero, broadcastable to any shape.
         """
-        return np.zeros(np.shape(shaft_power), dtype=LIMIT_DTYPE)
+        return _NO_PACK_LIMITS
 
     def at_pack_temperature(self, celsius):
         """The same engine: a pack temperature [degC] changes nothing without a pack."""
@@ -1108,10 +1117,11 @@ class ElectricPropeller(_Propeller):
         Returns
         -------
         numpy.ndarray
-            :class:`~cruiseplan.limits.Limit` bits PACK_POWER, CURRENT and CUTOFF.
+            :class:`~cruiseplan.limits.Limit` bits PACK_POWER, CURRENT and CUTOFF (a
+            scalar zero, broadcastable to any shape, without a circuit).
         """
         if self.circuit is None:
-            return np.zeros(np.shape(shaft_power), dtype=LIMIT_DTYPE)
+            return _NO_PACK_LIMITS
         return self.pack_load(shaft_power, store).limits
 
     def lapse(self, sigma):
