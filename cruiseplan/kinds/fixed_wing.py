@@ -15,7 +15,7 @@ from typing import ClassVar
 
 import numpy as np
 
-from cruiseplan._numerics import owned, set_flag
+from cruiseplan._numerics import IN_PLACE_SIZE, owned, set_flag
 from cruiseplan.constants import G0
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.kinds.base import AirframeBase, LevelFlight
@@ -114,7 +114,8 @@ class FixedWing(AirframeBase):
         cl = lift_coefficient(mass, air.density, tas, self.wing_area)
         cd = self.polar.drag_coefficient(cl, tas, air)
         drag = mass * G0 * cd  # lift = weight, drag = lift / (L/D)
-        if owned(drag, np.shape(drag)) and np.shape(cl) == drag.shape:
+        if type(drag) is np.ndarray and drag.size >= IN_PLACE_SIZE and owned(
+                drag, np.shape(cl)):
             drag /= cl  # a large grid: in place
         else:
             drag = drag / cl

@@ -22,7 +22,7 @@ from typing import ClassVar
 
 import numpy as np
 
-from cruiseplan._numerics import owned
+from cruiseplan._numerics import IN_PLACE_SIZE, owned
 from cruiseplan.constants import G0
 from cruiseplan.physics.dragbuildup import BuildUpPolar
 
@@ -56,7 +56,7 @@ def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
     """
     tas = np.asarray(tas, dtype=float)
     den = density * tas
-    if np.ndim(wing_area) == 0 and owned(den, np.shape(den)):
+    if den.size >= IN_PLACE_SIZE and np.ndim(wing_area) == 0 and owned(den, den.shape):
         # A large grid: the same operations in the same order, in place.
         den *= tas
         den *= wing_area
@@ -136,8 +136,8 @@ class ParabolicPolar:
         .. [1] Anderson, *Aircraft Performance and Design*, sec. 2.9.
         """
         cl = np.asarray(cl, dtype=float)
-        if (self.cl_min_drag == 0 and np.ndim(self.k) == 0 and np.ndim(self.cd0) == 0
-                and owned(cl, cl.shape)):
+        if (cl.size >= IN_PLACE_SIZE and self.cl_min_drag == 0 and np.ndim(self.k) == 0
+                and np.ndim(self.cd0) == 0 and owned(cl, cl.shape)):
             # A large grid: cd0 + k cl cl in one new array (cl - 0 is cl).
             cd = self.k * cl
             cd *= cl
