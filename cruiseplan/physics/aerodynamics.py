@@ -529,19 +529,28 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     # real roots, Cardano's otherwise.
     half = p * p / 16.0
     disc = half * half - q * q * q / 27.0
+    one_real = disc >= 0
     with np.errstate(invalid="ignore", divide="ignore"):
-        r = np.sqrt(np.maximum(disc, 0.0))
-        cardano = np.cbrt(half + r) + np.cbrt(half - r)
-        scale = 2.0 * np.sqrt(q / 3.0)
-        angle = np.arccos(np.clip(half / (q / 3.0) ** 1.5, -1.0, 1.0)) / 3.0
-        m = np.where(disc >= 0, cardano, scale * np.cos(angle))
+        # Each form computed only if some element needs it (one_real decides which).
+        if one_real.any():
+            r = np.sqrt(np.maximum(disc, 0.0))
+            cardano = np.cbrt(half + r) + np.cbrt(half - r)
+        if not one_real.all():
+            scale = 2.0 * np.sqrt(q / 3.0)
+            # np.clip by its two ufuncs (the same values, without the wrapper's cost).
+            angle = np.arccos(np.minimum(np.maximum(half / (q / 3.0) ** 1.5, -1.0), 1.0)
+                              ) / 3.0
+            trig = scale * np.cos(angle)
+            m = np.where(one_real, cardano, trig) if one_real.any() else trig
+        else:
+            m = cardano
         s = np.sqrt(2.0 * m)
         fast = 0.5 * (s + np.sqrt(-2.0 * m - 2.0 * p / s))
         slow = (m + p / (2.0 * s)) / fast
-    with np.errstate(invalid="ignore", divide="ignore"):
         # Both roots at once. At a double root (the thrust power just meets the least drag
         # power) the slope vanishes: keep the value there.
-        v = np.stack(np.broadcast_arrays(slow, fast))
+        v = np.empty((2,) + np.broadcast_shapes(np.shape(slow), np.shape(fast)))
+        v[0], v[1] = slow, fast
         for _ in range(2):
             v3 = v * v * v
             step = (v3 * v + p * v + q) / (4.0 * v3 + p)

@@ -114,8 +114,9 @@ def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
         Naming the offending value and the valid range.
     """
     h = np.asarray(pressure_altitude, dtype=float)
-    bad = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
-    if np.any(bad):
+    inside = (h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX)
+    if not inside.all():
+        bad = ~inside
         v = h[bad].flat[0]
         raise AtmosphereRangeError(
             f"{what} {v:.{0 if abs(v) < 1e12 else 3}{'f' if abs(v) < 1e12 else 'g'}} m "
@@ -304,6 +305,33 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
     .. [1] ICAO Doc 7488/3 (1993), via ``ambiance``, for the ISA pressure.
     """
     H = np.asarray(pressure_altitude, dtype=float)
+    key = None
+    if oat is None and H.size <= _ISA_CACHE_SIZE:
+        # The same air is asked for again and again (a search's altitudes, a plan's
+        # legs): computed once per distinct altitudes and deviation, shared read-only.
+        dev = np.asarray(isa_dev, dtype=float)
+        if dev.size <= _ISA_CACHE_SIZE:
+            key = (H.shape, H.tobytes(), dev.shape, dev.tobytes())
+            found = _AIR_CACHE.get(key)
+            if found is not None:
+                return found
+    air = _air_state(H.copy() if key is not None else H, isa_dev, oat)
+    if key is not None:
+        for f in _FIELDS:
+            v = getattr(air, f)
+            if isinstance(v, np.ndarray) and v.flags.writeable:
+                v.flags.writeable = False
+        if len(_AIR_CACHE) >= _ISA_CACHE_ENTRIES:
+            _AIR_CACHE.pop(next(iter(_AIR_CACHE)))
+        _AIR_CACHE[key] = air
+    return air
+
+
+_AIR_CACHE: dict = {}
+
+
+def _air_state(H, isa_dev, oat) -> AirState:
+    """The air state of :func:`air_state`, computed."""
     T_isa, p = isa_temperature_pressure(H)
     if oat is not None:
         T = np.asarray(oat, dtype=float) + 0.0 * T_isa

@@ -125,12 +125,17 @@ class SpeedSchedule:
         return self.infeasible == 0
 
 
+_BIT_POWER = LIMIT_DTYPE(Limit.POWER)
+_BIT_CLIMB_RESERVE = LIMIT_DTYPE(Limit.CLIMB_RESERVE)
+_BIT_WIND = LIMIT_DTYPE(Limit.WIND)
+
+
 def _closed_form_ok(airframe, headwind, crosswind) -> bool:
     polar = getattr(airframe, "polar", None)
     prop = airframe.propulsion
     return (isinstance(polar, ParabolicPolar) and polar.cl_min_drag == 0.0
             and prop.propeller.is_constant
-            and np.all(np.asarray(headwind) == 0) and np.all(np.asarray(crosswind) == 0))
+            and not np.asarray(headwind).any() and not np.asarray(crosswind).any())
 
 
 def climb_rate(airframe, mass, air: AirState, tas):
@@ -410,13 +415,14 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     v_margin = stall_margin * v_s
     win_lo = np.maximum(c_lo, v_margin)
     win_hi = c_hi
-    infeasible = np.zeros(shape, dtype=LIMIT_DTYPE)
-    infeasible |= np.where(~p_ok, Limit.POWER, 0).astype(LIMIT_DTYPE)
-    infeasible |= np.where(p_ok & ~c_ok, Limit.CLIMB_RESERVE, 0).astype(LIMIT_DTYPE)
+    # Bits as bool x bit (each condition a bool array of the altitudes' shape).
+    infeasible = np.broadcast_to(~p_ok, shape) * _BIT_POWER
+    if c_ok is not p_ok:
+        infeasible |= (p_ok & ~c_ok) * _BIT_CLIMB_RESERVE
     squeezed = c_ok & (v_margin > c_hi)
-    infeasible |= np.where(squeezed, Limit.STALL | (
-        Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER), 0
-    ).astype(LIMIT_DTYPE)
+    if squeezed.any():
+        infeasible |= squeezed * LIMIT_DTYPE(Limit.STALL | (
+            Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER))
     # A battery pack given as a circuit caps the power at the store's state of charge
     # (its maximum power, cut-off voltage or maximum current): a speed beyond it is not
     # flyable, and where the cap binds a best speed its bit is named.
@@ -430,10 +436,13 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     win_hi = np.where(ok, win_hi, np.nan)
 
     def clamp(v_unc):
-        v = np.clip(v_unc, win_lo, win_hi)
-        code = np.zeros(shape, dtype=LIMIT_DTYPE)
+        v = np.minimum(np.maximum(v_unc, win_lo), win_hi)  # np.clip, by its ufuncs
         below = v_unc < win_lo
         above = v_unc > win_hi
+        if not (below.any() or above.any()):
+            # Inside the window everywhere: nothing binds (the same as the bits below).
+            return np.where(ok, v, np.nan), np.zeros(shape, dtype=LIMIT_DTYPE)
+        code = np.zeros(shape, dtype=LIMIT_DTYPE)
         stall_bound = below & (v_margin >= c_lo)
         code |= np.where(stall_bound, Limit.STALL, 0).astype(LIMIT_DTYPE)
         power_side = (below & ~stall_bound) | above
@@ -456,8 +465,9 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     tas["endurance"], binding["endurance"] = clamp(v_end)
     econ_unc = np.maximum(v_econ, tas["range"])
     tas["economy"], binding["economy"] = clamp(econ_unc)
-    binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
-                                   ).astype(LIMIT_DTYPE)
+    if binding["range"].any():
+        binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
+                                       ).astype(LIMIT_DTYPE)
     return SpeedSchedule(air=air, headwind=hw, crosswind=cw, stall_speed=v_s,
                          window_lo=win_lo, window_hi=win_hi, infeasible=infeasible,
                          tas=tas, binding=binding,
@@ -776,7 +786,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     if objective not in OBJECTIVES:
         raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
     h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
-    if h.ndim != 1 or np.any(np.diff(h) <= 0):
+    if h.ndim != 1 or (h[1:] <= h[:-1]).any():  # finite altitudes: as np.diff(h) <= 0
         raise CruiseplanError("altitudes must be one-dimensional and increasing")
     if wind is not None and headwind is not None:
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
@@ -803,7 +813,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin, keep_unflyable=True)
     wind_bad = sched.feasible & ~(gs > 0)
-    infeasible = sched.infeasible | np.where(wind_bad, Limit.WIND, 0).astype(LIMIT_DTYPE)
+    infeasible = sched.infeasible | wind_bad * _BIT_WIND
     sched = replace(sched, infeasible=infeasible)
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
