@@ -27,6 +27,11 @@ from cruiseplan.constants import G0
 from cruiseplan.physics.dragbuildup import BuildUpPolar
 
 
+def _scalar(x) -> bool:
+    """True for a single number (the common case tested first, without a numpy call)."""
+    return type(x) is float or np.ndim(x) == 0
+
+
 def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
     r"""Lift coefficient for lift = ``load_factor`` x weight.
 
@@ -56,7 +61,7 @@ def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
     """
     tas = np.asarray(tas, dtype=float)
     den = density * tas
-    if den.size >= IN_PLACE_SIZE and np.ndim(wing_area) == 0 and owned(den, den.shape):
+    if den.size >= IN_PLACE_SIZE and _scalar(wing_area) and owned(den, den.shape):
         # A large grid: the same operations in the same order, in place.
         den *= tas
         den *= wing_area
@@ -136,8 +141,8 @@ class ParabolicPolar:
         .. [1] Anderson, *Aircraft Performance and Design*, sec. 2.9.
         """
         cl = np.asarray(cl, dtype=float)
-        if (cl.size >= IN_PLACE_SIZE and self.cl_min_drag == 0 and np.ndim(self.k) == 0
-                and np.ndim(self.cd0) == 0 and owned(cl, cl.shape)):
+        if (cl.size >= IN_PLACE_SIZE and self.cl_min_drag == 0 and _scalar(self.k)
+                and _scalar(self.cd0) and owned(cl, cl.shape)):
             # A large grid: cd0 + k cl cl in one new array (cl - 0 is cl).
             cd = self.k * cl
             cd *= cl

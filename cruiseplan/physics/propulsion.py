@@ -243,7 +243,8 @@ class PropellerEfficiency:
         power = thrust * tas
         eta = self(tas)
         if (type(power) is np.ndarray and power.size >= IN_PLACE_SIZE
-                and owned(power, power.shape) and fits(eta, power.shape)):
+                and owned(power, power.shape)
+                and (type(eta) is float or fits(eta, power.shape))):
             power /= eta  # a large grid: in place
             return power
         return power / eta

@@ -436,12 +436,13 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     win_hi = np.where(ok, win_hi, np.nan)
 
     def clamp(v_unc):
-        v = np.minimum(np.maximum(v_unc, win_lo), win_hi)  # np.clip, by its ufuncs
         below = v_unc < win_lo
         above = v_unc > win_hi
         if not (below.any() or above.any()):
-            # Inside the window everywhere: nothing binds (the same as the bits below).
-            return np.where(ok, v, np.nan), np.zeros(shape, dtype=LIMIT_DTYPE)
+            # Inside the window everywhere (or no window): the speed is its own clipped
+            # value and nothing binds (the same as the general case below).
+            return np.where(ok, v_unc, np.nan), np.zeros(shape, dtype=LIMIT_DTYPE)
+        v = np.minimum(np.maximum(v_unc, win_lo), win_hi)  # np.clip, by its ufuncs
         code = np.zeros(shape, dtype=LIMIT_DTYPE)
         stall_bound = below & (v_margin >= c_lo)
         code |= np.where(stall_bound, Limit.STALL, 0).astype(LIMIT_DTYPE)
@@ -813,12 +814,12 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin, keep_unflyable=True)
     wind_bad = sched.feasible & ~(gs > 0)
-    infeasible = sched.infeasible | wind_bad * _BIT_WIND
-    sched = replace(sched, infeasible=infeasible)
+    if wind_bad.any():
+        sched = replace(sched, infeasible=sched.infeasible | wind_bad * _BIT_WIND)
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
     v_free = sched.tas_unconstrained[objective]
-    if np.array_equal(v_free, v):
+    if v_free.shape == v.shape and (v_free == v).all():  # np.array_equal, NaN unequal
         free = pts   # no constraint binds anywhere: the same points (values kept above)
     else:
         gs_free = ground_speed(v_free, hw, cw)

@@ -84,6 +84,7 @@ class _Sources:
     available: object       # full-throttle shaft power [W], broadcastable
     gs: object              # ground speed [m/s], broadcastable
     store: object           # store on board as given [kg or J]
+    rate: object            # store rate [kg/s or W], unflyable points not yet hidden
     bad: object = None      # True where the air is outside the model, or None
     hide: bool = False      # the store's figures NaN where an UNFLYABLE bit is set
 
@@ -184,7 +185,7 @@ class CruisePoints:
     power_available: np.ndarray = _Derived(
         lambda p: np.broadcast_to(p._sources.available, p.shape))
     power_margin: np.ndarray = _Derived(lambda p: p._sources.available - p.shaft_power)
-    store_rate: np.ndarray
+    store_rate: np.ndarray = _Derived(lambda p: p._sources.rate)
     fuel_volume_flow: np.ndarray | None = _Derived(
         lambda p: (p.store_rate / p._sources.airframe.propulsion.fuel_density
                    if p._sources.airframe.propulsion.store.burns_mass else None))
@@ -200,9 +201,9 @@ class CruisePoints:
     rated_power: float
 
     # The core arrays (CL, CD, drag, shaft power, store rate, limits) are computed by
-    # cruise_points; the rest (the fields given a _Derived above) on first read, so a large
-    # grid holds only what is read. dataclasses.replace reads every field, so a replaced
-    # copy carries them all as plain values.
+    # cruise_points; the rest (the fields given a _Derived above, and the store rate's
+    # NaN at unflyable points) on first read, so a large grid holds only what is read.
+    # dataclasses.replace reads every field, so a replaced copy carries plain values.
     def __init__(self, _sources=None, **values):
         fields = self.__dataclass_fields__
         needed = _CORE_FIELDS if _sources is not None else fields.keys()
@@ -223,8 +224,13 @@ class CruisePoints:
         if src.bad is not None:
             value = np.where(src.bad, np.nan, value)
         if src.hide and name in UNFLYABLE_FIELDS:
-            unflyable = (self.limits & LIMIT_DTYPE(UNFLYABLE)) != 0
-            if np.any(unflyable):
+            unflyable = self.__dict__.get("_unflyable")
+            if unflyable is None:
+                unflyable = (self.limits & LIMIT_DTYPE(UNFLYABLE)) != 0
+                if not unflyable.any():
+                    unflyable = False
+                self.__dict__["_unflyable"] = unflyable
+            if unflyable is not False:
                 value = np.where(unflyable, np.nan, value)
         return value
 
@@ -435,22 +441,14 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
         cl, cd, drag, shaft, rate = (None if v is None else np.where(bad, np.nan, v)
                                      for v in (cl, cd, drag, shaft, rate))
         limits = np.where(bad, LIMIT_DTYPE(Limit.ATMOSPHERE), limits).astype(LIMIT_DTYPE)
-    if not keep_unflyable:
-        unflyable = (limits & _UNFLYABLE) != 0
-        if not unflyable.any():
-            pass
-        elif (isinstance(rate, np.ndarray) and rate.shape == shape and rate.flags.owndata
-                and rate.flags.writeable and rate is not shaft):
-            np.copyto(rate, np.nan, where=unflyable)  # a fresh array: no copy needed
-        else:
-            rate = np.where(unflyable, np.nan, rate)
-        del unflyable  # the derived fields find it again from the limits when read
-    return CruisePoints(air=air, tas=tas, mass=mass if np.ndim(mass) else float(mass),
-                        store=store if np.ndim(store) else float(store),
+    return CruisePoints(air=air, tas=tas,
+                        mass=mass if type(mass) is float or np.ndim(mass) else float(mass),
+                        store=store if type(store) is float or np.ndim(store)
+                        else float(store),
                         store_name=prop.store_name, cl=cl, cd=cd, drag=drag,
-                        shaft_power=shaft, store_rate=rate, limits=limits,
+                        shaft_power=shaft, limits=limits,
                         rated_power=float(prop.rated_power),
-                        _sources=_Sources(airframe, flight, available, gs, store, bad,
+                        _sources=_Sources(airframe, flight, available, gs, store, rate, bad,
                                           not keep_unflyable))
 
 
@@ -460,7 +458,6 @@ _CORE_FIELDS = frozenset(n for n, f in CruisePoints.__dataclass_fields__.items()
 
 #: Each Limit as a LIMIT_DTYPE scalar.
 _BIT = {flag: LIMIT_DTYPE(flag) for flag in Limit}
-_UNFLYABLE = LIMIT_DTYPE(UNFLYABLE)
 
 
 def _hide_unflyable(points: CruisePoints) -> CruisePoints:
