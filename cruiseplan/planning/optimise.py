@@ -230,10 +230,12 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     evaluates the level flight once for both.
     """
     prop = airframe.propulsion
-    v_s = airframe.stall_speed(mass, air.density)
-    lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
     polar = getattr(airframe, "polar", None)
     out = {}
+
+    def bounds():
+        # The searches' bracket (the closed forms need none).
+        return 0.5 * airframe.stall_speed(mass, air.density), MACH_LIMIT * air.speed_of_sound
 
     def shaft(v):
         return shaft_power_required(airframe, mass, air, v)
@@ -245,12 +247,14 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     # few dozen altitudes, a few calls of successive grids on larger arrays are quicker
     # than Brent's many array operations per step.
     search = grid_minimise if xtol >= 1e-7 else brent_minimise
-    peukert = np.any(getattr(prop, "peukert_exponent", 1.0) != 1.0)
+    exponent = getattr(prop, "peukert_exponent", 1.0)
+    peukert = exponent != 1.0 if type(exponent) is float else np.any(exponent != 1.0)
     range_closed = _closed_form_ok(airframe, hw, cw) and not peukert
     endurance_closed = _closed_form_ok(airframe, 0.0, 0.0)
     want_range = "range" in objectives or "economy" in objectives
     if want_range and "endurance" in objectives and not range_closed \
             and not endurance_closed:
+        lo, hi = bounds()
         shape = np.broadcast_shapes(np.shape(lo), np.shape(hi))
 
         def both(v):
@@ -269,13 +273,13 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
             out["range"] = min_drag_speed(mass, air.density, airframe.wing_area, polar.cd0,
                                           polar.k)
         else:
-            out["range"] = search(lambda v: -ground_range(v), lo, hi, xtol_rel=xtol)
+            out["range"] = search(lambda v: -ground_range(v), *bounds(), xtol_rel=xtol)
     if "endurance" in objectives and "endurance" not in out:
         if endurance_closed:
             out["endurance"] = min_power_speed(mass, air.density, airframe.wing_area,
                                                polar.cd0, polar.k)
         else:
-            out["endurance"] = search(shaft, lo, hi, xtol_rel=xtol)
+            out["endurance"] = search(shaft, *bounds(), xtol_rel=xtol)
     if "economy" in objectives:
         if range_closed and getattr(prop, "circuit", None) is None:
             # Range goes as 1 / drag when the store rate is proportional to shaft power:
@@ -286,8 +290,8 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
         else:
             best = ground_range(out["range"])
             out["economy"] = illinois_root(
-                lambda v: ECONOMY_FRACTION * best - ground_range(v), out["range"], hi,
-                xtol_rel=max(0.1 * xtol, ROOT_XTOL))
+                lambda v: ECONOMY_FRACTION * best - ground_range(v), out["range"],
+                bounds()[1], xtol_rel=max(0.1 * xtol, ROOT_XTOL))
     return out
 
 
@@ -432,8 +436,9 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
         infeasible |= np.where(no_cap, cap_bit, 0).astype(LIMIT_DTYPE)
         win_lo, win_hi = np.fmax(win_lo, k_lo), np.fmin(win_hi, k_hi)
     ok = infeasible == 0
-    win_lo = np.where(ok, win_lo, np.nan)
-    win_hi = np.where(ok, win_hi, np.nan)
+    if not ok.all():
+        win_lo = np.where(ok, win_lo, np.nan)
+        win_hi = np.where(ok, win_hi, np.nan)
 
     def clamp(v_unc):
         below = v_unc < win_lo
