@@ -391,7 +391,9 @@ def speed_for_lift_coefficient(mass, density, wing_area, cl):
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, eq. 5.21.
     """
-    return np.sqrt(2.0 * np.asarray(mass) * G0 / (np.asarray(density) * wing_area * cl))
+    if type(mass) is not float:
+        mass = np.asarray(mass)
+    return np.sqrt(2.0 * mass * G0 / (np.asarray(density) * wing_area * cl))
 
 
 def min_drag_speed(mass, density, wing_area, cd0, k):

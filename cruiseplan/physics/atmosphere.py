@@ -233,8 +233,14 @@ class AirState:
 
     @property
     def sigma(self):
-        """Density ratio rho / rho0 [-]."""
-        return self.density / RHO0
+        """Density ratio rho / rho0 [-] (computed once per state, read-only)."""
+        sigma = self.__dict__.get("_sigma")
+        if sigma is None:
+            sigma = self.density / RHO0
+            if isinstance(sigma, np.ndarray):
+                sigma.flags.writeable = False  # kept, and shared with the state's users
+            self.__dict__["_sigma"] = sigma
+        return sigma
 
     @property
     def kinematic_viscosity(self):
