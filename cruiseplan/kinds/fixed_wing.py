@@ -147,8 +147,11 @@ class FixedWing(AirframeBase):
         cl = flight.cl
         # Bits set in place (set_flag): no array of bits per condition on a large grid.
         # Limit.STALL is 1: the comparison's 0 or 1 is the bit.
-        bits = np.empty(np.shape(cl), dtype=LIMIT_DTYPE)
-        np.greater(cl, self.cl_max / stall_margin**2, out=bits)
+        threshold = self.cl_max / stall_margin**2
+        shape = (np.shape(cl) if type(threshold) is float
+                 else np.broadcast_shapes(np.shape(cl), np.shape(threshold)))
+        bits = np.empty(shape, dtype=LIMIT_DTYPE)
+        np.greater(cl, threshold, out=bits)
         # CL above CLmax is TAS below the stall speed itself, beyond the margin.
         set_flag(bits, np.greater(cl, self.cl_max), _BEYOND_CLMAX)
         if self.polar.bounded:
