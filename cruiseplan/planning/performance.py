@@ -427,8 +427,9 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
         set_flag(limits, np.greater(tas, mach), _BIT[Limit.MACH])
     set_flag(limits, prop.lapse_outside(sigma), _BIT[Limit.LAPSE_RANGE])
     # A hover (TAS 0, ground speed 0: calm air) holds its position, so no WIND limit.
-    hover = (tas == 0) & (gs == 0)
-    set_flag(limits, ~((gs > 0) | hover), _BIT[Limit.WIND])
+    no_headway = ~(gs > 0)
+    if no_headway.any():
+        set_flag(limits, no_headway & ~((tas == 0) & (gs == 0)), _BIT[Limit.WIND])
     # Battery pack: its maximum power, maximum continuous current and cut-off voltage
     # under load, with this store on board (none without a circuit).
     pack = prop.pack_limits(shaft, store)
@@ -436,7 +437,7 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
         limits |= pack
 
     bad = None
-    if valid_air is not None and not np.all(valid_air):
+    if valid_air is not None and not np.asarray(valid_air).all():
         bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), shape)
         cl, cd, drag, shaft, rate = (None if v is None else np.where(bad, np.nan, v)
                                      for v in (cl, cd, drag, shaft, rate))
@@ -475,7 +476,7 @@ def _air_column(altitudes, isa_dev):
     if h.ndim != 1:
         raise CruiseplanError("altitudes must be one-dimensional")
     valid = (h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX)
-    clipped = h.clip(ALTITUDE_MIN, ALTITUDE_MAX)
+    clipped = np.minimum(np.maximum(h, ALTITUDE_MIN), ALTITUDE_MAX)  # np.clip, by ufuncs
     if np.ndim(isa_dev) == 0:
         air = air_state(clipped[:, None], isa_dev)  # a column from the start
     else:
