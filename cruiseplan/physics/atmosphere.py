@@ -163,9 +163,10 @@ def isa_temperature_pressure(pressure_altitude):
     return found
 
 
-#: Most altitudes in one cached set, and most sets kept (the oldest dropped first).
-_ISA_CACHE_SIZE = 65536
-_ISA_CACHE_ENTRIES = 256
+#: Most altitudes in one cached set, and most sets kept (the oldest dropped first): about
+#: 50 MB at most, however long a process runs.
+_ISA_CACHE_SIZE = 4096
+_ISA_CACHE_ENTRIES = 128
 _ISA_CACHE: dict = {}
 
 
