@@ -8,6 +8,61 @@ from __future__ import annotations
 
 import numpy as np
 
+#: Arrays at least this large are worked on in place (large grids: each new array of a
+#: million points costs as much as the arithmetic on it); smaller ones by plain
+#: expressions, whose per-call cost is lower.
+IN_PLACE_SIZE = 4096
+
+
+def owned(a, shape) -> bool:
+    """True if an expression's result may overwrite ``a``.
+
+    That is, ``a`` is a writable float array of ``shape``, at least :data:`IN_PLACE_SIZE`
+    long.
+    """
+    return (type(a) is np.ndarray and a.size >= IN_PLACE_SIZE and a.shape == shape
+            and a.dtype == np.float64 and a.flags.writeable)
+
+
+def fits(a, shape) -> bool:
+    """True if ``a`` broadcasts to ``shape`` without growing it (an in-place operand)."""
+    sa = np.shape(a)
+    return len(sa) <= len(shape) and all(
+        x == 1 or x == y for x, y in zip(sa[::-1], shape[::-1]))
+
+
+def set_flag(bits, condition, flag):
+    """``bits |= flag`` where ``condition`` holds, in place.
+
+    No array of the bits' size is made on the way (a large grid keeps few bytes per point).
+
+    Parameters
+    ----------
+    bits : numpy.ndarray
+        Unsigned integer bit sets, changed in place.
+    condition : array_like of bool
+        Where to set the flag, broadcastable to ``bits``.
+    flag : numpy.unsignedinteger
+        The bit(s), of ``bits``' dtype.
+
+    Returns
+    -------
+    numpy.ndarray
+        ``bits``.
+    """
+    condition = np.asarray(condition)
+    if condition.size < bits.size and not condition.any():
+        return bits  # a small (broadcast) condition checked first: no pass over the bits
+    return np.bitwise_or(bits, flag, out=bits, where=condition)
+
+
+def any_true(a) -> bool:
+    """``np.any(a)``, reading a broadcast view of one value once, not at every element."""
+    a = np.asarray(a)
+    if a.size and not any(a.strides):
+        return bool(a.flat[0])
+    return bool(a.any())
+
 
 def grid_minimise(f, lo, hi, *, xtol_rel=1e-10, points=17, max_iter=100):
     """Minimise a unimodal ``f`` on [lo, hi] element-wise by successive uniform grids.

@@ -69,6 +69,8 @@ def check_range(value, quantity: str, what: str):
         For a non-finite value or one outside the range, naming ``what`` and the range.
     """
     lo, hi, unit, _, closed = RANGES[quantity]
+    if type(value) is float and (lo <= value if closed else lo < value) and value <= hi:
+        return value  # the common case, without building arrays (NaN fails both tests)
     arr = np.asarray(value, dtype=float)
     if not np.all(np.isfinite(arr)):
         raise CruiseplanError(f"{what}: {value!r} is not a finite number")

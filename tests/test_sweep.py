@@ -208,7 +208,11 @@ mission = "demo-cross-country"
 
 # --- the command line: interrupt, resume, bad input --------------------------------------
 
-SLOW_STUDY = """
+#: Points of SLOW_STUDY, one per chunk: enough that a sweep is still running when the test
+#: has seen a few chunks done, however quick the planner and however loaded the machine.
+SLOW_POINTS = 48
+
+SLOW_STUDY = f"""
 [study]
 name = "slow"
 mission = "demo-cross-country"
@@ -216,7 +220,7 @@ record = ["verdict", "used", "time", "leg_altitude"]
 chunk = 1
 
 [axes]
-isa_dev = "0:15:1 K"
+isa_dev = "0:{SLOW_POINTS - 1}:1 K"
 """
 
 
@@ -245,12 +249,12 @@ def test_interrupted_sweep_resumes_to_the_same_store(tmp_path):
     proc.wait(timeout=30)
     partial = xr.open_zarr(cut, consolidated=False)
     n_done = int(partial["chunk_done"].values.sum())
-    assert 3 <= n_done < 16 and not partial.attrs["complete"]
+    assert 3 <= n_done < SLOW_POINTS and not partial.attrs["complete"]
     # One point per chunk here: every chunk marked done holds its point; a chunk killed
     # between writing its values and its mark is simply run again.
     done = partial["chunk_done"].values
     assert (partial["verdict"].values[done] != NOT_RUN).all()
-    assert (partial["verdict"].values == NOT_RUN).sum() >= 16 - n_done - 1
+    assert (partial["verdict"].values == NOT_RUN).sum() >= SLOW_POINTS - n_done - 1
     status = subprocess.run([sys.executable, "-m", "cruiseplan", "sweep", str(study_file),
                              "-o", str(cut), "--resume", "--workers", "1"],
                             capture_output=True, text=True, timeout=120)

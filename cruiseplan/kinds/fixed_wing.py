@@ -15,11 +15,16 @@ from typing import ClassVar
 
 import numpy as np
 
+from cruiseplan._numerics import IN_PLACE_SIZE, owned, set_flag
 from cruiseplan.constants import G0
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.kinds.base import AirframeBase, LevelFlight
-from cruiseplan.limits import Limit, flag_if
+from cruiseplan.limits import LIMIT_DTYPE, Limit
 from cruiseplan.physics.aerodynamics import lift_coefficient, speed_for_lift_coefficient
+
+_BEYOND_CLMAX = LIMIT_DTYPE(Limit.BEYOND_CLMAX | Limit.STALL)
+_POLAR_RANGE = LIMIT_DTYPE(Limit.POLAR_RANGE)
+_REYNOLDS_RANGE = LIMIT_DTYPE(Limit.REYNOLDS_RANGE)
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -108,7 +113,12 @@ class FixedWing(AirframeBase):
         tas = np.asarray(tas, dtype=float)
         cl = lift_coefficient(mass, air.density, tas, self.wing_area)
         cd = self.polar.drag_coefficient(cl, tas, air)
-        drag = mass * G0 * cd / cl  # lift = weight, drag = lift / (L/D)
+        drag = mass * G0 * cd  # lift = weight, drag = lift / (L/D)
+        if type(drag) is np.ndarray and drag.size >= IN_PLACE_SIZE and owned(
+                drag, np.shape(cl)):
+            drag /= cl  # a large grid: in place
+        else:
+            drag = drag / cl
         # Thrust = drag: D V / eta_p(V), or with a propeller diameter momentum theory.
         shaft = self.propulsion.shaft_for_thrust(drag, tas, air.density)
         return LevelFlight(drag=drag, shaft=shaft, cl=cl, cd=cd)
@@ -130,13 +140,24 @@ class FixedWing(AirframeBase):
         Returns
         -------
         numpy.ndarray
-            :data:`~cruiseplan.limits.LIMIT_DTYPE` :class:`~cruiseplan.limits.Limit` bits.
+            :data:`~cruiseplan.limits.LIMIT_DTYPE` :class:`~cruiseplan.limits.Limit` bits:
+            ``STALL`` below the stall margin, ``BEYOND_CLMAX`` (with ``STALL``) for CL above
+            CLmax, ``POLAR_RANGE`` and ``REYNOLDS_RANGE`` outside the polar's range.
         """
         cl = flight.cl
-        bits = flag_if(cl > self.cl_max / stall_margin**2, Limit.STALL)
-        bits |= flag_if(self.polar.outside(cl), Limit.POLAR_RANGE)
+        # Bits set in place (set_flag): no array of bits per condition on a large grid.
+        # Limit.STALL is 1: the comparison's 0 or 1 is the bit.
+        threshold = self.cl_max / stall_margin**2
+        shape = (np.shape(cl) if type(threshold) is float
+                 else np.broadcast_shapes(np.shape(cl), np.shape(threshold)))
+        bits = np.empty(shape, dtype=LIMIT_DTYPE)
+        np.greater(cl, threshold, out=bits)
+        # CL above CLmax is TAS below the stall speed itself, beyond the margin.
+        set_flag(bits, np.greater(cl, self.cl_max), _BEYOND_CLMAX)
+        if self.polar.bounded:
+            set_flag(bits, self.polar.outside(cl), _POLAR_RANGE)
         if hasattr(self.polar, "reynolds_outside"):
-            bits |= flag_if(self.polar.reynolds_outside(tas, air), Limit.REYNOLDS_RANGE)
+            set_flag(bits, self.polar.reynolds_outside(tas, air), _REYNOLDS_RANGE)
         return bits
 
     def stall_speed_ratio(self, flight: LevelFlight):

@@ -18,11 +18,18 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
+from typing import ClassVar
 
 import numpy as np
 
+from cruiseplan._numerics import IN_PLACE_SIZE, owned
 from cruiseplan.constants import G0
 from cruiseplan.physics.dragbuildup import BuildUpPolar
+
+
+def _scalar(x) -> bool:
+    """True for a single number (the common case tested first, without a numpy call)."""
+    return type(x) is float or np.ndim(x) == 0
 
 
 def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
@@ -53,7 +60,16 @@ def lift_coefficient(mass, density, tas, wing_area, load_factor=1.0):
     .. [1] Anderson, *Aircraft Performance and Design*, eq. 5.2.
     """
     tas = np.asarray(tas, dtype=float)
-    return 2.0 * load_factor * mass * G0 / (density * tas * tas * wing_area)
+    den = density * tas
+    if den.size >= IN_PLACE_SIZE and _scalar(wing_area) and owned(den, den.shape):
+        # A large grid: the same operations in the same order, in place.
+        den *= tas
+        den *= wing_area
+        num = 2.0 * load_factor * mass * G0
+        if np.ndim(num) == 0:
+            return np.divide(num, den, out=den)
+        return num / den
+    return 2.0 * load_factor * mass * G0 / (den * tas * wing_area)
 
 
 def induced_drag_factor(oswald_e, aspect_ratio):
@@ -100,6 +116,8 @@ class ParabolicPolar:
     k: float
     cl_min_drag: float = 0.0
     kind: str = field(default="parabolic", init=False)
+    #: A parabola holds at every CL: no POLAR_RANGE limit.
+    bounded: ClassVar[bool] = False
 
     def drag_coefficient(self, cl, tas=None, air=None):
         """Drag coefficient [-] at lift coefficient ``cl`` [-].
@@ -122,7 +140,15 @@ class ParabolicPolar:
         ----------
         .. [1] Anderson, *Aircraft Performance and Design*, sec. 2.9.
         """
-        d = np.asarray(cl, dtype=float) - self.cl_min_drag
+        cl = np.asarray(cl, dtype=float)
+        if (cl.size >= IN_PLACE_SIZE and self.cl_min_drag == 0 and _scalar(self.k)
+                and _scalar(self.cd0) and owned(cl, cl.shape)):
+            # A large grid: cd0 + k cl cl in one new array (cl - 0 is cl).
+            cd = self.k * cl
+            cd *= cl
+            cd += self.cd0
+            return cd
+        d = cl - self.cl_min_drag
         return self.cd0 + self.k * d * d
 
     def outside(self, cl):
@@ -136,9 +162,9 @@ class ParabolicPolar:
         Returns
         -------
         numpy.ndarray of bool
-            All False, shape of ``cl`` [-].
+            All False, shape of ``cl`` [-] (a read-only view of one False).
         """
-        return np.zeros(np.shape(cl), dtype=bool)
+        return np.broadcast_to(False, np.shape(cl))
 
     def reference_cd0(self):
         """Zero-lift-like parasite drag coefficient used in summaries [-]."""
@@ -178,6 +204,8 @@ class TabulatedPolar:
     cl: tuple
     cd: tuple
     kind: str = field(default="tabulated", init=False)
+    #: Beyond the table's CL range the point is flagged POLAR_RANGE.
+    bounded: ClassVar[bool] = True
 
     def __post_init__(self):
         cl = np.asarray(self.cl, dtype=float)
@@ -363,7 +391,9 @@ def speed_for_lift_coefficient(mass, density, wing_area, cl):
     ----------
     .. [1] Anderson, *Aircraft Performance and Design*, eq. 5.21.
     """
-    return np.sqrt(2.0 * np.asarray(mass) * G0 / (np.asarray(density) * wing_area * cl))
+    if type(mass) is not float:
+        mass = np.asarray(mass)
+    return np.sqrt(2.0 * mass * G0 / (np.asarray(density) * wing_area * cl))
 
 
 def min_drag_speed(mass, density, wing_area, cd0, k):
@@ -506,19 +536,28 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     # real roots, Cardano's otherwise.
     half = p * p / 16.0
     disc = half * half - q * q * q / 27.0
+    one_real = disc >= 0
     with np.errstate(invalid="ignore", divide="ignore"):
-        r = np.sqrt(np.maximum(disc, 0.0))
-        cardano = np.cbrt(half + r) + np.cbrt(half - r)
-        scale = 2.0 * np.sqrt(q / 3.0)
-        angle = np.arccos(np.clip(half / (q / 3.0) ** 1.5, -1.0, 1.0)) / 3.0
-        m = np.where(disc >= 0, cardano, scale * np.cos(angle))
+        # Each form computed only if some element needs it (one_real decides which).
+        if one_real.any():
+            r = np.sqrt(np.maximum(disc, 0.0))
+            cardano = np.cbrt(half + r) + np.cbrt(half - r)
+        if not one_real.all():
+            scale = 2.0 * np.sqrt(q / 3.0)
+            # np.clip by its two ufuncs (the same values, without the wrapper's cost).
+            angle = np.arccos(np.minimum(np.maximum(half / (q / 3.0) ** 1.5, -1.0), 1.0)
+                              ) / 3.0
+            trig = scale * np.cos(angle)
+            m = np.where(one_real, cardano, trig) if one_real.any() else trig
+        else:
+            m = cardano
         s = np.sqrt(2.0 * m)
         fast = 0.5 * (s + np.sqrt(-2.0 * m - 2.0 * p / s))
         slow = (m + p / (2.0 * s)) / fast
-    with np.errstate(invalid="ignore", divide="ignore"):
         # Both roots at once. At a double root (the thrust power just meets the least drag
         # power) the slope vanishes: keep the value there.
-        v = np.stack(np.broadcast_arrays(slow, fast))
+        v = np.empty((2,) + np.broadcast_shapes(np.shape(slow), np.shape(fast)))
+        v[0], v[1] = slow, fast
         for _ in range(2):
             v3 = v * v * v
             step = (v3 * v + p * v + q) / (4.0 * v3 + p)

@@ -192,8 +192,9 @@ def ground_speed(tas, headwind, crosswind):
     """
     tas = np.asarray(tas, dtype=float)
     cross = np.asarray(crosswind, dtype=float)
-    with np.errstate(invalid="ignore"):
-        return np.sqrt(tas * tas - cross * cross) - headwind
+    square = tas * tas - cross * cross
+    # NaN where the course is lost, set before the root (no warning to silence).
+    return np.sqrt(np.where(square >= 0, square, np.nan)) - headwind
 
 
 def wind_correction_angle(tas, crosswind):

@@ -114,8 +114,9 @@ def check_altitude(pressure_altitude, what: str = "altitude") -> np.ndarray:
         Naming the offending value and the valid range.
     """
     h = np.asarray(pressure_altitude, dtype=float)
-    bad = ~((h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX))
-    if np.any(bad):
+    inside = (h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX)
+    if not inside.all():
+        bad = ~inside
         v = h[bad].flat[0]
         raise AtmosphereRangeError(
             f"{what} {v:.{0 if abs(v) < 1e12 else 3}{'f' if abs(v) < 1e12 else 'g'}} m "
@@ -146,6 +147,31 @@ def isa_temperature_pressure(pressure_altitude):
        ``ambiance`` package.
     """
     H = check_altitude(pressure_altitude)
+    if H.size > _ISA_CACHE_SIZE:
+        return _isa_from_ambiance(H)
+    # The same altitudes come back call after call (a table's rows, a plan's legs, a
+    # search's air): ambiance evaluates each distinct set once.
+    key = (H.shape, H.tobytes())
+    found = _ISA_CACHE.get(key)
+    if found is None:
+        found = _isa_from_ambiance(H)
+        for a in found:
+            a.flags.writeable = False  # shared between callers
+        if len(_ISA_CACHE) >= _ISA_CACHE_ENTRIES:
+            _ISA_CACHE.pop(next(iter(_ISA_CACHE)))
+        _ISA_CACHE[key] = found
+    return found
+
+
+#: Most altitudes in one cached set, and most sets kept (the oldest dropped first): about
+#: 50 MB at most, however long a process runs.
+_ISA_CACHE_SIZE = 4096
+_ISA_CACHE_ENTRIES = 128
+_ISA_CACHE: dict = {}
+
+
+def _isa_from_ambiance(H):
+    """ISA temperature [K] and pressure [Pa] at geopotential altitudes ``H`` [m]."""
     amb = _ambiance()
     flat = H.ravel()
     h_geometric = amb.Atmosphere.geop2geom_height(flat)
@@ -208,8 +234,14 @@ class AirState:
 
     @property
     def sigma(self):
-        """Density ratio rho / rho0 [-]."""
-        return self.density / RHO0
+        """Density ratio rho / rho0 [-] (computed once per state, read-only)."""
+        sigma = self.__dict__.get("_sigma")
+        if sigma is None:
+            sigma = self.density / RHO0
+            if isinstance(sigma, np.ndarray):
+                sigma.flags.writeable = False  # kept, and shared with the state's users
+            self.__dict__["_sigma"] = sigma
+        return sigma
 
     @property
     def kinematic_viscosity(self):
@@ -280,6 +312,33 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
     .. [1] ICAO Doc 7488/3 (1993), via ``ambiance``, for the ISA pressure.
     """
     H = np.asarray(pressure_altitude, dtype=float)
+    key = None
+    if oat is None and H.size <= _ISA_CACHE_SIZE:
+        # The same air is asked for again and again (a search's altitudes, a plan's
+        # legs): computed once per distinct altitudes and deviation, shared read-only.
+        dev = np.asarray(isa_dev, dtype=float)
+        if dev.size <= _ISA_CACHE_SIZE:
+            key = (H.shape, H.tobytes(), dev.shape, dev.tobytes())
+            found = _AIR_CACHE.get(key)
+            if found is not None:
+                return found
+    air = _air_state(H.copy() if key is not None else H, isa_dev, oat)
+    if key is not None:
+        for f in _FIELDS:
+            v = getattr(air, f)
+            if isinstance(v, np.ndarray) and v.flags.writeable:
+                v.flags.writeable = False
+        if len(_AIR_CACHE) >= _ISA_CACHE_ENTRIES:
+            _AIR_CACHE.pop(next(iter(_AIR_CACHE)))
+        _AIR_CACHE[key] = air
+    return air
+
+
+_AIR_CACHE: dict = {}
+
+
+def _air_state(H, isa_dev, oat) -> AirState:
+    """The air state of :func:`air_state`, computed."""
     T_isa, p = isa_temperature_pressure(H)
     if oat is not None:
         T = np.asarray(oat, dtype=float) + 0.0 * T_isa
@@ -287,10 +346,11 @@ def air_state(pressure_altitude, isa_dev=0.0, *, oat=None) -> AirState:
     else:
         dT = np.asarray(isa_dev, dtype=float) + 0.0 * T_isa
         T = T_isa + dT
-    if np.any(T <= 0):
+    if (T <= 0).any():
         raise CruiseplanError(f"temperature {np.min(T):.1f} K is not physical: "
                               "check the ISA deviation or OAT")
-    p = np.broadcast_to(p, T.shape)
+    if np.shape(p) != T.shape:
+        p = np.broadcast_to(p, T.shape)
     rho = p / (R_AIR * T)
     return AirState(np.broadcast_to(H, T.shape), dT, T, p, rho,
                     np.sqrt(GAMMA * R_AIR * T), sutherland_viscosity(T))

@@ -41,6 +41,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
+from typing import ClassVar
 
 import numpy as np
 
@@ -584,6 +585,8 @@ class BuildUpPolar:
     excrescence: float = 0.0
     scale: object = 1.0
     kind: str = field(default="build-up", init=False)
+    #: The parabola in CL holds at every CL (the Reynolds range is flagged instead).
+    bounded: ClassVar[bool] = False
 
     def cd0(self, tas, air):
         """Zero-lift drag coefficient [-] at TAS [m/s] in the given air.

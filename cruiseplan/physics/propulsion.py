@@ -49,7 +49,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from cruiseplan._numerics import monotone_slopes
+from cruiseplan._numerics import IN_PLACE_SIZE, fits, monotone_slopes, owned
 from cruiseplan.errors import CruiseplanError, lookup
 from cruiseplan.limits import LIMIT_DTYPE
 from cruiseplan.physics.battery import EquivalentCircuit, PackLoad
@@ -177,6 +177,7 @@ class PropellerEfficiency:
     factor: object = 1.0
 
     def __post_init__(self):
+        object.__setattr__(self, "_constant", len(self.efficiency) == 1)
         if len(self.efficiency) > 1:
             x = np.asarray(self.tas, dtype=float)
             y = np.asarray(self.efficiency, dtype=float)
@@ -190,10 +191,11 @@ class PropellerEfficiency:
             c0, c1 = y[:-1], h * d[:-1]
             c2 = 3 * (y[1:] - y[:-1]) - h * (2 * d[:-1] + d[1:])
             c3 = 2 * (y[:-1] - y[1:]) + h * (d[:-1] + d[1:])
-            # One array per coefficient, each gathered by np.take (quicker than gathering
-            # rows of a table on the speed searches' larger arrays).
-            object.__setattr__(self, "_coefs", tuple(np.ascontiguousarray(c) for c in
-                                                     (x[:-1], 1.0 / h, c3, c2, c1, c0)))
+            # One row per coefficient, all gathered by one np.take along the intervals:
+            # quicker than a take per coefficient or than gathering a table's rows, on the
+            # planner's small arrays and the speed searches' larger ones alike.
+            object.__setattr__(self, "_table", np.array((x[:-1], 1.0 / h, c3, c2, c1, c0)))
+            object.__setattr__(self, "_ends", (float(x[0]), float(x[-1])))
 
     @property
     def is_constant(self) -> bool:
@@ -202,15 +204,18 @@ class PropellerEfficiency:
 
     def __call__(self, tas):
         """Efficiency [-] at TAS [m/s]."""
-        if self.is_constant:
+        if self._constant:
             return self.efficiency[0] * self.factor
+        if type(self.factor) is float and self.factor == 1.0:
+            return self._cubic(tas)  # 1.0 x is the same value: one operation fewer
         return self.factor * self._cubic(tas)
 
     def _cubic(self, tas):
-        x = self._x
-        v = np.clip(tas, x[0], x[-1])
-        i = np.searchsorted(self._inner, v, side="right")
-        x0, inv_h, c3, c2, c1, c0 = (c.take(i) for c in self._coefs)
+        lo, hi = self._ends
+        # np.clip by its two ufuncs (NaN stays NaN), without the wrapper's per-call cost.
+        v = np.minimum(np.maximum(tas, lo), hi)
+        i = self._inner.searchsorted(v, side="right")
+        x0, inv_h, c3, c2, c1, c0 = self._table.take(i, axis=1)
         t = (v - x0) * inv_h
         return ((c3 * t + c2) * t + c1) * t + c0
 
@@ -235,7 +240,14 @@ class PropellerEfficiency:
         numpy.ndarray
             Shaft power [W].
         """
-        return thrust * tas / self(tas)
+        power = thrust * tas
+        eta = self(tas)
+        if (type(power) is np.ndarray and power.size >= IN_PLACE_SIZE
+                and owned(power, power.shape)
+                and (type(eta) is float or fits(eta, power.shape))):
+            power /= eta  # a large grid: in place
+            return power
+        return power / eta
 
     def thrust_available(self, tas, density, power):
         r"""Thrust [N] at shaft power ``power``: :math:`\eta_p(V) P / V` (unbounded as V -> 0).
@@ -757,6 +769,10 @@ class PowerChart:
         return rpm, mp
 
 
+#: The pack limits of a propulsion without a battery circuit: none, at every point.
+_NO_PACK_LIMITS = LIMIT_DTYPE(0)
+
+
 @dataclass(frozen=True)
 class PistonPropeller(_Propeller):
     """Piston engine driving a propeller.
@@ -908,10 +924,10 @@ class PistonPropeller(_Propeller):
 
         Returns
         -------
-        numpy.ndarray
-            Zeros of :data:`~cruiseplan.limits.LIMIT_DTYPE`, shape of ``shaft_power``.
+        numpy.uint32
+            A :data:`~cruiseplan.limits.LIMIT_DTYPE` zero, broadcastable to any shape.
         """
-        return np.zeros(np.shape(shaft_power), dtype=LIMIT_DTYPE)
+        return _NO_PACK_LIMITS
 
     def at_pack_temperature(self, celsius):
         """The same engine: a pack temperature [degC] changes nothing without a pack."""
@@ -1108,10 +1124,11 @@ class ElectricPropeller(_Propeller):
         Returns
         -------
         numpy.ndarray
-            :class:`~cruiseplan.limits.Limit` bits PACK_POWER, CURRENT and CUTOFF.
+            :class:`~cruiseplan.limits.Limit` bits PACK_POWER, CURRENT and CUTOFF (a
+            scalar zero, broadcastable to any shape, without a circuit).
         """
         if self.circuit is None:
-            return np.zeros(np.shape(shaft_power), dtype=LIMIT_DTYPE)
+            return _NO_PACK_LIMITS
         return self.pack_load(shaft_power, store).limits
 
     def lapse(self, sigma):

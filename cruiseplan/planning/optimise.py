@@ -128,12 +128,17 @@ class SpeedSchedule:
         return self.infeasible == 0
 
 
+_BIT_POWER = LIMIT_DTYPE(Limit.POWER)
+_BIT_CLIMB_RESERVE = LIMIT_DTYPE(Limit.CLIMB_RESERVE)
+_BIT_WIND = LIMIT_DTYPE(Limit.WIND)
+
+
 def _closed_form_ok(airframe, headwind, crosswind) -> bool:
     polar = getattr(airframe, "polar", None)
     prop = airframe.propulsion
     return (isinstance(polar, ParabolicPolar) and polar.cl_min_drag == 0.0
             and prop.propeller.is_constant
-            and np.all(np.asarray(headwind) == 0) and np.all(np.asarray(crosswind) == 0))
+            and not np.asarray(headwind).any() and not np.asarray(crosswind).any())
 
 
 def climb_rate(airframe, mass, air: AirState, tas):
@@ -228,10 +233,12 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     evaluates the level flight once for both.
     """
     prop = airframe.propulsion
-    v_s = airframe.stall_speed(mass, air.density)
-    lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
     polar = getattr(airframe, "polar", None)
     out = {}
+
+    def bounds():
+        # The searches' bracket (the closed forms need none).
+        return 0.5 * airframe.stall_speed(mass, air.density), MACH_LIMIT * air.speed_of_sound
 
     def shaft(v):
         return shaft_power_required(airframe, mass, air, v)
@@ -243,12 +250,14 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     # few dozen altitudes, a few calls of successive grids on larger arrays are quicker
     # than Brent's many array operations per step.
     search = grid_minimise if xtol >= 1e-7 else brent_minimise
-    peukert = np.any(getattr(prop, "peukert_exponent", 1.0) != 1.0)
+    exponent = getattr(prop, "peukert_exponent", 1.0)
+    peukert = exponent != 1.0 if type(exponent) is float else np.any(exponent != 1.0)
     range_closed = _closed_form_ok(airframe, hw, cw) and not peukert
     endurance_closed = _closed_form_ok(airframe, 0.0, 0.0)
     want_range = "range" in objectives or "economy" in objectives
     if want_range and "endurance" in objectives and not range_closed \
             and not endurance_closed:
+        lo, hi = bounds()
         shape = np.broadcast_shapes(np.shape(lo), np.shape(hi))
 
         def both(v):
@@ -267,13 +276,13 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
             out["range"] = min_drag_speed(mass, air.density, airframe.wing_area, polar.cd0,
                                           polar.k)
         else:
-            out["range"] = search(lambda v: -ground_range(v), lo, hi, xtol_rel=xtol)
+            out["range"] = search(lambda v: -ground_range(v), *bounds(), xtol_rel=xtol)
     if "endurance" in objectives and "endurance" not in out:
         if endurance_closed:
             out["endurance"] = min_power_speed(mass, air.density, airframe.wing_area,
                                                polar.cd0, polar.k)
         else:
-            out["endurance"] = search(shaft, lo, hi, xtol_rel=xtol)
+            out["endurance"] = search(shaft, *bounds(), xtol_rel=xtol)
     if "economy" in objectives:
         if range_closed and getattr(prop, "circuit", None) is None:
             # Range goes as 1 / drag when the store rate is proportional to shaft power:
@@ -284,8 +293,8 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
         else:
             best = ground_range(out["range"])
             out["economy"] = illinois_root(
-                lambda v: ECONOMY_FRACTION * best - ground_range(v), out["range"], hi,
-                xtol_rel=max(0.1 * xtol, ROOT_XTOL))
+                lambda v: ECONOMY_FRACTION * best - ground_range(v), out["range"],
+                bounds()[1], xtol_rel=max(0.1 * xtol, ROOT_XTOL))
     return out
 
 
@@ -421,13 +430,14 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     v_margin = stall_margin * v_s
     win_lo = np.maximum(c_lo, v_margin)
     win_hi = c_hi
-    infeasible = np.zeros(shape, dtype=LIMIT_DTYPE)
-    infeasible |= np.where(~p_ok, Limit.POWER, 0).astype(LIMIT_DTYPE)
-    infeasible |= np.where(p_ok & ~c_ok, Limit.CLIMB_RESERVE, 0).astype(LIMIT_DTYPE)
+    # Bits as bool x bit (each condition a bool array of the altitudes' shape).
+    infeasible = np.broadcast_to(~p_ok, shape) * _BIT_POWER
+    if c_ok is not p_ok:
+        infeasible |= (p_ok & ~c_ok) * _BIT_CLIMB_RESERVE
     squeezed = c_ok & (v_margin > c_hi)
-    infeasible |= np.where(squeezed, Limit.STALL | (
-        Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER), 0
-    ).astype(LIMIT_DTYPE)
+    if squeezed.any():
+        infeasible |= squeezed * LIMIT_DTYPE(Limit.STALL | (
+            Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER))
     # A battery pack given as a circuit caps the power at the store's state of charge
     # (its maximum power, cut-off voltage or maximum current): a speed beyond it is not
     # flyable, and where the cap binds a best speed its bit is named.
@@ -437,14 +447,19 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
         infeasible |= np.where(no_cap, cap_bit, 0).astype(LIMIT_DTYPE)
         win_lo, win_hi = np.fmax(win_lo, k_lo), np.fmin(win_hi, k_hi)
     ok = infeasible == 0
-    win_lo = np.where(ok, win_lo, np.nan)
-    win_hi = np.where(ok, win_hi, np.nan)
+    if not ok.all():
+        win_lo = np.where(ok, win_lo, np.nan)
+        win_hi = np.where(ok, win_hi, np.nan)
 
     def clamp(v_unc):
-        v = np.clip(v_unc, win_lo, win_hi)
-        code = np.zeros(shape, dtype=LIMIT_DTYPE)
         below = v_unc < win_lo
         above = v_unc > win_hi
+        if not (below.any() or above.any()):
+            # Inside the window everywhere (or no window): the speed is its own clipped
+            # value and nothing binds (the same as the general case below).
+            return np.where(ok, v_unc, np.nan), np.zeros(shape, dtype=LIMIT_DTYPE)
+        v = np.minimum(np.maximum(v_unc, win_lo), win_hi)  # np.clip, by its ufuncs
+        code = np.zeros(shape, dtype=LIMIT_DTYPE)
         stall_bound = below & (v_margin >= c_lo)
         code |= np.where(stall_bound, Limit.STALL, 0).astype(LIMIT_DTYPE)
         power_side = (below & ~stall_bound) | above
@@ -467,8 +482,9 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     tas["endurance"], binding["endurance"] = clamp(v_end)
     econ_unc = np.maximum(v_econ, tas["range"])
     tas["economy"], binding["economy"] = clamp(econ_unc)
-    binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
-                                   ).astype(LIMIT_DTYPE)
+    if binding["range"].any():
+        binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
+                                       ).astype(LIMIT_DTYPE)
     return SpeedSchedule(air=air, headwind=hw, crosswind=cw, stall_speed=v_s,
                          window_lo=win_lo, window_hi=win_hi, infeasible=infeasible,
                          tas=tas, binding=binding,
@@ -831,7 +847,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     if objective not in OBJECTIVES:
         raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
     h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
-    if h.ndim != 1 or np.any(np.diff(h) <= 0):
+    if h.ndim != 1 or (h[1:] <= h[:-1]).any():  # finite altitudes: as np.diff(h) <= 0
         raise CruiseplanError("altitudes must be one-dimensional and increasing")
     if wind is not None and headwind is not None:
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
@@ -858,12 +874,12 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin, keep_unflyable=True)
     wind_bad = sched.feasible & ~(gs > 0)
-    infeasible = sched.infeasible | np.where(wind_bad, Limit.WIND, 0).astype(LIMIT_DTYPE)
-    sched = replace(sched, infeasible=infeasible)
+    if wind_bad.any():
+        sched = replace(sched, infeasible=sched.infeasible | wind_bad * _BIT_WIND)
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
     v_free = sched.tas_unconstrained[objective]
-    if np.array_equal(v_free, v):
+    if v_free.shape == v.shape and (v_free == v).all():  # np.array_equal, NaN unequal
         free = pts   # no constraint binds anywhere: the same points (values kept above)
     else:
         gs_free = ground_speed(v_free, hw, cw)

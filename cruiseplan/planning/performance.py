@@ -31,10 +31,10 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from cruiseplan._numerics import brent_minimise, illinois_root
+from cruiseplan._numerics import any_true, brent_minimise, illinois_root, set_flag
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
-from cruiseplan.limits import LIMIT_DTYPE, UNFLYABLE, Limit, explain, flag_if
+from cruiseplan.limits import LIMIT_DTYPE, UNFLYABLE, Limit, explain
 from cruiseplan.physics import airspeed as _airspeed
 from cruiseplan.physics.airspeed import ground_speed
 from cruiseplan.physics.atmosphere import (
@@ -53,7 +53,43 @@ UNFLYABLE_FIELDS = ("store_rate", "fuel_volume_flow", "source_power", "specific_
                     "specific_range_ground", "endurance", "range_air", "range_ground")
 
 
+class _Derived:
+    """A :class:`CruisePoints` field derived from the core arrays on first read, then kept.
+
+    A non-data descriptor: once the value sits in the instance's ``__dict__`` it is read
+    from there without calling this again.
+    """
+
+    def __init__(self, derive):
+        self.derive = derive
+        self.__doc__ = derive.__doc__
+
+    def __set_name__(self, owner, name):
+        self.name = name
+
+    def __get__(self, points, owner=None):
+        if points is None:
+            return self
+        value = points._finish(self.name, self.derive(points))
+        points.__dict__[self.name] = value
+        return value
+
+
 @dataclass(frozen=True)
+class _Sources:
+    """What the derived fields of a :class:`CruisePoints` are computed from (SI)."""
+
+    airframe: object
+    flight: object          # LevelFlight at the points (before the atmosphere mask)
+    available: object       # full-throttle shaft power [W], broadcastable
+    gs: object              # ground speed [m/s], broadcastable
+    store: object           # store on board as given [kg or J]
+    rate: object            # store rate [kg/s or W], unflyable points not yet hidden
+    bad: object = None      # True where the air is outside the model, or None
+    hide: bool = False      # the store's figures NaN where an UNFLYABLE bit is set
+
+
+@dataclass(frozen=True, init=False)
 class CruisePoints:
     """Cruise performance at broadcast (altitude, TAS) points; SI arrays.
 
@@ -139,24 +175,64 @@ class CruisePoints:
     store_name: str
     cl: np.ndarray | None
     cd: np.ndarray | None
-    lift_to_drag: np.ndarray | None
+    lift_to_drag: np.ndarray | None = _Derived(
+        lambda p: None if p.cl is None else p.cl / p.cd)
     drag: np.ndarray
-    thrust_power: np.ndarray
+    thrust_power: np.ndarray = _Derived(lambda p: p.drag * p.tas)
     shaft_power: np.ndarray
-    source_power: np.ndarray
-    power_available: np.ndarray
-    power_margin: np.ndarray
-    store_rate: np.ndarray
-    fuel_volume_flow: np.ndarray | None
-    ground_speed: np.ndarray
-    specific_range_air: np.ndarray
-    specific_range_ground: np.ndarray
-    endurance: np.ndarray
-    range_air: np.ndarray
-    range_ground: np.ndarray
-    stall_speed_ratio: np.ndarray
+    source_power: np.ndarray = _Derived(
+        lambda p: p._sources.airframe.propulsion.source_power(p.shaft_power))
+    power_available: np.ndarray = _Derived(
+        lambda p: np.broadcast_to(p._sources.available, p.shape))
+    power_margin: np.ndarray = _Derived(lambda p: p._sources.available - p.shaft_power)
+    store_rate: np.ndarray = _Derived(lambda p: p._sources.rate)
+    fuel_volume_flow: np.ndarray | None = _Derived(
+        lambda p: (p.store_rate / p._sources.airframe.propulsion.fuel_density
+                   if p._sources.airframe.propulsion.store.burns_mass else None))
+    ground_speed: np.ndarray = _Derived(lambda p: np.broadcast_to(p._sources.gs, p.shape))
+    specific_range_air: np.ndarray = _Derived(lambda p: p.tas / p.store_rate)
+    specific_range_ground: np.ndarray = _Derived(lambda p: p._sources.gs / p.store_rate)
+    endurance: np.ndarray = _Derived(lambda p: p._sources.store / p.store_rate)
+    range_air: np.ndarray = _Derived(lambda p: p.tas * p.endurance)
+    range_ground: np.ndarray = _Derived(lambda p: p._sources.gs * p.endurance)
+    stall_speed_ratio: np.ndarray = _Derived(
+        lambda p: p._sources.airframe.stall_speed_ratio(p._sources.flight))
     limits: np.ndarray
     rated_power: float
+
+    # The core arrays (CL, CD, drag, shaft power, store rate, limits) are computed by
+    # cruise_points; the rest (the fields given a _Derived above, and the store rate's
+    # NaN at unflyable points) on first read, so a large grid holds only what is read.
+    # dataclasses.replace reads every field, so a replaced copy carries plain values.
+    def __init__(self, _sources=None, **values):
+        fields = self.__dataclass_fields__
+        needed = _CORE_FIELDS if _sources is not None else fields.keys()
+        if not (values.keys() <= fields.keys() and needed <= values.keys()):
+            raise TypeError(f"CruisePoints got the fields {sorted(values)}; it takes "
+                            f"{list(fields)}, with at least {sorted(needed)}")
+        self.__dict__.update(values)
+        self.__dict__["_sources"] = _sources
+
+    def _finish(self, name, value):
+        """A derived value, NaN where the air is out of the model or the point unflyable.
+
+        Only the store's figures (:data:`UNFLYABLE_FIELDS`) are hidden at unflyable points.
+        """
+        src = self._sources
+        if value is None:
+            return None
+        if src.bad is not None:
+            value = np.where(src.bad, np.nan, value)
+        if src.hide and name in UNFLYABLE_FIELDS:
+            unflyable = self.__dict__.get("_unflyable")
+            if unflyable is None:
+                unflyable = (self.limits & LIMIT_DTYPE(UNFLYABLE)) != 0
+                if not unflyable.any():
+                    unflyable = False
+                self.__dict__["_unflyable"] = unflyable
+            if unflyable is not False:
+                value = np.where(unflyable, np.nan, value)
+        return value
 
     @property
     def feasible(self) -> np.ndarray:
@@ -324,7 +400,6 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     tas = np.asarray(tas, dtype=float)
     flight = airframe.level_flight(mass, air, tas)
     cl, cd, drag, shaft = flight.cl, flight.cd, flight.drag, flight.shaft
-    thrust_power = drag * tas
     sigma = air.sigma
     available = prop.shaft_power_available(sigma)
     # One store rate for every output: endurance and specific range both divide by it.
@@ -332,44 +407,58 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     # cut-off (physics.battery), so that store / rate is that discharge's time.
     rate = prop.store_rate(shaft, store=store)
     gs = tas - headwind if ground_speed is None else np.asarray(ground_speed, dtype=float)
-    endurance = store / rate
-
-    ratio = airframe.stall_speed_ratio(flight)
-    limits = airframe.model_limits(flight, tas, stall_margin, air)
-    limits = limits | (shaft > available).astype(LIMIT_DTYPE) << 1
-    limits |= (tas > MACH_LIMIT * air.speed_of_sound).astype(LIMIT_DTYPE) << 3
-    limits |= prop.lapse_outside(sigma).astype(LIMIT_DTYPE) << 5
-    # A hover (TAS 0, ground speed 0: calm air) holds its position, so no WIND limit.
-    hover = (tas == 0) & (gs == 0)
-    limits |= (~((gs > 0) | hover)).astype(LIMIT_DTYPE) << 7
-    # V/Vs < 1 is CL > CLmax: beyond the stall itself, not just the margin (NaN: no wing).
-    limits |= flag_if(ratio < 1, Limit.BEYOND_CLMAX) | flag_if(ratio < 1, Limit.STALL)
-    # Battery pack: its maximum power, maximum continuous current and cut-off voltage
-    # under load, with this store on board (zeros without a circuit).
-    limits |= prop.pack_limits(shaft, store)
-    limits = np.broadcast_to(limits, np.shape(shaft)).astype(LIMIT_DTYPE)
-
     shape = np.shape(shaft)
-    out = dict(
-        cl=cl, cd=cd, lift_to_drag=None if cl is None else cl / cd, drag=drag,
-        thrust_power=thrust_power, shaft_power=shaft, source_power=prop.source_power(shaft),
-        power_available=np.broadcast_to(available, shape),
-        power_margin=available - shaft, store_rate=rate,
-        fuel_volume_flow=(rate / prop.fuel_density if prop.store.burns_mass else None),
-        ground_speed=np.broadcast_to(gs, shape),
-        specific_range_air=tas / rate, specific_range_ground=gs / rate,
-        endurance=endurance, range_air=tas * endurance, range_ground=gs * endurance,
-        stall_speed_ratio=ratio,
-    )
-    if valid_air is not None and not np.all(valid_air):
+
+    # The kind's own bits (stall margin, beyond CLmax, model ranges), then the shared ones.
+    # Each condition is ORed in place (set_flag): no array of bits per condition (a grid of
+    # a million points stays within a few bytes per point).
+    limits = airframe.model_limits(flight, tas, stall_margin, air)
+    if (not isinstance(limits, np.ndarray) or limits.shape != shape
+            or limits.dtype != LIMIT_DTYPE or not limits.flags.writeable):
+        limits = np.array(np.broadcast_to(limits, shape), dtype=LIMIT_DTYPE)
+    short = np.greater(shaft, available)
+    if short.any():
+        set_flag(limits, short, _BIT[Limit.POWER])
+    mach = MACH_LIMIT * air.speed_of_sound
+    # Checked on the (small) inputs first: no point can be past Mach when the fastest TAS
+    # is below the least limit (NaN sets no flag either way).
+    if not np.fmax.reduce(tas, axis=None, initial=-np.inf) <= np.fmin.reduce(
+            mach, axis=None, initial=np.inf):
+        set_flag(limits, np.greater(tas, mach), _BIT[Limit.MACH])
+    set_flag(limits, prop.lapse_outside(sigma), _BIT[Limit.LAPSE_RANGE])
+    # A hover (TAS 0, ground speed 0: calm air) holds its position, so no WIND limit.
+    no_headway = ~(gs > 0)
+    if no_headway.any():
+        set_flag(limits, no_headway & ~((tas == 0) & (gs == 0)), _BIT[Limit.WIND])
+    # Battery pack: its maximum power, maximum continuous current and cut-off voltage
+    # under load, with this store on board (none without a circuit).
+    pack = prop.pack_limits(shaft, store)
+    if any_true(pack):
+        limits |= pack
+
+    bad = None
+    if valid_air is not None and not np.asarray(valid_air).all():
         bad = np.broadcast_to(~np.asarray(valid_air, dtype=bool), shape)
-        out = {k: (None if v is None else np.where(bad, np.nan, v)) for k, v in out.items()}
+        cl, cd, drag, shaft, rate = (None if v is None else np.where(bad, np.nan, v)
+                                     for v in (cl, cd, drag, shaft, rate))
         limits = np.where(bad, LIMIT_DTYPE(Limit.ATMOSPHERE), limits).astype(LIMIT_DTYPE)
-    pts = CruisePoints(air=air, tas=tas, mass=mass if np.ndim(mass) else float(mass),
-                       store=store if np.ndim(store) else float(store),
-                       store_name=prop.store_name, limits=limits,
-                       rated_power=float(prop.rated_power), **out)
-    return pts if keep_unflyable else _hide_unflyable(pts)
+    return CruisePoints(air=air, tas=tas,
+                        mass=mass if type(mass) is float or np.ndim(mass) else float(mass),
+                        store=store if type(store) is float or np.ndim(store)
+                        else float(store),
+                        store_name=prop.store_name, cl=cl, cd=cd, drag=drag,
+                        shaft_power=shaft, limits=limits,
+                        rated_power=float(prop.rated_power),
+                        _sources=_Sources(airframe, flight, available, gs, store, rate, bad,
+                                          not keep_unflyable))
+
+
+#: The fields cruise_points computes; the others are derived from them when read.
+_CORE_FIELDS = frozenset(n for n, f in CruisePoints.__dataclass_fields__.items()
+                         if not isinstance(f.default, _Derived))
+
+#: Each Limit as a LIMIT_DTYPE scalar.
+_BIT = {flag: LIMIT_DTYPE(flag) for flag in Limit}
 
 
 def _hide_unflyable(points: CruisePoints) -> CruisePoints:
@@ -387,13 +476,18 @@ def _air_column(altitudes, isa_dev):
     if h.ndim != 1:
         raise CruiseplanError("altitudes must be one-dimensional")
     valid = (h >= ALTITUDE_MIN) & (h <= ALTITUDE_MAX)
-    air = air_state(np.clip(h, ALTITUDE_MIN, ALTITUDE_MAX), isa_dev)
-    if not np.all(valid):
+    clipped = np.minimum(np.maximum(h, ALTITUDE_MIN), ALTITUDE_MAX)  # np.clip, by ufuncs
+    if np.ndim(isa_dev) == 0:
+        air = air_state(clipped[:, None], isa_dev)  # a column from the start
+    else:
+        air = air_state(clipped, isa_dev).column()
+    valid = valid[:, None]
+    if not valid.all():
         # Rows outside the model keep the altitude asked for, and no air values.
-        air = AirState(h, *(np.where(valid, getattr(air, f), np.nan) for f in
-                            ("isa_dev", "temperature", "pressure", "density",
-                             "speed_of_sound", "viscosity")))
-    return air.column(), valid[:, None]
+        air = AirState(h[:, None], *(np.where(valid, getattr(air, f), np.nan) for f in
+                                     ("isa_dev", "temperature", "pressure", "density",
+                                      "speed_of_sound", "viscosity")))
+    return air, valid
 
 
 def _grid_inputs(airframe, altitudes, mass, fuel, payload, isa_dev, headwind):
@@ -465,10 +559,10 @@ def cruise_grid(airframe, altitudes, tas, *, mass=None, fuel=None, payload=None,
     """
     v = np.atleast_1d(to_si(tas, "m/s", what="tas"))
     if airframe.hovers:
-        if v.ndim != 1 or np.any(v < 0):
+        if v.ndim != 1 or (v < 0).any():
             raise CruiseplanError(f"tas must be a one-dimensional array of speeds of 0 (the "
                                   f"hover) or more for the {airframe.kind} {airframe.name}")
-    elif v.ndim != 1 or np.any(v <= 0):
+    elif v.ndim != 1 or (v <= 0).any():
         raise CruiseplanError("tas must be a one-dimensional array of positive speeds")
     if wind is not None and np.any(np.asarray(headwind) != 0):
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
