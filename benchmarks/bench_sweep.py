@@ -12,9 +12,10 @@ Reports, measured in one run (no timed assertions):
 
        loop      the Python loop in this process
        sweep 1   run_study(study, workers=1) (in this process, no cluster)
-       sweep 2   run_study(study, client=client) on a dask LocalCluster of 2 single-
-                 threaded worker processes started once before the timing (its start-up,
-                 about 2 s, is reported on its own: a study of minutes pays it once)
+       sweep 2   run_study(study, client=client) on the local cluster of 2 worker
+                 processes ``cruiseplan sweep --workers 2`` starts (``local_cluster``),
+                 started once before the timing (its start-up, about 1 s, is reported on
+                 its own: a study of minutes pays it once)
 
    run interleaved (loop, sweep 1, sweep 2, loop, ...) 3 times; the medians give
    ``sweep 1 / loop`` and ``sweep 2 / loop`` in points per second, and ``sweep 2 / sweep 1``.
@@ -101,11 +102,12 @@ def rate(folder: Path):
             plan_mission(apply_overrides(mission, isa_dev=values["isa_dev"],
                                          payload=values["payload"]))
 
-    from distributed import Client, LocalCluster
+    from distributed import Client
+
+    from cruiseplan.studies.sweep import local_cluster
 
     t0 = time.perf_counter()
-    with LocalCluster(n_workers=2, threads_per_worker=1, processes=True, host="127.0.0.1",
-                      dashboard_address="127.0.0.1:0") as cluster, Client(cluster) as client:
+    with local_cluster(2) as cluster, Client(cluster) as client:
         client.run(lambda: __import__("cruiseplan.studies"))
         print(f"LocalCluster of 2 workers started in {time.perf_counter() - t0:.1f} s")
         sides = {"loop": loop, "sweep 1": lambda: run_study(study, workers=1),

@@ -1077,6 +1077,8 @@ def _pack_ok(options):
 def _pack_reasons(fl, leg, kind, seg) -> list:
     """NO-GO reasons of a segment beyond the battery pack's limits (circuit only)."""
     bits = int(seg["pack_limits"])
+    if not bits:
+        return []
     c = fl.circuit
     out = []
     if bits & (Limit.CUTOFF | Limit.PACK_POWER):
@@ -1152,6 +1154,11 @@ def plan_mission(mission: Mission, *, headwind_offset: float = 0.0) -> Plan:
 TOGETHER_FIELDS = frozenset({"isa_dev", "mass", "store", "payload", "overrides"})
 
 
+#: Mission fields compared by identity for a first grouping (see :func:`plan_missions`).
+_OBJECT_FIELDS = tuple(name for name in Mission.__dataclass_fields__
+                       if name not in TOGETHER_FIELDS)
+
+
 def _value_key(value):
     """``value`` itself where it can be a dict key (compared by value), else its id."""
     try:
@@ -1209,9 +1216,14 @@ def plan_missions(missions, *, headwind_offset: float = 0.0) -> list:
         The plans, in the order of ``missions``.
     """
     missions = list(missions)
-    groups = {}
+    # Missions sharing every object but the fields that may differ are grouped at once;
+    # those with equal copies of them (e.g. read again with another wind) by value.
+    by_object, groups = {}, {}
     for i, mission in enumerate(missions):
-        groups.setdefault(_together_key(mission), []).append(i)
+        by_object.setdefault(tuple(id(getattr(mission, name)) for name in _OBJECT_FIELDS),
+                             []).append(i)
+    for index in by_object.values():
+        groups.setdefault(_together_key(missions[index[0]]), []).extend(index)
     plans = [None] * len(missions)
     for index in groups.values():
         group = _plan_together([missions[i] for i in index], headwind_offset)

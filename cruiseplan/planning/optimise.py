@@ -225,6 +225,20 @@ def _two_roots(f, lo, mid, hi):
     return np.where(ends[0], a[0], root[0]), np.where(ends[1], b[1], root[1])
 
 
+def _planner_grid(f, lo, hi, *, xtol_rel):
+    """:func:`grid_minimise` in five steps, with the fewest points that reach ``xtol_rel``.
+
+    A grid of ``2 s + 1`` points shrinks the bracket ``s``-fold a step, and a bracket's
+    width starts below ``|lo| + |hi|``, so five steps reach ``xtol_rel`` when
+    ``s**5 >= 1 / xtol_rel``. The planner's 1e-4 takes 15 points (75 evaluations)
+    instead of 17 (85) in the same five array calls: the calls are what a single plan
+    pays for, the evaluations what many missions planned together pay for.
+    """
+    steps = 5
+    s = max(2, int(np.ceil((1.0 / xtol_rel) ** (1.0 / steps))))
+    return grid_minimise(f, lo, hi, xtol_rel=xtol_rel, points=2 * s + 1)
+
+
 def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
     """Best speeds before any constraint, for the objectives asked (economy needs range).
 
@@ -249,7 +263,7 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
     # Brent's method needs the fewest evaluations; for a planner's modest tolerance on a
     # few dozen altitudes, a few calls of successive grids on larger arrays are quicker
     # than Brent's many array operations per step.
-    search = grid_minimise if xtol >= 1e-7 else brent_minimise
+    search = _planner_grid if xtol >= 1e-7 else brent_minimise
     exponent = getattr(prop, "peukert_exponent", 1.0)
     peukert = exponent != 1.0 if type(exponent) is float else np.any(exponent != 1.0)
     range_closed = _closed_form_ok(airframe, hw, cw) and not peukert
