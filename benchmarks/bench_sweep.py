@@ -17,7 +17,7 @@ Reports, measured in one run (no timed assertions):
                  started once before the timing (its start-up, about 1 s, is reported on
                  its own: a study of minutes pays it once)
 
-   run interleaved (loop, sweep 1, sweep 2, loop, ...) 3 times; the medians give
+   run interleaved (loop, sweep 1, sweep 2, loop, ...) 5 times; the medians give
    ``sweep 1 / loop`` and ``sweep 2 / loop`` in points per second, and ``sweep 2 / sweep 1``.
    Targets (issue 14): sweep >= 20x the loop; 2 workers >= 1.6x 1 worker.
 
@@ -43,7 +43,7 @@ import numpy as np
 from figures import figure
 
 #: Interleaved repetitions of the rate comparison.
-RUNS = 3
+RUNS = 5
 RATE_TARGET, SCALE_TARGET = 20.0, 1.6
 
 
