@@ -4,7 +4,8 @@ The baseline is today's energy model: the same airframe (the fixed-wing survey d
 its 6-cell pack, ``demo-survey-drone-6s``) with the pack as a fixed usable energy and a
 Peukert exponent of 1.03 (``battery_energy`` / ``peukert_exponent``, no circuit), through
 the same public cruise grid (``cruise_grid``: level flight, limits, store rate, endurance,
-range). The other side is the same grid with the pack as its internal-resistance circuit
+range; every output read, ``figures.full_grid``, as the grid derives most of them when
+first read). The other side is the same grid with the pack as its internal-resistance circuit
 (a constant-power discharge to the loaded cut-off at every point, with its pack limits).
 Both run interleaved in one process, several times each; the ratio of the medians is
 reported (target <= 2x per grid point). A second ratio does the same for the planner
@@ -18,7 +19,7 @@ from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
-from figures import figure, interleaved
+from figures import figure, full_grid, interleaved
 
 import cruiseplan as cp
 from cruiseplan.io.mission_file import read_mission
@@ -37,8 +38,8 @@ def main():
     today = todays_model(circuit)
     h = np.linspace(0.0, 1000.0, 300)
     v = np.linspace(14.0, 40.0, 300)
-    med = interleaved({"today": lambda: cp.cruise_grid(today, h, v),
-                       "circuit": lambda: cp.cruise_grid(circuit, h, v)}, runs=9)
+    med = interleaved({"today": lambda: full_grid(today, h, v),
+                       "circuit": lambda: full_grid(circuit, h, v)}, runs=9)
     t_today, t_circuit = med["today"], med["circuit"]
     n = h.size * v.size
     figure("cruise grid 300x300, equivalent circuit / today's energy model",

@@ -69,3 +69,20 @@ def figure(label: str, value: float, target: float, *, at_most: bool = True,
         MISSES.append((label, text))
     print(text + ("" if ok else "  MISSES TARGET"))
     return ok
+
+
+def full_grid(airframe, h, v):
+    """``cruise_grid`` with every output read, as a table reads them (SI arrays).
+
+    ``cruise_grid`` derives most of its outputs (range, endurance, CAS, ...) when first
+    read; benchmarks that compare whole grids of two airframe kinds or store models read
+    them all, so that each side does the work a table of it takes.
+    """
+    import dataclasses
+
+    import cruiseplan as cp
+
+    points = cp.cruise_grid(airframe, h, v)
+    for field in dataclasses.fields(points):
+        getattr(points, field.name)
+    return points
