@@ -529,8 +529,9 @@ def altitude_profile(airframe, calm, wind=None, *, units: str | None = None,
         else:
             best_lines.append(f"{case}: no flyable altitude")
     objective = calm.objective
-    fig.text(0.62, 0.235, f"Best altitude for {objective} ({pick_rule(objective)}):\n"
-             + "\n".join(textwrap.fill(t, 52, subsequent_indent="  ") for t in best_lines),
+    head = f"Best altitude for {objective}, {pick_rule(objective)}:"
+    fig.text(0.62, 0.235,
+             "\n".join(textwrap.fill(t, 52, subsequent_indent="  ") for t in [head] + best_lines),
              fontsize=MIN_FONT + 1, va="top", ha="left",
              bbox=dict(boxstyle="round,pad=0.4", fc="white", ec="0.4"))
     ax_v.set_xlabel(f"best true airspeed, TAS [{ls}]", fontsize=9.5)
