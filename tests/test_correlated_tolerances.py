@@ -236,3 +236,18 @@ def test_fitted_p10_p90_covers_the_true_range_80_percent():
     assert 0.73 <= share <= 0.87
     independent, _ = mod.coverage(200, samples=2000, correlated=False)
     assert independent > share + 0.05     # correlation 0 overstates the spread
+
+
+def test_correlated_monte_carlo_is_the_same_in_chunks_as_at_once():
+    # The factors are worked out chunk by chunk from the Latin-hypercube points; the
+    # copula's mixing acts row by row, so any chunk size gives the same samples (==).
+    mission = load_mission("demo-cross-country")
+    af = replace(mission.airframe, tolerance_correlation=with_block().tolerance_correlation)
+    plan = plan_mission(replace(mission, airframe=af))
+    whole = plan_uncertainty(plan, 1501, seed=4, chunk=None)
+    for chunk in (1, 500, 777):
+        n = 61 if chunk == 1 else 1501
+        part = plan_uncertainty(plan, n, seed=4, chunk=chunk)
+        ref = whole if n == 1501 else plan_uncertainty(plan, n, seed=4, chunk=None)
+        assert part.remaining.tolist() == ref.remaining.tolist(), chunk
+        assert part.time.tolist() == ref.time.tolist(), chunk

@@ -166,3 +166,15 @@ def test_without_interrupt_the_same_commands_write_their_files(tmp_path, monkeyp
     monkeypatch.chdir(tmp_path)
     assert main(["best", "demo-trainer", "--monte-carlo", "3000", "-o", "best.txt"]) == 0
     assert (tmp_path / "best.txt").exists()
+
+
+def test_unit_samples_are_scipys_latin_hypercube_bit_for_bit():
+    """The samples are drawn a column at a time (less memory), the points those of
+    scipy.stats.qmc.LatinHypercube seeded alike, so seeded results stay as they were."""
+    from scipy.stats import qmc
+
+    from cruiseplan.planning.uncertainty import unit_samples
+
+    for n, dims, seed in [(1, 1, 0), (7, 3, 5), (1000, 8, 2), (12345, 10, 2**40)]:
+        expected = qmc.LatinHypercube(d=dims, seed=np.random.default_rng(seed)).random(n)
+        np.testing.assert_array_equal(unit_samples(n, dims, seed), expected)

@@ -117,11 +117,20 @@ def unit_samples(n: int, dims: int, seed: int):
        Selecting Values of Input Variables in the Analysis of Output from a Computer Code",
        *Technometrics* 21(2), 1979, pp. 239-245.
     """
-    from scipy.stats import qmc
-
     if dims == 0:
         return np.zeros((n, 0))
-    return qmc.LatinHypercube(d=dims, seed=np.random.default_rng(seed)).random(n)
+    # McKay's construction as scipy.stats.qmc.LatinHypercube(d, seed=default_rng(seed))
+    # .random(n) draws it (the same points, bit for bit; a test compares them), a column at
+    # a time: its own way holds three n x dims arrays at once, and scipy.stats costs
+    # ~45 MB of memory to import.
+    # scipy's engine draws from the first child of the seed's sequence.
+    rng = np.random.default_rng(np.random.SeedSequence(seed, spawn_key=(0,)))
+    u = rng.uniform(size=(n, dims))
+    for j in range(dims):
+        strata = np.arange(1, n + 1)
+        rng.shuffle(strata)
+        u[:, j] = (strata - u[:, j]) / n
+    return u
 
 
 def draw_factors(tolerances: dict, u, correlation=None) -> dict:
@@ -357,18 +366,16 @@ def plan_uncertainty(plan, n: int = 10000, seed: int = 0, chunk: int | None = CH
     wt = mission.wind_tolerance
     windy = wt is not None and bool(wt.speed_sd or wt.direction_sd)
     u = unit_samples(n, len(tol) + 2 * windy, seed)
-    factors = draw_factors(tol, u, af.tolerance_correlation)
-    wind_error = None
-    if windy:
-        k = len(tol)
-        wind_error = (wt.speed_sd * normal_ppf(u[:, k]),
-                      wt.direction_sd * normal_ppf(u[:, k + 1]))
-    parts = []
+    k = len(tol)
+    # Factors and wind errors are worked out chunk by chunk from the points (row by row,
+    # so the same as at once): the points and the results are the only arrays of n kept.
+    out = np.empty((4, n))
     for sl in chunk_slices(n, chunk, progress):
-        we = None if wind_error is None else (wind_error[0][sl], wind_error[1][sl])
-        parts.append(_refly_plan(plan, {k: v[sl] for k, v in factors.items()}, we,
-                                 sl.stop - sl.start))
-    store, used, time, required = (np.concatenate(col) for col in zip(*parts))
+        factors = draw_factors(tol, u[sl], af.tolerance_correlation)
+        we = None if not windy else (wt.speed_sd * normal_ppf(u[sl, k]),
+                                     wt.direction_sd * normal_ppf(u[sl, k + 1]))
+        out[:, sl] = _refly_plan(plan, factors, we, sl.stop - sl.start)
+    store, used, time, required = out
     return PlanUncertainty(store, used, time, required, seed)
 
 
