@@ -51,9 +51,9 @@ def texts_of(fig) -> list:
             if t.get_visible() and t.get_text().strip() and id(t) not in hidden]
 
 
-def layout_faults(fig) -> list:
+def layout_faults(fig, dpi=DPI) -> list:
     """What is wrong with a figure's text layout, as readable lines (empty: nothing)."""
-    fig.set_dpi(DPI)
+    fig.set_dpi(dpi)
     canvas = FigureCanvasAgg(fig)
     canvas.draw()
     renderer = canvas.get_renderer()
@@ -112,6 +112,15 @@ def test_map_and_altitude_plots_are_laid_out_cleanly(tmp_path, caught, airframe,
                 "--isa-dev", dev] + (wind_args(airframe) if windy else [])
         assert cli.main(argv) == 0
         assert layout_faults(caught.pop()) == [], argv
+
+
+@pytest.mark.parametrize("airframe", ["demo-trainer", "demo-survey-drone"])
+def test_altitude_plots_fit_at_print_resolution(tmp_path, caught, airframe):
+    """Text extents grow a little faster than the canvas at print resolution (hinting at
+    40 dpi narrows them): the widest boxes, the altitude plot's, are checked at 150 dpi."""
+    argv = ["plot", airframe, "--kind", "altitude", "-o", str(tmp_path / "f.png")]
+    assert cli.main(argv + wind_args(airframe)) == 0
+    assert layout_faults(caught.pop(), dpi=150) == [], argv
 
 
 @pytest.mark.parametrize("airframe", AIRFRAMES)
