@@ -1095,10 +1095,6 @@ def _pack_reasons(fl, leg, kind, seg) -> list:
     return out
 
 
-def _pick(d, i):
-    return {k: (v[i] if np.ndim(v) else v) for k, v in d.items()}
-
-
 def _chart_text(fl: Flight, fraction: float, h: float, isa_dev: float) -> str:
     """`` (2400 rpm, 22.1 inHg)``: the engine's setting for a power, when it has a chart.
 
@@ -1195,10 +1191,11 @@ def _together_key(mission: Mission) -> tuple:
 def plan_missions(missions, *, headwind_offset: float = 0.0) -> list:
     """Plan many missions; those that differ only in the day and the loading at once.
 
-    Missions that share everything but their ISA deviation, take-off mass, store and
-    payload (:data:`TOGETHER_FIELDS`; e.g. what :func:`~cruiseplan.io.mission_file.
-    apply_overrides` makes of one mission with ``isa_dev``, ``fuel`` or ``payload``) are
-    flown in one pass, their candidate altitudes as arrays over the missions; the others
+    Missions that share everything but their ISA deviation, take-off mass, store,
+    payload (:data:`TOGETHER_FIELDS`) and uniform winds (e.g. what
+    :func:`~cruiseplan.io.mission_file.apply_overrides` makes of one mission with
+    ``isa_dev``, ``fuel``, ``payload`` or ``wind``) are flown in one pass, their
+    candidate altitudes as arrays over the missions; the others
     one group at a time. Every array operation acts on each mission's elements alone and
     every search stops each element on its own, so each plan is, to the last bit, the one
     :func:`plan_mission` makes of that mission alone.

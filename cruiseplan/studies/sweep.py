@@ -217,8 +217,8 @@ def evaluate_point(study: Study, values: dict) -> dict:
 def evaluate_points(study: Study, points: list) -> list:
     """Records of many points; a mission study's points planned together.
 
-    The points' missions (:func:`point_mission`) that differ only in ISA deviation and
-    loading are planned in one pass by :func:`~cruiseplan.planning.mission.plan_missions`,
+    The points' missions (:func:`point_mission`) that differ only in ISA deviation,
+    loading and wind are planned in one pass by :func:`~cruiseplan.planning.mission.plan_missions`,
     whose every plan is the one :func:`plan_mission` makes of that mission alone; the
     records are then those of :func:`evaluate_point`, point by point.
 
