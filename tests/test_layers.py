@@ -4,9 +4,9 @@ Read from the source with ``ast`` (nothing is imported), so a new import that br
 architecture fails here with the module and the line.
 
 Layers, bottom to top: base (units, constants, errors, limits, cautions, amounts, version,
-numerics, frames) < physics < kinds < model < planning < studies < report < plots < cli, with io
-(files in) beside planning: io may use the base, physics, kinds and model, never planning or
-report; studies (sweeps of many plans) use both planning and io.
+numerics, allocator, frames) < physics < kinds < model < planning < studies < report < plots
+< cli, with io (files in) beside planning: io may use the base, physics, kinds and model,
+never planning or report; studies (sweeps of many plans) use both planning and io.
 """
 
 from __future__ import annotations
@@ -21,7 +21,7 @@ PACKAGE = Path(__file__).resolve().parent.parent / "cruiseplan"
 #: limits from the package, so it sits in the base layer where the result classes of
 #: planning may reach it.
 BASE = {"units", "constants", "errors", "limits", "cautions", "amounts", "version", "ranges",
-        "_numerics", "frames"}
+        "_numerics", "_allocator", "frames"}
 #: What each layer may import from the package (its own layer always).
 ALLOWED = {
     "base": {"base"},

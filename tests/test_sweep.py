@@ -461,3 +461,48 @@ def test_forecast_study_errors(tmp_path, capsys):
         err = capsys.readouterr().err
         assert message in err and len(err.strip().splitlines()) == 1, err
         assert not out.exists()
+
+
+HEAP_PROBE = """
+import resource, sys, threading
+from cruiseplan.io.study_file import read_study
+import cruiseplan.studies.sweep as sweep
+if sys.argv[2] == "released":
+    sweep.hold_freed_heap = lambda: False
+study = read_study(sys.argv[1])
+faults = []
+def chunks():  # in a thread of its own, as a dask worker plans
+    for index in list(study.all_blocks())[:3]:
+        before = resource.getrusage(resource.RUSAGE_SELF).ru_minflt
+        sweep.run_block(study, index)
+        faults.append(resource.getrusage(resource.RUSAGE_SELF).ru_minflt - before)
+thread = threading.Thread(target=chunks)
+thread.start()
+thread.join()
+print(faults[-1])
+"""
+
+
+@pytest.mark.skipif(sys.platform != "linux" or os.confstr("CS_GNU_LIBC_VERSION") is None,
+                    reason="glibc's allocator only")
+def test_chunks_reuse_freed_heap_instead_of_faulting_pages_in(tmp_path):
+    """The third 63-point chunk of a 10-leg mission faults few new pages in (it took ~25 000
+    page faults, about 40 % of its time, when the allocator gave its heap back)."""
+    rng = np.random.default_rng(3)
+    legs = "".join(f'[[legs]]\nname = "leg {i}"\ndistance = "{d:.1f} nm"\ncourse = {c:.0f}\n'
+                   'wind = "250/15kt@2000ft,260/30kt@6000ft,270/40kt@10000ft"\n'
+                   for i, (d, c) in enumerate(zip(rng.uniform(8, 30, 10),
+                                                  rng.uniform(0, 360, 10))))
+    (tmp_path / "legs.toml").write_text(
+        '[mission]\nairframe = "demo-tourer"\nfuel = "100 %"\npayload = "200 kg"\n'
+        '[day]\nisa_dev = "+10 K"\n[reserve]\ntime = "45 min"\n' + legs)
+    study = write(tmp_path, f'[study]\nmission = "{tmp_path / "legs.toml"}"\nchunk = 63\n'
+                            '[axes]\nisa_dev = "-10:52:1 K"\npayload = "100:140:20 kg"\n')
+
+    def faults(mode):
+        out = subprocess.run([sys.executable, "-c", HEAP_PROBE, str(study), mode],
+                             capture_output=True, text=True, check=True)
+        return int(out.stdout.split()[-1])
+
+    held, released = faults("held"), faults("released")
+    assert held < 3000 < 10_000 < released, (held, released)
