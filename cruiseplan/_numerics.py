@@ -57,11 +57,21 @@ def set_flag(bits, condition, flag):
 
 
 def any_true(a) -> bool:
-    """``np.any(a)``, reading a broadcast view of one value once, not at every element."""
+    """``np.any(a)``, reading a broadcast view of one value once, not at every element.
+
+    Counted by ``np.count_nonzero``, which takes a fraction of the time of a reduction
+    (``a.any()``) on the small arrays of a best-cruise call.
+    """
     a = np.asarray(a)
     if a.size and not any(a.strides):
         return bool(a.flat[0])
-    return bool(a.any())
+    return np.count_nonzero(a) > 0
+
+
+def all_true(a) -> bool:
+    """``np.all(a)`` (NaN counts as true), by ``np.count_nonzero`` as :func:`any_true`."""
+    a = np.asarray(a)
+    return np.count_nonzero(a) == a.size
 
 
 def grid_minimise(f, lo, hi, *, xtol_rel=1e-10, points=17, max_iter=100):

@@ -449,7 +449,7 @@ def min_power_speed(mass, density, wing_area, cd0, k):
                                       min_power_lift_coefficient(cd0, k))
 
 
-def speeds_at_drag(mass, density, wing_area, cd0, k, drag):
+def speeds_at_drag(mass, density, wing_area, cd0, k, drag, *, slow=True):
     r"""The slow and fast TAS at which level-flight drag equals ``drag`` [m/s].
 
     With a symmetric parabolic polar, :math:`D = a V^2 + b / V^2`,
@@ -469,6 +469,8 @@ def speeds_at_drag(mass, density, wing_area, cd0, k, drag):
         Polar coefficients [-].
     drag : array_like
         Drag [N], at least the minimum drag :math:`2 W \sqrt{k C_{D0}}`.
+    slow : bool, optional
+        False: only the fast root is wanted, and the slow one is not computed (None).
 
     Returns
     -------
@@ -485,7 +487,7 @@ def speeds_at_drag(mass, density, wing_area, cd0, k, drag):
     b = 2.0 * k * weight * weight / (density * wing_area)
     with np.errstate(invalid="ignore"):
         fast2 = (drag + np.sqrt(drag * drag - 4.0 * a * b)) / (2.0 * a)
-    return np.sqrt(b / (a * fast2)), np.sqrt(fast2)
+    return np.sqrt(b / (a * fast2)) if slow else None, np.sqrt(fast2)
 
 
 def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
@@ -537,18 +539,19 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     half = p * p / 16.0
     disc = half * half - q * q * q / 27.0
     one_real = disc >= 0
+    n_real = np.count_nonzero(one_real)   # (quicker than .any() and .all())
     with np.errstate(invalid="ignore", divide="ignore"):
         # Each form computed only if some element needs it (one_real decides which).
-        if one_real.any():
+        if n_real:
             r = np.sqrt(np.maximum(disc, 0.0))
             cardano = np.cbrt(half + r) + np.cbrt(half - r)
-        if not one_real.all():
+        if n_real < one_real.size:
             scale = 2.0 * np.sqrt(q / 3.0)
             # np.clip by its two ufuncs (the same values, without the wrapper's cost).
             angle = np.arccos(np.minimum(np.maximum(half / (q / 3.0) ** 1.5, -1.0), 1.0)
                               ) / 3.0
             trig = scale * np.cos(angle)
-            m = np.where(one_real, cardano, trig) if one_real.any() else trig
+            m = np.where(one_real, cardano, trig) if n_real else trig
         else:
             m = cardano
         s = np.sqrt(2.0 * m)

@@ -39,10 +39,17 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
+from functools import cached_property
 
 import numpy as np
 
-from cruiseplan._numerics import brent_minimise, grid_minimise, illinois_root
+from cruiseplan._numerics import (
+    all_true,
+    any_true,
+    brent_minimise,
+    grid_minimise,
+    illinois_root,
+)
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_DTYPE, Limit, describe
@@ -122,23 +129,43 @@ class SpeedSchedule:
     tas_unconstrained: dict
     binding: dict
 
-    @property
+    @cached_property
     def feasible(self) -> np.ndarray:
-        """True where some speed is flyable."""
+        """True where some speed is flyable (computed on first read, then kept)."""
         return self.infeasible == 0
 
 
 _BIT_POWER = LIMIT_DTYPE(Limit.POWER)
 _BIT_CLIMB_RESERVE = LIMIT_DTYPE(Limit.CLIMB_RESERVE)
 _BIT_WIND = LIMIT_DTYPE(Limit.WIND)
+_BIT_STALL = LIMIT_DTYPE(Limit.STALL)
+_BIT_MACH = LIMIT_DTYPE(Limit.MACH)
+
+
+def _calm(wind) -> bool:
+    """True if a wind component is zero everywhere (a float told without numpy)."""
+    return wind == 0.0 if type(wind) is float else not any_true(wind)
 
 
 def _closed_form_ok(airframe, headwind, crosswind) -> bool:
     polar = getattr(airframe, "polar", None)
     prop = airframe.propulsion
     return (isinstance(polar, ParabolicPolar) and polar.cl_min_drag == 0.0
-            and prop.propeller.is_constant
-            and not np.asarray(headwind).any() and not np.asarray(crosswind).any())
+            and prop.propeller.is_constant and _calm(headwind) and _calm(crosswind))
+
+
+def _points_shape(density, mass) -> tuple:
+    """Broadcast shape of the air's and the mass's (no numpy call for a float mass)."""
+    if type(mass) is float:
+        return np.shape(density)
+    return np.broadcast_shapes(np.shape(density), np.shape(mass))
+
+
+def _over(values, shape):
+    """``values`` as floats of ``shape``: the array itself if it is one, else a view."""
+    if type(values) is np.ndarray and values.shape == shape and values.dtype == np.float64:
+        return values
+    return np.broadcast_to(np.asarray(values, dtype=float), shape)
 
 
 def climb_rate(airframe, mass, air: AirState, tas):
@@ -191,11 +218,15 @@ def _window(airframe, mass, air, lo, hi, reserve_rate):
     """
     if _closed_form_ok(airframe, 0.0, 0.0):
         prop, polar = airframe.propulsion, airframe.polar
-        thrust_power = (prop.propeller(lo) * prop.shaft_power_available(air.sigma)
-                        - np.asarray(mass, dtype=float) * G0 * reserve_rate)
+        thrust_power = prop.propeller(lo) * prop.shaft_power_available(air.sigma)
+        if not (type(reserve_rate) is float and reserve_rate == 0.0):
+            # (Without a reserve the difference is the thrust power itself.)
+            thrust_power = thrust_power - np.asarray(mass, dtype=float) * G0 * reserve_rate
         slow, fast = speeds_at_thrust_power(mass, air.density, airframe.wing_area,
                                             polar.cd0, polar.k, thrust_power)
         ok = (slow <= hi) & (fast >= lo)   # False where NaN: no speed at all
+        if all_true(ok):
+            return np.maximum(slow, lo), np.minimum(fast, hi), ok
         return (np.where(ok, np.maximum(slow, lo), np.nan),
                 np.where(ok, np.minimum(fast, hi), np.nan), ok)
 
@@ -303,7 +334,7 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
             # economy is the fast speed of drag = minimum drag / ECONOMY_FRACTION.
             d_min = 2.0 * np.asarray(mass, dtype=float) * G0 * np.sqrt(polar.k * polar.cd0)
             out["economy"] = speeds_at_drag(mass, air.density, airframe.wing_area, polar.cd0,
-                                            polar.k, d_min / ECONOMY_FRACTION)[1]
+                                            polar.k, d_min / ECONOMY_FRACTION, slow=False)[1]
         else:
             best = ground_range(out["range"])
             out["economy"] = illinois_root(
@@ -427,9 +458,8 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     .. [1] Anderson, *Aircraft Performance and Design*, eqs. 5.34, 5.54 (closed forms) and
        sec. 5.7 (range and endurance).
     """
-    shape = np.broadcast_shapes(np.shape(air.density), np.shape(mass))
-    hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
-    cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
+    shape = _points_shape(air.density, mass)
+    hw, cw = _over(headwind, shape), _over(crosswind, shape)
     v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
     free = _free_speeds(airframe, mass, air, store, hw, cw, OBJECTIVES)
@@ -445,11 +475,14 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     win_lo = np.maximum(c_lo, v_margin)
     win_hi = c_hi
     # Bits as bool x bit (each condition a bool array of the altitudes' shape).
-    infeasible = np.broadcast_to(~p_ok, shape) * _BIT_POWER
+    no_power = ~p_ok
+    if no_power.shape != shape:
+        no_power = np.broadcast_to(no_power, shape)
+    infeasible = no_power * _BIT_POWER
     if c_ok is not p_ok:
         infeasible |= (p_ok & ~c_ok) * _BIT_CLIMB_RESERVE
     squeezed = c_ok & (v_margin > c_hi)
-    if squeezed.any():
+    if any_true(squeezed):
         infeasible |= squeezed * LIMIT_DTYPE(Limit.STALL | (
             Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER))
     # A battery pack given as a circuit caps the power at the store's state of charge
@@ -460,43 +493,48 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
         no_cap = ~np.isfinite(k_lo) | (k_lo > win_hi) | (k_hi < win_lo)
         infeasible |= np.where(no_cap, cap_bit, 0).astype(LIMIT_DTYPE)
         win_lo, win_hi = np.fmax(win_lo, k_lo), np.fmin(win_hi, k_hi)
-    ok = infeasible == 0
-    if not ok.all():
+    all_ok = not any_true(infeasible)
+    if not all_ok:
+        ok = infeasible == 0
         win_lo = np.where(ok, win_lo, np.nan)
         win_hi = np.where(ok, win_hi, np.nan)
 
     def clamp(v_unc):
+        # Where nothing is flyable the window is NaN: no comparison with it holds, so no
+        # bit is set there.
         below = v_unc < win_lo
         above = v_unc > win_hi
-        if not (below.any() or above.any()):
+        if not (any_true(below) or any_true(above)):
             # Inside the window everywhere (or no window): the speed is its own clipped
             # value and nothing binds (the same as the general case below).
-            return np.where(ok, v_unc, np.nan), np.zeros(shape, dtype=LIMIT_DTYPE)
+            if all_ok and v_unc.shape == shape:
+                return v_unc.copy(), np.zeros(shape, dtype=LIMIT_DTYPE)
+            return (np.where(infeasible == 0, v_unc, np.nan),
+                    np.zeros(shape, dtype=LIMIT_DTYPE))
         v = np.minimum(np.maximum(v_unc, win_lo), win_hi)  # np.clip, by its ufuncs
-        code = np.zeros(shape, dtype=LIMIT_DTYPE)
         stall_bound = below & (v_margin >= c_lo)
-        code |= np.where(stall_bound, Limit.STALL, 0).astype(LIMIT_DTYPE)
+        code = stall_bound * _BIT_STALL
         power_side = (below & ~stall_bound) | above
-        at_mach = above & (win_hi >= hi * (1 - 1e-9))
-        outside_p = (v_unc < p_lo) | (v_unc > p_hi)
-        code |= np.where(power_side & ~at_mach & outside_p, Limit.POWER, 0
-                         ).astype(LIMIT_DTYPE)
-        code |= np.where(power_side & ~at_mach & ~outside_p, Limit.CLIMB_RESERVE, 0
-                         ).astype(LIMIT_DTYPE)
-        code |= np.where(at_mach, Limit.MACH, 0).astype(LIMIT_DTYPE)
+        if any_true(power_side):   # (the Mach limit is on the power side too)
+            at_mach = above & (win_hi >= hi * (1 - 1e-9))
+            outside_p = (v_unc < p_lo) | (v_unc > p_hi)
+            held = power_side & ~at_mach
+            code |= (held & outside_p) * _BIT_POWER
+            code |= (held & ~outside_p) * _BIT_CLIMB_RESERVE
+            code |= at_mach * _BIT_MACH
         if cap_bit:
             # Where the pack's side of the window is the one that holds the speed, it
             # alone binds there.
             by_pack = (below & (k_lo >= win_lo)) | (above & (k_hi <= win_hi))
             code = np.where(by_pack, LIMIT_DTYPE(cap_bit), code)
-        return np.where(ok, v, np.nan), np.where(ok, code, 0).astype(LIMIT_DTYPE)
+        return (v if all_ok else np.where(ok, v, np.nan)), code
 
     tas, binding = {}, {}
     tas["range"], binding["range"] = clamp(v_range)
     tas["endurance"], binding["endurance"] = clamp(v_end)
     econ_unc = np.maximum(v_econ, tas["range"])
     tas["economy"], binding["economy"] = clamp(econ_unc)
-    if binding["range"].any():
+    if any_true(binding["range"]):
         binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
                                        ).astype(LIMIT_DTYPE)
     return SpeedSchedule(air=air, headwind=hw, crosswind=cw, stall_speed=v_s,
