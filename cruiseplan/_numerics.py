@@ -50,9 +50,8 @@ def set_flag(bits, condition, flag):
     numpy.ndarray
         ``bits``.
     """
-    condition = np.asarray(condition)
-    if condition.size < bits.size and not condition.any():
-        return bits  # a small (broadcast) condition checked first: no pass over the bits
+    if not any_true(condition):
+        return bits  # counted first (a count is cheap): no pass over the bits
     return np.bitwise_or(bits, flag, out=bits, where=condition)
 
 

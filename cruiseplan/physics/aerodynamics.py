@@ -555,14 +555,24 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
         else:
             m = cardano
         s = np.sqrt(2.0 * m)
-        fast = 0.5 * (s + np.sqrt(-2.0 * m - 2.0 * p / s))
-        slow = (m + p / (2.0 * s)) / fast
-        # Both roots at once. At a double root (the thrust power just meets the least drag
-        # power) the slope vanishes: keep the value there.
-        v = np.empty((2,) + np.broadcast_shapes(np.shape(slow), np.shape(fast)))
-        v[0], v[1] = slow, fast
+        twice_fast = s + np.sqrt(-2.0 * m - 2.0 * p / s)   # of every input's shape
+        # Both roots at once, slow then fast, each written where it is kept.
+        v = np.empty((2,) + np.shape(twice_fast))
+        fast = np.multiply(0.5, twice_fast, out=v[1, ...])   # (a view even of one root)
+        np.divide(m + p / (2.0 * s), fast, out=v[0, ...])
+        # Newton's step (v^4 + p v + q) / (4 v^3 + p), in buffers reused by both steps:
+        # the same operations as the plain expression, on a working set that stays in
+        # cache. At a double root (the thrust power just meets the least drag power) the
+        # slope vanishes: keep the value there.
+        v3, step, slope = np.empty_like(v), np.empty_like(v), np.empty_like(v)
         for _ in range(2):
-            v3 = v * v * v
-            step = (v3 * v + p * v + q) / (4.0 * v3 + p)
-            v = np.where(np.isfinite(step), v - step, v)
+            np.multiply(v, v, out=v3)
+            v3 *= v
+            np.multiply(v3, v, out=step)
+            step += np.multiply(p, v, out=slope)
+            step += q
+            np.multiply(4.0, v3, out=slope)
+            slope += p
+            step /= slope
+            np.subtract(v, step, out=v, where=np.isfinite(step))
     return v[0], v[1]

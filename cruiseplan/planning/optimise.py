@@ -399,7 +399,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     cap = np.minimum(prop.shaft_power_available(air.sigma), prop.pack_shaft_limit(store)[0])
     enough = shaft_power_required(airframe, mass, air, v) <= cap
     feasible = np.ones(shape, dtype=bool)
-    if np.all(enough):
+    if all_true(enough):
         return v, feasible
     # Short of power: above the minimum-power speed, power required rises with speed, so
     # the best flyable speed is where it meets full throttle (if the minimum-power speed
@@ -749,7 +749,10 @@ def _pick(score) -> int:
     A piston aircraft's best specific range does not change with altitude when BSFC and
     propeller efficiency are constant, so ties are real: the higher altitude is faster.
     """
-    return int(np.flatnonzero(score >= np.max(score) * (1 - TIE_TOLERANCE))[-1])
+    # np.flatnonzero(score >= np.max(score) * ...)[-1], by the ufunc and method
+    # themselves (the wrappers cost more than the work on an array of altitudes).
+    best = np.maximum.reduce(score, axis=None)
+    return int((score >= best * (1 - TIE_TOLERANCE)).ravel().nonzero()[0][-1])
 
 
 def pick_rule(objective: str) -> str:
@@ -813,13 +816,14 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
     feasible = schedule.feasible
     speed_binding = schedule.binding[objective]
     usable = feasible & (out_of_band == 0) & np.isfinite(value)
-    if not np.any(usable):
+    if not any_true(usable):
         codes = np.bitwise_or.reduce(schedule.infeasible | out_of_band) if value.size else 0
         return -1, int(codes), -1
-    i = _pick(np.where(usable, value, -np.inf))
-    equal = usable & (np.where(usable, value, -np.inf) >= value[i] * (1.0 - EQUAL_TOLERANCE))
+    score = np.where(usable, value, -np.inf)
+    i = _pick(score)
+    equal = usable & (score >= value[i] * (1.0 - EQUAL_TOLERANCE))
     if objective == "endurance":
-        pick = int(np.flatnonzero(equal)[0])
+        pick = int(equal.ravel().nonzero()[0][0])   # np.flatnonzero(equal)[0]
     elif ground_speed is not None:
         pick = _pick(np.where(equal, ground_speed, -np.inf))
     else:
@@ -899,7 +903,7 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     if objective not in OBJECTIVES:
         raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
     h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
-    if h.ndim != 1 or (h[1:] <= h[:-1]).any():  # finite altitudes: as np.diff(h) <= 0
+    if h.ndim != 1 or any_true(h[1:] <= h[:-1]):  # finite altitudes: as np.diff(h) <= 0
         raise CruiseplanError("altitudes must be one-dimensional and increasing")
     if wind is not None and headwind is not None:
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
@@ -925,13 +929,15 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     # roundoff POWER bit); the value is masked by it below, so keep the figures here.
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin, keep_unflyable=True)
-    wind_bad = sched.feasible & ~(gs > 0)
-    if wind_bad.any():
-        sched = replace(sched, infeasible=sched.infeasible | wind_bad * _BIT_WIND)
+    headway = gs > 0
+    if not all_true(headway):
+        wind_bad = sched.feasible & ~headway
+        if any_true(wind_bad):
+            sched = replace(sched, infeasible=sched.infeasible | wind_bad * _BIT_WIND)
     value = pts.endurance if objective == "endurance" else pts.range_ground
     value = np.where(sched.feasible, value, np.nan)
     v_free = sched.tas_unconstrained[objective]
-    if v_free.shape == v.shape and (v_free == v).all():  # np.array_equal, NaN unequal
+    if v_free.shape == v.shape and all_true(v_free == v):  # np.array_equal, NaN unequal
         free = pts   # no constraint binds anywhere: the same points (values kept above)
     else:
         gs_free = ground_speed(v_free, hw, cw)
@@ -942,8 +948,9 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
                       ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),
                  to_si(elevation, "m", what="elevation"))
     i, binding, peak = choose_altitude(sched, objective, value, value_free, band, gs)
-    return BestCruise(objective, sched, pts, np.where(band == 0, value, np.nan), band, i,
-                      binding, peak)
+    if any_true(band):
+        value = np.where(band == 0, value, np.nan)
+    return BestCruise(objective, sched, pts, value, band, i, binding, peak)
 
 
 # --- Climb and ceilings ----------------------------------------------------------------

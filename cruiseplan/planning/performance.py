@@ -416,9 +416,7 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     if (not isinstance(limits, np.ndarray) or limits.shape != shape
             or limits.dtype != LIMIT_DTYPE or not limits.flags.writeable):
         limits = np.array(np.broadcast_to(limits, shape), dtype=LIMIT_DTYPE)
-    short = np.greater(shaft, available)
-    if short.any():
-        set_flag(limits, short, _BIT[Limit.POWER])
+    set_flag(limits, np.greater(shaft, available), _BIT[Limit.POWER])
     mach = MACH_LIMIT * air.speed_of_sound
     # Checked on the (small) inputs first: no point can be past Mach when the fastest TAS
     # is below the least limit (NaN sets no flag either way).
@@ -428,7 +426,7 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     set_flag(limits, prop.lapse_outside(sigma), _BIT[Limit.LAPSE_RANGE])
     # A hover (TAS 0, ground speed 0: calm air) holds its position, so no WIND limit.
     no_headway = ~(gs > 0)
-    if no_headway.any():
+    if any_true(no_headway):
         set_flag(limits, no_headway & ~((tas == 0) & (gs == 0)), _BIT[Limit.WIND])
     # Battery pack: its maximum power, maximum continuous current and cut-off voltage
     # under load, with this store on board (none without a circuit).
