@@ -157,7 +157,7 @@ def _closed_form_ok(airframe, headwind, crosswind) -> bool:
 def _points_shape(density, mass) -> tuple:
     """Broadcast shape of the air's and the mass's (no numpy call for a float mass)."""
     if type(mass) is float:
-        return np.shape(density)
+        return density.shape if type(density) is np.ndarray else np.shape(density)
     return np.broadcast_shapes(np.shape(density), np.shape(mass))
 
 
@@ -475,10 +475,10 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     win_lo = np.maximum(c_lo, v_margin)
     win_hi = c_hi
     # Bits as bool x bit (each condition a bool array of the altitudes' shape).
-    no_power = ~p_ok
-    if no_power.shape != shape:
-        no_power = np.broadcast_to(no_power, shape)
-    infeasible = no_power * _BIT_POWER
+    if all_true(p_ok) and p_ok.shape == shape:
+        infeasible = np.zeros(shape, dtype=LIMIT_DTYPE)
+    else:
+        infeasible = np.broadcast_to(~p_ok, shape) * _BIT_POWER
     if c_ok is not p_ok:
         infeasible |= (p_ok & ~c_ok) * _BIT_CLIMB_RESERVE
     squeezed = c_ok & (v_margin > c_hi)
@@ -813,9 +813,13 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
     peak_index : int
         The altitude of the largest value; -1 when nothing is flyable.
     """
-    feasible = schedule.feasible
     speed_binding = schedule.binding[objective]
-    usable = feasible & (out_of_band == 0) & np.isfinite(value)
+    # Flyable, in the band and with a value (each mask applied only if it masks something).
+    usable = np.isfinite(value)
+    if any_true(schedule.infeasible):
+        usable &= schedule.feasible
+    if any_true(out_of_band):
+        usable &= out_of_band == 0
     if not any_true(usable):
         codes = np.bitwise_or.reduce(schedule.infeasible | out_of_band) if value.size else 0
         return -1, int(codes), -1
@@ -916,9 +920,9 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
         hw, cw = wind.components(check_range(float(to_si(course, "deg", what="course")),
                                              "course", "course"), h)
     else:
-        hw = np.full(h.shape, 0.0 if headwind is None
-                     else check_range(to_si(headwind, "m/s", what="headwind"), "headwind",
-                                      "headwind"))
+        hw = np.zeros(h.shape) if headwind is None else np.full(
+            h.shape, check_range(to_si(headwind, "m/s", what="headwind"), "headwind",
+                                 "headwind"))
         cw = np.zeros(h.shape)
     sched = speed_schedule(airframe, loading.mass, air, loading.store, headwind=hw,
                            crosswind=cw, stall_margin=stall_margin,
@@ -935,7 +939,9 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
         if any_true(wind_bad):
             sched = replace(sched, infeasible=sched.infeasible | wind_bad * _BIT_WIND)
     value = pts.endurance if objective == "endurance" else pts.range_ground
-    value = np.where(sched.feasible, value, np.nan)
+    # (A copy where every altitude is flyable: the points keep their own array.)
+    value = np.where(sched.feasible, value, np.nan) if any_true(sched.infeasible) \
+        else value.copy()
     v_free = sched.tas_unconstrained[objective]
     if v_free.shape == v.shape and all_true(v_free == v):  # np.array_equal, NaN unequal
         free = pts   # no constraint binds anywhere: the same points (values kept above)
