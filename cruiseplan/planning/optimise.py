@@ -749,10 +749,12 @@ def _pick(score) -> int:
     A piston aircraft's best specific range does not change with altitude when BSFC and
     propeller efficiency are constant, so ties are real: the higher altitude is faster.
     """
-    # np.flatnonzero(score >= np.max(score) * ...)[-1], by the ufunc and method
-    # themselves (the wrappers cost more than the work on an array of altitudes).
-    best = np.maximum.reduce(score, axis=None)
-    return int((score >= best * (1 - TIE_TOLERANCE)).ravel().nonzero()[0][-1])
+    # np.flatnonzero(score >= np.max(score) * ...)[-1] by array methods, whose cost is
+    # less than the wrappers' and a reduction's on an array of altitudes (the maximum read
+    # at its argmax: NaN there too if there is one).
+    score = score.ravel()
+    best = score[score.argmax()]
+    return int((score >= best * (1 - TIE_TOLERANCE)).nonzero()[0][-1])
 
 
 def pick_rule(objective: str) -> str:
