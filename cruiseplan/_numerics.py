@@ -64,13 +64,13 @@ def any_true(a) -> bool:
     a = np.asarray(a)
     if a.size and not any(a.strides):
         return bool(a.flat[0])
-    return np.count_nonzero(a) > 0
+    return bool(np.count_nonzero(a))
 
 
 def all_true(a) -> bool:
     """``np.all(a)`` (NaN counts as true), by ``np.count_nonzero`` as :func:`any_true`."""
     a = np.asarray(a)
-    return np.count_nonzero(a) == a.size
+    return bool(np.count_nonzero(a) == a.size)
 
 
 def grid_minimise(f, lo, hi, *, xtol_rel=1e-10, points=17, max_iter=100):

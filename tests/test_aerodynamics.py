@@ -242,3 +242,6 @@ def test_speeds_at_drag_meet_the_drag():
         assert drag == pytest.approx(d_min / 0.99, rel=1e-13)
     v_md = aero.min_drag_speed(mass, rho, area, cd0, k)
     assert slow < v_md < fast
+    # Only the fast root asked for: the same fast root, no slow one.
+    none, alone = aero.speeds_at_drag(mass, rho, area, cd0, k, d_min / 0.99, slow=False)
+    assert none is None and alone == fast
