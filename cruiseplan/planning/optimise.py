@@ -908,7 +908,10 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     """
     if objective not in OBJECTIVES:
         raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
-    h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
+    h = to_si(altitudes, "m", what="altitudes")
+    if type(h) is not np.ndarray or h.ndim == 0:
+        h = np.atleast_1d(h)   # (an array of altitudes is its own np.atleast_1d)
+    h = check_altitude(h)
     if h.ndim != 1 or any_true(h[1:] <= h[:-1]):  # finite altitudes: as np.diff(h) <= 0
         raise CruiseplanError("altitudes must be one-dimensional and increasing")
     if wind is not None and headwind is not None:
