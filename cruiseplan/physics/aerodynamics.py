@@ -449,7 +449,40 @@ def min_power_speed(mass, density, wing_area, cd0, k):
                                       min_power_lift_coefficient(cd0, k))
 
 
-def speeds_at_drag(mass, density, wing_area, cd0, k, drag, *, slow=True):
+def level_drag_terms(mass, density, wing_area, cd0, k):
+    r"""Level-flight drag of a symmetric parabolic polar as :math:`D = a V^2 + b / V^2`.
+
+    Lift equals weight, so :math:`a = \tfrac12 \rho S C_{D0}` (parasite drag) and
+    :math:`b = 2 k W^2 / (\rho S)` (induced drag).
+
+    Parameters
+    ----------
+    mass : array_like
+        Mass [kg].
+    density : array_like
+        Air density [kg/m^3].
+    wing_area : float
+        Wing area [m^2].
+    cd0, k : float
+        Polar coefficients [-].
+
+    Returns
+    -------
+    a : numpy.ndarray
+        Parasite-drag term [kg/m] (drag over TAS squared).
+    b : numpy.ndarray
+        Induced-drag term [N m^2/s^2] (drag times TAS squared).
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.3-5.4 (drag of a parabolic
+       polar in level flight).
+    """
+    weight = np.asarray(mass, dtype=float) * G0
+    return 0.5 * density * wing_area * cd0, 2.0 * k * weight * weight / (density * wing_area)
+
+
+def speeds_at_drag(mass, density, wing_area, cd0, k, drag, *, slow=True, terms=None):
     r"""The slow and fast TAS at which level-flight drag equals ``drag`` [m/s].
 
     With a symmetric parabolic polar, :math:`D = a V^2 + b / V^2`,
@@ -471,6 +504,8 @@ def speeds_at_drag(mass, density, wing_area, cd0, k, drag, *, slow=True):
         Drag [N], at least the minimum drag :math:`2 W \sqrt{k C_{D0}}`.
     slow : bool, optional
         False: only the fast root is wanted, and the slow one is not computed (None).
+    terms : tuple, optional
+        :func:`level_drag_terms` of these arguments, if already computed.
 
     Returns
     -------
@@ -482,15 +517,13 @@ def speeds_at_drag(mass, density, wing_area, cd0, k, drag, *, slow=True):
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.3-5.4 (drag of a parabolic
        polar in level flight, its minimum).
     """
-    weight = np.asarray(mass, dtype=float) * G0
-    a = 0.5 * density * wing_area * cd0
-    b = 2.0 * k * weight * weight / (density * wing_area)
+    a, b = level_drag_terms(mass, density, wing_area, cd0, k) if terms is None else terms
     with np.errstate(invalid="ignore"):
         fast2 = (drag + np.sqrt(drag * drag - 4.0 * a * b)) / (2.0 * a)
     return np.sqrt(b / (a * fast2)) if slow else None, np.sqrt(fast2)
 
 
-def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
+def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power, *, terms=None):
     r"""The slow and fast TAS at which the drag power :math:`D V` equals ``thrust_power``.
 
     With a symmetric parabolic polar, :math:`D V = a V^3 + b / V`
@@ -516,6 +549,8 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     thrust_power : array_like
         Thrust power [W] (efficiency x shaft power available, less any power kept for a
         climb).
+    terms : tuple, optional
+        :func:`level_drag_terms` of these arguments, if already computed.
 
     Returns
     -------
@@ -529,9 +564,7 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     .. [2] Anderson, *Aircraft Performance and Design*, sec. 5.4 (power required and
        available; maximum speed where they meet).
     """
-    weight = np.asarray(mass, dtype=float) * G0
-    a = 0.5 * density * wing_area * cd0
-    b = 2.0 * k * weight * weight / (density * wing_area)
+    a, b = level_drag_terms(mass, density, wing_area, cd0, k) if terms is None else terms
     p = -np.asarray(thrust_power, dtype=float) / a
     q = b / a
     # Largest real root of m^3 - q m - p^2 / 8 = 0 (q > 0): trigonometric form for three

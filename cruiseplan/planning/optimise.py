@@ -55,6 +55,7 @@ from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_DTYPE, Limit, describe
 from cruiseplan.physics.aerodynamics import (
     ParabolicPolar,
+    level_drag_terms,
     min_drag_speed,
     min_power_speed,
     speeds_at_drag,
@@ -208,13 +209,13 @@ def climb_rate(airframe, mass, air: AirState, tas):
     return excess / (mass * G0)
 
 
-def _window(airframe, mass, air, lo, hi, reserve_rate):
+def _window(airframe, mass, air, lo, hi, reserve_rate, terms=None):
     """Speeds in [lo, hi] where the climb rate is at least ``reserve_rate``; NaN where none.
 
     With a symmetric parabolic polar and a constant propeller efficiency the edges are the
-    roots of a quartic, in closed form (:func:`speeds_at_thrust_power`); otherwise both
-    edges are found in one pass of root finding, bracketed by the speed of the greatest
-    excess power.
+    roots of a quartic, in closed form (:func:`speeds_at_thrust_power`, given the drag
+    ``terms`` if they are computed already); otherwise both edges are found in one pass
+    of root finding, bracketed by the speed of the greatest excess power.
     """
     if _closed_form_ok(airframe, 0.0, 0.0):
         prop, polar = airframe.propulsion, airframe.polar
@@ -223,7 +224,7 @@ def _window(airframe, mass, air, lo, hi, reserve_rate):
             # (Without a reserve the difference is the thrust power itself.)
             thrust_power = thrust_power - np.asarray(mass, dtype=float) * G0 * reserve_rate
         slow, fast = speeds_at_thrust_power(mass, air.density, airframe.wing_area,
-                                            polar.cd0, polar.k, thrust_power)
+                                            polar.cd0, polar.k, thrust_power, terms=terms)
         ok = (slow <= hi) & (fast >= lo)   # False where NaN: no speed at all
         if all_true(ok):
             return np.maximum(slow, lo), np.minimum(fast, hi), ok
@@ -270,8 +271,11 @@ def _planner_grid(f, lo, hi, *, xtol_rel):
     return grid_minimise(f, lo, hi, xtol_rel=xtol_rel, points=2 * s + 1)
 
 
-def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
+def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10,
+                 terms=None) -> dict:
     """Best speeds before any constraint, for the objectives asked (economy needs range).
+
+    ``terms``: the polar's :func:`level_drag_terms` at these points, if computed already.
 
     Where both the best-range and the best-endurance speed need a search, both are found
     in one pass: the two problems are stacked along a new first axis, so that each step
@@ -334,7 +338,8 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
             # economy is the fast speed of drag = minimum drag / ECONOMY_FRACTION.
             d_min = 2.0 * np.asarray(mass, dtype=float) * G0 * np.sqrt(polar.k * polar.cd0)
             out["economy"] = speeds_at_drag(mass, air.density, airframe.wing_area, polar.cd0,
-                                            polar.k, d_min / ECONOMY_FRACTION, slow=False)[1]
+                                            polar.k, d_min / ECONOMY_FRACTION, slow=False,
+                                            terms=terms)[1]
         else:
             best = ground_range(out["range"])
             out["economy"] = illinois_root(
@@ -462,13 +467,18 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     hw, cw = _over(headwind, shape), _over(crosswind, shape)
     v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
-    free = _free_speeds(airframe, mass, air, store, hw, cw, OBJECTIVES)
+    # The polar's drag terms, computed once for the closed forms of the economy speed and
+    # of the windows' edges.
+    terms = (level_drag_terms(mass, air.density, airframe.wing_area, airframe.polar.cd0,
+                              airframe.polar.k)
+             if _closed_form_ok(airframe, 0.0, 0.0) else None)
+    free = _free_speeds(airframe, mass, air, store, hw, cw, OBJECTIVES, terms=terms)
     v_range, v_end, v_econ = free["range"], free["endurance"], free["economy"]
 
     # Windows: with and without the climb reserve, to tell which one binds.
-    p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0)
+    p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0, terms)
     if climb_reserve > 0:
-        c_lo, c_hi, c_ok = _window(airframe, mass, air, lo, hi, climb_reserve)
+        c_lo, c_hi, c_ok = _window(airframe, mass, air, lo, hi, climb_reserve, terms)
     else:
         c_lo, c_hi, c_ok = p_lo, p_hi, p_ok
     v_margin = stall_margin * v_s
