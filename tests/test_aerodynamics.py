@@ -242,3 +242,26 @@ def test_speeds_at_drag_meet_the_drag():
         assert drag == pytest.approx(d_min / 0.99, rel=1e-13)
     v_md = aero.min_drag_speed(mass, rho, area, cd0, k)
     assert slow < v_md < fast
+    # Only the fast root asked for: the same fast root, no slow one.
+    none, alone = aero.speeds_at_drag(mass, rho, area, cd0, k, d_min / 0.99, slow=False)
+    assert none is None and alone == fast
+
+
+def test_level_drag_terms_give_the_drag_and_the_same_speeds_when_passed_in():
+    # D = a V^2 + b / V^2 with lift = weight (Anderson, Aircraft Performance and Design,
+    # sec. 5.3): the drag of CL = 2 W / (rho V^2 S) on the parabola CD0 + k CL^2.
+    mass, rho, area, cd0, k = 740.0, np.array([1.225, 0.9]), 11.2, 0.032, 0.05
+    v = np.array([45.0, 60.0])
+    a, b = aero.level_drag_terms(mass, rho, area, cd0, k)
+    cl = 2 * mass * 9.80665 / (rho * v**2 * area)
+    np.testing.assert_allclose(a * v**2 + b / v**2, 0.5 * rho * v**2 * area * (cd0 + k * cl**2),
+                               rtol=1e-13)
+    power = np.array([45e3, 40e3])
+    for with_terms, alone in ((aero.speeds_at_thrust_power(mass, rho, area, cd0, k, power,
+                                                           terms=(a, b)),
+                               aero.speeds_at_thrust_power(mass, rho, area, cd0, k, power)),
+                              (aero.speeds_at_drag(mass, rho, area, cd0, k, 1500.0,
+                                                   terms=(a, b)),
+                               aero.speeds_at_drag(mass, rho, area, cd0, k, 1500.0))):
+        for x, y in zip(with_terms, alone):
+            np.testing.assert_array_equal(x, y)

@@ -4,7 +4,7 @@ import numpy as np
 import pytest
 
 import cruiseplan as cp
-from cruiseplan._numerics import grid_minimise
+from cruiseplan._numerics import all_true, any_true, grid_minimise, set_flag
 from cruiseplan.physics.atmosphere import air_state
 from cruiseplan.planning.mission import Flight
 
@@ -47,3 +47,25 @@ def test_flight_air_is_the_standard_atmosphere_once_per_set_of_altitudes():
         assert np.array_equal(getattr(first, name), getattr(fresh, name))
     with pytest.raises(ValueError, match="read-only"):
         first.density[0] = 1.0     # shared within the plan, so nobody may change it
+
+
+@pytest.mark.parametrize("values", [
+    np.array([], dtype=bool), np.array([False, False]), np.array([False, True]),
+    np.array([True, True]), np.array([0.0, -2.0]), np.array([0.0, 0.0]),
+    np.array([np.nan, 1.0]), np.array([[0, 3], [0, 0]], dtype=np.uint32),
+    np.broadcast_to(np.array(0.0), (4, 3)), np.broadcast_to(np.array(True), (5,)),
+    np.array(True), np.array(0.0), True, 0.0, [0, 1]])
+def test_any_true_and_all_true_are_numpys_any_and_all(values):
+    # Counting non-zero elements answers as np.any and np.all do, NaN counting as true.
+    assert any_true(values) is bool(np.any(values))
+    assert all_true(values) is bool(np.all(values))
+
+
+def test_set_flag_sets_the_bit_only_where_the_condition_holds():
+    bits = np.array([0, 1, 4], dtype=np.uint32)
+    assert set_flag(bits, np.array([False, False, False]), np.uint32(2)) is bits
+    np.testing.assert_array_equal(bits, [0, 1, 4])
+    set_flag(bits, np.array([True, False, True]), np.uint32(2))
+    np.testing.assert_array_equal(bits, [2, 1, 6])
+    set_flag(bits, np.broadcast_to(np.array(True), (3,)), np.uint32(8))
+    np.testing.assert_array_equal(bits, [10, 9, 14])

@@ -449,7 +449,40 @@ def min_power_speed(mass, density, wing_area, cd0, k):
                                       min_power_lift_coefficient(cd0, k))
 
 
-def speeds_at_drag(mass, density, wing_area, cd0, k, drag):
+def level_drag_terms(mass, density, wing_area, cd0, k):
+    r"""Level-flight drag of a symmetric parabolic polar as :math:`D = a V^2 + b / V^2`.
+
+    Lift equals weight, so :math:`a = \tfrac12 \rho S C_{D0}` (parasite drag) and
+    :math:`b = 2 k W^2 / (\rho S)` (induced drag).
+
+    Parameters
+    ----------
+    mass : array_like
+        Mass [kg].
+    density : array_like
+        Air density [kg/m^3].
+    wing_area : float
+        Wing area [m^2].
+    cd0, k : float
+        Polar coefficients [-].
+
+    Returns
+    -------
+    a : numpy.ndarray
+        Parasite-drag term [kg/m] (drag over TAS squared).
+    b : numpy.ndarray
+        Induced-drag term [N m^2/s^2] (drag times TAS squared).
+
+    References
+    ----------
+    .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.3-5.4 (drag of a parabolic
+       polar in level flight).
+    """
+    weight = np.asarray(mass, dtype=float) * G0
+    return 0.5 * density * wing_area * cd0, 2.0 * k * weight * weight / (density * wing_area)
+
+
+def speeds_at_drag(mass, density, wing_area, cd0, k, drag, *, slow=True, terms=None):
     r"""The slow and fast TAS at which level-flight drag equals ``drag`` [m/s].
 
     With a symmetric parabolic polar, :math:`D = a V^2 + b / V^2`,
@@ -469,6 +502,10 @@ def speeds_at_drag(mass, density, wing_area, cd0, k, drag):
         Polar coefficients [-].
     drag : array_like
         Drag [N], at least the minimum drag :math:`2 W \sqrt{k C_{D0}}`.
+    slow : bool, optional
+        False: only the fast root is wanted, and the slow one is not computed (None).
+    terms : tuple, optional
+        :func:`level_drag_terms` of these arguments, if already computed.
 
     Returns
     -------
@@ -480,15 +517,13 @@ def speeds_at_drag(mass, density, wing_area, cd0, k, drag):
     .. [1] Anderson, *Aircraft Performance and Design*, secs. 5.3-5.4 (drag of a parabolic
        polar in level flight, its minimum).
     """
-    weight = np.asarray(mass, dtype=float) * G0
-    a = 0.5 * density * wing_area * cd0
-    b = 2.0 * k * weight * weight / (density * wing_area)
+    a, b = level_drag_terms(mass, density, wing_area, cd0, k) if terms is None else terms
     with np.errstate(invalid="ignore"):
         fast2 = (drag + np.sqrt(drag * drag - 4.0 * a * b)) / (2.0 * a)
-    return np.sqrt(b / (a * fast2)), np.sqrt(fast2)
+    return np.sqrt(b / (a * fast2)) if slow else None, np.sqrt(fast2)
 
 
-def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
+def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power, *, terms=None):
     r"""The slow and fast TAS at which the drag power :math:`D V` equals ``thrust_power``.
 
     With a symmetric parabolic polar, :math:`D V = a V^3 + b / V`
@@ -514,6 +549,8 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     thrust_power : array_like
         Thrust power [W] (efficiency x shaft power available, less any power kept for a
         climb).
+    terms : tuple, optional
+        :func:`level_drag_terms` of these arguments, if already computed.
 
     Returns
     -------
@@ -527,9 +564,7 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     .. [2] Anderson, *Aircraft Performance and Design*, sec. 5.4 (power required and
        available; maximum speed where they meet).
     """
-    weight = np.asarray(mass, dtype=float) * G0
-    a = 0.5 * density * wing_area * cd0
-    b = 2.0 * k * weight * weight / (density * wing_area)
+    a, b = level_drag_terms(mass, density, wing_area, cd0, k) if terms is None else terms
     p = -np.asarray(thrust_power, dtype=float) / a
     q = b / a
     # Largest real root of m^3 - q m - p^2 / 8 = 0 (q > 0): trigonometric form for three
@@ -537,29 +572,40 @@ def speeds_at_thrust_power(mass, density, wing_area, cd0, k, thrust_power):
     half = p * p / 16.0
     disc = half * half - q * q * q / 27.0
     one_real = disc >= 0
+    n_real = np.count_nonzero(one_real)   # (quicker than .any() and .all())
     with np.errstate(invalid="ignore", divide="ignore"):
         # Each form computed only if some element needs it (one_real decides which).
-        if one_real.any():
+        if n_real:
             r = np.sqrt(np.maximum(disc, 0.0))
             cardano = np.cbrt(half + r) + np.cbrt(half - r)
-        if not one_real.all():
+        if n_real < one_real.size:
             scale = 2.0 * np.sqrt(q / 3.0)
             # np.clip by its two ufuncs (the same values, without the wrapper's cost).
             angle = np.arccos(np.minimum(np.maximum(half / (q / 3.0) ** 1.5, -1.0), 1.0)
                               ) / 3.0
             trig = scale * np.cos(angle)
-            m = np.where(one_real, cardano, trig) if one_real.any() else trig
+            m = np.where(one_real, cardano, trig) if n_real else trig
         else:
             m = cardano
         s = np.sqrt(2.0 * m)
-        fast = 0.5 * (s + np.sqrt(-2.0 * m - 2.0 * p / s))
-        slow = (m + p / (2.0 * s)) / fast
-        # Both roots at once. At a double root (the thrust power just meets the least drag
-        # power) the slope vanishes: keep the value there.
-        v = np.empty((2,) + np.broadcast_shapes(np.shape(slow), np.shape(fast)))
-        v[0], v[1] = slow, fast
+        twice_fast = s + np.sqrt(-2.0 * m - 2.0 * p / s)   # of every input's shape
+        # Both roots at once, slow then fast, each written where it is kept.
+        v = np.empty((2,) + np.shape(twice_fast))
+        fast = np.multiply(0.5, twice_fast, out=v[1, ...])   # (a view even of one root)
+        np.divide(m + p / (2.0 * s), fast, out=v[0, ...])
+        # Newton's step (v^4 + p v + q) / (4 v^3 + p), in buffers reused by both steps:
+        # the same operations as the plain expression, on a working set that stays in
+        # cache. At a double root (the thrust power just meets the least drag power) the
+        # slope vanishes: keep the value there.
+        v3, step, slope = np.empty_like(v), np.empty_like(v), np.empty_like(v)
         for _ in range(2):
-            v3 = v * v * v
-            step = (v3 * v + p * v + q) / (4.0 * v3 + p)
-            v = np.where(np.isfinite(step), v - step, v)
+            np.multiply(v, v, out=v3)
+            v3 *= v
+            np.multiply(v3, v, out=step)
+            step += np.multiply(p, v, out=slope)
+            step += q
+            np.multiply(4.0, v3, out=slope)
+            slope += p
+            step /= slope
+            np.subtract(v, step, out=v, where=np.isfinite(step))
     return v[0], v[1]

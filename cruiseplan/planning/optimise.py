@@ -39,15 +39,23 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
+from functools import cached_property
 
 import numpy as np
 
-from cruiseplan._numerics import brent_minimise, grid_minimise, illinois_root
+from cruiseplan._numerics import (
+    all_true,
+    any_true,
+    brent_minimise,
+    grid_minimise,
+    illinois_root,
+)
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_DTYPE, Limit, describe
 from cruiseplan.physics.aerodynamics import (
     ParabolicPolar,
+    level_drag_terms,
     min_drag_speed,
     min_power_speed,
     speeds_at_drag,
@@ -122,23 +130,43 @@ class SpeedSchedule:
     tas_unconstrained: dict
     binding: dict
 
-    @property
+    @cached_property
     def feasible(self) -> np.ndarray:
-        """True where some speed is flyable."""
+        """True where some speed is flyable (computed on first read, then kept)."""
         return self.infeasible == 0
 
 
 _BIT_POWER = LIMIT_DTYPE(Limit.POWER)
 _BIT_CLIMB_RESERVE = LIMIT_DTYPE(Limit.CLIMB_RESERVE)
 _BIT_WIND = LIMIT_DTYPE(Limit.WIND)
+_BIT_STALL = LIMIT_DTYPE(Limit.STALL)
+_BIT_MACH = LIMIT_DTYPE(Limit.MACH)
+
+
+def _calm(wind) -> bool:
+    """True if a wind component is zero everywhere (a float told without numpy)."""
+    return wind == 0.0 if type(wind) is float else not any_true(wind)
 
 
 def _closed_form_ok(airframe, headwind, crosswind) -> bool:
     polar = getattr(airframe, "polar", None)
     prop = airframe.propulsion
     return (isinstance(polar, ParabolicPolar) and polar.cl_min_drag == 0.0
-            and prop.propeller.is_constant
-            and not np.asarray(headwind).any() and not np.asarray(crosswind).any())
+            and prop.propeller.is_constant and _calm(headwind) and _calm(crosswind))
+
+
+def _points_shape(density, mass) -> tuple:
+    """Broadcast shape of the air's and the mass's (no numpy call for a float mass)."""
+    if type(mass) is float:
+        return density.shape if type(density) is np.ndarray else np.shape(density)
+    return np.broadcast_shapes(np.shape(density), np.shape(mass))
+
+
+def _over(values, shape):
+    """``values`` as floats of ``shape``: the array itself if it is one, else a view."""
+    if type(values) is np.ndarray and values.shape == shape and values.dtype == np.float64:
+        return values
+    return np.broadcast_to(np.asarray(values, dtype=float), shape)
 
 
 def climb_rate(airframe, mass, air: AirState, tas):
@@ -181,21 +209,25 @@ def climb_rate(airframe, mass, air: AirState, tas):
     return excess / (mass * G0)
 
 
-def _window(airframe, mass, air, lo, hi, reserve_rate):
+def _window(airframe, mass, air, lo, hi, reserve_rate, terms=None):
     """Speeds in [lo, hi] where the climb rate is at least ``reserve_rate``; NaN where none.
 
     With a symmetric parabolic polar and a constant propeller efficiency the edges are the
-    roots of a quartic, in closed form (:func:`speeds_at_thrust_power`); otherwise both
-    edges are found in one pass of root finding, bracketed by the speed of the greatest
-    excess power.
+    roots of a quartic, in closed form (:func:`speeds_at_thrust_power`, given the drag
+    ``terms`` if they are computed already); otherwise both edges are found in one pass
+    of root finding, bracketed by the speed of the greatest excess power.
     """
     if _closed_form_ok(airframe, 0.0, 0.0):
         prop, polar = airframe.propulsion, airframe.polar
-        thrust_power = (prop.propeller(lo) * prop.shaft_power_available(air.sigma)
-                        - np.asarray(mass, dtype=float) * G0 * reserve_rate)
+        thrust_power = prop.propeller(lo) * prop.shaft_power_available(air.sigma)
+        if not (type(reserve_rate) is float and reserve_rate == 0.0):
+            # (Without a reserve the difference is the thrust power itself.)
+            thrust_power = thrust_power - np.asarray(mass, dtype=float) * G0 * reserve_rate
         slow, fast = speeds_at_thrust_power(mass, air.density, airframe.wing_area,
-                                            polar.cd0, polar.k, thrust_power)
+                                            polar.cd0, polar.k, thrust_power, terms=terms)
         ok = (slow <= hi) & (fast >= lo)   # False where NaN: no speed at all
+        if all_true(ok):
+            return np.maximum(slow, lo), np.minimum(fast, hi), ok
         return (np.where(ok, np.maximum(slow, lo), np.nan),
                 np.where(ok, np.minimum(fast, hi), np.nan), ok)
 
@@ -239,8 +271,11 @@ def _planner_grid(f, lo, hi, *, xtol_rel):
     return grid_minimise(f, lo, hi, xtol_rel=xtol_rel, points=2 * s + 1)
 
 
-def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> dict:
+def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10,
+                 terms=None) -> dict:
     """Best speeds before any constraint, for the objectives asked (economy needs range).
+
+    ``terms``: the polar's :func:`level_drag_terms` at these points, if computed already.
 
     Where both the best-range and the best-endurance speed need a search, both are found
     in one pass: the two problems are stacked along a new first axis, so that each step
@@ -303,7 +338,8 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10) -> 
             # economy is the fast speed of drag = minimum drag / ECONOMY_FRACTION.
             d_min = 2.0 * np.asarray(mass, dtype=float) * G0 * np.sqrt(polar.k * polar.cd0)
             out["economy"] = speeds_at_drag(mass, air.density, airframe.wing_area, polar.cd0,
-                                            polar.k, d_min / ECONOMY_FRACTION)[1]
+                                            polar.k, d_min / ECONOMY_FRACTION, slow=False,
+                                            terms=terms)[1]
         else:
             best = ground_range(out["range"])
             out["economy"] = illinois_root(
@@ -368,7 +404,7 @@ def objective_speed(airframe, mass, air: AirState, store, objective, *, headwind
     cap = np.minimum(prop.shaft_power_available(air.sigma), prop.pack_shaft_limit(store)[0])
     enough = shaft_power_required(airframe, mass, air, v) <= cap
     feasible = np.ones(shape, dtype=bool)
-    if np.all(enough):
+    if all_true(enough):
         return v, feasible
     # Short of power: above the minimum-power speed, power required rises with speed, so
     # the best flyable speed is where it meets full throttle (if the minimum-power speed
@@ -427,29 +463,36 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
     .. [1] Anderson, *Aircraft Performance and Design*, eqs. 5.34, 5.54 (closed forms) and
        sec. 5.7 (range and endurance).
     """
-    shape = np.broadcast_shapes(np.shape(air.density), np.shape(mass))
-    hw = np.broadcast_to(np.asarray(headwind, dtype=float), shape)
-    cw = np.broadcast_to(np.asarray(crosswind, dtype=float), shape)
+    shape = _points_shape(air.density, mass)
+    hw, cw = _over(headwind, shape), _over(crosswind, shape)
     v_s = airframe.stall_speed(mass, air.density)
     lo, hi = 0.5 * v_s, MACH_LIMIT * air.speed_of_sound
-    free = _free_speeds(airframe, mass, air, store, hw, cw, OBJECTIVES)
+    # The polar's drag terms, computed once for the closed forms of the economy speed and
+    # of the windows' edges.
+    terms = (level_drag_terms(mass, air.density, airframe.wing_area, airframe.polar.cd0,
+                              airframe.polar.k)
+             if _closed_form_ok(airframe, 0.0, 0.0) else None)
+    free = _free_speeds(airframe, mass, air, store, hw, cw, OBJECTIVES, terms=terms)
     v_range, v_end, v_econ = free["range"], free["endurance"], free["economy"]
 
     # Windows: with and without the climb reserve, to tell which one binds.
-    p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0)
+    p_lo, p_hi, p_ok = _window(airframe, mass, air, lo, hi, 0.0, terms)
     if climb_reserve > 0:
-        c_lo, c_hi, c_ok = _window(airframe, mass, air, lo, hi, climb_reserve)
+        c_lo, c_hi, c_ok = _window(airframe, mass, air, lo, hi, climb_reserve, terms)
     else:
         c_lo, c_hi, c_ok = p_lo, p_hi, p_ok
     v_margin = stall_margin * v_s
     win_lo = np.maximum(c_lo, v_margin)
     win_hi = c_hi
     # Bits as bool x bit (each condition a bool array of the altitudes' shape).
-    infeasible = np.broadcast_to(~p_ok, shape) * _BIT_POWER
+    if all_true(p_ok) and p_ok.shape == shape:
+        infeasible = np.zeros(shape, dtype=LIMIT_DTYPE)
+    else:
+        infeasible = np.broadcast_to(~p_ok, shape) * _BIT_POWER
     if c_ok is not p_ok:
         infeasible |= (p_ok & ~c_ok) * _BIT_CLIMB_RESERVE
     squeezed = c_ok & (v_margin > c_hi)
-    if squeezed.any():
+    if any_true(squeezed):
         infeasible |= squeezed * LIMIT_DTYPE(Limit.STALL | (
             Limit.CLIMB_RESERVE if climb_reserve > 0 else Limit.POWER))
     # A battery pack given as a circuit caps the power at the store's state of charge
@@ -460,43 +503,48 @@ def speed_schedule(airframe, mass, air: AirState, store, *, headwind=0.0, crossw
         no_cap = ~np.isfinite(k_lo) | (k_lo > win_hi) | (k_hi < win_lo)
         infeasible |= np.where(no_cap, cap_bit, 0).astype(LIMIT_DTYPE)
         win_lo, win_hi = np.fmax(win_lo, k_lo), np.fmin(win_hi, k_hi)
-    ok = infeasible == 0
-    if not ok.all():
+    all_ok = not any_true(infeasible)
+    if not all_ok:
+        ok = infeasible == 0
         win_lo = np.where(ok, win_lo, np.nan)
         win_hi = np.where(ok, win_hi, np.nan)
 
     def clamp(v_unc):
+        # Where nothing is flyable the window is NaN: no comparison with it holds, so no
+        # bit is set there.
         below = v_unc < win_lo
         above = v_unc > win_hi
-        if not (below.any() or above.any()):
+        if not (any_true(below) or any_true(above)):
             # Inside the window everywhere (or no window): the speed is its own clipped
             # value and nothing binds (the same as the general case below).
-            return np.where(ok, v_unc, np.nan), np.zeros(shape, dtype=LIMIT_DTYPE)
+            if all_ok and v_unc.shape == shape:
+                return v_unc.copy(), np.zeros(shape, dtype=LIMIT_DTYPE)
+            return (np.where(infeasible == 0, v_unc, np.nan),
+                    np.zeros(shape, dtype=LIMIT_DTYPE))
         v = np.minimum(np.maximum(v_unc, win_lo), win_hi)  # np.clip, by its ufuncs
-        code = np.zeros(shape, dtype=LIMIT_DTYPE)
         stall_bound = below & (v_margin >= c_lo)
-        code |= np.where(stall_bound, Limit.STALL, 0).astype(LIMIT_DTYPE)
+        code = stall_bound * _BIT_STALL
         power_side = (below & ~stall_bound) | above
-        at_mach = above & (win_hi >= hi * (1 - 1e-9))
-        outside_p = (v_unc < p_lo) | (v_unc > p_hi)
-        code |= np.where(power_side & ~at_mach & outside_p, Limit.POWER, 0
-                         ).astype(LIMIT_DTYPE)
-        code |= np.where(power_side & ~at_mach & ~outside_p, Limit.CLIMB_RESERVE, 0
-                         ).astype(LIMIT_DTYPE)
-        code |= np.where(at_mach, Limit.MACH, 0).astype(LIMIT_DTYPE)
+        if any_true(power_side):   # (the Mach limit is on the power side too)
+            at_mach = above & (win_hi >= hi * (1 - 1e-9))
+            outside_p = (v_unc < p_lo) | (v_unc > p_hi)
+            held = power_side & ~at_mach
+            code |= (held & outside_p) * _BIT_POWER
+            code |= (held & ~outside_p) * _BIT_CLIMB_RESERVE
+            code |= at_mach * _BIT_MACH
         if cap_bit:
             # Where the pack's side of the window is the one that holds the speed, it
             # alone binds there.
             by_pack = (below & (k_lo >= win_lo)) | (above & (k_hi <= win_hi))
             code = np.where(by_pack, LIMIT_DTYPE(cap_bit), code)
-        return np.where(ok, v, np.nan), np.where(ok, code, 0).astype(LIMIT_DTYPE)
+        return (v if all_ok else np.where(ok, v, np.nan)), code
 
     tas, binding = {}, {}
     tas["range"], binding["range"] = clamp(v_range)
     tas["endurance"], binding["endurance"] = clamp(v_end)
     econ_unc = np.maximum(v_econ, tas["range"])
     tas["economy"], binding["economy"] = clamp(econ_unc)
-    if binding["range"].any():
+    if any_true(binding["range"]):
         binding["economy"] |= np.where(v_econ < tas["range"], binding["range"], 0
                                        ).astype(LIMIT_DTYPE)
     return SpeedSchedule(air=air, headwind=hw, crosswind=cw, stall_speed=v_s,
@@ -711,7 +759,12 @@ def _pick(score) -> int:
     A piston aircraft's best specific range does not change with altitude when BSFC and
     propeller efficiency are constant, so ties are real: the higher altitude is faster.
     """
-    return int(np.flatnonzero(score >= np.max(score) * (1 - TIE_TOLERANCE))[-1])
+    # np.flatnonzero(score >= np.max(score) * ...)[-1] by array methods, whose cost is
+    # less than the wrappers' and a reduction's on an array of altitudes (the maximum read
+    # at its argmax: NaN there too if there is one).
+    score = score.ravel()
+    best = score[score.argmax()]
+    return int((score >= best * (1 - TIE_TOLERANCE)).nonzero()[0][-1])
 
 
 def pick_rule(objective: str) -> str:
@@ -772,16 +825,21 @@ def choose_altitude(schedule: SpeedSchedule, objective: str, value, value_free,
     peak_index : int
         The altitude of the largest value; -1 when nothing is flyable.
     """
-    feasible = schedule.feasible
     speed_binding = schedule.binding[objective]
-    usable = feasible & (out_of_band == 0) & np.isfinite(value)
-    if not np.any(usable):
+    # Flyable, in the band and with a value (each mask applied only if it masks something).
+    usable = np.isfinite(value)
+    if any_true(schedule.infeasible):
+        usable &= schedule.feasible
+    if any_true(out_of_band):
+        usable &= out_of_band == 0
+    if not any_true(usable):
         codes = np.bitwise_or.reduce(schedule.infeasible | out_of_band) if value.size else 0
         return -1, int(codes), -1
-    i = _pick(np.where(usable, value, -np.inf))
-    equal = usable & (np.where(usable, value, -np.inf) >= value[i] * (1.0 - EQUAL_TOLERANCE))
+    score = np.where(usable, value, -np.inf)
+    i = _pick(score)
+    equal = usable & (score >= value[i] * (1.0 - EQUAL_TOLERANCE))
     if objective == "endurance":
-        pick = int(np.flatnonzero(equal)[0])
+        pick = int(equal.ravel().nonzero()[0][0])   # np.flatnonzero(equal)[0]
     elif ground_speed is not None:
         pick = _pick(np.where(equal, ground_speed, -np.inf))
     else:
@@ -860,8 +918,11 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     """
     if objective not in OBJECTIVES:
         raise CruiseplanError(f"objective {objective!r} is not one of {', '.join(OBJECTIVES)}")
-    h = check_altitude(np.atleast_1d(to_si(altitudes, "m", what="altitudes")))
-    if h.ndim != 1 or (h[1:] <= h[:-1]).any():  # finite altitudes: as np.diff(h) <= 0
+    h = to_si(altitudes, "m", what="altitudes")
+    if type(h) is not np.ndarray or h.ndim == 0:
+        h = np.atleast_1d(h)   # (an array of altitudes is its own np.atleast_1d)
+    h = check_altitude(h)
+    if h.ndim != 1 or any_true(h[1:] <= h[:-1]):  # finite altitudes: as np.diff(h) <= 0
         raise CruiseplanError("altitudes must be one-dimensional and increasing")
     if wind is not None and headwind is not None:
         raise CruiseplanError("give either a wind profile (with a course) or a headwind")
@@ -874,9 +935,9 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
         hw, cw = wind.components(check_range(float(to_si(course, "deg", what="course")),
                                              "course", "course"), h)
     else:
-        hw = np.full(h.shape, 0.0 if headwind is None
-                     else check_range(to_si(headwind, "m/s", what="headwind"), "headwind",
-                                      "headwind"))
+        hw = np.zeros(h.shape) if headwind is None else np.full(
+            h.shape, check_range(to_si(headwind, "m/s", what="headwind"), "headwind",
+                                 "headwind"))
         cw = np.zeros(h.shape)
     sched = speed_schedule(airframe, loading.mass, air, loading.store, headwind=hw,
                            crosswind=cw, stall_margin=stall_margin,
@@ -887,13 +948,17 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
     # roundoff POWER bit); the value is masked by it below, so keep the figures here.
     pts = cruise_points(airframe, loading.mass, air, v, loading.store, ground_speed=gs,
                         stall_margin=stall_margin, keep_unflyable=True)
-    wind_bad = sched.feasible & ~(gs > 0)
-    if wind_bad.any():
-        sched = replace(sched, infeasible=sched.infeasible | wind_bad * _BIT_WIND)
+    headway = gs > 0
+    if not all_true(headway):
+        wind_bad = sched.feasible & ~headway
+        if any_true(wind_bad):
+            sched = replace(sched, infeasible=sched.infeasible | wind_bad * _BIT_WIND)
     value = pts.endurance if objective == "endurance" else pts.range_ground
-    value = np.where(sched.feasible, value, np.nan)
+    # (A copy where every altitude is flyable: the points keep their own array.)
+    value = np.where(sched.feasible, value, np.nan) if any_true(sched.infeasible) \
+        else value.copy()
     v_free = sched.tas_unconstrained[objective]
-    if v_free.shape == v.shape and (v_free == v).all():  # np.array_equal, NaN unequal
+    if v_free.shape == v.shape and all_true(v_free == v):  # np.array_equal, NaN unequal
         free = pts   # no constraint binds anywhere: the same points (values kept above)
     else:
         gs_free = ground_speed(v_free, hw, cw)
@@ -904,8 +969,9 @@ def best_cruise(airframe, altitudes, *, objective="range", mass=None, fuel=None,
                       ((floor, "floor"), (ceiling, "ceiling"), (max_agl, "max_agl"))),
                  to_si(elevation, "m", what="elevation"))
     i, binding, peak = choose_altitude(sched, objective, value, value_free, band, gs)
-    return BestCruise(objective, sched, pts, np.where(band == 0, value, np.nan), band, i,
-                      binding, peak)
+    if any_true(band):
+        value = np.where(band == 0, value, np.nan)
+    return BestCruise(objective, sched, pts, value, band, i, binding, peak)
 
 
 # --- Climb and ceilings ----------------------------------------------------------------

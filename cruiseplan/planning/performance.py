@@ -31,7 +31,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from cruiseplan._numerics import any_true, brent_minimise, illinois_root, set_flag
+from cruiseplan._numerics import all_true, any_true, brent_minimise, illinois_root, set_flag
 from cruiseplan.constants import DEFAULT_STALL_MARGIN, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.limits import LIMIT_DTYPE, UNFLYABLE, Limit, explain
@@ -416,20 +416,19 @@ def cruise_points(airframe, mass, air: AirState, tas, store, *, headwind=0.0,
     if (not isinstance(limits, np.ndarray) or limits.shape != shape
             or limits.dtype != LIMIT_DTYPE or not limits.flags.writeable):
         limits = np.array(np.broadcast_to(limits, shape), dtype=LIMIT_DTYPE)
-    short = np.greater(shaft, available)
-    if short.any():
-        set_flag(limits, short, _BIT[Limit.POWER])
+    set_flag(limits, np.greater(shaft, available), _BIT[Limit.POWER])
     mach = MACH_LIMIT * air.speed_of_sound
-    # Checked on the (small) inputs first: no point can be past Mach when the fastest TAS
-    # is below the least limit (NaN sets no flag either way).
-    if not np.fmax.reduce(tas, axis=None, initial=-np.inf) <= np.fmin.reduce(
-            mach, axis=None, initial=np.inf):
+    # On a grid, checked on the (small) inputs first: no point can be past Mach when the
+    # fastest TAS is below the least limit (NaN sets no flag either way). Speeds of the
+    # points' own shape are compared at once.
+    if tas.shape == shape or not np.fmax.reduce(tas, axis=None, initial=-np.inf) <= \
+            np.fmin.reduce(mach, axis=None, initial=np.inf):
         set_flag(limits, np.greater(tas, mach), _BIT[Limit.MACH])
     set_flag(limits, prop.lapse_outside(sigma), _BIT[Limit.LAPSE_RANGE])
     # A hover (TAS 0, ground speed 0: calm air) holds its position, so no WIND limit.
-    no_headway = ~(gs > 0)
-    if no_headway.any():
-        set_flag(limits, no_headway & ~((tas == 0) & (gs == 0)), _BIT[Limit.WIND])
+    headway = gs > 0
+    if not all_true(headway):
+        set_flag(limits, ~headway & ~((tas == 0) & (gs == 0)), _BIT[Limit.WIND])
     # Battery pack: its maximum power, maximum continuous current and cut-off voltage
     # under load, with this store on board (none without a circuit).
     pack = prop.pack_limits(shaft, store)
