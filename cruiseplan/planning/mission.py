@@ -305,6 +305,7 @@ class Flight:
         # The air at each distinct set of altitudes, computed once per plan: the candidate
         # altitudes of most legs are the same, and so are many of the climbs between them.
         self._air = {}
+        self._air_rows = {}
         # Winds that differ between missions planned together, by the leg's id (see
         # :meth:`together`); other legs use their own profile.
         self._winds = {}
@@ -390,6 +391,16 @@ class Flight:
                     value.flags.writeable = False
             self._air[key] = air
         return air
+
+    def air_rows(self, h):
+        """The states of :meth:`air` at ``h``, one per index of its first axis (cached)."""
+        h = np.asarray(h, dtype=float)
+        key = (h.shape, h.tobytes())
+        rows = self._air_rows.get(key)
+        if rows is None:
+            air = self.air(h)
+            rows = self._air_rows[key] = [air.row(j) for j in range(h.shape[0])]
+        return rows
 
     def shaft(self, m, air, v):
         """Shaft power [W] in level flight at mass ``m``, TAS ``v``.
@@ -598,14 +609,26 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     steps = (np.arange(CLIMB_STEPS) + 0.5).reshape((-1,) + (1,) * h0.ndim)
     h_steps = h0 + steps * dh
     air_steps = fl.air(h_steps)
+    air_rows = fl.air_rows(h_steps)
     head_steps, cross_steps = fl.wind(leg, h_steps)
     idle = profile.idle_power * fl.prop.rated_power
-    # What does not depend on the mass, for every step at once: TAS and climb power.
+    # What does not depend on the mass, for every step at once: TAS and climb power. The
+    # TAS is read-only: the propeller's efficiency at a step's TAS is then found once.
     v_steps = tas_from_eas(v_eas, air_steps.density)
+    v_steps.flags.writeable = False
+    v_cap_steps = 0.9 * v_steps
     p_up_steps = profile.climb_power * fl.prop.shaft_power_available(air_steps.sigma)
     prop = fl.prop.propeller
+    checked = moving & climbing
+    step_dh = np.abs(dh)
+    rated = fl.prop.rated_power
+    circuit = fl.circuit is not None
+    bads = []
+    # The sums below run over every candidate; those that do not move are set to 0 (not
+    # NaN x 0) once, after the steps.
+    x, tas_sum, pw_sum = zero.copy(), zero.copy(), zero.copy()
     for j in range(CLIMB_STEPS):
-        air = air_steps.row(j)
+        air = air_rows[j]
         v = v_steps[j]
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
@@ -620,36 +643,43 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
             roc = np.where(capped, profile.climb_rate, roc)
             p_up = np.where(capped, prop.shaft_with_extra(p_level, drag, v, air.density,
                                                           weight * roc), p_up)
-        roc = np.minimum(roc, 0.9 * v)
-        bad = moving & climbing & (roc < MIN_CLIMB_RATE)
-        fail_at = np.where(bad & ok, h_steps[j], fail_at)
-        ok &= ~bad
+        roc = np.minimum(roc, v_cap_steps[j])
+        bad = checked & (roc < MIN_CLIMB_RATE)
+        bads.append(bad)
         # Descent: the set rate, at the power that gives it, never below idle.
         p_down = np.maximum(prop.shaft_with_extra(p_level, drag, v, air.density,
                                                   -weight * profile.descent_rate), idle)
         vz = np.where(climbing, np.where(bad, MIN_CLIMB_RATE, roc), profile.descent_rate)
         p = np.where(climbing, p_up, p_down)
-        dt = np.where(moving, np.abs(dh) / vz, 0.0)
+        dt = np.where(moving, step_dh / vz, 0.0)
         # The segment's heading is the last step's.
         gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz, (head_steps[j], cross_steps[j]),
                                heading=j == CLIMB_STEPS - 1)
         heading = heading if hdg is None else hdg
         # Candidates that do not move contribute nothing (not NaN x 0).
-        soc = fl.soc(None if store0 is None else store0 - used)
-        watch.see(p, soc, moving)
+        if circuit:
+            soc = fl.soc(None if store0 is None else store0 - used)
+            watch.see(p, soc, moving)
+        else:
+            soc = None
         burn = np.where(moving, fl.rate(p, soc) * dt, 0.0)
         t += dt
-        x += np.where(moving, gs * dt, 0.0)
+        x += gs * dt
         used += burn
         if fl.burns_mass:
             m = np.maximum(m - burn, fl.zero_fuel_mass)
-        tas_sum += np.where(moving, v * dt, 0.0)
-        gs_sum += np.where(moving, gs * dt, 0.0)
-        pw_sum += np.where(moving, p / fl.prop.rated_power * dt, 0.0)
+        tas_sum += v * dt
+        pw_sum += p / rated * dt
+    # Where the climb rate was first lost.
+    bads = np.array(bads)
+    ok = ~np.any(bads, axis=0)
+    first = np.argmax(bads, axis=0)
+    fail_at = np.where(ok, np.nan, np.take_along_axis(
+        np.broadcast_to(h_steps, (CLIMB_STEPS,) + shape), first[None], axis=0)[0])
     with np.errstate(invalid="ignore", divide="ignore"):
         mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
-        return dict(time=t, distance=x, used=used, mass_end=m, ok=ok, fail_at=fail_at,
-                    tas=mean(tas_sum), gs=mean(gs_sum), heading=heading,
+        return dict(time=t, distance=np.where(moving, x, 0.0), used=used, mass_end=m, ok=ok,
+                    fail_at=fail_at, tas=mean(tas_sum), gs=mean(x), heading=heading,
                     power=mean(pw_sum), **watch.out(shape))
 
 
