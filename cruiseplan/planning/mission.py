@@ -489,6 +489,15 @@ class Flight:
                                           np.maximum(speed + d_speed, 0))
         return head + self.headwind_offset, cross
 
+    @staticmethod
+    def steady_wind(head, cross):
+        """Headwind, crosswind, |crosswind| and -headwind [m/s], for :meth:`ground`.
+
+        Integrations that ask for ground speeds again and again in the same wind find
+        the last two once.
+        """
+        return head, cross, np.abs(cross), -head
+
     def wind_speed(self, leg, h):
         """Wind speed [m/s] on the leg at altitudes ``h`` (with the samples' errors)."""
         direction, speed = self._wind_at(leg, h)
@@ -514,7 +523,8 @@ class Flight:
         gamma_rate : array_like, optional
             Vertical speed [m/s]; the horizontal TAS is sqrt(v^2 - gamma_rate^2).
         wind : tuple of array_like, optional
-            Headwind and crosswind at ``h`` [m/s], when already known.
+            Headwind and crosswind at ``h`` [m/s], when already known (or the four
+            arrays of :meth:`steady_wind`).
         heading : bool, optional
             Whether to work out the heading.
 
@@ -532,12 +542,18 @@ class Flight:
         --------
         cruiseplan.physics.airspeed.ground_speed : The wind-triangle formula used.
         """
-        head, cross = self.wind(leg, h) if wind is None else wind
-        vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
-        held = np.abs(cross) < vh
+        if wind is None:
+            wind = self.wind(leg, h)
+        head, cross = wind[0], wind[1]
+        if type(gamma_rate) is float and gamma_rate == 0.0:
+            vh = np.sqrt(v * v)  # minus 0 and floored at 0: the same figure
+        else:
+            vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
+        # A wind of :meth:`steady_wind` carries |crosswind| and -headwind too.
+        held = (wind[2] if len(wind) > 2 else np.abs(cross)) < vh
         # Where the course cannot be held the aircraft points into the crosswind: it
         # makes no way across it and drifts with the headwind component.
-        gs = np.where(held, ground_speed(vh, head, cross), -head)
+        gs = np.where(held, ground_speed(vh, head, cross), wind[3] if len(wind) > 2 else -head)
         if not heading:
             return gs, None, held
         wca = np.where(held, wind_correction_angle(vh, cross), 90.0 * np.sign(cross))
@@ -610,7 +626,8 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     h_steps = h0 + steps * dh
     air_steps = fl.air(h_steps)
     air_rows = fl.air_rows(h_steps)
-    head_steps, cross_steps = fl.wind(leg, h_steps)
+    head_steps, cross_steps, abs_cross_steps, tail_steps = fl.steady_wind(
+        *fl.wind(leg, h_steps))
     idle = profile.idle_power * fl.prop.rated_power
     # What does not depend on the mass, for every step at once: TAS and climb power. The
     # TAS is read-only: the propeller's efficiency at a step's TAS is then found once.
@@ -653,8 +670,9 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         p = np.where(climbing, p_up, p_down)
         dt = np.where(moving, step_dh / vz, 0.0)
         # The segment's heading is the last step's.
-        gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz, (head_steps[j], cross_steps[j]),
-                               heading=j == CLIMB_STEPS - 1)
+        gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz,
+                               (head_steps[j], cross_steps[j], abs_cross_steps[j],
+                                tail_steps[j]), heading=j == CLIMB_STEPS - 1)
         heading = heading if hdg is None else hdg
         # Candidates that do not move contribute nothing (not NaN x 0).
         if circuit:
@@ -728,19 +746,25 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
 
     watch = _PackWatch(fl)
     dx = np.asarray(distance, dtype=float) / CRUISE_STEPS
+    steady = fl.steady_wind(*wind)
+    circuit = fl.circuit is not None
+    burns, zfm = fl.burns_mass, fl.zero_fuel_mass
 
     def deriv(m, e=0.0):
         v = speed(m)
-        gs, _, _ = fl.ground(v, leg, h, wind=wind, heading=False)
+        gs, _, _ = fl.ground(v, leg, h, wind=steady, heading=False)
         # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
         # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest
         # (fmax takes the floor where gs is NaN).
         gs = np.fmax(gs, GS_FLOOR)
         shaft = fl.shaft(m, air, v)
-        soc = fl.soc(None if store0 is None else store0 - e)
-        watch.see(shaft, soc, dx > 0)
+        if circuit:
+            soc = fl.soc(None if store0 is None else store0 - e)
+            watch.see(shaft, soc, dx > 0)
+        else:
+            soc = None
         r = fl.rate(shaft, soc)
-        burning = fl.burns_mass & (m > fl.zero_fuel_mass)
+        burning = (m > zfm) if burns is True else burns & (m > zfm)
         return np.where(burning, -r / gs, 0.0), r / gs, 1.0 / gs
 
     n = CRUISE_STEPS
@@ -749,17 +773,20 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
     m = np.broadcast_to(m0, shape).copy()
     used = np.zeros(shape)
     t = np.zeros(shape)
+    half, sixth = 0.5 * dx, dx / 6.0
     for _ in range(n):
         # The store used is a state of the integration too (the circuit's rate depends on
-        # the state of charge); for fuel and plain packs its stages change nothing.
+        # the state of charge); for fuel and plain packs its stages change nothing (and
+        # are not worked out).
         k1 = deriv(m, used)
-        k2 = deriv(np.maximum(m + 0.5 * dx * k1[0], fl.zero_fuel_mass), used + 0.5 * dx * k1[1])
-        k3 = deriv(np.maximum(m + 0.5 * dx * k2[0], fl.zero_fuel_mass), used + 0.5 * dx * k2[1])
-        k4 = deriv(np.maximum(m + dx * k3[0], fl.zero_fuel_mass), used + dx * k3[1])
+        k2 = deriv(np.maximum(m + half * k1[0], zfm),
+                   used + half * k1[1] if circuit else None)
+        k3 = deriv(np.maximum(m + half * k2[0], zfm),
+                   used + half * k2[1] if circuit else None)
+        k4 = deriv(np.maximum(m + dx * k3[0], zfm), used + dx * k3[1] if circuit else None)
         for i, acc in ((1, used), (2, t)):
-            acc += dx / 6.0 * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
-        m = np.maximum(m + dx / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]),
-                       fl.zero_fuel_mass)
+            acc += sixth * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
+        m = np.maximum(m + sixth * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]), zfm)
     v_end = speed(m)
     gs0, heading, held = fl.ground(v0, leg, h, wind=wind)
     p0 = fl.shaft(m0, air, v0)
