@@ -491,12 +491,12 @@ class Flight:
 
     @staticmethod
     def steady_wind(head, cross):
-        """Headwind, crosswind, |crosswind| and -headwind [m/s], for :meth:`ground`.
+        """Headwind, crosswind, |crosswind|, -headwind [m/s] and crosswind^2 [m^2/s^2].
 
-        Integrations that ask for ground speeds again and again in the same wind find
-        the last two once.
+        For :meth:`ground`: integrations that ask for ground speeds again and again in
+        the same wind find the last three once.
         """
-        return head, cross, np.abs(cross), -head
+        return head, cross, np.abs(cross), -head, cross * cross
 
     def wind_speed(self, leg, h):
         """Wind speed [m/s] on the leg at altitudes ``h`` (with the samples' errors)."""
@@ -549,11 +549,15 @@ class Flight:
             vh = np.sqrt(v * v)  # minus 0 and floored at 0: the same figure
         else:
             vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
-        # A wind of :meth:`steady_wind` carries |crosswind| and -headwind too.
+        # A wind of :meth:`steady_wind` carries |crosswind|, -headwind, crosswind^2.
         held = (wind[2] if len(wind) > 2 else np.abs(cross)) < vh
         # Where the course cannot be held the aircraft points into the crosswind: it
         # makes no way across it and drifts with the headwind component.
-        gs = np.where(held, ground_speed(vh, head, cross), wind[3] if len(wind) > 2 else -head)
+        if len(wind) > 2:
+            gs = np.where(held, ground_speed(vh, head, cross, crosswind_squared=wind[4]),
+                          wind[3])
+        else:
+            gs = np.where(held, ground_speed(vh, head, cross), -head)
         if not heading:
             return gs, None, held
         wca = np.where(held, wind_correction_angle(vh, cross), 90.0 * np.sign(cross))
@@ -611,14 +615,14 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     m = np.broadcast_to(np.asarray(m0, float), shape).copy()
     dh = (h1 - h0) / CLIMB_STEPS
     zero = np.zeros(shape)
-    t, x, used, tas_sum, gs_sum, pw_sum, heading = (zero.copy() for _ in range(7))
-    ok = np.ones(shape, dtype=bool)
-    fail_at = np.full(shape, np.nan)
     moving = np.broadcast_to(np.abs(dh) > 0, shape)
     watch = _PackWatch(fl)
     if not np.any(moving):
-        return dict(time=zero, distance=zero, used=zero, mass_end=m, ok=ok, fail_at=fail_at,
-                    tas=fail_at, gs=fail_at, heading=zero, power=fail_at, **watch.out(shape))
+        fail_at = np.full(shape, np.nan)
+        return dict(time=zero, distance=zero, used=zero, mass_end=m,
+                    ok=np.ones(shape, dtype=bool), fail_at=fail_at, tas=fail_at, gs=fail_at,
+                    heading=zero, power=fail_at, **watch.out(shape))
+    t, used, heading = zero.copy(), zero.copy(), zero.copy()
     climbing = dh > 0
     v_eas = np.where(climbing, v_climb, v_descent)
     # The atmosphere and the wind once for every step of every altitude.
@@ -626,7 +630,7 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     h_steps = h0 + steps * dh
     air_steps = fl.air(h_steps)
     air_rows = fl.air_rows(h_steps)
-    head_steps, cross_steps, abs_cross_steps, tail_steps = fl.steady_wind(
+    head_steps, cross_steps, abs_cross_steps, tail_steps, cross2_steps = fl.steady_wind(
         *fl.wind(leg, h_steps))
     idle = profile.idle_power * fl.prop.rated_power
     # What does not depend on the mass, for every step at once: TAS and climb power. The
@@ -672,7 +676,8 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         # The segment's heading is the last step's.
         gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz,
                                (head_steps[j], cross_steps[j], abs_cross_steps[j],
-                                tail_steps[j]), heading=j == CLIMB_STEPS - 1)
+                                tail_steps[j], cross2_steps[j]),
+                               heading=j == CLIMB_STEPS - 1)
         heading = heading if hdg is None else hdg
         # Candidates that do not move contribute nothing (not NaN x 0).
         if circuit:
@@ -765,7 +770,8 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
             soc = None
         r = fl.rate(shaft, soc)
         burning = (m > zfm) if burns is True else burns & (m > zfm)
-        return np.where(burning, -r / gs, 0.0), r / gs, 1.0 / gs
+        per_metre = r / gs
+        return np.where(burning, -per_metre, 0.0), per_metre, 1.0 / gs
 
     n = CRUISE_STEPS
     shape = np.broadcast_shapes(dx.shape, m0.shape, np.shape(h), np.shape(v_ref),
@@ -788,13 +794,14 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
             acc += sixth * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
         m = np.maximum(m + sixth * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]), zfm)
     v_end = speed(m)
-    gs0, heading, held = fl.ground(v0, leg, h, wind=wind)
+    gs0, heading, held = fl.ground(v0, leg, h, wind=steady)
     p0 = fl.shaft(m0, air, v0)
     p1 = fl.shaft(m, air, v_end)
     v_stall = fl.af.stall_speed(m0, air.density)
-    return dict(time=t, distance=np.asarray(distance, float) + 0 * t, used=used, mass_end=m,
-                tas=v0 + 0 * t, gs=gs0 + 0 * t, heading=heading + 0 * t,
-                power=p0 / fl.prop.rated_power + 0 * t,
+    zero = 0 * t
+    return dict(time=t, distance=np.asarray(distance, float) + zero, used=used, mass_end=m,
+                tas=v0 + zero, gs=gs0 + zero, heading=heading + zero,
+                power=p0 / fl.prop.rated_power + zero,
                 power_ok=np.maximum(p0, p1) <= fl.prop.shaft_power_available(air.sigma)
                 * (1 + 1e-9),
                 stall_ok=v0 >= fl.margin * v_stall * (1 - 1e-9),
@@ -1292,23 +1299,29 @@ def _row(options: dict, p: int, shape: tuple) -> dict:
             for k, v in options.items()}
 
 
-def _take(options: dict, index, rows) -> dict:
+def _take(options: dict, index, rows, flats=None) -> dict:
     """The candidate ``index[p]`` of each mission ``p`` (arrays over the missions).
 
     ``rows`` is ``arange(missions)``; an array of the options has the missions' and the
     candidates' axes, or only the candidates' (the same for every mission), or length 1
-    along either.
+    along either. Each array is read by one ``take`` of its flat indices, found once per
+    shape (``flats``).
     """
-    first = np.zeros_like(rows)
+    if flats is None:
+        flats = {}
     out = {}
     for k, v in options.items():
         if isinstance(v, dict):
-            out[k] = _take(v, index, rows)
+            out[k] = _take(v, index, rows, flats)
             continue
         v = np.asarray(v)
-        if v.ndim == 1:
-            v = v[None, :]
-        out[k] = v[rows if v.shape[0] > 1 else first, index if v.shape[1] > 1 else first]
+        flat = flats.get(v.shape)
+        if flat is None:
+            n_rows, n_cols = v.shape if v.ndim == 2 else (1,) + v.shape
+            flat = ((rows * n_cols if n_rows > 1 else 0) + (index if n_cols > 1 else 0)
+                    + np.zeros_like(rows))
+            flats[v.shape] = flat
+        out[k] = v.take(flat)
     return out
 
 
