@@ -754,6 +754,7 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
     steady = fl.steady_wind(*wind)
     circuit = fl.circuit is not None
     burns, zfm = fl.burns_mass, fl.zero_fuel_mass
+    first = []  # the shaft power of the first stage: the start's, as at m0 and v0
 
     def deriv(m, e=0.0):
         v = speed(m)
@@ -763,6 +764,8 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         # (fmax takes the floor where gs is NaN).
         gs = np.fmax(gs, GS_FLOOR)
         shaft = fl.shaft(m, air, v)
+        if not first:
+            first.append(shaft)
         if circuit:
             soc = fl.soc(None if store0 is None else store0 - e)
             watch.see(shaft, soc, dx > 0)
@@ -795,7 +798,7 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         m = np.maximum(m + sixth * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]), zfm)
     v_end = speed(m)
     gs0, heading, held = fl.ground(v0, leg, h, wind=steady)
-    p0 = fl.shaft(m0, air, v0)
+    p0 = first[0]
     p1 = fl.shaft(m, air, v_end)
     v_stall = fl.af.stall_speed(m0, air.density)
     zero = 0 * t
