@@ -164,6 +164,10 @@ def wind_components(course_deg, wind_from_deg, wind_speed):
     return w * np.cos(rel), w * np.sin(rel)
 
 
+#: 0 and NaN as 0-d arrays: a ufunc takes them quicker than Python floats.
+_ZERO, _NAN = np.array(0.0), np.array(np.nan)
+
+
 def ground_speed(tas, headwind, crosswind, *, crosswind_squared=None):
     r"""Ground speed along a course held against the wind: the one wind-triangle formula.
 
@@ -199,7 +203,7 @@ def ground_speed(tas, headwind, crosswind, *, crosswind_squared=None):
         crosswind_squared = cross * cross
     square = tas * tas - crosswind_squared
     # NaN where the course is lost, set before the root (no warning to silence).
-    return np.sqrt(np.where(square >= 0, square, np.nan)) - headwind
+    return np.sqrt(np.where(square >= _ZERO, square, _NAN)) - headwind
 
 
 def wind_correction_angle(tas, crosswind):

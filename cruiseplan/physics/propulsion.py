@@ -195,7 +195,8 @@ class PropellerEfficiency:
             # quicker than a take per coefficient or than gathering a table's rows, on the
             # planner's small arrays and the speed searches' larger ones alike.
             object.__setattr__(self, "_table", np.array((x[:-1], 1.0 / h, c3, c2, c1, c0)))
-            object.__setattr__(self, "_ends", (float(x[0]), float(x[-1])))
+            # The ends as 0-d arrays: a ufunc takes them quicker than Python floats.
+            object.__setattr__(self, "_ends", (np.array(x[0]), np.array(x[-1])))
         # The last read-only TAS array met and its efficiency: a climb step asks for the
         # efficiency at its TAS three or four times (level flight, excess power, descent
         # power), a read-only array (and its base) cannot change in between.

@@ -95,6 +95,9 @@ CRUISE_STEPS = 4
 MIN_CLIMB_RATE = 0.1
 #: Ground speed floor [m/s] where the wind is as strong as the airspeed (see _cruise).
 GS_FLOOR = 0.5
+# The same, and 0 and 1, as 0-d arrays: the integrations' ufuncs take them quicker.
+_MIN_CLIMB_RATE, _GS_FLOOR = np.array(MIN_CLIMB_RATE), np.array(GS_FLOOR)
+_ZERO, _ONE = np.array(0.0), np.array(1.0)
 
 
 @dataclass(frozen=True)
@@ -642,7 +645,9 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     prop = fl.prop.propeller
     checked = moving & climbing
     step_dh = np.abs(dh)
-    rated = fl.prop.rated_power
+    # Constants as 0-d arrays: a ufunc takes them quicker than Python floats.
+    rated, idle = np.array(fl.prop.rated_power), np.array(idle)
+    descent, g0 = np.array(profile.descent_rate), np.array(G0)
     circuit = fl.circuit is not None
     bads = []
     # The sums below run over every candidate; those that do not move are set to 0 (not
@@ -653,7 +658,7 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         v = v_steps[j]
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
-        weight = m * G0
+        weight = m * g0
         # Climb: set power, rate from the excess thrust power (capped by a set rate, and
         # kept below 0.9 x TAS where the shallow-climb formula holds). With a propeller
         # diameter the thrust comes from momentum theory and is finite at low speed.
@@ -665,14 +670,14 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
             p_up = np.where(capped, prop.shaft_with_extra(p_level, drag, v, air.density,
                                                           weight * roc), p_up)
         roc = np.minimum(roc, v_cap_steps[j])
-        bad = checked & (roc < MIN_CLIMB_RATE)
+        bad = checked & (roc < _MIN_CLIMB_RATE)
         bads.append(bad)
         # Descent: the set rate, at the power that gives it, never below idle.
         p_down = np.maximum(prop.shaft_with_extra(p_level, drag, v, air.density,
-                                                  -weight * profile.descent_rate), idle)
-        vz = np.where(climbing, np.where(bad, MIN_CLIMB_RATE, roc), profile.descent_rate)
+                                                  -weight * descent), idle)
+        vz = np.where(climbing, np.where(bad, _MIN_CLIMB_RATE, roc), descent)
         p = np.where(climbing, p_up, p_down)
-        dt = np.where(moving, step_dh / vz, 0.0)
+        dt = np.where(moving, step_dh / vz, _ZERO)
         # The segment's heading is the last step's.
         gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz,
                                (head_steps[j], cross_steps[j], abs_cross_steps[j],
@@ -685,7 +690,7 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
             watch.see(p, soc, moving)
         else:
             soc = None
-        burn = np.where(moving, fl.rate(p, soc) * dt, 0.0)
+        burn = np.where(moving, fl.rate(p, soc) * dt, _ZERO)
         t += dt
         x += gs * dt
         used += burn
@@ -762,7 +767,7 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
         # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest
         # (fmax takes the floor where gs is NaN).
-        gs = np.fmax(gs, GS_FLOOR)
+        gs = np.fmax(gs, _GS_FLOOR)
         shaft = fl.shaft(m, air, v)
         if not first:
             first.append(shaft)
@@ -774,7 +779,7 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         r = fl.rate(shaft, soc)
         burning = (m > zfm) if burns is True else burns & (m > zfm)
         per_metre = r / gs
-        return np.where(burning, -per_metre, 0.0), per_metre, 1.0 / gs
+        return np.where(burning, -per_metre, _ZERO), per_metre, _ONE / gs
 
     n = CRUISE_STEPS
     shape = np.broadcast_shapes(dx.shape, m0.shape, np.shape(h), np.shape(v_ref),
