@@ -97,7 +97,7 @@ MIN_CLIMB_RATE = 0.1
 GS_FLOOR = 0.5
 # The same, and 0 and 1, as 0-d arrays: the integrations' ufuncs take them quicker.
 _MIN_CLIMB_RATE, _GS_FLOOR = np.array(MIN_CLIMB_RATE), np.array(GS_FLOOR)
-_ZERO, _ONE = np.array(0.0), np.array(1.0)
+_ZERO, _ONE, _TWO = np.array(0.0), np.array(1.0), np.array(2.0)
 
 
 @dataclass(frozen=True)
@@ -551,7 +551,7 @@ class Flight:
         if type(gamma_rate) is float and gamma_rate == 0.0:
             vh = np.sqrt(v * v)  # minus 0 and floored at 0: the same figure
         else:
-            vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
+            vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, _ZERO))
         # A wind of :meth:`steady_wind` carries |crosswind|, -headwind, crosswind^2.
         held = (wind[2] if len(wind) > 2 else np.abs(cross)) < vh
         # Where the course cannot be held the aircraft points into the crosswind: it
@@ -799,8 +799,8 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
                    used + half * k2[1] if circuit else None)
         k4 = deriv(np.maximum(m + dx * k3[0], zfm), used + dx * k3[1] if circuit else None)
         for i, acc in ((1, used), (2, t)):
-            acc += sixth * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
-        m = np.maximum(m + sixth * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]), zfm)
+            acc += sixth * (k1[i] + _TWO * k2[i] + _TWO * k3[i] + k4[i])
+        m = np.maximum(m + sixth * (k1[0] + _TWO * k2[0] + _TWO * k3[0] + k4[0]), zfm)
     v_end = speed(m)
     gs0, heading, held = fl.ground(v0, leg, h, wind=steady)
     p0 = first[0]
