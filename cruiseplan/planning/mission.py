@@ -1408,12 +1408,14 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
             pick = np.zeros(n_points, dtype=int)
         else:
             pick = _choose(opts, lo, top)
-            for p in np.flatnonzero(pick < 0):
+            unflown = np.flatnonzero(pick < 0)
+            for p in unflown:
                 reasons[p].append(f"leg {leg.name!r}: no altitude between {lo:.0f} and "
                                   f"{top:.0f} m ({why}) can be flown: "
                                   + _why_not(_row(opts, p, shape), leg, lo, top))
-            fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
-            pick = np.where(pick < 0, fallback, pick)
+            if unflown.size:
+                fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
+                pick = np.where(pick < 0, fallback, pick)
         o = _take(opts, pick, rows)
         if fixed:
             for p in range(n_points):
