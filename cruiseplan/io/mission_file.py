@@ -182,7 +182,7 @@ def _store_amount(r, raw, key, where, prop):
     return amount
 
 
-@functools.lru_cache(maxsize=256)
+@functools.lru_cache(maxsize=64)
 def _wind_profile(text: str) -> WindProfile:
     """:func:`parse_wind_profile` of a text, read once (long routes repeat one wind)."""
     return parse_wind_profile(text)

@@ -148,6 +148,10 @@ FUELS = {
 
 # --- Propeller efficiency --------------------------------------------------------------
 
+#: Largest TAS array whose efficiency :class:`PropellerEfficiency` keeps (its memo).
+_MEMO_SIZE = 4096
+
+
 @dataclass(frozen=True)
 class PropellerEfficiency:
     """Propeller efficiency, constant or tabulated against TAS.
@@ -222,9 +226,9 @@ class PropellerEfficiency:
             eta = self._cubic(tas)  # 1.0 x is the same value: one operation fewer
         else:
             eta = self.factor * self._cubic(tas)
-        if type(tas) is np.ndarray and not tas.flags.writeable and (
-                tas.base is None or (type(tas.base) is np.ndarray
-                                     and not tas.base.flags.writeable)):
+        if (type(tas) is np.ndarray and tas.size <= _MEMO_SIZE and not tas.flags.writeable
+                and (tas.base is None or (type(tas.base) is np.ndarray
+                                          and not tas.base.flags.writeable))):
             if type(eta) is np.ndarray:
                 eta.flags.writeable = False
             object.__setattr__(self, "_memo", (tas, eta))

@@ -21,9 +21,9 @@ import numpy as np
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.physics.airspeed import wind_components
 
-
-#: Altitude arrays a profile keeps its winds for (:meth:`WindProfile.at`).
-_AT_KEPT = 512
+#: Altitude arrays a profile keeps its winds for (:meth:`WindProfile.at`), of at most
+#: _AT_SIZE altitudes each (a plan's candidates and climb steps).
+_AT_KEPT, _AT_SIZE = 64, 256
 
 
 def wind_from(u, v):
@@ -131,6 +131,9 @@ class WindProfile:
             Wind speed [m/s].
         """
         h = np.asarray(altitude, dtype=float)
+        if h.size > _AT_SIZE:
+            north, east = self.vector(h)
+            return wind_from(east, north)
         key = (h.shape, h.tobytes())
         found = self._at.get(key)
         if found is None:
