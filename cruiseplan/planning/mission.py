@@ -606,6 +606,11 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     fail_at (altitude where it did not), tas, gs and power (time means), heading, and the
     pack's lowest voltage, highest current and limits (:class:`_PackWatch`).
     """
+    if h1 is h0:
+        # Staying at the altitudes (a leg's final descent but on the last leg): no step.
+        shape = np.broadcast_shapes(np.shape(h0), np.shape(m0), np.shape(v_descent),
+                                    fl.sample_shape)
+        return _staying(fl, shape, m0)
     # Altitudes keep their own shape (candidates, or one altitude); masses and sampled
     # parameters broadcast against them.
     h0, h1 = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float))
@@ -615,16 +620,13 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     # day's deviation may vary along the first, over missions planned together).
     lead = (1,) * (len(shape) - h0.ndim)
     h0, h1 = h0.reshape(lead + h0.shape), h1.reshape(lead + h1.shape)
-    m = np.broadcast_to(np.asarray(m0, float), shape).copy()
     dh = (h1 - h0) / CLIMB_STEPS
-    zero = np.zeros(shape)
     moving = np.broadcast_to(np.abs(dh) > 0, shape)
-    watch = _PackWatch(fl)
     if not np.any(moving):
-        fail_at = np.full(shape, np.nan)
-        return dict(time=zero, distance=zero, used=zero, mass_end=m,
-                    ok=np.ones(shape, dtype=bool), fail_at=fail_at, tas=fail_at, gs=fail_at,
-                    heading=zero, power=fail_at, **watch.out(shape))
+        return _staying(fl, shape, m0)
+    m = np.broadcast_to(np.asarray(m0, float), shape).copy()
+    watch = _PackWatch(fl)
+    zero = np.zeros(shape)
     t, used, heading = zero.copy(), zero.copy(), zero.copy()
     climbing = dh > 0
     v_eas = np.where(climbing, v_climb, v_descent)
@@ -709,6 +711,16 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         return dict(time=t, distance=np.where(moving, x, 0.0), used=used, mass_end=m, ok=ok,
                     fail_at=fail_at, tas=mean(tas_sum), gs=mean(x), heading=heading,
                     power=mean(pw_sum), **watch.out(shape))
+
+
+def _staying(fl: Flight, shape, m0) -> dict:
+    """:func:`_vertical`'s figures where no candidate climbs or descends."""
+    zero = np.zeros(shape)
+    fail_at = np.full(shape, np.nan)
+    return dict(time=zero, distance=zero, used=zero,
+                mass_end=np.broadcast_to(np.asarray(m0, float), shape).copy(),
+                ok=np.ones(shape, dtype=bool), fail_at=fail_at, tas=fail_at, gs=fail_at,
+                heading=zero, power=fail_at, **_PackWatch(fl).out(shape))
 
 
 def _speed_rule(fl: Flight, mode, target, v_ref, m_ref, air, n=1.0):
