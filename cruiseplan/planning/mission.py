@@ -1145,11 +1145,11 @@ def _choose(options, lo, top):
           & _pack_ok(options) & (H >= lo - 1e-6) & (H <= top + 1e-6))
     ok = np.broadcast_to(ok, np.shape(options["total"]))
     cost = np.where(ok, options["total"], np.inf)
-    best = np.min(cost, axis=-1, keepdims=True)
+    best = cost.min(axis=-1, keepdims=True)
     near = cost <= best * (1 + 1e-9) + 1e-12
     # The first of the quickest among the near-cheapest (argmin takes the first).
-    pick = np.argmin(np.where(near, options["time"], np.inf), axis=-1)
-    return np.where(np.any(ok, axis=-1), pick, -1)
+    pick = np.where(near, options["time"], np.inf).argmin(axis=-1)
+    return np.where(ok.any(axis=-1), pick, -1)
 
 
 def _pack_ok(options):
