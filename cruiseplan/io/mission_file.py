@@ -29,6 +29,7 @@ field. Defaults are planning values, stated in the plan; local rules decide the 
 
 from __future__ import annotations
 
+import functools
 import math
 import re
 import warnings
@@ -181,6 +182,12 @@ def _store_amount(r, raw, key, where, prop):
     return amount
 
 
+@functools.lru_cache(maxsize=64)
+def _wind_profile(text: str) -> WindProfile:
+    """:func:`parse_wind_profile` of a text, read once (long routes repeat one wind)."""
+    return parse_wind_profile(text)
+
+
 def _wind(r, leg, where):
     if "wind" in leg and "winds" in leg:
         r.fail(f"{where} wind", "give either wind (text) or [[legs.winds]] tables, not both")
@@ -188,7 +195,7 @@ def _wind(r, leg, where):
         if not isinstance(leg["wind"], str):
             r.fail(f"{where} wind", f"{leg['wind']!r} should read like '270/25@3000ft'")
         try:
-            return parse_wind_profile(leg["wind"])
+            return _wind_profile(leg["wind"])
         except (UnitError, ValueError) as exc:
             r.fail(f"{where} wind", str(exc))
     if "winds" in leg:

@@ -164,7 +164,11 @@ def wind_components(course_deg, wind_from_deg, wind_speed):
     return w * np.cos(rel), w * np.sin(rel)
 
 
-def ground_speed(tas, headwind, crosswind):
+#: 0 and NaN as 0-d arrays: a ufunc takes them quicker than Python floats.
+_ZERO, _NAN = np.array(0.0), np.array(np.nan)
+
+
+def ground_speed(tas, headwind, crosswind, *, crosswind_squared=None):
     r"""Ground speed along a course held against the wind: the one wind-triangle formula.
 
     .. math:: GS = V\cos\delta - W_h = \sqrt{V^2 - W_x^2} - W_h,
@@ -178,6 +182,9 @@ def ground_speed(tas, headwind, crosswind):
         Wind component against the course [m/s] (negative: tailwind).
     crosswind : array_like
         Wind component across the course [m/s].
+    crosswind_squared : array_like, optional
+        ``crosswind * crosswind`` [m^2/s^2], when already known (integrations that ask
+        again and again in the same wind).
 
     Returns
     -------
@@ -191,10 +198,12 @@ def ground_speed(tas, headwind, crosswind):
        (wind triangle).
     """
     tas = np.asarray(tas, dtype=float)
-    cross = np.asarray(crosswind, dtype=float)
-    square = tas * tas - cross * cross
+    if crosswind_squared is None:
+        cross = np.asarray(crosswind, dtype=float)
+        crosswind_squared = cross * cross
+    square = tas * tas - crosswind_squared
     # NaN where the course is lost, set before the root (no warning to silence).
-    return np.sqrt(np.where(square >= 0, square, np.nan)) - headwind
+    return np.sqrt(np.where(square >= _ZERO, square, _NAN)) - headwind
 
 
 def wind_correction_angle(tas, crosswind):

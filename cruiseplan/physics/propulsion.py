@@ -148,6 +148,10 @@ FUELS = {
 
 # --- Propeller efficiency --------------------------------------------------------------
 
+#: Largest TAS array whose efficiency :class:`PropellerEfficiency` keeps (its memo).
+_MEMO_SIZE = 4096
+
+
 @dataclass(frozen=True)
 class PropellerEfficiency:
     """Propeller efficiency, constant or tabulated against TAS.
@@ -195,7 +199,16 @@ class PropellerEfficiency:
             # quicker than a take per coefficient or than gathering a table's rows, on the
             # planner's small arrays and the speed searches' larger ones alike.
             object.__setattr__(self, "_table", np.array((x[:-1], 1.0 / h, c3, c2, c1, c0)))
-            object.__setattr__(self, "_ends", (float(x[0]), float(x[-1])))
+            # The ends as 0-d arrays: a ufunc takes them quicker than Python floats.
+            object.__setattr__(self, "_ends", (np.array(x[0]), np.array(x[-1])))
+        # The last read-only TAS array met and its efficiency: a climb step asks for the
+        # efficiency at its TAS three or four times (level flight, excess power, descent
+        # power), a read-only array (and its base) cannot change in between.
+        object.__setattr__(self, "_memo", (None, None))
+
+    def __getstate__(self):
+        # A copy or a pickle starts without the memo (it may hold a large array).
+        return {**self.__dict__, "_memo": (None, None)}
 
     @property
     def is_constant(self) -> bool:
@@ -206,9 +219,20 @@ class PropellerEfficiency:
         """Efficiency [-] at TAS [m/s]."""
         if self._constant:
             return self.efficiency[0] * self.factor
+        memo = self._memo
+        if memo[0] is tas:
+            return memo[1]
         if type(self.factor) is float and self.factor == 1.0:
-            return self._cubic(tas)  # 1.0 x is the same value: one operation fewer
-        return self.factor * self._cubic(tas)
+            eta = self._cubic(tas)  # 1.0 x is the same value: one operation fewer
+        else:
+            eta = self.factor * self._cubic(tas)
+        if (type(tas) is np.ndarray and tas.size <= _MEMO_SIZE and not tas.flags.writeable
+                and (tas.base is None or (type(tas.base) is np.ndarray
+                                          and not tas.base.flags.writeable))):
+            if type(eta) is np.ndarray:
+                eta.flags.writeable = False
+            object.__setattr__(self, "_memo", (tas, eta))
+        return eta
 
     def _cubic(self, tas):
         lo, hi = self._ends

@@ -21,6 +21,10 @@ import numpy as np
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.physics.airspeed import wind_components
 
+#: Altitude arrays a profile keeps its winds for (:meth:`WindProfile.at`), of at most
+#: _AT_SIZE altitudes each (a plan's candidates and climb steps).
+_AT_KEPT, _AT_SIZE = 64, 256
+
 
 def wind_from(u, v):
     """Direction the wind blows from [deg true] and its speed, from its components.
@@ -74,6 +78,13 @@ class WindProfile:
             raise CruiseplanError("wind profile altitudes must increase")
         if np.any(np.asarray(self.speeds) < 0):
             raise CruiseplanError("wind speeds must not be negative")
+        # Directions and speeds already found, by the altitudes asked for (read-only): a
+        # plan asks for the wind at the same candidate altitudes on every leg.
+        object.__setattr__(self, "_at", {})
+
+    def __getstate__(self):
+        # A copy or a pickle starts without the winds already found.
+        return {**self.__dict__, "_at": {}}
 
     @classmethod
     def calm(cls) -> WindProfile:
@@ -119,8 +130,22 @@ class WindProfile:
         speed : numpy.ndarray
             Wind speed [m/s].
         """
-        north, east = self.vector(altitude)
-        return wind_from(east, north)
+        h = np.asarray(altitude, dtype=float)
+        if h.size > _AT_SIZE:
+            north, east = self.vector(h)
+            return wind_from(east, north)
+        key = (h.shape, h.tobytes())
+        found = self._at.get(key)
+        if found is None:
+            north, east = self.vector(h)
+            found = wind_from(east, north)
+            for a in found:
+                if isinstance(a, np.ndarray):
+                    a.flags.writeable = False
+            if len(self._at) >= _AT_KEPT:
+                self._at.clear()
+            self._at[key] = found
+        return found
 
     def components(self, course_deg, altitude):
         """Headwind and crosswind from the right [m/s] on a true course at altitudes [m].

@@ -95,6 +95,9 @@ CRUISE_STEPS = 4
 MIN_CLIMB_RATE = 0.1
 #: Ground speed floor [m/s] where the wind is as strong as the airspeed (see _cruise).
 GS_FLOOR = 0.5
+# The same, and 0 and 1, as 0-d arrays: the integrations' ufuncs take them quicker.
+_MIN_CLIMB_RATE, _GS_FLOOR = np.array(MIN_CLIMB_RATE), np.array(GS_FLOOR)
+_ZERO, _ONE, _TWO = np.array(0.0), np.array(1.0), np.array(2.0)
 
 
 @dataclass(frozen=True)
@@ -305,6 +308,7 @@ class Flight:
         # The air at each distinct set of altitudes, computed once per plan: the candidate
         # altitudes of most legs are the same, and so are many of the climbs between them.
         self._air = {}
+        self._air_rows = {}
         # Winds that differ between missions planned together, by the leg's id (see
         # :meth:`together`); other legs use their own profile.
         self._winds = {}
@@ -390,6 +394,16 @@ class Flight:
                     value.flags.writeable = False
             self._air[key] = air
         return air
+
+    def air_rows(self, h):
+        """The states of :meth:`air` at ``h``, one per index of its first axis (cached)."""
+        h = np.asarray(h, dtype=float)
+        key = (h.shape, h.tobytes())
+        rows = self._air_rows.get(key)
+        if rows is None:
+            air = self.air(h)
+            rows = self._air_rows[key] = [air.row(j) for j in range(h.shape[0])]
+        return rows
 
     def shaft(self, m, air, v):
         """Shaft power [W] in level flight at mass ``m``, TAS ``v``.
@@ -478,6 +492,15 @@ class Flight:
                                           np.maximum(speed + d_speed, 0))
         return head + self.headwind_offset, cross
 
+    @staticmethod
+    def steady_wind(head, cross):
+        """Headwind, crosswind, |crosswind|, -headwind [m/s] and crosswind^2 [m^2/s^2].
+
+        For :meth:`ground`: integrations that ask for ground speeds again and again in
+        the same wind find the last three once.
+        """
+        return head, cross, np.abs(cross), -head, cross * cross
+
     def wind_speed(self, leg, h):
         """Wind speed [m/s] on the leg at altitudes ``h`` (with the samples' errors)."""
         direction, speed = self._wind_at(leg, h)
@@ -503,7 +526,8 @@ class Flight:
         gamma_rate : array_like, optional
             Vertical speed [m/s]; the horizontal TAS is sqrt(v^2 - gamma_rate^2).
         wind : tuple of array_like, optional
-            Headwind and crosswind at ``h`` [m/s], when already known.
+            Headwind and crosswind at ``h`` [m/s], when already known (or the four
+            arrays of :meth:`steady_wind`).
         heading : bool, optional
             Whether to work out the heading.
 
@@ -521,12 +545,22 @@ class Flight:
         --------
         cruiseplan.physics.airspeed.ground_speed : The wind-triangle formula used.
         """
-        head, cross = self.wind(leg, h) if wind is None else wind
-        vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, 0.0))
-        held = np.abs(cross) < vh
+        if wind is None:
+            wind = self.wind(leg, h)
+        head, cross = wind[0], wind[1]
+        if type(gamma_rate) is float and gamma_rate == 0.0:
+            vh = np.sqrt(v * v)  # minus 0 and floored at 0: the same figure
+        else:
+            vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, _ZERO))
+        # A wind of :meth:`steady_wind` carries |crosswind|, -headwind, crosswind^2.
+        held = (wind[2] if len(wind) > 2 else np.abs(cross)) < vh
         # Where the course cannot be held the aircraft points into the crosswind: it
         # makes no way across it and drifts with the headwind component.
-        gs = np.where(held, ground_speed(vh, head, cross), -head)
+        if len(wind) > 2:
+            gs = np.where(held, ground_speed(vh, head, cross, crosswind_squared=wind[4]),
+                          wind[3])
+        else:
+            gs = np.where(held, ground_speed(vh, head, cross), -head)
         if not heading:
             return gs, None, held
         wca = np.where(held, wind_correction_angle(vh, cross), 90.0 * np.sign(cross))
@@ -572,6 +606,11 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     fail_at (altitude where it did not), tas, gs and power (time means), heading, and the
     pack's lowest voltage, highest current and limits (:class:`_PackWatch`).
     """
+    if h1 is h0:
+        # Staying at the altitudes (a leg's final descent but on the last leg): no step.
+        shape = np.broadcast_shapes(np.shape(h0), np.shape(m0), np.shape(v_descent),
+                                    fl.sample_shape)
+        return _staying(fl, shape, m0)
     # Altitudes keep their own shape (candidates, or one altitude); masses and sampled
     # parameters broadcast against them.
     h0, h1 = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float))
@@ -581,35 +620,47 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     # day's deviation may vary along the first, over missions planned together).
     lead = (1,) * (len(shape) - h0.ndim)
     h0, h1 = h0.reshape(lead + h0.shape), h1.reshape(lead + h1.shape)
-    m = np.broadcast_to(np.asarray(m0, float), shape).copy()
     dh = (h1 - h0) / CLIMB_STEPS
-    zero = np.zeros(shape)
-    t, x, used, tas_sum, gs_sum, pw_sum, heading = (zero.copy() for _ in range(7))
-    ok = np.ones(shape, dtype=bool)
-    fail_at = np.full(shape, np.nan)
     moving = np.broadcast_to(np.abs(dh) > 0, shape)
-    watch = _PackWatch(fl)
     if not np.any(moving):
-        return dict(time=zero, distance=zero, used=zero, mass_end=m, ok=ok, fail_at=fail_at,
-                    tas=fail_at, gs=fail_at, heading=zero, power=fail_at, **watch.out(shape))
+        return _staying(fl, shape, m0)
+    m = np.broadcast_to(np.asarray(m0, float), shape).copy()
+    watch = _PackWatch(fl)
+    zero = np.zeros(shape)
+    t, used, heading = zero.copy(), zero.copy(), zero.copy()
     climbing = dh > 0
     v_eas = np.where(climbing, v_climb, v_descent)
     # The atmosphere and the wind once for every step of every altitude.
     steps = (np.arange(CLIMB_STEPS) + 0.5).reshape((-1,) + (1,) * h0.ndim)
     h_steps = h0 + steps * dh
     air_steps = fl.air(h_steps)
-    head_steps, cross_steps = fl.wind(leg, h_steps)
+    air_rows = fl.air_rows(h_steps)
+    head_steps, cross_steps, abs_cross_steps, tail_steps, cross2_steps = fl.steady_wind(
+        *fl.wind(leg, h_steps))
     idle = profile.idle_power * fl.prop.rated_power
-    # What does not depend on the mass, for every step at once: TAS and climb power.
+    # What does not depend on the mass, for every step at once: TAS and climb power. The
+    # TAS is read-only: the propeller's efficiency at a step's TAS is then found once.
     v_steps = tas_from_eas(v_eas, air_steps.density)
+    v_steps.flags.writeable = False
+    v_cap_steps = 0.9 * v_steps
     p_up_steps = profile.climb_power * fl.prop.shaft_power_available(air_steps.sigma)
     prop = fl.prop.propeller
+    checked = moving & climbing
+    step_dh = np.abs(dh)
+    # Constants as 0-d arrays: a ufunc takes them quicker than Python floats.
+    rated, idle = np.array(fl.prop.rated_power), np.array(idle)
+    descent, g0 = np.array(profile.descent_rate), np.array(G0)
+    circuit = fl.circuit is not None
+    bads = []
+    # The sums below run over every candidate; those that do not move are set to 0 (not
+    # NaN x 0) once, after the steps.
+    x, tas_sum, pw_sum = zero.copy(), zero.copy(), zero.copy()
     for j in range(CLIMB_STEPS):
-        air = air_steps.row(j)
+        air = air_rows[j]
         v = v_steps[j]
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
-        weight = m * G0
+        weight = m * g0
         # Climb: set power, rate from the excess thrust power (capped by a set rate, and
         # kept below 0.9 x TAS where the shallow-climb formula holds). With a propeller
         # diameter the thrust comes from momentum theory and is finite at low speed.
@@ -620,37 +671,56 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
             roc = np.where(capped, profile.climb_rate, roc)
             p_up = np.where(capped, prop.shaft_with_extra(p_level, drag, v, air.density,
                                                           weight * roc), p_up)
-        roc = np.minimum(roc, 0.9 * v)
-        bad = moving & climbing & (roc < MIN_CLIMB_RATE)
-        fail_at = np.where(bad & ok, h_steps[j], fail_at)
-        ok &= ~bad
+        roc = np.minimum(roc, v_cap_steps[j])
+        bad = checked & (roc < _MIN_CLIMB_RATE)
+        bads.append(bad)
         # Descent: the set rate, at the power that gives it, never below idle.
         p_down = np.maximum(prop.shaft_with_extra(p_level, drag, v, air.density,
-                                                  -weight * profile.descent_rate), idle)
-        vz = np.where(climbing, np.where(bad, MIN_CLIMB_RATE, roc), profile.descent_rate)
+                                                  -weight * descent), idle)
+        vz = np.where(climbing, np.where(bad, _MIN_CLIMB_RATE, roc), descent)
         p = np.where(climbing, p_up, p_down)
-        dt = np.where(moving, np.abs(dh) / vz, 0.0)
+        dt = np.where(moving, step_dh / vz, _ZERO)
         # The segment's heading is the last step's.
-        gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz, (head_steps[j], cross_steps[j]),
+        gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz,
+                               (head_steps[j], cross_steps[j], abs_cross_steps[j],
+                                tail_steps[j], cross2_steps[j]),
                                heading=j == CLIMB_STEPS - 1)
         heading = heading if hdg is None else hdg
         # Candidates that do not move contribute nothing (not NaN x 0).
-        soc = fl.soc(None if store0 is None else store0 - used)
-        watch.see(p, soc, moving)
-        burn = np.where(moving, fl.rate(p, soc) * dt, 0.0)
+        if circuit:
+            soc = fl.soc(None if store0 is None else store0 - used)
+            watch.see(p, soc, moving)
+        else:
+            soc = None
+        burn = np.where(moving, fl.rate(p, soc) * dt, _ZERO)
         t += dt
-        x += np.where(moving, gs * dt, 0.0)
+        x += gs * dt
         used += burn
         if fl.burns_mass:
             m = np.maximum(m - burn, fl.zero_fuel_mass)
-        tas_sum += np.where(moving, v * dt, 0.0)
-        gs_sum += np.where(moving, gs * dt, 0.0)
-        pw_sum += np.where(moving, p / fl.prop.rated_power * dt, 0.0)
+        tas_sum += v * dt
+        pw_sum += p / rated * dt
+    # Where the climb rate was first lost.
+    bads = np.array(bads)
+    ok = ~np.any(bads, axis=0)
+    first = np.argmax(bads, axis=0)
+    fail_at = np.where(ok, np.nan, np.take_along_axis(
+        np.broadcast_to(h_steps, (CLIMB_STEPS,) + shape), first[None], axis=0)[0])
     with np.errstate(invalid="ignore", divide="ignore"):
         mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
-        return dict(time=t, distance=x, used=used, mass_end=m, ok=ok, fail_at=fail_at,
-                    tas=mean(tas_sum), gs=mean(gs_sum), heading=heading,
+        return dict(time=t, distance=np.where(moving, x, 0.0), used=used, mass_end=m, ok=ok,
+                    fail_at=fail_at, tas=mean(tas_sum), gs=mean(x), heading=heading,
                     power=mean(pw_sum), **watch.out(shape))
+
+
+def _staying(fl: Flight, shape, m0) -> dict:
+    """:func:`_vertical`'s figures where no candidate climbs or descends."""
+    zero = np.zeros(shape)
+    fail_at = np.full(shape, np.nan)
+    return dict(time=zero, distance=zero, used=zero,
+                mass_end=np.broadcast_to(np.asarray(m0, float), shape).copy(),
+                ok=np.ones(shape, dtype=bool), fail_at=fail_at, tas=fail_at, gs=fail_at,
+                heading=zero, power=fail_at, **_PackWatch(fl).out(shape))
 
 
 def _speed_rule(fl: Flight, mode, target, v_ref, m_ref, air, n=1.0):
@@ -698,20 +768,30 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
 
     watch = _PackWatch(fl)
     dx = np.asarray(distance, dtype=float) / CRUISE_STEPS
+    steady = fl.steady_wind(*wind)
+    circuit = fl.circuit is not None
+    burns, zfm = fl.burns_mass, fl.zero_fuel_mass
+    first = []  # the shaft power of the first stage: the start's, as at m0 and v0
 
     def deriv(m, e=0.0):
         v = speed(m)
-        gs, _, _ = fl.ground(v, leg, h, wind=wind, heading=False)
+        gs, _, _ = fl.ground(v, leg, h, wind=steady, heading=False)
         # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
         # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest
         # (fmax takes the floor where gs is NaN).
-        gs = np.fmax(gs, GS_FLOOR)
+        gs = np.fmax(gs, _GS_FLOOR)
         shaft = fl.shaft(m, air, v)
-        soc = fl.soc(None if store0 is None else store0 - e)
-        watch.see(shaft, soc, dx > 0)
+        if not first:
+            first.append(shaft)
+        if circuit:
+            soc = fl.soc(None if store0 is None else store0 - e)
+            watch.see(shaft, soc, dx > 0)
+        else:
+            soc = None
         r = fl.rate(shaft, soc)
-        burning = fl.burns_mass & (m > fl.zero_fuel_mass)
-        return np.where(burning, -r / gs, 0.0), r / gs, 1.0 / gs
+        burning = (m > zfm) if burns is True else burns & (m > zfm)
+        per_metre = r / gs
+        return np.where(burning, -per_metre, _ZERO), per_metre, _ONE / gs
 
     n = CRUISE_STEPS
     shape = np.broadcast_shapes(dx.shape, m0.shape, np.shape(h), np.shape(v_ref),
@@ -719,25 +799,29 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
     m = np.broadcast_to(m0, shape).copy()
     used = np.zeros(shape)
     t = np.zeros(shape)
+    half, sixth = 0.5 * dx, dx / 6.0
     for _ in range(n):
         # The store used is a state of the integration too (the circuit's rate depends on
-        # the state of charge); for fuel and plain packs its stages change nothing.
+        # the state of charge); for fuel and plain packs its stages change nothing (and
+        # are not worked out).
         k1 = deriv(m, used)
-        k2 = deriv(np.maximum(m + 0.5 * dx * k1[0], fl.zero_fuel_mass), used + 0.5 * dx * k1[1])
-        k3 = deriv(np.maximum(m + 0.5 * dx * k2[0], fl.zero_fuel_mass), used + 0.5 * dx * k2[1])
-        k4 = deriv(np.maximum(m + dx * k3[0], fl.zero_fuel_mass), used + dx * k3[1])
+        k2 = deriv(np.maximum(m + half * k1[0], zfm),
+                   used + half * k1[1] if circuit else None)
+        k3 = deriv(np.maximum(m + half * k2[0], zfm),
+                   used + half * k2[1] if circuit else None)
+        k4 = deriv(np.maximum(m + dx * k3[0], zfm), used + dx * k3[1] if circuit else None)
         for i, acc in ((1, used), (2, t)):
-            acc += dx / 6.0 * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i])
-        m = np.maximum(m + dx / 6.0 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]),
-                       fl.zero_fuel_mass)
+            acc += sixth * (k1[i] + _TWO * k2[i] + _TWO * k3[i] + k4[i])
+        m = np.maximum(m + sixth * (k1[0] + _TWO * k2[0] + _TWO * k3[0] + k4[0]), zfm)
     v_end = speed(m)
-    gs0, heading, held = fl.ground(v0, leg, h, wind=wind)
-    p0 = fl.shaft(m0, air, v0)
+    gs0, heading, held = fl.ground(v0, leg, h, wind=steady)
+    p0 = first[0]
     p1 = fl.shaft(m, air, v_end)
     v_stall = fl.af.stall_speed(m0, air.density)
-    return dict(time=t, distance=np.asarray(distance, float) + 0 * t, used=used, mass_end=m,
-                tas=v0 + 0 * t, gs=gs0 + 0 * t, heading=heading + 0 * t,
-                power=p0 / fl.prop.rated_power + 0 * t,
+    zero = 0 * t
+    return dict(time=t, distance=np.asarray(distance, float) + zero, used=used, mass_end=m,
+                tas=v0 + zero, gs=gs0 + zero, heading=heading + zero,
+                power=p0 / fl.prop.rated_power + zero,
                 power_ok=np.maximum(p0, p1) <= fl.prop.shaft_power_available(air.sigma)
                 * (1 + 1e-9),
                 stall_ok=v0 >= fl.margin * v_stall * (1 - 1e-9),
@@ -1061,11 +1145,11 @@ def _choose(options, lo, top):
           & _pack_ok(options) & (H >= lo - 1e-6) & (H <= top + 1e-6))
     ok = np.broadcast_to(ok, np.shape(options["total"]))
     cost = np.where(ok, options["total"], np.inf)
-    best = np.min(cost, axis=-1, keepdims=True)
+    best = cost.min(axis=-1, keepdims=True)
     near = cost <= best * (1 + 1e-9) + 1e-12
     # The first of the quickest among the near-cheapest (argmin takes the first).
-    pick = np.argmin(np.where(near, options["time"], np.inf), axis=-1)
-    return np.where(np.any(ok, axis=-1), pick, -1)
+    pick = np.where(near, options["time"], np.inf).argmin(axis=-1)
+    return np.where(ok.any(axis=-1), pick, -1)
 
 
 def _pack_ok(options):
@@ -1235,23 +1319,29 @@ def _row(options: dict, p: int, shape: tuple) -> dict:
             for k, v in options.items()}
 
 
-def _take(options: dict, index, rows) -> dict:
+def _take(options: dict, index, rows, flats=None) -> dict:
     """The candidate ``index[p]`` of each mission ``p`` (arrays over the missions).
 
     ``rows`` is ``arange(missions)``; an array of the options has the missions' and the
     candidates' axes, or only the candidates' (the same for every mission), or length 1
-    along either.
+    along either. Each array is read by one ``take`` of its flat indices, found once per
+    shape (``flats``).
     """
-    first = np.zeros_like(rows)
+    if flats is None:
+        flats = {}
     out = {}
     for k, v in options.items():
         if isinstance(v, dict):
-            out[k] = _take(v, index, rows)
+            out[k] = _take(v, index, rows, flats)
             continue
         v = np.asarray(v)
-        if v.ndim == 1:
-            v = v[None, :]
-        out[k] = v[rows if v.shape[0] > 1 else first, index if v.shape[1] > 1 else first]
+        flat = flats.get(v.shape)
+        if flat is None:
+            n_rows, n_cols = v.shape if v.ndim == 2 else (1,) + v.shape
+            flat = ((rows * n_cols if n_rows > 1 else 0) + (index if n_cols > 1 else 0)
+                    + np.zeros_like(rows))
+            flats[v.shape] = flat
+        out[k] = v.take(flat)
     return out
 
 
@@ -1330,12 +1420,14 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
             pick = np.zeros(n_points, dtype=int)
         else:
             pick = _choose(opts, lo, top)
-            for p in np.flatnonzero(pick < 0):
+            unflown = np.flatnonzero(pick < 0)
+            for p in unflown:
                 reasons[p].append(f"leg {leg.name!r}: no altitude between {lo:.0f} and "
                                   f"{top:.0f} m ({why}) can be flown: "
                                   + _why_not(_row(opts, p, shape), leg, lo, top))
-            fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
-            pick = np.where(pick < 0, fallback, pick)
+            if unflown.size:
+                fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
+                pick = np.where(pick < 0, fallback, pick)
         o = _take(opts, pick, rows)
         if fixed:
             for p in range(n_points):
