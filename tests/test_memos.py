@@ -73,3 +73,12 @@ def test_ground_speed_with_crosswind_squared_same_figures():
     b = ground_speed(tas, head, cross, crosswind_squared=cross * cross)
     assert np.array_equal(a, b, equal_nan=True)
     assert np.isnan(a).any()  # some crosswinds beyond the airspeed
+
+
+def test_propeller_memo_dropped_when_the_array_is_made_writeable_again():
+    v = np.linspace(10.0, 95.0, 23).copy()
+    v.flags.writeable = False
+    TABLE(v)
+    v.flags.writeable = True
+    v += 5.0
+    assert np.array_equal(TABLE(v), fresh(v))

@@ -220,7 +220,7 @@ class PropellerEfficiency:
         if self._constant:
             return self.efficiency[0] * self.factor
         memo = self._memo
-        if memo[0] is tas:
+        if memo[0] is tas and not tas.flags.writeable:  # (made writeable again: not kept)
             return memo[1]
         if type(self.factor) is float and self.factor == 1.0:
             eta = self._cubic(tas)  # 1.0 x is the same value: one operation fewer

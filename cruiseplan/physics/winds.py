@@ -129,6 +129,11 @@ class WindProfile:
             Direction the wind blows from [deg true], in [0, 360).
         speed : numpy.ndarray
             Wind speed [m/s].
+
+        Notes
+        -----
+        For up to 256 altitudes the arrays are kept, by the altitudes' values, and
+        returned read-only (copy them to change them): a plan asks again and again.
         """
         h = np.asarray(altitude, dtype=float)
         if h.size > _AT_SIZE:
