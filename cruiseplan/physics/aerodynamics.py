@@ -148,7 +148,9 @@ class ParabolicPolar:
             cd *= cl
             cd += self.cd0
             return cd
-        d = cl - self.cl_min_drag
+        # (cl - 0 is cl, bit for bit: the subtraction is skipped for a symmetric polar)
+        d = cl if type(self.cl_min_drag) is float and self.cl_min_drag == 0.0 \
+            else cl - self.cl_min_drag
         return self.cd0 + self.k * d * d
 
     def outside(self, cl):

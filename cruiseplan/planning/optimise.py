@@ -292,8 +292,12 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10,
     def shaft(v):
         return shaft_power_required(airframe, mass, air, v)
 
+    # Crosswind squared once: the same crosswind at every step of a search.
+    cw2 = np.asarray(cw, dtype=float) * np.asarray(cw, dtype=float)
+
     def ground_range(v):
-        return ground_speed(v, hw, cw) * prop.endurance(store, shaft(v))
+        return ground_speed(v, hw, cw, crosswind_squared=cw2) * prop.endurance(store,
+                                                                             shaft(v))
 
     # Brent's method needs the fewest evaluations; for a planner's modest tolerance on a
     # few dozen altitudes, a few calls of successive grids on larger arrays are quicker
@@ -313,8 +317,8 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10,
             # The pair's axis comes before the points' shape (a search may add its own).
             axis = v.ndim - len(shape) - 1
             p = shaft(v)
-            rng = ground_speed(np.take(v, 0, axis), hw, cw) * prop.endurance(
-                store, np.take(p, 0, axis))
+            rng = ground_speed(np.take(v, 0, axis), hw, cw, crosswind_squared=cw2) * \
+                prop.endurance(store, np.take(p, 0, axis))
             return np.stack([-rng, np.take(p, 1, axis)], axis=axis)
 
         pair = search(both, np.broadcast_to(lo, (2,) + shape),
