@@ -260,14 +260,17 @@ def _two_roots(f, lo, mid, hi):
 def _planner_grid(f, lo, hi, *, xtol_rel):
     """:func:`grid_minimise` in five steps, with the fewest points that reach ``xtol_rel``.
 
-    A grid of ``2 s + 1`` points shrinks the bracket ``s``-fold a step, and a bracket's
-    width starts below ``|lo| + |hi|``, so five steps reach ``xtol_rel`` when
-    ``s**5 >= 1 / xtol_rel``. The planner's 1e-4 takes 15 points (75 evaluations)
-    instead of 17 (85) in the same five array calls: the calls are what a single plan
+    A grid of ``2 s + 1`` points shrinks the bracket ``s``-fold a step. The tolerance is
+    relative to ``|a| + |b|`` of the final bracket, about twice the speed sought, and a
+    speed bracket (half the stall speed to the Mach limit) is at most about twice as wide
+    as that, so five steps reach ``xtol_rel`` when ``s**5 >= 2 / xtol_rel``; an element
+    that needs more goes on, as :func:`grid_minimise` stops each by the tolerance. The
+    planner's 1e-4 takes 17 points: 85 evaluations in five array calls (15 points took
+    a sixth call on the bundled routes, 90 evaluations). The calls are what a single plan
     pays for, the evaluations what many missions planned together pay for.
     """
     steps = 5
-    s = max(2, int(np.ceil((1.0 / xtol_rel) ** (1.0 / steps))))
+    s = max(2, int(np.ceil((2.0 / xtol_rel) ** (1.0 / steps))))
     return grid_minimise(f, lo, hi, xtol_rel=xtol_rel, points=2 * s + 1)
 
 
