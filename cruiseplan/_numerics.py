@@ -107,15 +107,22 @@ def grid_minimise(f, lo, hi, *, xtol_rel=1e-10, points=17, max_iter=100):
     a, b = a.copy(), b.copy()
     t = np.linspace(0.0, 1.0, points).reshape((points,) + (1,) * a.ndim)
     last = points - 1
+    # The grid intervals kept around the least value i: from i - 1 to i + 1, within the
+    # grid (the same integers as max(i - 1, 0) and min(i + 1, last), read by index).
+    below = np.maximum(np.arange(points) - 1, 0)
+    above = np.minimum(np.arange(points) + 1, last)
     for _ in range(max_iter):
         width = b - a
         done = np.abs(width) <= xtol_rel * np.maximum(np.abs(a) + np.abs(b), 1e-300)
-        if np.all(done):
+        n_done = np.count_nonzero(done)
+        if n_done == done.size:
             break
         i = np.argmin(_finite(f(a + t * width)), axis=0)
         step = width / last
-        a, b = (np.where(done, a, a + np.maximum(i - 1, 0) * step),
-                np.where(done, b, a + np.minimum(i + 1, last) * step))
+        a_new, b_new = a + below[i] * step, a + above[i] * step
+        if n_done:  # finished elements keep their bracket
+            a_new, b_new = np.where(done, a, a_new), np.where(done, b, b_new)
+        a, b = a_new, b_new
     return 0.5 * (a + b)
 
 
