@@ -20,7 +20,6 @@ Elsewhere than on glibc (macOS, Windows, musl) nothing is changed.
 from __future__ import annotations
 
 import ctypes
-import ctypes.util
 import functools
 import platform
 
@@ -39,7 +38,8 @@ def _glibc():
     if platform.system() != "Linux" or platform.libc_ver()[0] != "glibc":
         return None
     try:
-        return ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6")
+        # glibc's soname, loaded by name (find_library would start ldconfig).
+        return ctypes.CDLL("libc.so.6")
     except OSError:
         return None
 
