@@ -266,15 +266,27 @@ def test_interrupted_sweep_resumes_to_the_same_store(tmp_path):
         np.testing.assert_array_equal(a[name].values, b[name].values)
 
 
+#: ``python -m cruiseplan ARGS`` with Ctrl-C handled as in a terminal, whatever the test
+#: runner left to its children (a SIGINT ignored or blocked is inherited across exec).
+AS_FROM_A_TERMINAL = """
+import runpy, signal, sys
+signal.pthread_sigmask(signal.SIG_UNBLOCK, [signal.SIGINT])
+signal.signal(signal.SIGINT, signal.default_int_handler)
+sys.argv = ["cruiseplan"] + sys.argv[1:]
+runpy.run_module("cruiseplan", run_name="__main__")
+"""
+
+
 def test_ctrl_c_says_how_to_resume(tmp_path):
     study_file = write(tmp_path, SLOW_STUDY)
     cut = tmp_path / "cut.zarr"
-    proc = subprocess.Popen([sys.executable, "-m", "cruiseplan", "sweep", str(study_file),
+    proc = subprocess.Popen([sys.executable, "-c", AS_FROM_A_TERMINAL, "sweep", str(study_file),
                              "-o", str(cut), "--workers", "1"],
                             stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
     deadline = time.monotonic() + 60
     while _done(cut) < 1 and proc.poll() is None and time.monotonic() < deadline:
         time.sleep(0.02)
+    assert proc.poll() is None, "the sweep finished before it could be interrupted"
     proc.send_signal(signal.SIGINT)
     _, err = proc.communicate(timeout=60)
     assert proc.returncode == 130, err
