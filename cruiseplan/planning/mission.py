@@ -511,7 +511,7 @@ class Flight:
     def ground(self, v, leg, h, gamma_rate=0.0, wind=None, heading=True):
         """Ground speed and heading for TAS ``v`` (horizontal part when climbing).
 
-        ``wind`` may carry the (headwind, crosswind) already found at ``h``; with
+        ``wind`` may carry the :meth:`steady_wind` figures already found at ``h``; with
         ``heading`` false the heading is not worked out (None), for the integrations'
         inner steps.
 
@@ -526,8 +526,8 @@ class Flight:
         gamma_rate : array_like, optional
             Vertical speed [m/s]; the horizontal TAS is sqrt(v^2 - gamma_rate^2).
         wind : tuple of array_like, optional
-            Headwind and crosswind at ``h`` [m/s], when already known (or the four
-            arrays of :meth:`steady_wind`).
+            :meth:`steady_wind` of the headwind and crosswind at ``h``, when already
+            known.
         heading : bool, optional
             Whether to work out the heading.
 
@@ -546,21 +546,17 @@ class Flight:
         cruiseplan.physics.airspeed.ground_speed : The wind-triangle formula used.
         """
         if wind is None:
-            wind = self.wind(leg, h)
-        head, cross = wind[0], wind[1]
+            wind = self.steady_wind(*self.wind(leg, h))
+        head, cross, abs_cross, tail, cross_squared = wind
         if type(gamma_rate) is float and gamma_rate == 0.0:
             vh = np.sqrt(v * v)  # minus 0 and floored at 0: the same figure
         else:
             vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, _ZERO))
-        # A wind of :meth:`steady_wind` carries |crosswind|, -headwind, crosswind^2.
-        held = (wind[2] if len(wind) > 2 else np.abs(cross)) < vh
+        held = abs_cross < vh
         # Where the course cannot be held the aircraft points into the crosswind: it
         # makes no way across it and drifts with the headwind component.
-        if len(wind) > 2:
-            gs = np.where(held, ground_speed(vh, head, cross, crosswind_squared=wind[4]),
-                          wind[3])
-        else:
-            gs = np.where(held, ground_speed(vh, head, cross), -head)
+        gs = np.where(held, ground_speed(vh, head, cross, crosswind_squared=cross_squared),
+                      tail)
         if not heading:
             return gs, None, held
         wca = np.where(held, wind_correction_angle(vh, cross), 90.0 * np.sign(cross))
