@@ -51,7 +51,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from cruiseplan._numerics import illinois_root
+from cruiseplan._numerics import all_true, illinois_root
 from cruiseplan.amounts import format_amount
 from cruiseplan.constants import FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
@@ -91,6 +91,9 @@ PLAN_UNITS = {
 #: Integration steps per segment: altitude steps in climb and descent; RK4 steps in a
 #: cruise or hold with a pack given as a circuit (the rate follows the state of charge).
 CLIMB_STEPS = 8
+#: Change in the store used before each step, over the mass [kg/kg] or the store on
+#: board [J/J], below which a climb or descent's passes stop (see _vertical).
+CLIMB_TOLERANCE = 1e-10
 CRUISE_STEPS = 4
 #: RK4 steps in a cruise or hold whose store rate follows the mass alone (fuel; a plain
 #: pack's rate is constant): the mass changes slowly, and two steps are within 1e-10 of
@@ -585,6 +588,14 @@ class _PackWatch:
         self.current = np.where(where, np.maximum(self.current, load.current), self.current)
         self.limits = self.limits | np.where(where, load.limits, 0).astype(LIMIT_DTYPE)
 
+    def see_steps(self, shaft, soc, where):
+        """:meth:`see` of every step at once (arrays with the steps on the first axis)."""
+        load = self.fl.prop.pack_load(shaft, soc=soc)
+        self.voltage = np.minimum(self.voltage, np.where(where, load.voltage, np.inf).min(0))
+        self.current = np.maximum(self.current, np.where(where, load.current, 0.0).max(0))
+        self.limits = self.limits | np.bitwise_or.reduce(
+            np.where(where, load.limits, 0).astype(LIMIT_DTYPE), axis=0)
+
     def out(self, shape) -> dict:
         """The watch's figures as arrays of ``shape`` (NaN and 0 without a circuit)."""
         if self.fl.circuit is None:
@@ -603,6 +614,15 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     descends at the set rate and the EAS ``v_descent``; both kinds in one pass. With
     ``store0`` [J], the store at the start, a pack given as a circuit is followed through
     its state of charge.
+
+    The :data:`CLIMB_STEPS` altitude steps are worked out together, in passes: the first
+    at the starting mass and store, each next one at the mass and store the previous pass
+    left at the start of each step, until those change by less than
+    :data:`CLIMB_TOLERANCE`. Each pass makes one more step exactly that of a step-by-step
+    integration, and shrinks the others' error by about the small fraction of the mass
+    a climb burns, so three to five passes do where step by step takes eight array
+    evaluations; within 1e-10 of step by step, even on a two-hour climb near the
+    ceiling. Where nothing depends on what went before (a plain pack), one pass is exact.
 
     Returns a dict of arrays: time, distance, used, mass_end, ok (the climb rate held),
     fail_at (altitude where it did not), tas, gs and power (time means), heading, and the
@@ -626,93 +646,103 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     moving = np.broadcast_to(np.abs(dh) > 0, shape)
     if not np.any(moving):
         return _staying(fl, shape, m0)
-    m = np.broadcast_to(np.asarray(m0, float), shape).copy()
+    m_start = np.broadcast_to(np.asarray(m0, float), shape)
     watch = _PackWatch(fl)
-    zero = np.zeros(shape)
-    t, used, heading = zero.copy(), zero.copy(), zero.copy()
     climbing = dh > 0
     v_eas = np.where(climbing, v_climb, v_descent)
-    # The atmosphere and the wind once for every step of every altitude.
+    # The atmosphere, the wind, the TAS and the climb power for every step at once. The
+    # TAS is read-only: the propeller's efficiency at it is then found once.
     steps = (np.arange(CLIMB_STEPS) + 0.5).reshape((-1,) + (1,) * h0.ndim)
     h_steps = h0 + steps * dh
-    air_steps = fl.air(h_steps)
-    air_rows = fl.air_rows(h_steps)
-    head_steps, cross_steps, abs_cross_steps, tail_steps, cross2_steps = fl.steady_wind(
-        *fl.wind(leg, h_steps))
-    idle = profile.idle_power * fl.prop.rated_power
-    # What does not depend on the mass, for every step at once: TAS and climb power. The
-    # TAS is read-only: the propeller's efficiency at a step's TAS is then found once.
-    v_steps = tas_from_eas(v_eas, air_steps.density)
-    v_steps.flags.writeable = False
-    v_cap_steps = 0.9 * v_steps
-    p_up_steps = profile.climb_power * fl.prop.shaft_power_available(air_steps.sigma)
+    air = fl.air(h_steps)
+    wind = fl.steady_wind(*fl.wind(leg, h_steps))
+    v = tas_from_eas(v_eas, air.density)
+    v.flags.writeable = False
+    p_up_set = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
+    idle = np.array(profile.idle_power * fl.prop.rated_power)
     prop = fl.prop.propeller
     checked = moving & climbing
     step_dh = np.abs(dh)
-    # Constants as 0-d arrays: a ufunc takes them quicker than Python floats.
-    rated, idle = np.array(fl.prop.rated_power), np.array(idle)
     descent, g0 = np.array(profile.descent_rate), np.array(G0)
     circuit = fl.circuit is not None
-    bads = []
-    # The sums below run over every candidate; those that do not move are set to 0 (not
-    # NaN x 0) once, after the steps.
-    x, tas_sum, pw_sum = zero.copy(), zero.copy(), zero.copy()
-    for j in range(CLIMB_STEPS):
-        air = air_rows[j]
-        v = v_steps[j]
+    burns = bool(fl.burns_mass)
+    # The store used before each step: none in the first pass; then as the last pass
+    # left it, until it stops changing (by CLIMB_TOLERANCE of the mass or the store on
+    # board) or each step has been worked out after the one before it. An element keeps
+    # its own: its figures do not depend on the others'.
+    state = burns or (circuit and store0 is not None)
+    scale = CLIMB_TOLERANCE * (m_start if burns else np.asarray(store0, float)) if state \
+        else None
+    before, m, soc = _ZERO, m_start, fl.soc(store0)
+    for k in range(CLIMB_STEPS if state else 1):
+        if k:
+            if burns:
+                m = np.maximum(m_start - before, fl.zero_fuel_mass)
+            if circuit:
+                soc = fl.soc(None if store0 is None else store0 - before)
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
         weight = m * g0
         # Climb: set power, rate from the excess thrust power (capped by a set rate, and
         # kept below 0.9 x TAS where the shallow-climb formula holds). With a propeller
         # diameter the thrust comes from momentum theory and is finite at low speed.
-        p_up = p_up_steps[j]
+        p_up = p_up_set
         roc = prop.excess_thrust_power(v, air.density, p_up, p_level, drag) / weight
         if profile.climb_rate is not None:
             capped = roc > profile.climb_rate
             roc = np.where(capped, profile.climb_rate, roc)
             p_up = np.where(capped, prop.shaft_with_extra(p_level, drag, v, air.density,
                                                           weight * roc), p_up)
-        roc = np.minimum(roc, v_cap_steps[j])
+        roc = np.minimum(roc, 0.9 * v)
         bad = checked & (roc < _MIN_CLIMB_RATE)
-        bads.append(bad)
         # Descent: the set rate, at the power that gives it, never below idle.
         p_down = np.maximum(prop.shaft_with_extra(p_level, drag, v, air.density,
                                                   -weight * descent), idle)
         vz = np.where(climbing, np.where(bad, _MIN_CLIMB_RATE, roc), descent)
         p = np.where(climbing, p_up, p_down)
         dt = np.where(moving, step_dh / vz, _ZERO)
-        # The segment's heading is the last step's.
-        gs, hdg, _ = fl.ground(v, leg, h_steps[j], vz,
-                               (head_steps[j], cross_steps[j], abs_cross_steps[j],
-                                tail_steps[j], cross2_steps[j]),
-                               heading=j == CLIMB_STEPS - 1)
-        heading = heading if hdg is None else hdg
-        # Candidates that do not move contribute nothing (not NaN x 0).
-        if circuit:
-            soc = fl.soc(None if store0 is None else store0 - used)
-            watch.see(p, soc, moving)
-        else:
-            soc = None
+        # Candidates that do not move use nothing (not NaN x 0).
         burn = np.where(moving, fl.rate(p, soc) * dt, _ZERO)
-        t += dt
-        x += gs * dt
-        used += burn
-        if fl.burns_mass:
-            m = np.maximum(m - burn, fl.zero_fuel_mass)
-        tas_sum += v * dt
-        pw_sum += p / rated * dt
+        if not state:
+            break
+        # Sums in step order.
+        after = np.concatenate((np.zeros_like(burn[:1]), np.cumsum(burn[:-1], axis=0)))
+        done = ~np.any(np.abs(after - before) > scale, axis=0)
+        if all_true(done):
+            break
+        before = np.where(done, before, after)
+    if circuit:
+        watch.see_steps(p, soc, moving)
+    # The segment's heading is the last step's.
+    gs, _, _ = fl.ground(v, leg, h_steps, vz, wind, heading=False)
+    _, heading, _ = fl.ground(v[-1], leg, h_steps[-1], vz[-1], tuple(w[-1] for w in wind))
+    heading = np.broadcast_to(heading, shape) + 0.0
+    t = _step_sum(dt)
+    used = _step_sum(burn)
+    m_end = np.maximum(m_start - used, fl.zero_fuel_mass) if burns else m_start.copy()
     # Where the climb rate was first lost.
-    bads = np.array(bads)
-    ok = ~np.any(bads, axis=0)
-    first = np.argmax(bads, axis=0)
+    ok = ~np.any(bad, axis=0)
+    first = np.argmax(bad, axis=0)
     fail_at = np.where(ok, np.nan, np.take_along_axis(
         np.broadcast_to(h_steps, (CLIMB_STEPS,) + shape), first[None], axis=0)[0])
+    # The sums run over every candidate; those that do not move are set to 0 (not NaN x
+    # 0) here.
+    x = _step_sum(gs * dt)
     with np.errstate(invalid="ignore", divide="ignore"):
         mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
-        return dict(time=t, distance=np.where(moving, x, 0.0), used=used, mass_end=m, ok=ok,
-                    fail_at=fail_at, tas=mean(tas_sum), gs=mean(x), heading=heading,
-                    power=mean(pw_sum), **watch.out(shape))
+        return dict(time=t, distance=np.where(moving, x, 0.0), used=used, mass_end=m_end,
+                    ok=ok, fail_at=fail_at, tas=mean(_step_sum(v * dt)), gs=mean(x),
+                    heading=heading, power=mean(_step_sum(p / fl.prop.rated_power * dt)),
+                    **watch.out(shape))
+
+
+def _step_sum(a):
+    """Sum over the steps (first axis), added in step order whatever the array's layout.
+
+    ``a.sum(axis=0)`` may add pairwise or in order depending on the other axes' lengths,
+    and a mission's figures must not depend on the missions planned beside it.
+    """
+    return np.cumsum(a, axis=0)[-1]
 
 
 def _staying(fl: Flight, shape, m0) -> dict:
