@@ -91,9 +91,9 @@ PLAN_UNITS = {
 #: Integration steps per segment: altitude steps in climb and descent; RK4 steps in a
 #: cruise or hold with a pack given as a circuit (the rate follows the state of charge).
 CLIMB_STEPS = 8
-#: Change in the store used before each step, over the mass [kg/kg] or the store on
-#: board [J/J], below which a climb or descent's passes stop (see _vertical).
-CLIMB_TOLERANCE = 1e-10
+#: Most points on which a climb or descent's steps are worked out together, in passes,
+#: rather than one after the other (the same figures; see _vertical).
+CLIMB_PASS_POINTS = 64
 CRUISE_STEPS = 4
 #: RK4 steps in a cruise or hold whose store rate follows the mass alone (fuel; a plain
 #: pack's rate is constant): the mass changes slowly, and two steps are within 1e-10 of
@@ -615,14 +615,15 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     ``store0`` [J], the store at the start, a pack given as a circuit is followed through
     its state of charge.
 
-    The :data:`CLIMB_STEPS` altitude steps are worked out together, in passes: the first
-    at the starting mass and store, each next one at the mass and store the previous pass
-    left at the start of each step, until those change by less than
-    :data:`CLIMB_TOLERANCE`. Each pass makes one more step exactly that of a step-by-step
-    integration, and shrinks the others' error by about the small fraction of the mass
-    a climb burns, so three to five passes do where step by step takes eight array
-    evaluations; within 1e-10 of step by step, even on a two-hour climb near the
-    ceiling. Where nothing depends on what went before (a plain pack), one pass is exact.
+    The :data:`CLIMB_STEPS` altitude steps are flown one after the other: each starts
+    with the store used before it (the mass burnt, the state of charge). On up to
+    :data:`CLIMB_PASS_POINTS` points, where an array operation costs its call and not its
+    points, the steps are worked out together instead, in passes: the first at the
+    starting mass and store, each next one at what the last left before each step,
+    until that no longer changes. Each pass makes at least one more step exact and the
+    others close in fast (a climb burns a small part of the mass), so a few passes take
+    the place of eight steps; the figures are those of the steps one after the other,
+    to the last bit (the sums are added in step order both ways).
 
     Returns a dict of arrays: time, distance, used, mass_end, ok (the climb rate held),
     fail_at (altitude where it did not), tas, gs and power (time means), heading, and the
@@ -651,49 +652,47 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     climbing = dh > 0
     v_eas = np.where(climbing, v_climb, v_descent)
     # The atmosphere, the wind, the TAS and the climb power for every step at once. The
-    # TAS is read-only: the propeller's efficiency at it is then found once.
+    # TAS is read-only: the propeller's efficiency at a TAS array is then found once.
     steps = (np.arange(CLIMB_STEPS) + 0.5).reshape((-1,) + (1,) * h0.ndim)
     h_steps = h0 + steps * dh
-    air = fl.air(h_steps)
-    wind = fl.steady_wind(*fl.wind(leg, h_steps))
-    v = tas_from_eas(v_eas, air.density)
-    v.flags.writeable = False
-    p_up_set = profile.climb_power * fl.prop.shaft_power_available(air.sigma)
+    air_steps = fl.air(h_steps)
+    wind_steps = fl.steady_wind(*fl.wind(leg, h_steps))
+    v_steps = tas_from_eas(v_eas, air_steps.density)
+    v_steps.flags.writeable = False
+    v_cap_steps = 0.9 * v_steps
+    p_up_steps = profile.climb_power * fl.prop.shaft_power_available(air_steps.sigma)
+    # Constants as 0-d arrays: a ufunc takes them quicker than Python floats.
     idle = np.array(profile.idle_power * fl.prop.rated_power)
+    descent, g0 = np.array(profile.descent_rate), np.array(G0)
+    rated = np.array(fl.prop.rated_power)
     prop = fl.prop.propeller
     checked = moving & climbing
     step_dh = np.abs(dh)
-    descent, g0 = np.array(profile.descent_rate), np.array(G0)
     circuit = fl.circuit is not None
     burns = bool(fl.burns_mass)
-    # The store used before each step: none in the first pass; then as the last pass
-    # left it, until it stops changing (by CLIMB_TOLERANCE of the mass or the store on
-    # board) or each step has been worked out after the one before it. An element keeps
-    # its own: its figures do not depend on the others'.
+    # Whether a step depends on the ones before it.
     state = burns or (circuit and store0 is not None)
-    scale = CLIMB_TOLERANCE * (m_start if burns else np.asarray(store0, float)) if state \
-        else None
-    before, m, soc = _ZERO, m_start, fl.soc(store0)
-    for k in range(CLIMB_STEPS if state else 1):
-        if k:
-            if burns:
-                m = np.maximum(m_start - before, fl.zero_fuel_mass)
-            if circuit:
-                soc = fl.soc(None if store0 is None else store0 - before)
+
+    def at(before):
+        """Mass [kg] and state of charge [-] at a step's start, ``before`` used before it."""
+        m = np.maximum(m_start - before, fl.zero_fuel_mass) if burns else m_start
+        return m, fl.soc(None if store0 is None else store0 - before)
+
+    def flown(m, soc, air, v, v_cap, p_up, wind, h):
+        """Climb-rate check, vertical speed, power, time, store used and ground speed."""
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
         weight = m * g0
         # Climb: set power, rate from the excess thrust power (capped by a set rate, and
         # kept below 0.9 x TAS where the shallow-climb formula holds). With a propeller
         # diameter the thrust comes from momentum theory and is finite at low speed.
-        p_up = p_up_set
         roc = prop.excess_thrust_power(v, air.density, p_up, p_level, drag) / weight
         if profile.climb_rate is not None:
             capped = roc > profile.climb_rate
             roc = np.where(capped, profile.climb_rate, roc)
             p_up = np.where(capped, prop.shaft_with_extra(p_level, drag, v, air.density,
                                                           weight * roc), p_up)
-        roc = np.minimum(roc, 0.9 * v)
+        roc = np.minimum(roc, v_cap)
         bad = checked & (roc < _MIN_CLIMB_RATE)
         # Descent: the set rate, at the power that gives it, never below idle.
         p_down = np.maximum(prop.shaft_with_extra(p_level, drag, v, air.density,
@@ -703,46 +702,66 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         dt = np.where(moving, step_dh / vz, _ZERO)
         # Candidates that do not move use nothing (not NaN x 0).
         burn = np.where(moving, fl.rate(p, soc) * dt, _ZERO)
-        if not state:
-            break
-        # Sums in step order.
-        after = np.concatenate((np.zeros_like(burn[:1]), np.cumsum(burn[:-1], axis=0)))
-        done = ~np.any(np.abs(after - before) > scale, axis=0)
-        if all_true(done):
-            break
-        before = np.where(done, before, after)
-    if circuit:
-        watch.see_steps(p, soc, moving)
-    # The segment's heading is the last step's.
-    gs, _, _ = fl.ground(v, leg, h_steps, vz, wind, heading=False)
-    _, heading, _ = fl.ground(v[-1], leg, h_steps[-1], vz[-1], tuple(w[-1] for w in wind))
-    heading = np.broadcast_to(heading, shape) + 0.0
-    t = _step_sum(dt)
-    used = _step_sum(burn)
+        gs, _, _ = fl.ground(v, leg, h, vz, wind, heading=False)
+        return bad, vz, p, dt, burn, gs, soc
+
+    if int(np.prod(shape)) <= CLIMB_PASS_POINTS:
+        before = _ZERO
+        m, soc = at(before)
+        for _ in range(CLIMB_STEPS if state else 1):
+            bad, vz, p, dt, burn, gs, soc = flown(m, soc, air_steps, v_steps, v_cap_steps,
+                                                  p_up_steps, wind_steps, h_steps)
+            if not state:
+                break
+            # What each step leaves to the next, added in step order.
+            after = np.concatenate((np.zeros_like(burn[:1]), np.cumsum(burn[:-1], axis=0)))
+            if all_true(after == before):
+                break
+            before = after
+            m, soc = at(before)
+        if circuit:
+            watch.see_steps(p, soc, moving)
+        # The sums (added in step order) and the last step's heading.
+        sums = [np.cumsum(a, axis=0)[-1] for a in (dt, burn, gs * dt, v_steps * dt,
+                                                   p / rated * dt)]
+        bads = bad
+        last = vz[-1]
+    else:
+        air_rows = fl.air_rows(h_steps)
+        before, sums, bads = _ZERO, None, []
+        for j in range(CLIMB_STEPS):
+            m, soc = at(before)
+            v = v_steps[j]
+            bad, vz, p, dt, burn, gs, soc = flown(
+                m, soc, air_rows[j], v, v_cap_steps[j], p_up_steps[j],
+                tuple(w[j] for w in wind_steps), h_steps[j])
+            if circuit:
+                watch.see(p, soc, moving)
+            before = before + burn
+            terms = (dt, burn, gs * dt, v * dt, p / rated * dt)
+            if sums is None:
+                sums = list(terms)   # new arrays, added to in place below
+            else:
+                for a, b in zip(sums, terms):
+                    a += b
+            bads.append(bad)
+        bads, last = np.array(bads), vz
+    t, used, x, tas_sum, pw_sum = sums
+    _, heading, _ = fl.ground(v_steps[-1], leg, h_steps[-1], last,
+                              tuple(w[-1] for w in wind_steps))
     m_end = np.maximum(m_start - used, fl.zero_fuel_mass) if burns else m_start.copy()
     # Where the climb rate was first lost.
-    ok = ~np.any(bad, axis=0)
-    first = np.argmax(bad, axis=0)
+    ok = ~np.any(bads, axis=0)
+    first = np.argmax(bads, axis=0)
     fail_at = np.where(ok, np.nan, np.take_along_axis(
         np.broadcast_to(h_steps, (CLIMB_STEPS,) + shape), first[None], axis=0)[0])
-    # The sums run over every candidate; those that do not move are set to 0 (not NaN x
-    # 0) here.
-    x = _step_sum(gs * dt)
     with np.errstate(invalid="ignore", divide="ignore"):
         mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
+        # Candidates that do not move have no distance (not NaN x 0).
         return dict(time=t, distance=np.where(moving, x, 0.0), used=used, mass_end=m_end,
-                    ok=ok, fail_at=fail_at, tas=mean(_step_sum(v * dt)), gs=mean(x),
-                    heading=heading, power=mean(_step_sum(p / fl.prop.rated_power * dt)),
+                    ok=ok, fail_at=fail_at, tas=mean(tas_sum), gs=mean(x),
+                    heading=np.broadcast_to(heading, shape) + 0.0, power=mean(pw_sum),
                     **watch.out(shape))
-
-
-def _step_sum(a):
-    """Sum over the steps (first axis), added in step order whatever the array's layout.
-
-    ``a.sum(axis=0)`` may add pairwise or in order depending on the other axes' lengths,
-    and a mission's figures must not depend on the missions planned beside it.
-    """
-    return np.cumsum(a, axis=0)[-1]
 
 
 def _staying(fl: Flight, shape, m0) -> dict:
