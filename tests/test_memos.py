@@ -82,3 +82,38 @@ def test_propeller_memo_dropped_when_the_array_is_made_writeable_again():
     v.flags.writeable = True
     v += 5.0
     assert np.array_equal(TABLE(v), fresh(v))
+
+
+def test_planner_shortcuts_give_the_figures_worked_out_in_full(monkeypatch):
+    # The cruise does not work out again the derivatives of a stage at the same masses as
+    # the last (nothing burns: a plain pack, or past an empty tank), and a climb worked
+    # out in passes stops when a pass changes nothing. With every such check made to say
+    # "changed" (all work done in full), the plans are the same to the last bit: a plain
+    # pack, a fuel plan that runs out of fuel on its fourth leg and flies on past the
+    # empty tank, and the bundled missions.
+    import warnings
+
+    import cruiseplan as cp
+    import cruiseplan.planning.mission as planner
+    from cruiseplan.errors import CruiseplanWarning
+    from cruiseplan.io.mission_file import load_mission
+    from cruiseplan.model.mission import Leg, Mission, Profile, Reserve
+
+    tourer = cp.load_airframe("demo-tourer")
+    legs = tuple(Leg(f"leg {i}", 150e3, course=40.0 * i, altitude=None) for i in range(8))
+    dry = Mission("dry", tourer, legs, Reserve("time", 2700.0),
+                  Profile(departure_elevation=100.0, arrival_elevation=100.0),
+                  store=60.0)
+    missions = [dry] + [load_mission(name) for name in (
+        "demo-cross-country", "demo-quad-inspection", "demo-quad-mast-check",
+        "demo-ridge-patrol", "demo-survey-run")]
+
+    def plans():
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", CruiseplanWarning)
+            return repr([(p.segments, p.reasons) for p in map(planner.plan_mission, missions)])
+
+    quick = plans()
+    assert "runs out" in quick   # the fuel plan flies on past its empty tank
+    monkeypatch.setattr(planner, "all_true", lambda a: False)
+    assert plans() == quick

@@ -834,8 +834,14 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
     steady = fl.steady_wind(*wind)
     burns, zfm = fl.burns_mass, fl.zero_fuel_mass
     first = []  # the shaft power of the first stage: the start's, as at m0 and v0
+    last = []   # the last masses met and their derivatives (without a circuit)
 
     def deriv(m, e=0.0):
+        # Without a circuit the derivatives depend on the mass alone: a stage at the same
+        # masses as the last (nothing burns: a plain pack, or past an empty tank) has the
+        # same ones, to the bit, and they are not worked out again.
+        if last and m.shape == last[0].shape and all_true(m == last[0]):
+            return last[1]
         v = speed(m)
         gs, _, _ = fl.ground(v, leg, h, wind=steady, heading=False)
         # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
@@ -853,7 +859,10 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         r = fl.rate(shaft, soc)
         burning = (m > zfm) if burns is True else burns & (m > zfm)
         per_metre = r / gs
-        return np.where(burning, -per_metre, _ZERO), per_metre, _ONE / gs
+        out = np.where(burning, -per_metre, _ZERO), per_metre, _ONE / gs
+        if not circuit:
+            last[:] = (m, out)
+        return out
 
     shape = np.broadcast_shapes(dx.shape, m0.shape, np.shape(h), np.shape(v_ref),
                                 fl.sample_shape)
