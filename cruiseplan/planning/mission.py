@@ -713,12 +713,13 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
                                                   p_up_steps, wind_steps, h_steps)
             if not state:
                 break
-            # What each step leaves to the next, added in step order.
-            after = np.concatenate((np.zeros_like(burn[:1]), np.cumsum(burn[:-1], axis=0)))
-            if all_true(after == before):
+            # What each step leaves to the next, added in step order; once the masses and
+            # states of charge it gives are those this pass started from, it is done.
+            before = np.concatenate((np.zeros_like(burn[:1]), np.cumsum(burn[:-1], axis=0)))
+            m_next, soc_next = at(before)
+            if all_true(m_next == m) and (soc is None or all_true(soc_next == soc)):
                 break
-            before = after
-            m, soc = at(before)
+            m, soc = m_next, soc_next
         if circuit:
             watch.see_steps(p, soc, moving)
         # The sums (added in step order) and the last step's heading.
