@@ -317,12 +317,16 @@ def _free_speeds(airframe, mass, air, store, hw, cw, objectives, xtol=1e-10,
         shape = np.broadcast_shapes(np.shape(lo), np.shape(hi))
 
         def both(v):
-            # The pair's axis comes before the points' shape (a search may add its own).
+            # The pair's axis comes before the points' shape (a search may add its own);
+            # the two halves are read and written as views along it.
             axis = v.ndim - len(shape) - 1
+            first, second = (slice(None),) * axis + (0,), (slice(None),) * axis + (1,)
             p = shaft(v)
-            rng = ground_speed(np.take(v, 0, axis), hw, cw, crosswind_squared=cw2) * \
-                prop.endurance(store, np.take(p, 0, axis))
-            return np.stack([-rng, np.take(p, 1, axis)], axis=axis)
+            out = np.empty(p.shape)
+            np.negative(ground_speed(v[first], hw, cw, crosswind_squared=cw2)
+                        * prop.endurance(store, p[first]), out=out[first])
+            out[second] = p[second]
+            return out
 
         pair = search(both, np.broadcast_to(lo, (2,) + shape),
                       np.broadcast_to(hi, (2,) + shape), xtol_rel=xtol)
