@@ -753,9 +753,12 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     m_end = np.maximum(m_start - used, fl.zero_fuel_mass) if burns else m_start.copy()
     # Where the climb rate was first lost.
     ok = ~np.any(bads, axis=0)
-    first = np.argmax(bads, axis=0)
-    fail_at = np.where(ok, np.nan, np.take_along_axis(
-        np.broadcast_to(h_steps, (CLIMB_STEPS,) + shape), first[None], axis=0)[0])
+    if all_true(ok):
+        fail_at = np.full(shape, np.nan)
+    else:
+        first = np.argmax(bads, axis=0)
+        fail_at = np.where(ok, np.nan, np.take_along_axis(
+            np.broadcast_to(h_steps, (CLIMB_STEPS,) + shape), first[None], axis=0)[0])
     with np.errstate(invalid="ignore", divide="ignore"):
         mean = lambda s: np.where(t > 0, s / t, np.nan)  # noqa: E731
         # Candidates that do not move have no distance (not NaN x 0).
@@ -884,10 +887,14 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         for i, acc in ((1, used), (2, t)):
             acc += sixth * (k1[i] + _TWO * k2[i] + _TWO * k3[i] + k4[i])
         m = np.maximum(m + sixth * (k1[0] + _TWO * k2[0] + _TWO * k3[0] + k4[0]), zfm)
-    v_end = speed(m)
     gs0, heading, held = fl.ground(v0, leg, h, wind=steady)
     p0 = first[0]
-    p1 = fl.shaft(m, air, v_end)
+    if all_true(m == m0):
+        # Nothing burnt (a plain pack, past an empty tank): the end is the start.
+        v_end, p1 = v0 + 0 * t, p0
+    else:
+        v_end = speed(m)
+        p1 = fl.shaft(m, air, v_end)
     v_stall = fl.af.stall_speed(m0, air.density)
     zero = 0 * t
     return dict(time=t, distance=np.asarray(distance, float) + zero, used=used, mass_end=m,
