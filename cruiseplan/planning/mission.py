@@ -88,12 +88,13 @@ PLAN_UNITS = {
     "climb_speed": "m/s", "leg_altitudes": "m", "leg_speeds": "m/s",
 }
 
-#: Integration steps per segment: altitude steps in climb and descent; RK4 steps in a
-#: cruise or hold with a pack given as a circuit (the rate follows the state of charge).
+#: Altitude steps in a climb or descent.
 CLIMB_STEPS = 8
 #: Most points on which a climb or descent's steps are worked out together, in passes,
 #: rather than one after the other (the same figures; see _vertical).
 CLIMB_PASS_POINTS = 64
+#: RK4 steps in a cruise or hold with a pack given as a circuit (the rate follows the
+#: state of charge).
 CRUISE_STEPS = 4
 #: RK4 steps in a cruise or hold whose fuel flow follows the mass (one for a plain pack,
 #: whose rate does not change): the mass changes slowly, and two steps are within 1e-10 of
