@@ -14,6 +14,17 @@ import numpy as np
 IN_PLACE_SIZE = 4096
 
 
+def _constant(x):
+    a = np.array(x, dtype=float)
+    a.flags.writeable = False
+    return a
+
+
+#: 0, 1, 2 and NaN as read-only 0-d arrays: a ufunc takes them quicker than Python floats
+#: (the same figures), which counts in the planner's loops over small arrays.
+ZERO, ONE, TWO, NAN = (_constant(x) for x in (0.0, 1.0, 2.0, np.nan))
+
+
 def owned(a, shape) -> bool:
     """True if an expression's result may overwrite ``a``.
 

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from cruiseplan._numerics import NAN, ZERO
 from cruiseplan.constants import A0, P0, RHO0
 
 
@@ -164,10 +165,6 @@ def wind_components(course_deg, wind_from_deg, wind_speed):
     return w * np.cos(rel), w * np.sin(rel)
 
 
-#: 0 and NaN as 0-d arrays: a ufunc takes them quicker than Python floats.
-_ZERO, _NAN = np.array(0.0), np.array(np.nan)
-
-
 def ground_speed(tas, headwind, crosswind, *, crosswind_squared=None):
     r"""Ground speed along a course held against the wind: the one wind-triangle formula.
 
@@ -203,7 +200,7 @@ def ground_speed(tas, headwind, crosswind, *, crosswind_squared=None):
         crosswind_squared = cross * cross
     square = tas * tas - crosswind_squared
     # NaN where the course is lost, set before the root (no warning to silence).
-    return np.sqrt(np.where(square >= _ZERO, square, _NAN)) - headwind
+    return np.sqrt(np.where(square >= ZERO, square, NAN)) - headwind
 
 
 def wind_correction_angle(tas, crosswind):

@@ -51,7 +51,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from cruiseplan._numerics import all_true, illinois_root
+from cruiseplan._numerics import ONE, TWO, ZERO, all_true, illinois_root
 from cruiseplan.amounts import format_amount
 from cruiseplan.constants import FT_PER_MIN, G0, MACH_LIMIT
 from cruiseplan.errors import CruiseplanError
@@ -105,9 +105,8 @@ CRUISE_STEPS_STEADY = 2
 MIN_CLIMB_RATE = 0.1
 #: Ground speed floor [m/s] where the wind is as strong as the airspeed (see _cruise).
 GS_FLOOR = 0.5
-# The same, and 0 and 1, as 0-d arrays: the integrations' ufuncs take them quicker.
+# The same as 0-d arrays: the integrations' ufuncs take them quicker.
 _MIN_CLIMB_RATE, _GS_FLOOR = np.array(MIN_CLIMB_RATE), np.array(GS_FLOOR)
-_ZERO, _ONE, _TWO = np.array(0.0), np.array(1.0), np.array(2.0)
 
 
 @dataclass(frozen=True)
@@ -518,26 +517,24 @@ class Flight:
             speed = np.maximum(speed + self.wind_error[0], 0)
         return speed
 
-    def ground(self, v, leg, h, gamma_rate=0.0, wind=None, heading=True):
+    @staticmethod
+    def ground(v, leg, wind, gamma_rate=0.0, heading=True):
         """Ground speed and heading for TAS ``v`` (horizontal part when climbing).
 
-        ``wind`` may carry the :meth:`steady_wind` figures already found at ``h``; with
-        ``heading`` false the heading is not worked out (None), for the integrations'
-        inner steps.
+        With ``heading`` false the heading is not worked out (None), for the
+        integrations' inner steps.
 
         Parameters
         ----------
         v : array_like
             True airspeed along the path [m/s].
         leg : Leg
-            The leg; its ``course`` [deg true] and winds are used.
-        h : array_like
-            Pressure altitude [m].
+            The leg; its ``course`` [deg true] is used.
+        wind : tuple of array_like
+            :meth:`steady_wind` of the headwind and crosswind [m/s] where the aircraft
+            flies.
         gamma_rate : array_like, optional
             Vertical speed [m/s]; the horizontal TAS is sqrt(v^2 - gamma_rate^2).
-        wind : tuple of array_like, optional
-            :meth:`steady_wind` of the headwind and crosswind at ``h``, when already
-            known.
         heading : bool, optional
             Whether to work out the heading.
 
@@ -555,13 +552,11 @@ class Flight:
         --------
         cruiseplan.physics.airspeed.ground_speed : The wind-triangle formula used.
         """
-        if wind is None:
-            wind = self.steady_wind(*self.wind(leg, h))
         head, cross, abs_cross, tail, cross_squared = wind
         if type(gamma_rate) is float and gamma_rate == 0.0:
             vh = np.sqrt(v * v)  # minus 0 and floored at 0: the same figure
         else:
-            vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, _ZERO))
+            vh = np.sqrt(np.maximum(v * v - gamma_rate * gamma_rate, ZERO))
         held = abs_cross < vh
         # Where the course cannot be held the aircraft points into the crosswind: it
         # makes no way across it and drifts with the headwind component.
@@ -630,11 +625,6 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
     fail_at (altitude where it did not), tas, gs and power (time means), heading, and the
     pack's lowest voltage, highest current and limits (:class:`_PackWatch`).
     """
-    if h1 is h0:
-        # Staying at the altitudes (a leg's final descent but on the last leg): no step.
-        shape = np.broadcast_shapes(np.shape(h0), np.shape(m0), np.shape(v_descent),
-                                    fl.sample_shape)
-        return _staying(fl, shape, m0)
     # Altitudes keep their own shape (candidates, or one altitude); masses and sampled
     # parameters broadcast against them.
     h0, h1 = np.broadcast_arrays(np.asarray(h0, float), np.asarray(h1, float))
@@ -679,7 +669,7 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         m = np.maximum(m_start - before, fl.zero_fuel_mass) if burns else m_start
         return m, fl.soc(None if store0 is None else store0 - before)
 
-    def flown(m, soc, air, v, v_cap, p_up, wind, h):
+    def flown(m, soc, air, v, v_cap, p_up, wind):
         """Climb-rate check, vertical speed, power, time, store used and ground speed."""
         level = fl.af.level_flight(m, air, v)
         p_level, drag = level.shaft, level.drag
@@ -700,18 +690,18 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
                                                   -weight * descent), idle)
         vz = np.where(climbing, np.where(bad, _MIN_CLIMB_RATE, roc), descent)
         p = np.where(climbing, p_up, p_down)
-        dt = np.where(moving, step_dh / vz, _ZERO)
+        dt = np.where(moving, step_dh / vz, ZERO)
         # Candidates that do not move use nothing (not NaN x 0).
-        burn = np.where(moving, fl.rate(p, soc) * dt, _ZERO)
-        gs, _, _ = fl.ground(v, leg, h, vz, wind, heading=False)
+        burn = np.where(moving, fl.rate(p, soc) * dt, ZERO)
+        gs, _, _ = fl.ground(v, leg, wind, vz, heading=False)
         return bad, vz, p, dt, burn, gs, soc
 
     if int(np.prod(shape)) <= CLIMB_PASS_POINTS:
-        before = _ZERO
+        before = ZERO
         m, soc = at(before)
         for _ in range(CLIMB_STEPS if state else 1):
             bad, vz, p, dt, burn, gs, soc = flown(m, soc, air_steps, v_steps, v_cap_steps,
-                                                  p_up_steps, wind_steps, h_steps)
+                                                  p_up_steps, wind_steps)
             if not state:
                 break
             # What each step leaves to the next, added in step order; once the masses and
@@ -730,13 +720,13 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
         last = vz[-1]
     else:
         air_rows = fl.air_rows(h_steps)
-        before, sums, bads = _ZERO, None, []
+        before, sums, bads = ZERO, None, []
         for j in range(CLIMB_STEPS):
             m, soc = at(before)
             v = v_steps[j]
             bad, vz, p, dt, burn, gs, soc = flown(
                 m, soc, air_rows[j], v, v_cap_steps[j], p_up_steps[j],
-                tuple(w[j] for w in wind_steps), h_steps[j])
+                tuple(w[j] for w in wind_steps))
             if circuit:
                 watch.see(p, soc, moving)
             before = before + burn
@@ -749,8 +739,7 @@ def _vertical(fl: Flight, leg, h0, h1, m0, v_climb, v_descent, profile, store0=N
             bads.append(bad)
         bads, last = np.array(bads), vz
     t, used, x, tas_sum, pw_sum = sums
-    _, heading, _ = fl.ground(v_steps[-1], leg, h_steps[-1], last,
-                              tuple(w[-1] for w in wind_steps))
+    _, heading, _ = fl.ground(v_steps[-1], leg, tuple(w[-1] for w in wind_steps), last)
     m_end = np.maximum(m_start - used, fl.zero_fuel_mass) if burns else m_start.copy()
     # Where the climb rate was first lost.
     ok = ~np.any(bads, axis=0)
@@ -848,7 +837,7 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         if last and m.shape == last[0].shape and all_true(m == last[0]):
             return last[1]
         v = speed(m)
-        gs, _, _ = fl.ground(v, leg, h, wind=steady, heading=False)
+        gs, _, _ = fl.ground(v, leg, steady, heading=False)
         # Into a wind as strong as the airspeed the leg cannot be made good (reported as a
         # reason); crawling at GS_FLOOR keeps the bookkeeping finite and the fuel honest
         # (fmax takes the floor where gs is NaN).
@@ -864,7 +853,7 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
         r = fl.rate(shaft, soc)
         burning = (m > zfm) if burns is True else burns & (m > zfm)
         per_metre = r / gs
-        out = np.where(burning, -per_metre, _ZERO), per_metre, _ONE / gs
+        out = np.where(burning, -per_metre, ZERO), per_metre, ONE / gs
         if not circuit:
             last[:] = (m, out)
         return out
@@ -886,9 +875,9 @@ def _cruise(fl: Flight, leg, h, m0, distance, v_ref, m_ref, air=None, mode=None,
                    used + half * k2[1] if circuit else None)
         k4 = deriv(np.maximum(m + dx * k3[0], zfm), used + dx * k3[1] if circuit else None)
         for i, acc in ((1, used), (2, t)):
-            acc += sixth * (k1[i] + _TWO * k2[i] + _TWO * k3[i] + k4[i])
-        m = np.maximum(m + sixth * (k1[0] + _TWO * k2[0] + _TWO * k3[0] + k4[0]), zfm)
-    gs0, heading, held = fl.ground(v0, leg, h, wind=steady)
+            acc += sixth * (k1[i] + TWO * k2[i] + TWO * k3[i] + k4[i])
+        m = np.maximum(m + sixth * (k1[0] + TWO * k2[0] + TWO * k3[0] + k4[0]), zfm)
+    gs0, heading, held = fl.ground(v0, leg, steady)
     p0 = first[0]
     if all_true(m == m0):
         # Nothing burnt (a plain pack, past an empty tank): the end is the start.
@@ -1172,9 +1161,15 @@ def leg_options(fl, mission, leg, h_now, m, store, v_climb, last, candidates,
         fits = d_cruise >= 0
         cr = _cruise(fl, leg, H, m_cr, np.maximum(d_cruise, 0.0), v_cr, m, air_H, mode,
                      target, store_cr)
-    # Same descent speed as the estimate, so that the leg's distances add up exactly.
-    fin = _vertical(fl, leg, H, prof.arrival_elevation if last else H, cr["mass_end"],
-                    v_climb, v_eas_cruise, prof, store_cr - cr["used"])
+    if last:
+        # Same descent speed as the estimate, so that the leg's distances add up exactly.
+        fin = _vertical(fl, leg, H, prof.arrival_elevation, cr["mass_end"], v_climb,
+                        v_eas_cruise, prof, store_cr - cr["used"])
+    else:
+        # The next leg starts where this one cruised: no final descent.
+        fin = _staying(fl, np.broadcast_shapes(H.shape, np.shape(cr["mass_end"]),
+                                               np.shape(v_eas_cruise), fl.sample_shape),
+                       cr["mass_end"])
     total = trans["used"] + cr["used"] + fin["used"]
     return dict(H=H, trans=trans, cruise=cr, final=fin, fits=fits, speed_ok=speed_ok,
                 total=total, time=trans["time"] + cr["time"] + fin["time"], v_cruise=v_cr,
