@@ -577,12 +577,8 @@ class _PackWatch:
 
     def see(self, shaft, soc, where=True):
         """Take the pack's load at shaft power [W] and state of charge [-] into account."""
-        if soc is None:
-            return
-        load = self.fl.prop.pack_load(shaft, soc=soc)
-        self.voltage = np.where(where, np.minimum(self.voltage, load.voltage), self.voltage)
-        self.current = np.where(where, np.maximum(self.current, load.current), self.current)
-        self.limits = self.limits | np.where(where, load.limits, 0).astype(LIMIT_DTYPE)
+        if soc is not None:
+            self.see_steps(np.asarray(shaft)[None], np.asarray(soc)[None], where)
 
     def see_steps(self, shaft, soc, where):
         """:meth:`see` of every step at once (arrays with the steps on the first axis)."""
