@@ -152,8 +152,10 @@ def test_a_loiter_leg_flies_its_time_at_the_turn_s_power(tourer):
     n = 1.0 / math.cos(math.radians(30.0))
     m0 = plan.takeoff_mass - plan.segments[1].used
     shaft = float(tourer.level_flight(n * m0, cp.air_state(1500.0), 50.0).shaft)
+    # The planner works a leg out from its start mass on a grid of 2**-30 of the maximum
+    # take-off mass (planning.mission.StartGrid): within 5e-10 of it.
     assert loiter.power_fraction == pytest.approx(shaft / tourer.propulsion.rated_power,
-                                                  rel=1e-12)
+                                                  rel=1e-9)
     assert "orbit at 30 deg bank" in loiter.note
     # The fuel falls as the weight does: between the start's and the end's flow (RK4).
     flow0 = tourer.propulsion.store_rate(shaft)

@@ -93,6 +93,9 @@ CLIMB_STEPS = 8
 #: Most points on which a climb or descent's steps are worked out together, in passes,
 #: rather than one after the other (the same figures; see _vertical).
 CLIMB_PASS_POINTS = 64
+#: Most legs of a run worked out together in one pass (see _in_passes); 1: every leg on
+#: its own (the same plans).
+PASS_LEGS = 20
 #: RK4 steps in a cruise or hold with a pack given as a circuit (the rate follows the
 #: state of charge).
 CRUISE_STEPS = 4
@@ -1426,6 +1429,9 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
 
     The state along the route (altitude, mass, store) is an array over the missions; a
     leg's candidate altitudes are a second axis; each mission picks its own candidate.
+    Each leg is worked out from its start mass and store on a :class:`StartGrid`. A
+    mission alone flies its runs of alike cruise legs in passes (:func:`_in_passes`),
+    with the figures of the legs flown one at a time.
     """
     mission = missions[0]
     if not mission.legs:
@@ -1452,57 +1458,23 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
                          prof.departure_elevation, 0.0, 0.0, 0.0, 0.0, 0.0, float(allowance[p]),
                          float(store[p]), float(m[p]), 0.0)] for p in range(n_points)]
     h = np.full(n_points, prof.departure_elevation)
-    rows = np.arange(n_points)
     v_climb = _climb_speeds(missions, loads)
     leg_altitudes, leg_speeds = [], []
     failed_at = [None] * n_points   # index of the first segment of a leg that cannot be flown
-    for n, leg in enumerate(mission.legs):
+    grid = StartGrid(fl, np.ravel(fl.zero_fuel_mass))
+
+    def fly(leg, last, o, extra, new):
+        """Fly each mission's picked option ``o`` of ``leg`` (arrays over the missions).
+
+        ``extra``: the leg's reasons for every mission; ``new``: each mission's own.
+        """
+        nonlocal h, m, store
+        # The leg was worked out from the mass on the grid: its masses move by the offset.
+        shift = m - grid.mass(m)
         n_reasons = [len(r) for r in reasons]
-        last = n == len(mission.legs) - 1
-        lo, top, why = _caps(mission, leg)
-        fixed = leg.altitude is not None
-        if leg.kind != "cruise" and leg.altitude is None:
-            # A hover or loiter without an altitude is flown where the aircraft is, within
-            # the leg's limits.
-            cands, fixed = np.minimum(np.maximum(h, lo), top)[:, None], True
-        elif mission.levels and leg.kind == "cruise":
-            # A cruising-level rule: its levels for the leg's magnetic course.
-            cands, off_level = leg_candidates(mission, leg, lo, top)
-            for r in reasons:
-                r.extend(off_level)
-        elif leg.altitude is None:
-            cands = np.arange(lo, top + 1e-6, prof.altitude_step)
-            if cands.size == 0:
-                cands = np.array([lo])
-            else:
-                # Staying at the altitude the aircraft is at is a candidate too (a last
-                # column; where it is already a candidate or outside the limits, the
-                # column repeats the first candidate, which then wins any tie).
-                level = (lo <= h) & (h <= top) & ~np.any(h[:, None] == cands, axis=1)
-                if np.any(level):
-                    cands = np.column_stack([np.broadcast_to(cands, (n_points, cands.size)),
-                                             np.where(level, h, cands[0])])
-        else:
-            cands = np.array([leg.altitude])
-        opts = leg_options(fl, mission, leg, h[:, None], m[:, None], store[:, None],
-                           v_climb[:, None], last, cands)
-        shape = np.shape(opts["total"])
-        if fixed:
-            pick = np.zeros(n_points, dtype=int)
-        else:
-            pick = _choose(opts, lo, top)
-            unflown = np.flatnonzero(pick < 0)
-            for p in unflown:
-                reasons[p].append(f"leg {leg.name!r}: no altitude between {lo:.0f} and "
-                                  f"{top:.0f} m ({why}) can be flown: "
-                                  + _why_not(_row(opts, p, shape), leg, lo, top))
-            if unflown.size:
-                fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
-                pick = np.where(pick < 0, fallback, pick)
-        o = _take(opts, pick, rows)
-        if fixed:
-            for p in range(n_points):
-                reasons[p].extend(_leg_reasons(_at(o, p), leg, mission, lo, top, why))
+        for r, more in zip(reasons, new):
+            r.extend(extra)
+            r.extend(more)
         H = o["H"]
         leg_altitudes.append(H)
         leg_speeds.append(o["v_cruise"])
@@ -1512,7 +1484,7 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
             seg = o[key]
             flown = seg["time"] > 0
             store = np.where(flown, store - seg["used"], store)
-            m = np.where(flown, seg["mass_end"], m)
+            m = np.where(flown, grid.shifted(seg["mass_end"], shift), m)
             for p in np.flatnonzero(flown):
                 s = _at(seg, p)
                 k = kind or ("climb" if H[p] > h[p] else "descent")
@@ -1527,6 +1499,35 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
                                             for r in reasons[p][n_reasons[p]:]):
                 failed_at[p] = first_of_leg[p]
         h = H if not last else np.full(n_points, prof.arrival_elevation)
+
+    legs = mission.legs
+    n = 0
+    while n < len(legs):
+        leg = legs[n]
+        last = n == len(legs) - 1
+        # Legs alike but for their course, distance and wind are flown in passes (one
+        # mission alone; see _in_passes); the last one, with its final descent, on its own.
+        end = n + 1
+        key = (_run_key(mission, leg) if n_points == 1 and not last and PASS_LEGS > 1
+               else None)
+        if key is not None:
+            while end < len(legs) - 1 and _run_key(mission, legs[end]) == key:
+                end += 1
+        if end - n > 1:
+            state = (h, m, store)
+            for leg_k, o, new in _in_passes(fl, mission, legs[n:end], v_climb, grid,
+                                            lambda: state):
+                fly(leg_k, False, o, [], [new])
+                state = (h, m, store)
+            n = end
+            continue
+        lo, top, why = _caps(mission, leg)
+        cands, fixed, extra = _candidates(mission, leg, h, lo, top)
+        opts = leg_options(fl, mission, leg, h[:, None], grid.mass(m)[:, None],
+                           grid.store(store)[:, None], v_climb[:, None], last, cands)
+        o, new = _settle(opts, [leg] * n_points, mission, fixed, lo, top, why)
+        fly(leg, last, o, extra, new)
+        n += 1
     alternate = _alternate_used(fl, mission, m[:, None], leg_altitudes[-1][:, None])
     alternate = np.broadcast_to(np.ravel(alternate), (n_points,))
     plans = []
@@ -1540,6 +1541,280 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
                           tuple(float(a[p]) for a in leg_altitudes), float(mass0[p]),
                           tuple(float(v[p]) for v in leg_speeds), float(v_climb[p])))
     return plans
+
+
+def _candidates(mission, leg, h, lo, top):
+    """A leg's candidate altitudes [m] from the start altitudes ``h`` [m] (over the rows).
+
+    Returns the candidates (one row, or one row per element of ``h``), whether the
+    altitude is fixed (nothing to choose) and the level rule's reasons for every row.
+    """
+    prof = mission.profile
+    fixed = leg.altitude is not None
+    extra = []
+    if leg.kind != "cruise" and leg.altitude is None:
+        # A hover or loiter without an altitude is flown where the aircraft is, within
+        # the leg's limits.
+        cands, fixed = np.minimum(np.maximum(h, lo), top)[:, None], True
+    elif mission.levels and leg.kind == "cruise":
+        # A cruising-level rule: its levels for the leg's magnetic course.
+        cands, extra = leg_candidates(mission, leg, lo, top)
+    elif leg.altitude is None:
+        cands = np.arange(lo, top + 1e-6, prof.altitude_step)
+        if cands.size == 0:
+            cands = np.array([lo])
+        else:
+            # Staying at the altitude the aircraft is at is a candidate too (a last
+            # column; where it is already a candidate or outside the limits, the
+            # column repeats the first candidate, which then wins any tie).
+            level = (lo <= h) & (h <= top) & ~np.any(h[:, None] == cands, axis=1)
+            if np.any(level):
+                cands = np.column_stack([np.broadcast_to(cands, (h.size, cands.size)),
+                                         np.where(level, h, cands[0])])
+    else:
+        cands = np.array([leg.altitude])
+    return cands, fixed, extra
+
+
+def _settle(opts, legs, mission, fixed, lo, top, why):
+    """Each row's picked candidate of a leg's options, and each row's new reasons.
+
+    The rows are missions planned together (``legs`` the same leg for each) or the legs
+    of a run flown in passes. Returns the picked options (arrays over the rows, see
+    :func:`_take`) and a list of reasons per row.
+    """
+    rows = np.arange(len(legs))
+    new = [[] for _ in legs]
+    if fixed:
+        pick = np.zeros(len(legs), dtype=int)
+    else:
+        pick = _choose(opts, lo, top)
+        unflown = np.flatnonzero(pick < 0)
+        shape = np.shape(opts["total"])
+        for p in unflown:
+            new[p].append(f"leg {legs[p].name!r}: no altitude between {lo:.0f} and "
+                          f"{top:.0f} m ({why}) can be flown: "
+                          + _why_not(_row(opts, p, shape), legs[p], lo, top))
+        if unflown.size:
+            fallback = np.argmin(np.where(opts["fits"], opts["total"], np.inf), axis=-1)
+            pick = np.where(pick < 0, fallback, pick)
+    o = _take(opts, pick, rows)
+    if fixed:
+        for p in rows:
+            new[p].extend(_leg_reasons(_at(o, p), legs[p], mission, lo, top, why))
+    return o, new
+
+
+def _run_key(mission, leg):
+    """What the legs of a run flown in passes share; None for a leg flown on its own.
+
+    Cruise legs with the same limits, speed rule, kind of altitude (best or set) and
+    winds aloft differ only in course, distance and set altitude. A level rule's
+    candidates depend on the course: such legs are flown on their own.
+    """
+    if leg.kind != "cruise" or mission.levels:
+        return None
+    return _caps(mission, leg), speed_mode(mission, leg), leg.altitude is None, leg.wind
+
+
+class _Legs:
+    """The legs of a run as one leg: course [deg] and distance [m] of shape (legs, 1).
+
+    Every other field is the first leg's, the same on every leg of a run
+    (:func:`_run_key`).
+    """
+
+    def __init__(self, legs):
+        self._first = legs[0]
+        self.course = np.array([x.course for x in legs], dtype=float)[:, None]
+        self.distance = np.array([x.distance for x in legs], dtype=float)[:, None]
+
+    def __getattr__(self, name):
+        return getattr(self._first, name)
+
+
+def _bits(x):
+    """The bits of a float64 array: equal bits, the same figures from every operation."""
+    return np.ascontiguousarray(x, dtype=float).view(np.int64)
+
+
+class StartGrid:
+    """The grid a leg's start mass and store are put on before the leg is worked out.
+
+    Spacings of 2**-:attr:`BITS` (about 1e-9) of the maximum take-off mass and of the
+    store's capacity, powers of two (putting a value on the grid is exact arithmetic).
+    A leg's figures then follow from its start to within 1e-9, below the integration's
+    own error (about 1e-8), and a guess of the start within a small part of a spacing
+    gives the leg's figures to the last bit: the legs of a run can be worked out in
+    passes (:func:`_in_passes`). The plan's bookkeeping keeps the masses and stores off
+    the grid: a leg's masses move by its start's offset from the grid. A mass that does
+    not burn, and a mass at zero fuel, stay as they are.
+
+    Parameters
+    ----------
+    fl : Flight
+        The flight model (its airframe and store).
+    zero_fuel_mass : float or numpy.ndarray
+        Zero-fuel mass [kg], broadcasting against the masses asked about.
+    """
+
+    #: The grid's spacing is 2**-BITS of the quantity's scale, rounded down to a power
+    #: of two.
+    BITS = 30
+
+    def __init__(self, fl, zero_fuel_mass):
+        self._burns = bool(np.any(fl.burns_mass))
+        self._zfm = zero_fuel_mass
+        self._m = 2.0 ** (np.floor(np.log2(fl.af.max_takeoff_mass)) - self.BITS)
+        self._s = 2.0 ** (np.floor(np.log2(fl.prop.store_capacity)) - self.BITS)
+
+    def mass(self, m):
+        """The nearest mass on the grid, never below zero fuel.
+
+        Parameters
+        ----------
+        m : array_like
+            Mass [kg].
+
+        Returns
+        -------
+        numpy.ndarray
+            Mass on the grid [kg] (``m`` itself where it does not burn or is at zero
+            fuel).
+        """
+        if not self._burns:
+            return m
+        return np.where(m > self._zfm, np.maximum(np.rint(m / self._m) * self._m,
+                                                  self._zfm), m)
+
+    def store(self, s):
+        """The nearest store on the grid.
+
+        Parameters
+        ----------
+        s : array_like
+            Fuel [kg] or usable energy [J] on board (negative past an empty store).
+
+        Returns
+        -------
+        numpy.ndarray
+            Store on the grid [kg or J].
+        """
+        return np.rint(s / self._s) * self._s
+
+    def shifted(self, m_end, shift):
+        """A leg's end mass moved by its start's offset from the grid.
+
+        Parameters
+        ----------
+        m_end : array_like
+            End mass of a segment of a leg worked out from its start on the grid [kg].
+        shift : array_like
+            The start's mass less its mass on the grid [kg].
+
+        Returns
+        -------
+        numpy.ndarray
+            End mass [kg]; one at zero fuel stays there.
+        """
+        if not self._burns:
+            return m_end
+        return np.where(m_end > self._zfm, np.maximum(m_end + shift, self._zfm), m_end)
+
+
+def _in_passes(fl, mission, legs, v_climb, grid, current):
+    """Fly a run of legs (one mission) in passes, yielding each leg's picked options.
+
+    A leg's options depend on where the one before it ended: its altitude, mass and
+    store. Each pass works out up to :data:`PASS_LEGS` legs at once, each from a guess
+    of its start; the legs whose guesses are their starts, to the bit, from the first
+    on, are exact. They are yielded in order (``(leg, options, reasons)``, the options
+    arrays over one row, as :func:`_settle` gives them); the caller flies each, and
+    ``current()`` then gives (altitude, mass, store) after it (arrays of one element).
+    The next pass starts at the first leg not yet exact, its guess its start; the
+    guesses after it follow what each leg used at its guess, corrected to first order
+    for the change of its start (the store used goes as the mass), so that a few passes
+    make the whole run exact. Every array operation acts on each element alone and
+    every search stops each element on its own, so each leg's figures are those of the
+    leg flown alone, to the last bit.
+    """
+    first = legs[0]
+    lo, top, why = _caps(mission, first)
+    fixed = first.altitude is not None
+    zfm = float(np.ravel(fl.zero_fuel_mass)[0])
+    distance = np.array([x.distance for x in legs], dtype=float)
+
+    def start():
+        h, m, s = current()
+        return float(h[0]), float(m[0]), float(s[0])
+
+    # ``ahead``: the starts (altitude, mass and store, off the grid) foreseen for the
+    # legs from the next one on; ``per_metre``: what the last leg worked out burnt and
+    # used per metre, to foresee the legs past them.
+    k, ahead, per_metre = 0, None, (0.0, 0.0)
+    while k < len(legs):
+        rows = legs[k:k + PASS_LEGS]
+        w = len(rows)
+        known = 0 if ahead is None else min(len(ahead[0]), w)
+        h_in, m_in, s_in = (np.empty(w) for _ in range(3))
+        if known:
+            h_in[:known], m_in[:known], s_in[:known] = (a[:known] for a in ahead)
+        h_in[0], m_in[0], s_in[0] = start()
+        for i in range(max(known, 1), w):
+            d = distance[k + i - 1]
+            h_in[i] = h_in[i - 1]
+            m_in[i] = max(m_in[i - 1] - per_metre[0] * d, zfm)
+            s_in[i] = s_in[i - 1] - per_metre[1] * d
+        mg, sg = grid.mass(m_in), grid.store(s_in)
+        if fixed:
+            cands = np.array([[x.altitude] for x in rows], dtype=float)
+        else:
+            cands, _, _ = _candidates(mission, first, h_in, lo, top)
+        opts = leg_options(fl, mission, _Legs(rows), h_in[:, None], mg[:, None],
+                           sg[:, None], v_climb[:, None], False, cands)
+        o, new = _settle(opts, rows, mission, fixed, lo, top, why)
+        # Where each leg ends from its guess (on the grid).
+        h_end, m_end, s_end = o["H"], mg, sg
+        for key in ("trans", "cruise", "final"):
+            seg = o[key]
+            flown = seg["time"] > 0
+            s_end = np.where(flown, s_end - seg["used"], s_end)
+            m_end = np.where(flown, seg["mass_end"], m_end)
+        j = 0
+        while j < w:
+            h, m, s = start()
+            m, s = grid.mass(np.array([m]))[0], grid.store(s)
+            if not (_bits(h_in[j]) == _bits(h) and _bits(mg[j]) == _bits(m)
+                    and _bits(sg[j]) == _bits(s)):
+                break
+            yield rows[j], {key: _one(v, j) for key, v in o.items()}, new[j]
+            j += 1
+        k += j
+        per_metre = ((mg[-1] - m_end[-1]) / distance[k - j + w - 1],
+                     (sg[-1] - s_end[-1]) / distance[k - j + w - 1])
+        if j == w:
+            ahead = None
+            continue
+        # From the first leg not exact (its start now known): each leg's end from its
+        # guess, moved to first order by its start's change on the grid (the store
+        # used goes as the mass, so the end mass moves by end / start times the change),
+        # then by the start's offset from the grid, as the plan moves it.
+        h, m, s = start()
+        a_h, a_m, a_s = [h], [m], [s]
+        for i in range(j, w - 1):
+            m_on = float(grid.mass(np.array([a_m[-1]]))[0])
+            dm = m_on - mg[i]
+            slope = m_end[i] / mg[i] if m_end[i] > zfm else 0.0
+            a_h.append(h_end[i])
+            a_m.append(float(grid.shifted(np.array([m_end[i] + dm * slope]),
+                                          a_m[-1] - m_on)[0]))
+            a_s.append(a_s[-1] - (sg[i] - s_end[i]) * (1.0 + dm / mg[i]))
+        ahead = (np.array(a_h), np.array(a_m), np.array(a_s))
+
+
+def _one(v, j):
+    """Row ``j`` of :func:`_take`'s arrays (nested dicts), as arrays of one element."""
+    return {k: _one(x, j) for k, x in v.items()} if isinstance(v, dict) else v[j:j + 1]
 
 
 def _segment(fl, leg, kind, seg, mode, H, h, arrival, store, m, isa_dev) -> Segment:

@@ -34,7 +34,7 @@ import numpy as np
 
 from cruiseplan.errors import CruiseplanError
 from cruiseplan.model.tolerance import normal_ppf
-from cruiseplan.planning.mission import Flight, leg_options, mission_reserve
+from cruiseplan.planning.mission import Flight, StartGrid, leg_options, mission_reserve
 from cruiseplan.planning.performance import cruise_points
 from cruiseplan.units import quantity_of
 
@@ -397,18 +397,21 @@ def _refly_plan(plan, factors, wind_error, n):
     time = np.zeros(n)
     h = prof.departure_elevation
     legs = mission.legs
+    # Each leg worked out from its start on the plan's grid, as the plan does.
+    grid = StartGrid(fl, fl.zero_fuel_mass)
     for k, leg in enumerate(legs):
         last = k == len(legs) - 1
         H = plan.leg_altitudes[k]
-        o = leg_options(fl, mission, leg, h, m, store, plan.climb_speed, last,
-                         np.array([H]), plan.leg_speeds[k])
+        shift = m - grid.mass(m)
+        o = leg_options(fl, mission, leg, h, grid.mass(m), grid.store(store),
+                        plan.climb_speed, last, np.array([H]), plan.leg_speeds[k])
         # The same order of subtraction as the plan's bookkeeping, segment by segment.
         for part in ("trans", "cruise", "final"):
             seg = o[part]
             store = store - seg["used"]
             used = used + seg["used"]
             time = time + seg["time"]
-            m = np.where(seg["time"] > 0, seg["mass_end"], m)
+            m = np.where(seg["time"] > 0, grid.shifted(seg["mass_end"], shift), m)
         h = H if not last else prof.arrival_elevation
     # The samples fly the plan's power settings: the reserve's power is the plan's.
     required = mission_reserve(fl, mission, m, plan.leg_altitudes,
