@@ -1727,44 +1727,55 @@ def _in_passes(fl, mission, legs, v_climb, grid, current):
 
     A leg's options depend on where the one before it ended: its altitude, mass and
     store. Each pass works out up to :data:`PASS_LEGS` legs at once, each from a guess
-    of its start; the legs whose guesses are their starts, to the bit, from the first
-    on, are exact. They are yielded in order (``(leg, options, reasons)``, the options
-    arrays over one row, as :func:`_settle` gives them); the caller flies each, and
-    ``current()`` then gives (altitude, mass, store) after it (arrays of one element).
-    The next pass starts at the first leg not yet exact, its guess its start; the
-    guesses after it follow what each leg used at its guess, corrected to first order
-    for the change of its start (the store used goes as the mass), so that a few passes
-    make the whole run exact. Every array operation acts on each element alone and
-    every search stops each element on its own, so each leg's figures are those of the
-    leg flown alone, to the last bit.
+    of its start on the :class:`StartGrid` ``grid``; the legs whose guesses are their
+    starts on the grid, to the bit, from the first on, are exact. They are yielded in
+    order (``(leg, options, reasons)``, the options arrays over one row, as
+    :func:`_settle` gives them); the caller flies each, and ``current()`` then gives
+    (altitude, mass, store) after it (arrays of one element). The next pass starts at
+    the first leg not yet exact, its guess its start; the guesses after it follow what
+    each leg used at its guess, corrected to first order for the change of its start,
+    so that a few passes make the whole run exact (about four per :data:`PASS_LEGS`
+    legs burning fuel, one or two where nothing burns). Every array operation acts on
+    each element alone and every search stops each element on its own, so each leg's
+    figures are those of the leg flown alone, to the last bit.
     """
     first = legs[0]
     lo, top, why = _caps(mission, first)
     fixed = first.altitude is not None
     zfm = float(np.ravel(fl.zero_fuel_mass)[0])
     distance = np.array([x.distance for x in legs], dtype=float)
+    # Each leg's last working-out: its start mass on the grid, end mass and store used.
+    seen = {}
 
     def start():
         h, m, s = current()
         return float(h[0]), float(m[0]), float(s[0])
 
     # ``ahead``: the starts (altitude, mass and store, off the grid) foreseen for the
-    # legs from the next one on; ``per_metre``: what the last leg worked out burnt and
-    # used per metre, to foresee the legs past them.
-    k, ahead, per_metre = 0, None, (0.0, 0.0)
+    # legs from the next one on; ``rate``: the last leg's cruise (TAS [m/s], mass burnt
+    # [kg/s] and store used per second), to foresee the legs past them.
+    k, ahead, rate = 0, None, None
     while k < len(legs):
-        rows = legs[k:k + PASS_LEGS]
+        # Nothing to guess from yet (the altitude the first leg picks, what a leg uses):
+        # the first leg alone.
+        rows = legs[k:k + (PASS_LEGS if rate is not None else 1)]
         w = len(rows)
         known = 0 if ahead is None else min(len(ahead[0]), w)
         h_in, m_in, s_in = (np.empty(w) for _ in range(3))
         if known:
             h_in[:known], m_in[:known], s_in[:known] = (a[:known] for a in ahead)
         h_in[0], m_in[0], s_in[0] = start()
-        for i in range(max(known, 1), w):
-            d = distance[k + i - 1]
-            h_in[i] = h_in[i - 1]
-            m_in[i] = max(m_in[i - 1] - per_metre[0] * d, zfm)
-            s_in[i] = s_in[i - 1] - per_metre[1] * d
+        if known < w and w > 1:
+            # Past them, each leg at the last one's altitude, TAS and rates, its time from
+            # its own wind.
+            h_in[max(known, 1):] = h_in[max(known, 1) - 1]
+            head, cross = fl.wind(_Legs(rows), h_in[:, None])
+            gs = np.maximum(np.ravel(ground_speed(rate[0], head, cross)), GS_FLOOR)
+            gs = np.where(np.isfinite(gs), gs, GS_FLOOR)
+            for i in range(max(known, 1), w):
+                t = distance[k + i - 1] / gs[i - 1]
+                m_in[i] = max(m_in[i - 1] - rate[1] * t, zfm)
+                s_in[i] = s_in[i - 1] - rate[2] * t
         mg, sg = grid.mass(m_in), grid.store(s_in)
         if fixed:
             cands = np.array([[x.altitude] for x in rows], dtype=float)
@@ -1790,25 +1801,34 @@ def _in_passes(fl, mission, legs, v_climb, grid, current):
             yield rows[j], {key: _one(v, j) for key, v in o.items()}, new[j]
             j += 1
         k += j
-        per_metre = ((mg[-1] - m_end[-1]) / distance[k - j + w - 1],
-                     (sg[-1] - s_end[-1]) / distance[k - j + w - 1])
+        cr = o["cruise"]
+        t = float(cr["time"][-1])
+        rate = ((float(cr["tas"][-1]), float(o["trans"]["mass_end"][-1] - cr["mass_end"][-1])
+                 / t, float(cr["used"][-1]) / t) if t > 0 else (float(cr["tas"][-1]), 0.0, 0.0))
         if j == w:
-            ahead = None
+            ahead, seen = None, {}
             continue
         # From the first leg not exact (its start now known): each leg's end from its
-        # guess, moved to first order by its start's change on the grid (the store
-        # used goes as the mass, so the end mass moves by end / start times the change),
-        # then by the start's offset from the grid, as the plan moves it.
+        # guess, moved to first order by its start's change on the grid, then by the
+        # start's offset from the grid, as the plan moves it. The slopes are the secants
+        # through the leg's last two workings-out, or at first as if the store used went
+        # as the mass (the end mass moving by end / start times the change).
         h, m, s = start()
         a_h, a_m, a_s = [h], [m], [s]
         for i in range(j, w - 1):
+            used = sg[i] - s_end[i]
+            slope_m, slope_u = (m_end[i] / mg[i] if m_end[i] > zfm else 0.0), used / mg[i]
+            last = seen.get(k - j + i)
+            if last is not None and last[0] != mg[i]:
+                slope_m = (last[1] - m_end[i]) / (last[0] - mg[i])
+                slope_u = (last[2] - used) / (last[0] - mg[i])
+            seen[k - j + i] = (mg[i], m_end[i], used)
             m_on = float(grid.mass(np.array([a_m[-1]]))[0])
             dm = m_on - mg[i]
-            slope = m_end[i] / mg[i] if m_end[i] > zfm else 0.0
             a_h.append(h_end[i])
-            a_m.append(float(grid.shifted(np.array([m_end[i] + dm * slope]),
+            a_m.append(float(grid.shifted(np.array([m_end[i] + dm * slope_m]),
                                           a_m[-1] - m_on)[0]))
-            a_s.append(a_s[-1] - (sg[i] - s_end[i]) * (1.0 + dm / mg[i]))
+            a_s.append(a_s[-1] - (used + dm * slope_u))
         ahead = (np.array(a_h), np.array(a_m), np.array(a_s))
 
 
