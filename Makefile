@@ -27,8 +27,9 @@ demo: $(VENV)/.installed
 lint: $(VENV)/.installed-test
 	$(BIN)/ruff check cruiseplan tests benchmarks
 
+# Two test processes (pytest-xdist): the suite's tests are independent of one another.
 test: lint
-	$(BIN)/python -m pytest
+	$(BIN)/python -m pytest -n 2
 
 # Line coverage of the package over the suite (the packaging test left out: it runs an
 # installed copy, which coverage does not follow).
