@@ -9,8 +9,13 @@ bit; the grid must move a plan's figures by far less than the integration's own 
 
 from __future__ import annotations
 
+import tempfile
+from pathlib import Path
+
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from cruiseplan.io.mission_file import load_mission, read_mission
 from cruiseplan.planning import mission as planner
@@ -126,3 +131,38 @@ def test_a_long_route_takes_few_passes(tmp_path, monkeypatch):
     # 60 legs one at a time take 60 calls; in passes of 20 legs, 11 (167 legs worked out).
     assert len(rows) <= 16
     assert sum(rows) <= 4 * 60
+
+
+_WINDS = ("250/15kt@2000ft,270/35kt@8000ft", "090/10kt@2000ft", "360/45kt@3000ft")
+
+
+@settings(max_examples=20, deadline=None)
+@given(runs=st.lists(st.tuples(st.integers(1, 6), st.sampled_from(_WINDS),
+                               st.sampled_from(("best", "95 kt"))), min_size=1, max_size=3),
+       legs=st.lists(st.tuples(st.floats(0.3, 60.0), st.floats(0.0, 359.0)),
+                     min_size=18, max_size=18),
+       fixed=st.booleans(), fuel=st.sampled_from(("100 %", "40 %", "8 %")))
+def test_random_routes_in_passes_equal_the_legs_one_at_a_time(runs, legs, fixed, fuel):
+    """Runs broken by a change of wind or speed, legs too short for a climb, tanks that
+    run dry on the way: the passes still give the plan of the legs one at a time."""
+    lines = ["[mission]", 'airframe = "demo-trainer"', f'fuel = "{fuel}"', "[day]",
+             'isa_dev = "+5 K"', "[profile]", 'departure_elevation = "600 ft"',
+             'arrival_elevation = "1200 ft"', "[reserve]", 'time = "30 min"']
+    each = [(wind, speed) for n, wind, speed in runs for _ in range(n)] + [runs[-1][1:]]
+    for i, ((d, course), (wind, speed)) in enumerate(zip(legs, each)):
+        lines += ["[[legs]]", f'name = "leg {i}"', f'distance = "{d:.3f} nm"',
+                  f"course = {course:.1f}", f'wind = "{wind}"', f'speed = "{speed}"']
+        if fixed:
+            lines.append(f'altitude = "{3500 + 1000 * (i % 3)} ft"')
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "route.toml"
+        path.write_text("\n".join(lines) + "\n")
+        mission = read_mission(path)
+    passes = _everything(plan_mission(mission))
+    width = planner.PASS_LEGS
+    try:
+        planner.PASS_LEGS = 1
+        alone = _everything(plan_mission(mission))
+    finally:
+        planner.PASS_LEGS = width
+    assert passes == alone
