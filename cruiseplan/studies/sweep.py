@@ -431,12 +431,36 @@ def run_block(study: Study, index: tuple, store: str | None = None):
         return index, arrays
     import zarr
 
-    group = zarr.open_group(store, mode="r+")
-    for name, arr in arrays.items():
-        group[name][slices] = arr
-    # Marked done only once every value is in: a chunk cut short is simply run again.
-    group["chunk_done"][index] = True
+    with _ctrl_c_held():
+        group = zarr.open_group(store, mode="r+")
+        for name, arr in arrays.items():
+            group[name][slices] = arr
+        # Marked done only once every value is in: a chunk cut short is simply run again.
+        group["chunk_done"][index] = True
     return index, None
+
+
+@contextlib.contextmanager
+def _ctrl_c_held():
+    """Hold Ctrl-C (SIGINT) until the block is done, then raise KeyboardInterrupt.
+
+    For the store's reads and writes in this process's main thread: zarr does its IO on
+    threads of its own, and an interrupt landing while the main thread holds one of
+    their locks left the process hung at exit (seen: one Ctrl-C in about 12). Elsewhere
+    (a worker's thread, where signals are not ours to set) the block runs as it is.
+    """
+    caught = []
+    try:
+        previous = signal.signal(signal.SIGINT, lambda signum, frame: caught.append(signum))
+    except ValueError:  # not the main thread
+        yield
+        return
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGINT, previous)
+    if caught:
+        raise KeyboardInterrupt
 
 
 # --- the store ------------------------------------------------------------------------
@@ -607,20 +631,22 @@ def run_study(study: Study, store=None, *, resume: bool = False, client=None,
 
     path = None if store is None else Path(store)
     check_axes(study)
-    if path is not None and resume:
-        group, done = _open_existing(study, path)
-    elif resume:
+    if resume and path is None:
         raise CruiseplanError("--resume needs the store to complete (-o OUT.zarr)")
-    elif path is not None:
-        group, done = create_store(study, path)
-    else:
-        group, done = None, np.zeros(study.blocks(), dtype=bool)
+    with _ctrl_c_held():
+        if path is not None and resume:
+            group, done = _open_existing(study, path)
+        elif path is not None:
+            group, done = create_store(study, path)
+        else:
+            group, done = None, np.zeros(study.blocks(), dtype=bool)
     todo = [ix for ix in study.all_blocks() if not done[ix]]
     results = _execute(study, todo, None if path is None else str(path), client, scheduler,
                        workers, progress, len(todo))
     if path is not None:
-        group.attrs["complete"] = True
-        return xr.open_zarr(str(path), consolidated=False)
+        with _ctrl_c_held():
+            group.attrs["complete"] = True
+            return xr.open_zarr(str(path), consolidated=False)
     ds = template(study, in_memory=True)
     for index, arrays in results:
         slices = study.block_slices(index)
