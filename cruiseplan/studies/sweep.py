@@ -450,17 +450,27 @@ def _ctrl_c_held():
     (a worker's thread, where signals are not ours to set) the block runs as it is.
     """
     caught = []
+    with _sigint(lambda signum, frame: caught.append(signum)):
+        yield
+    if caught:
+        raise KeyboardInterrupt
+
+
+@contextlib.contextmanager
+def _sigint(handler):
+    """SIGINT handled by ``handler`` within the block, then as before.
+
+    Only the main thread may set a handler: elsewhere the block runs as it is.
+    """
     try:
-        previous = signal.signal(signal.SIGINT, lambda signum, frame: caught.append(signum))
-    except ValueError:  # not the main thread
+        previous = signal.signal(signal.SIGINT, handler)
+    except ValueError:  # not the main thread: signals are not ours to set
         yield
         return
     try:
         yield
     finally:
         signal.signal(signal.SIGINT, previous)
-    if caught:
-        raise KeyboardInterrupt
 
 
 # --- the store ------------------------------------------------------------------------
@@ -726,7 +736,6 @@ def local_cluster(workers: int):
                             silence_logs=40)
 
 
-@contextlib.contextmanager
 def _workers_ignore_ctrl_c():
     """Start processes with SIGINT ignored, so that Ctrl-C stops only this one.
 
@@ -734,15 +743,7 @@ def _workers_ignore_ctrl_c():
     process, which stops them cleanly (Python keeps an inherited SIG_IGN instead of
     raising KeyboardInterrupt).
     """
-    try:
-        previous = signal.signal(signal.SIGINT, signal.SIG_IGN)
-    except ValueError:  # not the main thread: signals are not ours to set
-        yield
-        return
-    try:
-        yield
-    finally:
-        signal.signal(signal.SIGINT, previous)
+    return _sigint(signal.SIG_IGN)
 
 
 #: Chunks in flight per worker: enough to keep each busy, few enough that the driver's
