@@ -1482,9 +1482,7 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
         for key, kind in (("trans", None), ("cruise", leg.kind),
                           ("final", "descent to arrival")):
             seg = o[key]
-            flown = seg["time"] > 0
-            store = np.where(flown, store - seg["used"], store)
-            m = np.where(flown, grid.shifted(seg["mass_end"], shift), m)
+            flown, m, store = _after(seg, m, store, grid, shift)
             for p in np.flatnonzero(flown):
                 s = _at(seg, p)
                 k = kind or ("climb" if H[p] > h[p] else "descent")
@@ -1514,11 +1512,10 @@ def _plan_together(missions: list, headwind_offset: float) -> list:
             while end < len(legs) - 1 and _run_key(mission, legs[end]) == key:
                 end += 1
         if end - n > 1:
-            state = (h, m, store)
-            for leg_k, o, new in _in_passes(fl, mission, legs[n:end], v_climb, grid,
-                                            lambda: state):
+            # (The lambda reads the state fly has left.)
+            for leg_k, o, new in _in_passes(fl, mission, legs[n:end], v_climb,
+                                            lambda: (h, m, store)):
                 fly(leg_k, False, o, [], [new])
-                state = (h, m, store)
             n = end
             continue
         lo, top, why = _caps(mission, leg)
@@ -1722,12 +1719,12 @@ class StartGrid:
         return np.where(m_end > self._zfm, np.maximum(m_end + shift, self._zfm), m_end)
 
 
-def _in_passes(fl, mission, legs, v_climb, grid, current):
+def _in_passes(fl, mission, legs, v_climb, current):
     """Fly a run of legs (one mission) in passes, yielding each leg's picked options.
 
     A leg's options depend on where the one before it ended: its altitude, mass and
     store. Each pass works out up to :data:`PASS_LEGS` legs at once, each from a guess
-    of its start on the :class:`StartGrid` ``grid``; the legs whose guesses are their
+    of its start on the :class:`StartGrid`; the legs whose guesses are their
     starts on the grid, to the bit, from the first on, are exact. They are yielded in
     order (``(leg, options, reasons)``, the options arrays over one row, as
     :func:`_settle` gives them); the caller flies each, and ``current()`` then gives
@@ -1743,6 +1740,7 @@ def _in_passes(fl, mission, legs, v_climb, grid, current):
     lo, top, why = _caps(mission, first)
     fixed = first.altitude is not None
     zfm = float(np.ravel(fl.zero_fuel_mass)[0])
+    grid = StartGrid(fl, zfm)
     distance = np.array([x.distance for x in legs], dtype=float)
     # Each leg's last working-out: its start mass on the grid, end mass and store used.
     seen = {}
@@ -1784,17 +1782,14 @@ def _in_passes(fl, mission, legs, v_climb, grid, current):
         opts = leg_options(fl, mission, _Legs(rows), h_in[:, None], mg[:, None],
                            sg[:, None], v_climb[:, None], False, cands)
         o, new = _settle(opts, rows, mission, fixed, lo, top, why)
-        # Where each leg ends from its guess (on the grid).
+        # Where each leg ends from its guess (on the grid: no offset).
         h_end, m_end, s_end = o["H"], mg, sg
         for key in ("trans", "cruise", "final"):
-            seg = o[key]
-            flown = seg["time"] > 0
-            s_end = np.where(flown, s_end - seg["used"], s_end)
-            m_end = np.where(flown, seg["mass_end"], m_end)
+            _, m_end, s_end = _after(o[key], m_end, s_end, grid, 0.0)
         j = 0
         while j < w:
             h, m, s = start()
-            m, s = grid.mass(np.array([m]))[0], grid.store(s)
+            m, s = grid.mass(m), grid.store(s)
             if not (_bits(h_in[j]) == _bits(h) and _bits(mg[j]) == _bits(m)
                     and _bits(sg[j]) == _bits(s)):
                 break
@@ -1823,13 +1818,23 @@ def _in_passes(fl, mission, legs, v_climb, grid, current):
                 slope_m = (last[1] - m_end[i]) / (last[0] - mg[i])
                 slope_u = (last[2] - used) / (last[0] - mg[i])
             seen[k - j + i] = (mg[i], m_end[i], used)
-            m_on = float(grid.mass(np.array([a_m[-1]]))[0])
+            m_on = float(grid.mass(a_m[-1]))
             dm = m_on - mg[i]
             a_h.append(h_end[i])
-            a_m.append(float(grid.shifted(np.array([m_end[i] + dm * slope_m]),
-                                          a_m[-1] - m_on)[0]))
+            a_m.append(float(grid.shifted(m_end[i] + dm * slope_m, a_m[-1] - m_on)))
             a_s.append(a_s[-1] - (used + dm * slope_u))
         ahead = (np.array(a_h), np.array(a_m), np.array(a_s))
+
+
+def _after(seg, m, store, grid, shift):
+    """Whether a picked segment is flown, and the mass [kg] and store after it.
+
+    ``m`` and ``store`` are those before it; its end mass moves by ``shift``, its leg's
+    start offset from the ``grid`` (:meth:`StartGrid.shifted`).
+    """
+    flown = seg["time"] > 0
+    return (flown, np.where(flown, grid.shifted(seg["mass_end"], shift), m),
+            np.where(flown, store - seg["used"], store))
 
 
 def _one(v, j):
